@@ -1,0 +1,2 @@
+/** Public face of api/: other rooms import from here only. */
+export {};

@@ -1,0 +1,2 @@
+/** Public face of archive/: other rooms import from here only. */
+export {};

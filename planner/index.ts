@@ -1,0 +1,2 @@
+/** Public face of planner/: other rooms import from here only. */
+export {};

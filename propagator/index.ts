@@ -1,0 +1,4 @@
+/** Public face of propagator/: other rooms import from here only. */
+export * from './types.ts';
+export * from './errors.ts';
+export * from './constants.ts';

@@ -1,0 +1,121 @@
+/**
+ * Request and result of one propagation (Cowell or Encke), the contract between propagator/ and its
+ * callers. All vectors J2000 equatorial unless a field says otherwise; km, s, km/s, kg; TDB s from J2000.
+ */
+import type { Ephemeris } from './ephemeris/ephemeris.ts';
+import type { BodyName, StateVector, Vec3 } from './types.ts';
+
+/** Cannonball solar radiation pressure. */
+export interface SolarPressureSpec {
+  /** Cross-section facing the Sun, m^2 (> 0). */
+  areaM2: number;
+  /** Reflectivity coefficient C_R in [1, 2]. */
+  reflectivityCoefficient: number;
+  /** Spacecraft mass, kg (> 0). */
+  massKg: number;
+}
+
+/** Which forces act. The central body is a point mass (plus J2 when asked); perturbing bodies are point
+ * masses in Battin's f(q) form with the indirect term on the central body. */
+export interface ForceModelSpec {
+  centralBody: BodyName;
+  perturbingBodies: BodyName[];
+  /** Add the central body's J2 (only where a J2 constant is known; otherwise InvalidInputError). */
+  centralJ2?: boolean;
+  solarPressure?: SolarPressureSpec;
+}
+
+/** An impulsive Δv applied at an epoch; the integrator stops exactly there. */
+export interface ImpulsiveBurn {
+  epochTdbS: number;
+  /** Δv in km/s, J2000 equatorial. */
+  deltaVKmS: Vec3;
+}
+
+/** Events located on the dense output (time tolerance 1e-6 s or better). */
+export type EventSpec =
+  | { kind: 'periapsis'; body: BodyName; stop?: boolean }
+  | { kind: 'apoapsis'; body: BodyName; stop?: boolean }
+  | { kind: 'closest-approach'; body: BodyName; stop?: boolean }
+  | { kind: 'altitude'; body: BodyName; altitudeKm: number; stop?: boolean }
+  | { kind: 'epoch'; epochTdbS: number; stop?: boolean };
+// Sphere-of-influence entry/exit and impact are always reported when switching / bodies apply.
+
+export interface EventRecord {
+  kind: EventSpec['kind'] | 'soi-entry' | 'soi-exit' | 'impact';
+  body?: BodyName;
+  epochTdbS: number;
+  /** Spacecraft state at the event, relative to `body` when given, else to the integration centre. */
+  state: StateVector;
+  /** Distance to `body` at the event, km (where a body applies). */
+  distanceKm?: number;
+}
+
+export interface SwitchingSpec {
+  /** Switch the integration centre to a perturbing body inside its sphere of influence. */
+  enabled: boolean;
+  /** Override the Laplace sphere-of-influence radius per body, km. */
+  radiusKm?: Partial<Record<BodyName, number>>;
+}
+
+export type PropagationMethod = 'cowell' | 'encke';
+
+export interface PropagationRequest {
+  /** Initial state; any centre and inertial frame (translated/rotated to the integration frame). */
+  initial: StateVector;
+  /** Final epoch, TDB s from J2000; may precede the initial epoch (backward propagation). */
+  endEpochTdbS: number;
+  forces: ForceModelSpec;
+  ephemeris: Ephemeris;
+  method?: PropagationMethod;
+  /** Relative and absolute error tolerances of the step control (defaults in PROPAGATION_DEFAULTS). */
+  relativeTolerance?: number;
+  absoluteTolerance?: number;
+  maxSteps?: number;
+  burns?: ImpulsiveBurn[];
+  /** When set, the result holds states every outputStepS seconds (plus start and end). */
+  outputStepS?: number;
+  /** Integrate the 6x6 state transition matrix alongside the state. */
+  withStm?: boolean;
+  events?: EventSpec[];
+  switching?: SwitchingSpec;
+}
+
+export type PropagationOutcome =
+  | 'finished' | 'stopped-by-event' | 'impact' | 'step-size-underflow' | 'max-steps' | 'cancelled';
+
+export interface PropagationStats {
+  steps: number;
+  acceptedSteps: number;
+  rejectedSteps: number;
+  /** Right-hand-side evaluations (each evaluates every force once). */
+  evaluations: number;
+  /** Encke reference-conic rectifications. */
+  rectifications: number;
+  /** Central-body switches, in order. */
+  switches: { epochTdbS: number; from: BodyName; to: BodyName }[];
+}
+
+export interface PropagationResult {
+  outcome: PropagationOutcome;
+  /** Why the run ended early, with the numbers needed to diagnose it. */
+  message?: string;
+  /** Last state reached (J2000 equatorial, relative to the central body in force at the end). */
+  final: StateVector;
+  /** d(final state)/d(initial state), 6x6 row-major (36 numbers), when withStm was set. */
+  stm?: number[];
+  /** d(final state)/d(Δv) of each burn, 6x3 row-major (18 numbers), when withStm was set. */
+  burnSensitivities?: number[][];
+  /** States at the output step, when outputStepS was set. */
+  samples: StateVector[];
+  events: EventRecord[];
+  stats: PropagationStats;
+  warnings: string[];
+}
+
+export interface PropagationOptions {
+  /** Called with the fraction of the span done, in [0, 1], at most every few milliseconds. */
+  onProgress?: (fraction: number) => void;
+  /** Stops the run promptly (outcome 'cancelled'). */
+  signal?: AbortSignal;
+}

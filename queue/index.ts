@@ -1,0 +1,2 @@
+/** Public face of queue/: other rooms import from here only. */
+export {};
