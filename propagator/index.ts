@@ -2,3 +2,4 @@
 export * from './types.ts';
 export * from './errors.ts';
 export * from './constants.ts';
+export * from './time/index.ts';
