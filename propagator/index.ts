@@ -3,3 +3,4 @@ export * from './types.ts';
 export * from './errors.ts';
 export * from './constants.ts';
 export * from './time/index.ts';
+export * from './ephemeris/index.ts';
