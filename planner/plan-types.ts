@@ -1,0 +1,234 @@
+/**
+ * The maneuver plan: plain JSON-serialisable data (no class instances, no functions, no NaN — a number that
+ * could not be computed is null). Consumed by queue/, api/, archive/, the console and the CCSDS writers.
+ * Vectors J2000 equatorial unless a field says otherwise; km, s, km/s, kg; epochs TDB s from J2000 plus text.
+ */
+import type { BodyName, Vec3 } from '../propagator/index.ts';
+import type { TargetKind } from './problem-schema.ts';
+
+/** Progress of planManeuvers; `fraction` is overall, in [0, 1]. */
+export interface PlanProgress {
+  stage: 'validating' | 'correcting' | 'cross-checking' | 'dispersion' | 'done';
+  fraction: number;
+  message: string;
+  iteration?: number;
+  samplesDone?: number;
+  samplesTotal?: number;
+}
+
+export type CaveatSeverity = 'info' | 'warning' | 'critical';
+export interface Caveat {
+  code: string;
+  severity: CaveatSeverity;
+  text: string;
+}
+
+export interface PlanEpoch {
+  /** TDB seconds from J2000. */
+  tdbS: number;
+  /** `...TDB` ISO text. */
+  tdb: string;
+  /** ISO UTC text, or null where the leap-second table does not reach. */
+  utc: string | null;
+}
+
+export interface PlannedBurn {
+  index: number;
+  label: string;
+  epoch: PlanEpoch;
+  /** True when the corrector moved the epoch within the burn's window. */
+  epochWasFree: boolean;
+  /** The frame the problem stated the burn in. */
+  frame: 'inertial' | 'RTN' | 'VNB';
+  deltaVInertialKmS: Vec3;
+  deltaVRtnKmS: Vec3;
+  deltaVVnbKmS: Vec3;
+  magnitudeMS: number;
+  /** Rocket equation, g0 = 9.80665 m/s², from the mass before this burn. */
+  propellantKg: number;
+  massBeforeKg: number;
+  massAfterKg: number;
+  /** At the engine's thrust, from the mass before the burn. */
+  durationS: number;
+  /** Time from this burn to the first target after it, s (null when unknown). */
+  timeToTargetS: number | null;
+}
+
+/** One scalar target component, e.g. B·T of a b-plane target. */
+export interface TargetResult {
+  targetIndex: number;
+  kind: TargetKind;
+  /** Component name: 'B·T', 'B·R', 'closest-approach epoch', 'periapsis radius', 'x', 'vx'... */
+  component: string;
+  unit: 'km' | 's' | 'deg' | 'km/s';
+  body: BodyName | null;
+  requested: number;
+  achieved: number | null;
+  /** achieved − requested (null when the event was not found). */
+  residual: number | null;
+  tolerance: number;
+  met: boolean;
+}
+
+export interface IterationRecord {
+  iteration: number;
+  /** Free variables: Δv components (km/s, in each burn's frame) and free epochs (s from the initial guess). */
+  controls: number[];
+  /** Residuals scaled by each target tolerance (dimensionless). */
+  scaledResiduals: number[];
+  /** Largest |scaled residual| (≤ 1 means every target met). */
+  maxScaledResidual: number;
+  /** 2-norm condition number of the scaled Jacobian (null when not computed). */
+  conditionNumber: number | null;
+  /** Step actually taken (after limiting / line search), in control units. */
+  stepNorm: number;
+  jacobianSource: 'stm' | 'finite-difference' | 'none';
+  note?: string;
+}
+
+export interface ControlDescriptor {
+  burnIndex: number;
+  /** 'dv0'..'dv2' (component in the burn's frame) or 'epoch'. */
+  kind: 'dv0' | 'dv1' | 'dv2' | 'epoch';
+  name: string;
+  unit: 'km/s' | 's';
+}
+
+export interface Sensitivities {
+  controls: ControlDescriptor[];
+  /** Target component names, in targets[] order. */
+  components: string[];
+  /** d(target component)/d(control), row per component, unscaled (units of target / units of control). */
+  jacobian: number[][];
+  source: 'stm' | 'finite-difference';
+  /** Largest relative difference between STM and finite-difference Jacobians at the solution (null when
+   * only one was computed). */
+  stmVersusFiniteDifference: number | null;
+}
+
+export interface CrossCheck {
+  passed: boolean;
+  /** Method used for the plan and for the check. */
+  primaryMethod: 'cowell' | 'encke';
+  method: 'cowell' | 'encke';
+  relativeTolerance: number;
+  /** Allowed |difference| per component as a fraction of its target tolerance. */
+  toleranceFraction: number;
+  differences: {
+    component: string;
+    targetIndex: number;
+    primary: number | null;
+    check: number | null;
+    difference: number | null;
+    allowed: number;
+    withinTolerance: boolean;
+    metByCheck: boolean;
+  }[];
+  message: string;
+}
+
+export interface BPlaneEllipse {
+  /** Semi-major and semi-minor axes, km (1σ). */
+  semiMajorKm: number;
+  semiMinorKm: number;
+  /** Angle of the major axis from the T axis toward R, deg. */
+  orientationDeg: number;
+  /** 2x2 covariance [[TT, TR], [RT, RR]], km². */
+  covarianceKm2: [[number, number], [number, number]];
+}
+
+export interface LinearDispersion {
+  /** Δv execution-error contribution (Gates). */
+  execution: { bPlane: BPlaneEllipse | null; closestApproachSigmaS: number | null; targetSigmas: number[] };
+  /** Initial-state covariance contribution, when the problem gives one. */
+  initialState: { bPlane: BPlaneEllipse | null; closestApproachSigmaS: number | null; targetSigmas: number[] } | null;
+  /** Both combined. */
+  total: { bPlane: BPlaneEllipse | null; closestApproachSigmaS: number | null; targetSigmas: number[] };
+  /** 3σ ellipse axes of the total, km. */
+  threeSigma: { semiMajorKm: number; semiMinorKm: number } | null;
+  impactProbability: number | null;
+}
+
+export interface DispersionSample {
+  index: number;
+  /** Δv actually applied per burn, J2000 equatorial km/s. */
+  appliedDeltaVKmS: Vec3[];
+  /** B·T, B·R (km) at the b-plane target body, when there is one. */
+  bDotTKm: number | null;
+  bDotRKm: number | null;
+  closestApproachTdbS: number | null;
+  closestApproachRadiusKm: number | null;
+  impact: boolean;
+  /** Achieved value of every target component (null when not found). */
+  achieved: (number | null)[];
+}
+
+export interface MonteCarloSummary {
+  samples: number;
+  seed: number;
+  bPlane: BPlaneEllipse | null;
+  meanBDotTKm: number | null;
+  meanBDotRKm: number | null;
+  closestApproachSigmaS: number | null;
+  impacts: number;
+  impactProbability: number;
+  /** Linear vs sample covariance: largest relative difference of the ellipse axes. */
+  linearAgreement: { axisRatioError: number | null; orientationErrorDeg: number | null; passed: boolean; limit: number } | null;
+  targetSigmas: (number | null)[];
+}
+
+export interface PlanDispersion {
+  executionModel: { fixedMagnitudeMS: number; proportionalMagnitudeFraction: number; fixedPointingMS: number; proportionalPointingDeg: number } | null;
+  linear: LinearDispersion | null;
+  monteCarlo: MonteCarloSummary | null;
+  /** Why a part is absent (no execution errors, skipped, not converged). */
+  notes: string[];
+}
+
+export interface TrajectoryPoint {
+  tdbS: number;
+  /** Central-body-relative, J2000 ecliptic, km. */
+  positionKm: Vec3;
+  velocityKmS: Vec3;
+}
+
+export interface PlanBPlane {
+  body: BodyName;
+  referencePlane: 'ecliptic' | 'equator';
+  targetBDotTKm: number;
+  targetBDotRKm: number;
+  achievedBDotTKm: number | null;
+  achievedBDotRKm: number | null;
+  ellipse: BPlaneEllipse | null;
+  bodyRadiusKm: number;
+  /** Gravity-focused radius of impact in the B-plane, km. */
+  impactRadiusKm: number | null;
+  samples: { bDotTKm: number; bDotRKm: number }[];
+}
+
+export interface ManeuverPlan {
+  planFormatVersion: 1;
+  status: 'converged' | 'not-converged';
+  problemHash: string;
+  softwareVersion: string;
+  spacecraftName: string;
+  targetSetKey: string;
+  title: string | null;
+  createdFrom: { initialEpoch: PlanEpoch; endEpoch: PlanEpoch; centre: BodyName; frame: string; hasCovariance: boolean };
+  forceModel: { summary: string; centralBody: BodyName; perturbingBodies: BodyName[]; centralJ2: boolean; solarPressure: boolean; method: 'cowell' | 'encke'; relativeTolerance: number; switching: boolean; ephemeris: string };
+  burns: PlannedBurn[];
+  totalDeltaVMS: number;
+  totalPropellantKg: number;
+  targets: TargetResult[];
+  iterations: IterationRecord[];
+  convergence: { outcome: 'converged' | 'iteration-limit' | 'diverged' | 'singular' | 'propagation-failed' | 'event-not-found'; message: string; leastSquares: boolean };
+  sensitivities: Sensitivities | null;
+  /** Always present; `passed: false` with a message when it could not run (e.g. not converged). */
+  crossCheck: CrossCheck;
+  dispersion: PlanDispersion;
+  caveats: Caveat[];
+  trajectory: TrajectoryPoint[];
+  bPlane: PlanBPlane | null;
+  /** Counts of work done: propagations and wall-independent integrator effort. */
+  effort: { propagations: number; evaluations: number };
+}

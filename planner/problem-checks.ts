@@ -1,0 +1,183 @@
+/**
+ * parseProblem: the zod shape check, then the checks that relate fields to each other, all before any
+ * computation. Every failure is an InvalidInputError naming the dotted path of the first bad field.
+ */
+import type { z } from 'zod';
+import {
+  InvalidInputError, parseEpoch, RADIUS_KM, J2_EARTH,
+} from '../propagator/index.ts';
+import type { BodyName } from '../propagator/index.ts';
+import { problemSchema } from './problem-schema.ts';
+import type { PlanningProblem, ProblemTarget } from './problem-schema.ts';
+
+/** Turns a zod issue path into `burns[0].epoch`. */
+export function issuePath(path: readonly PropertyKey[]): string {
+  let out = '';
+  for (const part of path) {
+    if (typeof part === 'number') out += `[${part}]`;
+    else out += out === '' ? String(part) : `.${String(part)}`;
+  }
+  return out === '' ? '(problem)' : out;
+}
+
+function fromZodError(error: z.ZodError): InvalidInputError {
+  const issues = error.issues.map((i) => `${issuePath(i.path)}: ${i.message}`);
+  const first = error.issues[0];
+  const field = first ? issuePath(first.path) : '(problem)';
+  const err = new InvalidInputError(field, issues.length === 1
+    ? (first?.message ?? 'invalid') : `${issues.length} problems: ${issues.join('; ')}`);
+  return err;
+}
+
+/** Epochs of a problem as TDB seconds from J2000, parsed once. */
+export interface ProblemEpochs {
+  initialTdbS: number;
+  endTdbS: number;
+  burnTdbS: number[];
+  burnWindowTdbS: ({ earliestTdbS: number; latestTdbS: number } | undefined)[];
+  /** Epoch of each target when the target states one (closest-approach-epoch, position, state). */
+  targetTdbS: (number | undefined)[];
+}
+
+/** Parses every epoch of the problem (names the field of a bad one). */
+export function problemEpochs(problem: PlanningProblem): ProblemEpochs {
+  const initialTdbS = parseEpoch(problem.initialState.epoch, undefined, 'initialState.epoch');
+  const endTdbS = parseEpoch(problem.endEpoch, undefined, 'endEpoch');
+  const burnTdbS = problem.burns.map((b, i) => parseEpoch(b.epoch, undefined, `burns[${i}].epoch`));
+  const burnWindowTdbS = problem.burns.map((b, i) => (b.epochWindow ? {
+    earliestTdbS: parseEpoch(b.epochWindow.earliest, undefined, `burns[${i}].epochWindow.earliest`),
+    latestTdbS: parseEpoch(b.epochWindow.latest, undefined, `burns[${i}].epochWindow.latest`),
+  } : undefined));
+  const targetTdbS = problem.targets.map((t, i) => ('epoch' in t
+    ? parseEpoch(t.epoch, undefined, `targets[${i}].epoch`) : undefined));
+  return { initialTdbS, endTdbS, burnTdbS, burnWindowTdbS, targetTdbS };
+}
+
+function targetBody(t: ProblemTarget): BodyName | undefined {
+  return 'body' in t ? t.body : undefined;
+}
+
+/** The semantic checks; throws InvalidInputError naming the field. */
+export function checkProblem(problem: PlanningProblem): ProblemEpochs {
+  const e = problemEpochs(problem);
+  const fm = problem.forceModel;
+  const modelled = new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies]);
+  if (e.endTdbS <= e.initialTdbS) {
+    throw new InvalidInputError('endEpoch', 'the end of the span must come after initialState.epoch');
+  }
+  fm.perturbingBodies.forEach((b, i) => {
+    if (b === fm.centralBody) {
+      throw new InvalidInputError(`forceModel.perturbingBodies[${i}]`, `'${b}' is already the central body`);
+    }
+  });
+  if (fm.centralJ2 && fm.centralBody !== 'earth') {
+    throw new InvalidInputError('forceModel.centralJ2', `no J2 constant is known for '${fm.centralBody}' (only earth, J2 = ${J2_EARTH})`);
+  }
+  if (fm.solarPressure && !problem.spacecraft.solarPressure) {
+    throw new InvalidInputError('spacecraft.solarPressure', 'forceModel.solarPressure is on but the spacecraft gives no areaM2 and reflectivityCoefficient');
+  }
+  if (problem.initialState.centre !== fm.centralBody && !modelled.has(problem.initialState.centre)) {
+    throw new InvalidInputError('initialState.centre', `'${problem.initialState.centre}' is neither the central body nor a perturbing body`);
+  }
+  checkCovariance(problem);
+  const r = Math.hypot(...problem.initialState.positionKm);
+  if (r <= RADIUS_KM[problem.initialState.centre]) {
+    throw new InvalidInputError('initialState.positionKm', `|r| = ${r.toFixed(3)} km is inside ${problem.initialState.centre} (radius ${RADIUS_KM[problem.initialState.centre]} km)`);
+  }
+
+  let freeCount = 0;
+  problem.burns.forEach((b, i) => {
+    const t = e.burnTdbS[i];
+    if (t < e.initialTdbS || t > e.endTdbS) {
+      throw new InvalidInputError(`burns[${i}].epoch`, 'burn epoch outside the span [initialState.epoch, endEpoch]');
+    }
+    if (i > 0 && t <= e.burnTdbS[i - 1]) {
+      throw new InvalidInputError(`burns[${i}].epoch`, 'burns must be in time order, each after the one before');
+    }
+    const w = e.burnWindowTdbS[i];
+    if (w) {
+      if (w.latestTdbS <= w.earliestTdbS) {
+        throw new InvalidInputError(`burns[${i}].epochWindow.latest`, 'window end must come after its start');
+      }
+      if (w.earliestTdbS < e.initialTdbS || w.latestTdbS > e.endTdbS) {
+        throw new InvalidInputError(`burns[${i}].epochWindow`, 'epoch window outside the span [initialState.epoch, endEpoch]');
+      }
+      if (t < w.earliestTdbS || t > w.latestTdbS) {
+        throw new InvalidInputError(`burns[${i}].epoch`, 'initial burn epoch outside its epochWindow');
+      }
+      freeCount += 1;
+    }
+    freeCount += b.freeComponents.filter(Boolean).length;
+    if (b.boundsKmS) {
+      for (let k = 0; k < 3; k++) {
+        if (b.boundsKmS.lower[k] > b.boundsKmS.upper[k]) {
+          throw new InvalidInputError(`burns[${i}].boundsKmS.lower[${k}]`, 'lower bound above upper bound');
+        }
+        const g = b.deltaVGuessKmS[k];
+        if (g < b.boundsKmS.lower[k] || g > b.boundsKmS.upper[k]) {
+          throw new InvalidInputError(`burns[${i}].deltaVGuessKmS[${k}]`, 'initial guess outside boundsKmS');
+        }
+      }
+    }
+  });
+  if (freeCount === 0) {
+    throw new InvalidInputError('burns', 'no free variable: mark at least one Δv component free (freeComponents) or give an epochWindow');
+  }
+
+  const lastBurnLatest = Math.max(...problem.burns.map((_, i) => e.burnWindowTdbS[i]?.latestTdbS ?? e.burnTdbS[i]));
+  problem.targets.forEach((tg, i) => {
+    const body = targetBody(tg);
+    if (body && !modelled.has(body)) {
+      throw new InvalidInputError(`targets[${i}].body`, `'${body}' is not in the force model (central body or perturbingBodies)`);
+    }
+    if ((tg.kind === 'position' || tg.kind === 'state') && !modelled.has(tg.centre) && tg.centre !== 'sun') {
+      throw new InvalidInputError(`targets[${i}].centre`, `'${tg.centre}' is not in the force model`);
+    }
+    const tt = e.targetTdbS[i];
+    if (tt !== undefined) {
+      if (tt > e.endTdbS) throw new InvalidInputError(`targets[${i}].epoch`, 'target epoch after the end of the span (endEpoch)');
+      if (tt <= lastBurnLatest) {
+        throw new InvalidInputError(`targets[${i}].epoch`, 'target epoch not after the last burn (a burn would come after its target)');
+      }
+    }
+    if (tg.kind === 'periapsis-radius' && tg.radiusKm <= RADIUS_KM[tg.body]) {
+      throw new InvalidInputError(`targets[${i}].radiusKm`, `periapsis ${tg.radiusKm} km is below the surface of ${tg.body} (radius ${RADIUS_KM[tg.body]} km)`);
+    }
+    if (tg.kind === 'periapsis-altitude' && tg.altitudeKm <= 0) {
+      throw new InvalidInputError(`targets[${i}].altitudeKm`, `periapsis altitude ${tg.altitudeKm} km is below the surface of ${tg.body}`);
+    }
+    if (tg.kind === 'b-plane' && Math.hypot(tg.bDotTKm, tg.bDotRKm) <= RADIUS_KM[tg.body]) {
+      throw new InvalidInputError(`targets[${i}].bDotTKm`, `|B| = ${Math.hypot(tg.bDotTKm, tg.bDotRKm).toFixed(1)} km is inside ${tg.body}'s radius (${RADIUS_KM[tg.body]} km): an impact, not a flyby`);
+    }
+  });
+  return e;
+}
+
+function checkCovariance(problem: PlanningProblem): void {
+  const c = problem.initialState.covarianceKmKmS;
+  if (!c) return;
+  for (let i = 0; i < 6; i++) {
+    if (c[i][i] < 0) throw new InvalidInputError(`initialState.covarianceKmKmS[${i}][${i}]`, 'variance must be >= 0');
+    for (let j = 0; j < i; j++) {
+      const scale = Math.max(Math.abs(c[i][j]), Math.abs(c[j][i]), 1e-300);
+      if (Math.abs(c[i][j] - c[j][i]) > 1e-9 * scale) {
+        throw new InvalidInputError(`initialState.covarianceKmKmS[${i}][${j}]`, 'covariance must be symmetric');
+      }
+      if (c[i][j] * c[i][j] > c[i][i] * c[j][j] * (1 + 1e-9)) {
+        throw new InvalidInputError(`initialState.covarianceKmKmS[${i}][${j}]`, 'correlation above 1: not a covariance');
+      }
+    }
+  }
+}
+
+/**
+ * Validates anything from outside (a parsed JSON file, a request body, job data) as a retargeting problem:
+ * the zod shape first (every issue listed, the first one's path as `field`), then the semantic checks.
+ * Throws InvalidInputError; returns the problem with defaults filled in.
+ */
+export function parseProblem(input: unknown): PlanningProblem {
+  const parsed = problemSchema.safeParse(input);
+  if (!parsed.success) throw fromZodError(parsed.error);
+  checkProblem(parsed.data);
+  return parsed.data;
+}
