@@ -4,3 +4,4 @@ export * from './errors.ts';
 export * from './constants.ts';
 export * from './time/index.ts';
 export * from './ephemeris/index.ts';
+export * from './integrators/index.ts';

@@ -1,0 +1,39 @@
+/**
+ * Shared types of the ODE integrators. The independent variable is time in seconds (TDB s from J2000
+ * when the integrators are driven by the propagator); the state is any Float64Array.
+ */
+
+/** Right-hand side y' = f(t, y). Writes f into `dydt`; must not keep references to `y` or `dydt`,
+ * and should not allocate (it runs 12–15 times per step). */
+export type RhsFunction = (t: number, y: Float64Array, dydt: Float64Array) => void;
+
+/** Result of one call to a stepper's `step()`. */
+export type StepStatus = 'accepted' | 'step-size-underflow';
+
+/** How an integration run ended; not finishing is data, not an exception. */
+export type IntegrationOutcome = 'finished' | 'stopped-by-event' | 'step-size-underflow' | 'max-steps' | 'cancelled';
+
+/** Work counters, as in Hairer's codes. */
+export interface IntegratorCounts {
+  /** Step attempts, accepted plus rejected. */
+  steps: number;
+  acceptedSteps: number;
+  rejectedSteps: number;
+  /** Right-hand-side evaluations, including the initial one and dense-output stages. */
+  evaluations: number;
+}
+
+/** Options of the adaptive Dormand–Prince 8(5,3) stepper. */
+export interface Dop853Options {
+  /** Relative error tolerance per component, in [1e-16, 1). */
+  relativeTolerance: number;
+  /** Absolute error tolerance per component (units of the state), > 0. */
+  absoluteTolerance: number;
+  /** First trial step, s (magnitude; the sign comes from the direction). Default: Hairer's estimate. */
+  initialStepS?: number;
+  /** Largest step magnitude, s. @defaultValue Infinity */
+  maxStepS?: number;
+  /** Only the first `errorComponents` entries of the state enter the error norm (e.g. 6 when the STM
+   * rides along). @defaultValue the whole state */
+  errorComponents?: number;
+}
