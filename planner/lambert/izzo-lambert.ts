@@ -1,0 +1,158 @@
+/**
+ * Lambert's problem, single revolution: the conic from r1 to r2 in a given time under a point mass.
+ * Method: D. Izzo (2015), "Revisiting Lambert's problem", Celestial Mechanics and Dynamical Astronomy
+ * 121:1–15 — the x-variable formulation with Householder (third-order) iterations and Izzo's initial
+ * guesses, velocity reconstruction from his eq. (31) (from memory).
+ */
+import { InvalidInputError, type Vec3 } from '../../propagator/index.ts';
+import { LAMBERT_DEFAULTS, type LambertOptions, type LambertSolution } from './lambert-types.ts';
+import { izzoTimeDerivatives, izzoTimeOfFlight } from './time-of-flight.ts';
+
+/** sin(transfer angle) below this is treated as a 0° or 180° transfer whose plane is undefined. */
+const MIN_SIN_TRANSFER_ANGLE = 1e-9;
+
+const dot = (a: Vec3, b: Vec3): number => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+const norm = (a: Vec3): number => Math.sqrt(dot(a, a));
+const cross = (a: Vec3, b: Vec3): Vec3 => [
+  a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
+const scale = (a: Vec3, k: number): Vec3 => [a[0] * k, a[1] * k, a[2] * k];
+
+function checkVector(field: string, v: Vec3): void {
+  if (!Array.isArray(v) || v.length !== 3 || !v.every(Number.isFinite)) {
+    throw new InvalidInputError(field, `must be three finite numbers, got ${JSON.stringify(v)}`);
+  }
+}
+
+function checkPositive(field: string, value: number): void {
+  if (!Number.isFinite(value) || value <= 0) {
+    throw new InvalidInputError(field, `must be a finite number > 0, got ${value}`);
+  }
+}
+
+/** Izzo's initial guess for x, zero revolutions (paper, section 4). */
+function initialGuess(t: number, lambda: number): number {
+  const t00 = Math.acos(lambda) + lambda * Math.sqrt(1 - lambda * lambda);
+  const t1 = (2 / 3) * (1 - lambda * lambda * lambda);
+  if (t >= t00) return Math.pow(t00 / t, 2 / 3) - 1;
+  if (t < t1) return (5 / 2) * (t1 * (t1 - t)) / (t * (1 - Math.pow(lambda, 5))) + 1;
+  // Interpolates x = 0 at T = T00 and x = 1 at T = T1 (the parabola).
+  return Math.pow(t00 / t, 1 / Math.log2(t00 / t1)) - 1;
+}
+
+/**
+ * Solves Lambert's problem for zero complete revolutions.
+ *
+ * @param r1Km departure position, km, any inertial frame (same frame as r2Km).
+ * @param r2Km arrival position, km, same frame.
+ * @param timeOfFlightS transfer time, s, > 0.
+ * @param muKm3S2 gravitational parameter of the attracting body, km^3/s^2, > 0.
+ * @param options direction ('prograde' | 'retrograde' about `referenceNormal`, default +z), tolerance.
+ * @returns velocities at both ends (km/s, input frame), iteration count and a converged flag.
+ * @throws InvalidInputError for non-finite or non-positive inputs, for a transfer angle within ~1e-9 rad
+ *   of 0° or 180° (the transfer plane is undefined: split the arc or give an out-of-plane position), and
+ *   for a transfer plane containing the reference normal (prograde/retrograde undefined).
+ */
+export function solveLambert(
+  r1Km: Vec3, r2Km: Vec3, timeOfFlightS: number, muKm3S2: number, options: LambertOptions,
+): LambertSolution {
+  checkVector('r1Km', r1Km);
+  checkVector('r2Km', r2Km);
+  checkPositive('timeOfFlightS', timeOfFlightS);
+  checkPositive('muKm3S2', muKm3S2);
+  if (options.direction !== 'prograde' && options.direction !== 'retrograde') {
+    throw new InvalidInputError('options.direction', `must be 'prograde' or 'retrograde', got ${String(options.direction)}`);
+  }
+  const normal = options.referenceNormal ?? (LAMBERT_DEFAULTS.referenceNormal as Vec3);
+  checkVector('options.referenceNormal', normal);
+  const tolerance = options.tolerance ?? LAMBERT_DEFAULTS.tolerance;
+  const maxIterations = options.maxIterations ?? LAMBERT_DEFAULTS.maxIterations;
+
+  const r1 = norm(r1Km);
+  const r2 = norm(r2Km);
+  checkPositive('r1Km (magnitude)', r1);
+  checkPositive('r2Km (magnitude)', r2);
+  const chord = norm([r2Km[0] - r1Km[0], r2Km[1] - r1Km[1], r2Km[2] - r1Km[2]]);
+  const s = (r1 + r2 + chord) / 2;
+  const ir1 = scale(r1Km, 1 / r1);
+  const ir2 = scale(r2Km, 1 / r2);
+  const h = cross(ir1, ir2);
+  const sinAngle = norm(h);
+  const cosAngle = dot(ir1, ir2);
+  if (sinAngle < MIN_SIN_TRANSFER_ANGLE) {
+    const deg = (Math.atan2(sinAngle, cosAngle) * 180) / Math.PI;
+    throw new InvalidInputError('r2Km', `transfer angle is ${deg.toFixed(9)}° (r1 and r2 collinear): `
+      + 'the transfer plane is undefined at 0° or 180°; split the arc or move the aim point out of line',
+    'LAMBERT_DEGENERATE_GEOMETRY');
+  }
+  const ih = scale(h, 1 / sinAngle);
+  const normalLength = norm(normal);
+  checkPositive('options.referenceNormal (magnitude)', normalLength);
+  const hDotN = dot(ih, normal) / normalLength;
+  if (Math.abs(hDotN) < 1e-12) {
+    throw new InvalidInputError('options.referenceNormal', 'lies in the transfer plane, so prograde and '
+      + 'retrograde are undefined; give a normal with a component along r1 × r2', 'LAMBERT_DEGENERATE_GEOMETRY');
+  }
+
+  let lambda = Math.sqrt(Math.max(0, 1 - chord / s));
+  let it1: Vec3;
+  let it2: Vec3;
+  let angle = Math.atan2(sinAngle, cosAngle);
+  if (hDotN < 0) {
+    lambda = -lambda;
+    it1 = cross(ir1, ih);
+    it2 = cross(ir2, ih);
+    angle = 2 * Math.PI - angle;
+  } else {
+    it1 = cross(ih, ir1);
+    it2 = cross(ih, ir2);
+  }
+  if (options.direction === 'retrograde') {
+    lambda = -lambda;
+    it1 = scale(it1, -1);
+    it2 = scale(it2, -1);
+    angle = 2 * Math.PI - angle;
+  }
+
+  const t = Math.sqrt((2 * muKm3S2) / (s * s * s)) * timeOfFlightS;
+  let x = initialGuess(t, lambda);
+  let iterations = 0;
+  let converged = false;
+  while (iterations < maxIterations) {
+    iterations += 1;
+    const tx = izzoTimeOfFlight(x, lambda);
+    const delta = tx - t;
+    const [d1, d2, d3] = izzoTimeDerivatives(x, tx, lambda);
+    const step = (delta * (d1 * d1 - (delta * d2) / 2))
+      / (d1 * (d1 * d1 - delta * d2) + (d3 * delta * delta) / 6);
+    let next = x - step;
+    if (!Number.isFinite(next)) break;
+    if (next <= -1) next = (x - 1) / 2; // stay inside the domain x > −1
+    const change = Math.abs(next - x);
+    x = next;
+    if (change < tolerance || delta === 0) {
+      converged = true;
+      break;
+    }
+  }
+  const residual = Math.abs(izzoTimeOfFlight(x, lambda) - t);
+
+  // Velocity reconstruction, Izzo (2015) eq. (31).
+  const gamma = Math.sqrt((muKm3S2 * s) / 2);
+  const rho = (r1 - r2) / chord;
+  const sigma = Math.sqrt(Math.max(0, 1 - rho * rho));
+  const y = Math.sqrt(1 - lambda * lambda + lambda * lambda * x * x);
+  const vr1 = (gamma * ((lambda * y - x) - rho * (lambda * y + x))) / r1;
+  const vr2 = (-gamma * ((lambda * y - x) + rho * (lambda * y + x))) / r2;
+  const vt = gamma * sigma * (y + lambda * x);
+  const vt1 = vt / r1;
+  const vt2 = vt / r2;
+  const v1KmS: Vec3 = [
+    vr1 * ir1[0] + vt1 * it1[0], vr1 * ir1[1] + vt1 * it1[1], vr1 * ir1[2] + vt1 * it1[2]];
+  const v2KmS: Vec3 = [
+    vr2 * ir2[0] + vt2 * it2[0], vr2 * ir2[1] + vt2 * it2[1], vr2 * ir2[2] + vt2 * it2[2]];
+  converged = converged && v1KmS.every(Number.isFinite) && v2KmS.every(Number.isFinite);
+  return {
+    v1KmS, v2KmS, iterations, converged, transferAngleRad: angle, x, residual,
+    method: 'izzo-2015-householder',
+  };
+}

