@@ -1,0 +1,243 @@
+/**
+ * A generic differential corrector: damped Newton iteration on residuals scaled by their tolerances.
+ *
+ * - Jacobian from the caller (analytic / STM-chained) or by finite differences (fallback and test oracle).
+ * - Each step solves J dx = −r with the SVD pseudo-inverse in scaled controls: minimum-norm when controls
+ *   outnumber residuals, least squares when residuals outnumber controls (flagged in the result).
+ * - Step limiting (the whole step shrinks until no control moves more than its limit), a backtracking line
+ *   search on ½‖r‖², and projection onto bounds.
+ * - Stops when every |residual| ≤ its tolerance, at the iteration limit, on divergence (no descent along
+ *   the Newton direction even with a fresh finite-difference Jacobian), or when an evaluation fails.
+ * Not converging is a result, not an exception (outcome + diagnostics, like an ODE solver's status).
+ */
+import { conditionNumber, norm2, pseudoSolve, svd } from './linear-algebra.ts';
+import type { Matrix } from './linear-algebra.ts';
+
+/** What one evaluation at the controls x gives. `residuals` are unscaled (achieved − requested). */
+export type CorrectorEvaluation =
+  | { ok: true; residuals: number[]; jacobian?: Matrix }
+  | { ok: false; reason: string };
+
+export interface CorrectorSpec {
+  /** Initial controls. */
+  initial: number[];
+  /** Tolerance of each residual (> 0), same units as the residual. */
+  tolerances: number[];
+  /** Typical size of a change of each control: scales controls for the minimum-norm step and the condition
+   * number (km/s for Δv, s for epochs). */
+  controlScales: number[];
+  /** Largest change of each control in one iteration (> 0). */
+  maxStep: number[];
+  /** Finite-difference perturbation of each control (> 0). */
+  finiteDifferenceStep: number[];
+  lower?: number[];
+  upper?: number[];
+  maxIterations: number;
+  /** Evaluate residuals (and, when `withJacobian`, the analytic Jacobian if the caller has one). */
+  evaluate(x: number[], withJacobian: boolean): Promise<CorrectorEvaluation>;
+  /** Use central differences for the fallback Jacobian (2n evaluations instead of n). */
+  centralDifferences?: boolean;
+  /** Never use the caller's Jacobian (finite differences only). */
+  finiteDifferenceOnly?: boolean;
+  /** Called after every iteration record. */
+  onIteration?: (record: CorrectorIteration) => void;
+}
+
+export interface CorrectorIteration {
+  iteration: number;
+  controls: number[];
+  scaledResiduals: number[];
+  maxScaledResidual: number;
+  conditionNumber: number | null;
+  stepNorm: number;
+  jacobianSource: 'analytic' | 'finite-difference' | 'none';
+  note?: string;
+}
+
+export type CorrectorOutcome = 'converged' | 'iteration-limit' | 'diverged' | 'singular' | 'evaluation-failed'
+  | 'least-squares-stationary';
+
+export interface CorrectorResult {
+  outcome: CorrectorOutcome;
+  message: string;
+  controls: number[];
+  residuals: number[];
+  /** Last Jacobian (unscaled), when one was formed. */
+  jacobian: Matrix | null;
+  jacobianSource: 'analytic' | 'finite-difference' | 'none';
+  iterations: CorrectorIteration[];
+  /** More residuals than controls: the step was a least-squares one. */
+  leastSquares: boolean;
+  evaluations: number;
+}
+
+function clip(x: number[], lower?: number[], upper?: number[]): number[] {
+  return x.map((v, i) => Math.min(upper?.[i] ?? Infinity, Math.max(lower?.[i] ?? -Infinity, v)));
+}
+
+/**
+ * Forward (or central) finite-difference Jacobian of `f` at x; `f0` = f(x) when known. Returns null with
+ * the failure reason when an evaluation fails.
+ */
+export async function finiteDifferenceJacobian(
+  f: (x: number[]) => Promise<CorrectorEvaluation>, x: number[], steps: number[], f0?: number[], central = false,
+): Promise<{ jacobian: Matrix; evaluations: number } | { failed: string }> {
+  let evaluations = 0;
+  let base = f0;
+  if (!base && !central) {
+    const e = await f(x);
+    evaluations += 1;
+    if (!e.ok) return { failed: e.reason };
+    base = e.residuals;
+  }
+  const columns: number[][] = [];
+  for (let j = 0; j < x.length; j++) {
+    const h = steps[j];
+    const xp = x.slice();
+    xp[j] += h;
+    const ep = await f(xp);
+    evaluations += 1;
+    if (!ep.ok) return { failed: ep.reason };
+    if (central) {
+      const xm = x.slice();
+      xm[j] -= h;
+      const em = await f(xm);
+      evaluations += 1;
+      if (!em.ok) return { failed: em.reason };
+      columns.push(ep.residuals.map((v, i) => (v - em.residuals[i]) / (2 * h)));
+    } else {
+      const b = base as number[];
+      columns.push(ep.residuals.map((v, i) => (v - b[i]) / h));
+    }
+  }
+  const m = columns[0]?.length ?? 0;
+  const jacobian: Matrix = Array.from({ length: m }, (_, i) => columns.map((c) => c[i]));
+  return { jacobian, evaluations };
+}
+
+function merit(scaled: number[]): number {
+  return 0.5 * scaled.reduce((s, v) => s + v * v, 0);
+}
+
+/** Runs the corrector; see the file comment. */
+export async function runCorrector(spec: CorrectorSpec): Promise<CorrectorResult> {
+  const n = spec.initial.length;
+  const m = spec.tolerances.length;
+  const leastSquares = m > n;
+  const iterations: CorrectorIteration[] = [];
+  let evaluations = 0;
+  const evalAt = async (x: number[], withJ: boolean): Promise<CorrectorEvaluation> => {
+    evaluations += 1;
+    return spec.evaluate(x, withJ && !spec.finiteDifferenceOnly);
+  };
+  const scale = (r: number[]): number[] => r.map((v, i) => v / spec.tolerances[i]);
+  const done = (outcome: CorrectorOutcome, message: string, x: number[], r: number[], J: Matrix | null,
+    src: CorrectorResult['jacobianSource']): CorrectorResult => ({
+    outcome, message, controls: x, residuals: r, jacobian: J, jacobianSource: src, iterations, leastSquares, evaluations,
+  });
+
+  let x = clip(spec.initial.slice(), spec.lower, spec.upper);
+  let ev = await evalAt(x, true);
+  if (!ev.ok) return done('evaluation-failed', ev.reason, x, [], null, 'none');
+  let r = ev.residuals;
+  let analyticJ = ev.jacobian;
+  let lastJ: Matrix | null = null;
+  let lastSrc: CorrectorResult['jacobianSource'] = 'none';
+
+  for (let k = 0; ; k++) {
+    const rs = scale(r);
+    const maxScaled = Math.max(...rs.map(Math.abs));
+    const record = (cond: number | null, stepNorm: number, src: CorrectorIteration['jacobianSource'], note?: string): void => {
+      const rec: CorrectorIteration = {
+        iteration: k, controls: x.slice(), scaledResiduals: rs, maxScaledResidual: maxScaled,
+        conditionNumber: cond !== null && Number.isFinite(cond) ? cond : null, stepNorm, jacobianSource: src, note,
+      };
+      iterations.push(rec);
+      spec.onIteration?.(rec);
+    };
+    if (maxScaled <= 1) {
+      record(null, 0, 'none', 'every residual within tolerance');
+      return done('converged', `every residual within tolerance after ${k} iteration(s)`, x, r, lastJ, lastSrc);
+    }
+    if (k >= spec.maxIterations) {
+      record(null, 0, 'none', 'iteration limit');
+      return done('iteration-limit', `iteration limit ${spec.maxIterations} reached; largest |residual|/tolerance = ${maxScaled.toPrecision(4)}`, x, r, lastJ, lastSrc);
+    }
+
+    let J: Matrix;
+    let src: CorrectorIteration['jacobianSource'];
+    if (analyticJ) {
+      J = analyticJ;
+      src = 'analytic';
+    } else {
+      const fd = await finiteDifferenceJacobian((xx) => evalAt(xx, false), x, spec.finiteDifferenceStep,
+        spec.centralDifferences ? undefined : r, spec.centralDifferences);
+      if ('failed' in fd) {
+        record(null, 0, 'none', fd.failed);
+        return done('evaluation-failed', `finite-difference Jacobian failed: ${fd.failed}`, x, r, lastJ, lastSrc);
+      }
+      J = fd.jacobian;
+      src = 'finite-difference';
+    }
+    lastJ = J;
+    lastSrc = src;
+
+    // Scaled system: rows by tolerance, columns by control scale.
+    const Js = J.map((row, i) => row.map((v, j) => (v * spec.controlScales[j]) / spec.tolerances[i]));
+    const d = svd(Js);
+    const cond = conditionNumber(d.s);
+    const { x: dxs, rank } = pseudoSolve(d, rs.map((v) => -v));
+    if (rank === 0) {
+      record(cond, 0, src, 'Jacobian is zero: the targets do not depend on the free variables');
+      return done('singular', 'the Jacobian is zero: no free variable moves any target', x, r, J, src);
+    }
+    let dx = dxs.map((v, j) => v * spec.controlScales[j]);
+    const ratio = Math.max(...dx.map((v, j) => Math.abs(v) / spec.maxStep[j]));
+    let note: string | undefined;
+    if (ratio > 1) {
+      dx = dx.map((v) => v / ratio);
+      note = `step limited by ${ratio.toPrecision(3)}x`;
+    }
+
+    // Backtracking line search on ½‖r_s‖².
+    const f0 = merit(rs);
+    let alpha = 1;
+    let accepted: { x: number[]; ev: Extract<CorrectorEvaluation, { ok: true }> } | null = null;
+    let lastFailure = '';
+    for (let trial = 0; trial < 6; trial++) {
+      const xt = clip(x.map((v, j) => v + alpha * dx[j]), spec.lower, spec.upper);
+      const et = await evalAt(xt, true);
+      if (et.ok && merit(scale(et.residuals)) < f0 * (1 - 1e-4 * alpha)) {
+        accepted = { x: xt, ev: et };
+        break;
+      }
+      if (et.ok && leastSquares && trial === 0 && merit(scale(et.residuals)) <= f0 * (1 + 1e-12)) {
+        // At a least-squares minimum the merit cannot fall further.
+        lastFailure = 'no further decrease';
+      } else if (!et.ok) {
+        lastFailure = et.reason;
+      }
+      alpha *= 0.5;
+    }
+    const stepNorm = norm2(dx.map((v, j) => (alpha * v) / spec.controlScales[j]));
+    if (!accepted) {
+      if (src === 'analytic' && !spec.finiteDifferenceOnly) {
+        // The analytic Jacobian may be poor here: retry this iteration with finite differences.
+        record(cond, 0, src, 'no descent along the analytic-Jacobian step; retrying with finite differences');
+        analyticJ = undefined;
+        continue;
+      }
+      if (leastSquares) {
+        record(cond, 0, src, 'least-squares minimum: residuals cannot be reduced further');
+        return done('least-squares-stationary', `the targets outnumber the free variables and cannot all be met; least-squares minimum has largest |residual|/tolerance = ${maxScaled.toPrecision(4)}`, x, r, J, src);
+      }
+      record(cond, 0, src, `line search failed${lastFailure ? `: ${lastFailure}` : ''}`);
+      return done('diverged', `no step along the Newton direction reduces the residuals (largest |residual|/tolerance = ${maxScaled.toPrecision(4)})${lastFailure ? `; ${lastFailure}` : ''}`, x, r, J, src);
+    }
+    record(cond, stepNorm, src, alpha < 1 ? `${note ? `${note}; ` : ''}line search α = ${alpha}` : note);
+    x = accepted.x;
+    ev = accepted.ev;
+    r = ev.residuals;
+    analyticJ = spec.finiteDifferenceOnly ? undefined : ev.jacobian;
+  }
+}
