@@ -3,7 +3,7 @@
  * independent 40-digit evaluation with decimal.js (npm 10.6.0).
  * g0 = 9.80665 m/s² exactly: standard acceleration of gravity, 3rd CGPM (1901).
  */
-import Decimal from 'decimal.js';
+import { Decimal } from 'decimal.js';
 import { describe, expect, it } from 'vitest';
 import {
   budgetBurns, burnDurationS, deltaVFromPropellantKmS, massFlowRateKgS, propellantMassKg,
