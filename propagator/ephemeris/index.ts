@@ -1,4 +1,11 @@
 /** Ephemeris sources behind one interface: built-in (astronomy-engine), Chebyshev cache, tabulated, layered. */
 export type { Ephemeris, TdbSpan } from './ephemeris.ts';
 export { createBuiltinEphemeris, BUILTIN_EPHEMERIS_SPAN } from './astronomy-engine-ephemeris.ts';
+export { buildChebyshevEphemeris, CHEBYSHEV_DEFAULTS } from './chebyshev-ephemeris.ts';
+export type { ChebyshevEphemerisOptions, ChebyshevEphemerisCache, ChebyshevFitReport } from './chebyshev-ephemeris.ts';
+export { createTabulatedEphemeris } from './tabulated-ephemeris.ts';
+export type {
+  TabulatedEphemeris, TabulatedEphemerisOptions, TabulatedStateRecord, TabulatedInterpolation,
+} from './tabulated-ephemeris.ts';
+export { layerEphemerides } from './layered-ephemeris.ts';
 export { assertInSpan, assertBody, assertValidSpan } from './ephemeris-checks.ts';

@@ -1,0 +1,248 @@
+/**
+ * A Chebyshev-interpolated cache over a span, built from any Ephemeris source.
+ *
+ * Each body is stored relative to a parent (the Moon relative to the Earth, everything else relative to
+ * the origin body, the Sun by default) as uniform segments of Chebyshev series for position and,
+ * separately, velocity. Segment lengths start from a per-body guess and are halved until the fit
+ * matches the source within `toleranceKm` at check points between the nodes (so the stated error is
+ * measured, not assumed). Look-ups index the segment directly and evaluate by Clenshaw: no allocation.
+ */
+import { InvalidInputError } from '../errors.ts';
+import type { BodyName } from '../types.ts';
+import type { Ephemeris, TdbSpan } from './ephemeris.ts';
+import { assertBody, assertInSpan, assertValidSpan } from './ephemeris-checks.ts';
+import { chebyshevCoefficientsInto, chebyshevEvaluate, chebyshevNodes } from './chebyshev-fit.ts';
+
+/** Options of {@link buildChebyshevEphemeris}. */
+export interface ChebyshevEphemerisOptions {
+  /** Bodies the cache must answer for (as target or centre). The origin is added. */
+  bodies: readonly BodyName[];
+  /** Start of the cached span, TDB s from J2000 (inside the source's span). */
+  startTdbS: number;
+  /** End of the cached span, TDB s from J2000 (inside the source's span). */
+  endTdbS: number;
+  /** Body everything is stored relative to (except the Moon, stored relative to the Earth when both are
+   * present). @defaultValue 'sun' */
+  origin?: BodyName;
+  /** Largest position difference from the source allowed at the check points, km.
+   * @defaultValue 5e-5 (5 cm; the built-in source itself is only smooth to ~1 cm because it takes time
+   * as float64 days, ~2e-7 s resolution) */
+  toleranceKm?: number;
+  /** Coefficients per series (polynomial degree + 1), in [6, 32]. @defaultValue 14 */
+  coefficients?: number;
+  /** Longest segment tried per body, s; halved until the fit passes. @defaultValue per body (Moon 4 d,
+   * Mercury 8 d, Venus/Earth 16 d, Mars 32 d, outer planets 128 d) */
+  initialSegmentS?: Partial<Record<BodyName, number>>;
+}
+
+export const CHEBYSHEV_DEFAULTS = Object.freeze({
+  origin: 'sun' as BodyName,
+  toleranceKm: 5e-5,
+  coefficients: 14,
+});
+
+const DAY_S = 86400;
+const INITIAL_SEGMENT_S: Readonly<Record<BodyName, number>> = Object.freeze({
+  sun: 128 * DAY_S, mercury: 8 * DAY_S, venus: 16 * DAY_S, earth: 16 * DAY_S, moon: 4 * DAY_S,
+  mars: 32 * DAY_S, jupiter: 128 * DAY_S, saturn: 128 * DAY_S, uranus: 128 * DAY_S, neptune: 128 * DAY_S,
+});
+/** Fewer than this many halvings and the source is not smooth enough to cache. */
+const MAX_HALVINGS = 12;
+
+/** The fitted series of one body relative to its parent. */
+interface BodySeries {
+  parent: BodyName;
+  segmentS: number;
+  segments: number;
+  /** [segment][component 0..5][coefficient] — x, y, z, vx, vy, vz. */
+  coefs: Float64Array;
+  /** Largest position / velocity difference from the source seen at the check points. */
+  maxErrorKm: number;
+  maxErrorKmS: number;
+}
+
+/** Fit quality per body, as measured against the source while building. */
+export interface ChebyshevFitReport {
+  body: BodyName;
+  parent: BodyName;
+  segmentS: number;
+  segments: number;
+  maxErrorKm: number;
+  maxErrorKmS: number;
+}
+
+function fitBody(
+  source: Ephemeris, body: BodyName, parent: BodyName, span: TdbSpan, n: number,
+  toleranceKm: number, firstSegmentS: number,
+): BodySeries {
+  const nodes = chebyshevNodes(n);
+  const length = span.endTdbS - span.startTdbS;
+  const samples = new Float64Array(6 * n);
+  const column = new Float64Array(n);
+  const probe = new Float64Array(6);
+  let segmentS = Math.min(firstSegmentS, length);
+  for (let attempt = 0; attempt <= MAX_HALVINGS; attempt++) {
+    const segments = Math.max(1, Math.ceil(length / segmentS - 1e-9));
+    const step = length / segments;
+    const coefs = new Float64Array(segments * 6 * n);
+    let maxErrorKm = 0;
+    let maxErrorKmS = 0;
+    let failed = false;
+    for (let s = 0; s < segments && !failed; s++) {
+      const a = span.startTdbS + s * step;
+      for (let k = 0; k < n; k++) source.stateInto(body, parent, a + (nodes[k] + 1) * 0.5 * step, samples, 6 * k);
+      for (let c = 0; c < 6; c++) {
+        for (let k = 0; k < n; k++) column[k] = samples[6 * k + c];
+        chebyshevCoefficientsInto(column, n, coefs, (s * 6 + c) * n);
+      }
+      // Check between nodes, where the interpolation error peaks, and at both ends.
+      for (const x of [-1, -0.97, -0.5 * (nodes[n - 1] + nodes[n - 2]), 0.013, 0.5 * (nodes[0] + nodes[1]), 1]) {
+        source.stateInto(body, parent, a + (x + 1) * 0.5 * step, probe, 0);
+        let dp = 0;
+        let dv = 0;
+        for (let c = 0; c < 3; c++) {
+          dp = Math.max(dp, Math.abs(chebyshevEvaluate(coefs, (s * 6 + c) * n, n, x) - probe[c]));
+          dv = Math.max(dv, Math.abs(chebyshevEvaluate(coefs, (s * 6 + c + 3) * n, n, x) - probe[c + 3]));
+        }
+        maxErrorKm = Math.max(maxErrorKm, dp);
+        maxErrorKmS = Math.max(maxErrorKmS, dv);
+      }
+      if (maxErrorKm > toleranceKm) failed = true;
+    }
+    if (!failed) return { parent, segmentS: step, segments, coefs, maxErrorKm, maxErrorKmS };
+    segmentS = step / 2;
+  }
+  throw new InvalidInputError('toleranceKm', `cannot fit ${body} relative to ${parent} from ${source.name} `
+    + `within ${toleranceKm} km with ${n} coefficients (source not smooth enough or tolerance too tight)`);
+}
+
+class ChebyshevEphemeris implements Ephemeris {
+  readonly name: string;
+  readonly span: TdbSpan;
+  readonly bodies: readonly BodyName[];
+  private readonly origin: BodyName;
+  private readonly n: number;
+  private readonly series: Partial<Record<BodyName, BodySeries>>;
+  private readonly tValues: Float64Array;
+  private readonly known: ReadonlySet<BodyName>;
+
+  constructor(name: string, span: TdbSpan, bodies: readonly BodyName[], origin: BodyName, n: number,
+    series: Partial<Record<BodyName, BodySeries>>) {
+    this.name = name;
+    this.span = span;
+    this.bodies = bodies;
+    this.origin = origin;
+    this.n = n;
+    this.series = series;
+    this.tValues = new Float64Array(n);
+    this.known = new Set(bodies);
+  }
+
+  fitReport(): ChebyshevFitReport[] {
+    return Object.entries(this.series).map(([body, s]) => ({
+      body: body as BodyName, parent: s.parent, segmentS: s.segmentS, segments: s.segments,
+      maxErrorKm: s.maxErrorKm, maxErrorKmS: s.maxErrorKmS,
+    }));
+  }
+
+  /** Adds (sign +1) or subtracts the state of `body` relative to the origin into out[offset..]. */
+  private accumulate(body: BodyName, epochTdbS: number, out: Float64Array, offset: number, sign: number,
+    components: number): void {
+    let b: BodyName = body;
+    while (b !== this.origin) {
+      this.accumulateOne(b, epochTdbS, out, offset, sign, components);
+      b = (this.series[b] as BodySeries).parent;
+    }
+  }
+
+  private lookUp(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
+    components: number): void {
+    if (!this.known.has(target)) assertBody(this.name, this.bodies, target, 'target');
+    if (!this.known.has(centre)) assertBody(this.name, this.bodies, centre, 'centre');
+    if (!(epochTdbS >= this.span.startTdbS && epochTdbS <= this.span.endTdbS)) {
+      assertInSpan(this.name, this.span, epochTdbS);
+    }
+    for (let c = 0; c < components; c++) out[offset + c] = 0;
+    if (target === centre) return;
+    // Direct series when one body is the other's parent (Moon–Earth): no large terms to cancel.
+    if (this.series[target]?.parent === centre) {
+      this.accumulateOne(target, epochTdbS, out, offset, 1, components);
+    } else if (this.series[centre]?.parent === target) {
+      this.accumulateOne(centre, epochTdbS, out, offset, -1, components);
+    } else {
+      this.accumulate(target, epochTdbS, out, offset, 1, components);
+      this.accumulate(centre, epochTdbS, out, offset, -1, components);
+    }
+  }
+
+  /** Adds sign × (state of `body` relative to its parent) into out[offset..]. The Chebyshev polynomial
+   * values are computed once per segment and shared by the components (cheaper than one Clenshaw each). */
+  private accumulateOne(body: BodyName, epochTdbS: number, out: Float64Array, offset: number, sign: number,
+    components: number): void {
+    const s = this.series[body] as BodySeries;
+    const n = this.n;
+    const u = (epochTdbS - this.span.startTdbS) / s.segmentS;
+    let seg = Math.floor(u);
+    if (seg >= s.segments) seg = s.segments - 1;
+    if (seg < 0) seg = 0;
+    const x = 2 * (u - seg) - 1;
+    const t = this.tValues;
+    t[0] = 1;
+    t[1] = x;
+    const x2 = 2 * x;
+    for (let j = 2; j < n; j++) t[j] = x2 * t[j - 1] - t[j - 2];
+    const coefs = s.coefs;
+    let base = seg * 6 * n;
+    for (let c = 0; c < components; c++, base += n) {
+      let sum = 0;
+      for (let j = n - 1; j >= 0; j--) sum += coefs[base + j] * t[j];
+      out[offset + c] += sign * sum;
+    }
+  }
+
+  stateInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {
+    this.lookUp(target, centre, epochTdbS, out, offset, 6);
+  }
+
+  positionInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {
+    this.lookUp(target, centre, epochTdbS, out, offset, 3);
+  }
+}
+
+/** A Chebyshev cache: an Ephemeris plus the fit quality measured while building it. */
+export type ChebyshevEphemerisCache = Ephemeris & { fitReport(): ChebyshevFitReport[] };
+
+/**
+ * Builds a Chebyshev-interpolated cache of `source` over [startTdbS, endTdbS] (TDB s from J2000) for the
+ * given bodies; states in the source's frame (J2000 equatorial), km and km/s. Fit error at check points
+ * is kept within `toleranceKm` (default 5 cm) and reported by `fitReport()`. Look-ups outside the span
+ * throw OutOfSpanError. Building calls the source about (2 + 6/14) × coefficients times per segment.
+ */
+export function buildChebyshevEphemeris(source: Ephemeris, options: ChebyshevEphemerisOptions): ChebyshevEphemerisCache {
+  const span: TdbSpan = { startTdbS: options.startTdbS, endTdbS: options.endTdbS };
+  assertValidSpan(span, 'startTdbS/endTdbS');
+  assertInSpan(source.name, source.span, span.startTdbS, 'startTdbS');
+  assertInSpan(source.name, source.span, span.endTdbS, 'endTdbS');
+  const origin = options.origin ?? CHEBYSHEV_DEFAULTS.origin;
+  const toleranceKm = options.toleranceKm ?? CHEBYSHEV_DEFAULTS.toleranceKm;
+  const n = options.coefficients ?? CHEBYSHEV_DEFAULTS.coefficients;
+  if (!(toleranceKm > 0) || !Number.isFinite(toleranceKm)) {
+    throw new InvalidInputError('toleranceKm', `${toleranceKm} must be a positive finite number of km`);
+  }
+  if (!Number.isInteger(n) || n < 6 || n > 32) throw new InvalidInputError('coefficients', `${n} is not an integer in [6, 32]`);
+  if (!Array.isArray(options.bodies) || options.bodies.length === 0) {
+    throw new InvalidInputError('bodies', 'give at least one body to cache');
+  }
+  const bodies = [...new Set<BodyName>([origin, ...options.bodies])];
+  bodies.forEach((b, i) => assertBody(source.name, source.bodies, b, `bodies[${i}]`));
+  const series: Partial<Record<BodyName, BodySeries>> = {};
+  for (const body of bodies) {
+    if (body === origin) continue;
+    const parent: BodyName = body === 'moon' && bodies.includes('earth') && origin !== 'earth' ? 'earth' : origin;
+    const first = options.initialSegmentS?.[body] ?? INITIAL_SEGMENT_S[body];
+    if (!(first > 0)) throw new InvalidInputError(`initialSegmentS.${body}`, `${first} must be a positive number of s`);
+    series[body] = fitBody(source, body, parent, span, n, toleranceKm, first);
+  }
+  const name = `chebyshev cache of ${source.name} over [${span.startTdbS}, ${span.endTdbS}] TDB s`;
+  return new ChebyshevEphemeris(name, Object.freeze(span), Object.freeze(bodies), origin, n, series);
+}

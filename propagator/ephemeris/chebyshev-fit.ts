@@ -1,0 +1,37 @@
+/**
+ * Chebyshev series fitting and evaluation on [-1, 1]: the numeric core of the Chebyshev cache.
+ * Fitting uses the Chebyshev–Gauss nodes, where the discrete cosine transform gives the coefficients
+ * of the interpolating polynomial (Press et al., Numerical Recipes, 3rd ed., §5.8).
+ */
+
+/** The n Chebyshev–Gauss nodes x_k = cos(π (k + ½) / n), k = 0..n-1, on [-1, 1]. */
+export function chebyshevNodes(n: number): Float64Array {
+  const nodes = new Float64Array(n);
+  for (let k = 0; k < n; k++) nodes[k] = Math.cos((Math.PI * (k + 0.5)) / n);
+  return nodes;
+}
+
+/**
+ * Coefficients c_0..c_{n-1} of the degree n-1 polynomial through `values` taken at chebyshevNodes(n):
+ * f(x) ≈ Σ c_j T_j(x) (c_0 already halved). Writes into `out[offset..offset+n-1]`.
+ */
+export function chebyshevCoefficientsInto(values: ArrayLike<number>, n: number, out: Float64Array, offset: number): void {
+  for (let j = 0; j < n; j++) {
+    let sum = 0;
+    for (let k = 0; k < n; k++) sum += values[k] * Math.cos((Math.PI * j * (k + 0.5)) / n);
+    out[offset + j] = ((j === 0 ? 1 : 2) / n) * sum;
+  }
+}
+
+/** Clenshaw evaluation of Σ c_j T_j(x) for x in [-1, 1], coefficients at `coefs[offset..offset+n-1]`. */
+export function chebyshevEvaluate(coefs: Float64Array, offset: number, n: number, x: number): number {
+  const x2 = 2 * x;
+  let b1 = 0;
+  let b2 = 0;
+  for (let j = n - 1; j >= 1; j--) {
+    const b0 = coefs[offset + j] + x2 * b1 - b2;
+    b2 = b1;
+    b1 = b0;
+  }
+  return coefs[offset] + x * b1 - b2;
+}
