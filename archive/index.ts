@@ -1,2 +1,10 @@
 /** Public face of archive/: other rooms import from here only. */
-export {};
+export * from './types.ts';
+export { ArchiveConflictError, ArchiveInputError, ArchiveNotFoundError } from './errors.ts';
+export { canonicalJson, canonicalHash, sha256Hex } from './canonical-json.ts';
+export { entryHash, ChainVerifier } from './chain.ts';
+export { openArchive, SQLITE_ARCHIVE_FILE, type OpenArchiveOptions } from './open-archive.ts';
+export { SqliteArchive, migrateSqlite, openSqliteDatabase, type SqliteArchiveOptions } from './sqlite/sqlite-archive.ts';
+export { PostgresArchive, migratePostgres, type PostgresArchiveOptions } from './postgres/postgres-archive.ts';
+export { type Migration } from './sqlite/sqlite-migrations.ts';
+export { type PgMigration } from './postgres/postgres-migrations.ts';

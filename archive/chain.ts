@@ -1,0 +1,95 @@
+/**
+ * The hash chain: how an entry's hash is computed, and a streaming verifier that walks entries in
+ * sequence order and stops at the first one that does not match.
+ */
+import { canonicalJson, sha256Hex } from './canonical-json.ts';
+import { ENTRY_KINDS, GENESIS_HASH, type ArchiveEntry, type VerifyFailure } from './types.ts';
+
+/** An entry before its hash is known. */
+export type UnhashedEntry = Omit<ArchiveEntry, 'hash'>;
+
+/**
+ * SHA-256 hex over the canonical JSON of every field but `hash`:
+ * `{actor, at, jobId, kind, payload, planId, previousHash, sequence}` (keys sorted; see canonical-json.ts).
+ */
+export function entryHash(entry: UnhashedEntry): string {
+  const { sequence, at, actor, kind, planId, jobId, payload, previousHash } = entry;
+  return sha256Hex(canonicalJson({ sequence, at, actor, kind, planId, jobId, payload, previousHash }));
+}
+
+/** Completes an entry with its hash. */
+export function sealEntry(entry: UnhashedEntry): ArchiveEntry {
+  return { ...entry, hash: entryHash(entry) };
+}
+
+const HEX64 = /^[0-9a-f]{64}$/;
+
+/**
+ * Checks entries handed to it in sequence order (page by page, so a long chain never sits in memory).
+ * After the first failure it ignores the rest.
+ */
+export class ChainVerifier {
+  private expectedSequence = 1;
+  private previousHash = GENESIS_HASH;
+  private checked = 0;
+  private failure: VerifyFailure | null = null;
+
+  /** Feeds the next entries; returns false once a failure has been found. */
+  feed(entries: readonly ArchiveEntry[]): boolean {
+    for (const entry of entries) {
+      if (this.failure) return false;
+      this.failure = this.check(entry);
+      if (this.failure) return false;
+      this.checked += 1;
+      this.expectedSequence = entry.sequence + 1;
+      this.previousHash = entry.hash;
+    }
+    return this.failure === null;
+  }
+
+  /** Compares the end of the chain with the head the store records (catches a removed tail). */
+  finish(head: { sequence: number; hash: string }): void {
+    if (this.failure) return;
+    const last = this.expectedSequence - 1;
+    if (head.sequence > last) {
+      this.failure = { sequence: last + 1, reason: 'missing-entry',
+        message: `the store's head is entry ${head.sequence} but the chain ends at ${last}: entries ${last + 1}..${head.sequence} are missing` };
+    } else if (head.sequence !== last || head.hash !== this.previousHash) {
+      this.failure = { sequence: last, reason: 'head-mismatch', expected: head.hash, found: this.previousHash,
+        message: `the store's head (entry ${head.sequence}) does not match the last entry of the chain (${last})` };
+    }
+  }
+
+  get result(): { entriesChecked: number; lastGoodSequence: number; lastGoodHash: string; firstFailure: VerifyFailure | null } {
+    return { entriesChecked: this.checked, lastGoodSequence: this.expectedSequence - 1, lastGoodHash: this.previousHash,
+      firstFailure: this.failure };
+  }
+
+  private check(entry: ArchiveEntry): VerifyFailure | null {
+    if (entry.sequence > this.expectedSequence) {
+      return { sequence: this.expectedSequence, reason: 'missing-entry',
+        message: `entry ${this.expectedSequence} is missing (the next stored entry is ${entry.sequence})` };
+    }
+    if (entry.sequence !== this.expectedSequence) {
+      return { sequence: entry.sequence, reason: 'malformed', message: `entry ${entry.sequence} is out of order (expected ${this.expectedSequence})` };
+    }
+    if (!ENTRY_KINDS.includes(entry.kind) || !HEX64.test(entry.hash) || Number.isNaN(Date.parse(entry.at))) {
+      return { sequence: entry.sequence, reason: 'malformed', message: `entry ${entry.sequence} has an unknown kind, a malformed hash or time` };
+    }
+    if (entry.previousHash !== this.previousHash) {
+      return { sequence: entry.sequence, reason: 'previous-hash-mismatch', expected: this.previousHash, found: entry.previousHash,
+        message: `entry ${entry.sequence} does not point at the hash of entry ${entry.sequence - 1}` };
+    }
+    let recomputed: string;
+    try {
+      recomputed = entryHash(entry);
+    } catch (error) {
+      return { sequence: entry.sequence, reason: 'malformed', message: `entry ${entry.sequence} cannot be serialised: ${(error as Error).message}` };
+    }
+    if (recomputed !== entry.hash) {
+      return { sequence: entry.sequence, reason: 'hash-mismatch', expected: recomputed, found: entry.hash,
+        message: `entry ${entry.sequence}: its content does not hash to its stored hash (changed after it was written)` };
+    }
+    return null;
+  }
+}

@@ -1,0 +1,135 @@
+/**
+ * The archive's write operations, written once against `ArchiveTx` (what a store offers inside its write
+ * transaction). Each store runs them while holding its store-level write lock (SQLite BEGIN IMMEDIATE,
+ * PostgreSQL SELECT … FOR UPDATE on the head row), so the sequence, the chain and every rule checked here
+ * see one consistent state even with many processes appending.
+ */
+import { randomUUID } from 'node:crypto';
+import { canonicalHash } from './canonical-json.ts';
+import { sealEntry } from './chain.ts';
+import { ArchiveConflictError, ArchiveInputError, ArchiveNotFoundError } from './errors.ts';
+import { applyToJob, applyToPlan, planFromProposal } from './projection.ts';
+import type {
+  AppendResult, ArchiveEntry, EntryKind, JobRecord, PlanRecord, RecordJobCancelledInput, RecordJobFailedInput,
+  RecordJobSubmittedInput, RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, ReviewGuard,
+} from './types.ts';
+
+/** What a store offers inside its write transaction. Reads see the locked, current state. */
+export interface ArchiveTx {
+  head(): Promise<{ sequence: number; hash: string }>;
+  /** Inserts the entry and moves the head to it. */
+  insertEntry(entry: ArchiveEntry): Promise<void>;
+  getJob(jobId: string): Promise<JobRecord | undefined>;
+  putJob(job: JobRecord): Promise<void>;
+  getPlan(planId: string): Promise<PlanRecord | undefined>;
+  getPlanByJob(jobId: string): Promise<PlanRecord | undefined>;
+  putPlan(plan: PlanRecord): Promise<void>;
+  proposedPlansFor(spacecraftName: string, targetSetKey: string): Promise<PlanRecord[]>;
+  entriesOfJob(jobId: string, kinds: readonly EntryKind[]): Promise<ArchiveEntry[]>;
+}
+
+/** Appends one entry at the head (sequence, previous hash, time and hash filled in). */
+async function append(tx: ArchiveTx, now: () => Date, draft: Pick<ArchiveEntry, 'actor' | 'kind' | 'planId' | 'jobId' | 'payload'>): Promise<ArchiveEntry> {
+  const head = await tx.head();
+  const entry = sealEntry({ sequence: head.sequence + 1, at: now().toISOString(), previousHash: head.hash, ...draft });
+  await tx.insertEntry(entry);
+  return entry;
+}
+
+function requireText(field: string, value: unknown): string {
+  if (typeof value !== 'string' || value.trim() === '') throw new ArchiveInputError(field, 'must be a non-empty string');
+  return value;
+}
+
+export async function recordJobSubmitted(tx: ArchiveTx, now: () => Date, input: RecordJobSubmittedInput): Promise<AppendResult> {
+  requireText('jobId', input.jobId);
+  requireText('actor', input.actor);
+  const existing = await tx.getJob(input.jobId);
+  if (existing?.submittedBy) return { created: false, entries: await tx.entriesOfJob(input.jobId, ['job-submitted']) };
+  const problemHash = input.problemHash ?? canonicalHash(input.problem);
+  const payload: Record<string, unknown> = { problem: input.problem, problemHash };
+  if (input.reason !== undefined) payload.reason = input.reason;
+  const entry = await append(tx, now, { actor: input.actor, kind: 'job-submitted', planId: null, jobId: input.jobId, payload });
+  await tx.putJob(applyToJob(existing, entry));
+  return { created: true, entries: [entry] };
+}
+
+function checkPlanShape(plan: RecordPlanProposedInput['plan']): void {
+  if (plan === null || typeof plan !== 'object') throw new ArchiveInputError('plan', 'must be an object');
+  if (plan.status !== 'converged' && plan.status !== 'not-converged') throw new ArchiveInputError('plan.status', "must be 'converged' or 'not-converged'");
+  requireText('plan.spacecraftName', plan.spacecraftName);
+  requireText('plan.targetSetKey', plan.targetSetKey);
+  if (typeof plan.crossCheck?.passed !== 'boolean') throw new ArchiveInputError('plan.crossCheck.passed', 'must be a boolean');
+  if (!Array.isArray(plan.caveats) || plan.caveats.length === 0) throw new ArchiveInputError('plan.caveats', 'must be a non-empty list');
+  plan.caveats.forEach((c, i) => requireText(`plan.caveats[${i}].code`, c?.code));
+}
+
+export async function recordPlanProposed(tx: ArchiveTx, now: () => Date, input: RecordPlanProposedInput): Promise<RecordPlanProposedResult> {
+  requireText('jobId', input.jobId);
+  requireText('actor', input.actor);
+  requireText('submittedBy', input.submittedBy);
+  checkPlanShape(input.plan);
+  const already = await tx.getPlanByJob(input.jobId);
+  if (already) {
+    return { created: false, planId: already.planId, superseded: [], entries: await tx.entriesOfJob(input.jobId, ['plan-proposed']) };
+  }
+  const planId = `plan-${randomUUID()}`;
+  const payload = { plan: input.plan, planHash: canonicalHash(input.plan), submittedBy: input.submittedBy };
+  const proposed = await append(tx, now, { actor: input.actor, kind: 'plan-proposed', planId, jobId: input.jobId,
+    payload: payload as unknown as Record<string, unknown> });
+  const record = planFromProposal(proposed);
+  const entries = [proposed];
+  const superseded: string[] = [];
+  // Only a plan that could be approved replaces an older one: an unusable plan must not hide a usable one.
+  if (record.converged && record.crossCheckPassed) {
+    for (const older of await tx.proposedPlansFor(record.spacecraftName, record.targetSetKey)) {
+      if (older.planId === planId) continue;
+      const entry = await append(tx, now, { actor: input.actor, kind: 'plan-superseded', planId: older.planId, jobId: older.jobId,
+        payload: { supersededBy: planId, reason: `a newer plan for ${record.spacecraftName} / ${record.targetSetKey} was proposed` } });
+      await tx.putPlan(applyToPlan(older, entry));
+      entries.push(entry);
+      superseded.push(older.planId);
+    }
+  }
+  await tx.putPlan(record);
+  await tx.putJob(applyToJob(await tx.getJob(input.jobId), proposed));
+  return { created: true, planId, superseded, entries };
+}
+
+async function recordJobEnd(tx: ArchiveTx, now: () => Date, kind: 'job-failed' | 'job-cancelled', jobId: string, actor: string,
+  payload: Record<string, unknown>): Promise<AppendResult> {
+  requireText('jobId', jobId);
+  requireText('actor', actor);
+  const job = await tx.getJob(jobId);
+  if (job && job.state !== 'submitted') {
+    return { created: false, entries: await tx.entriesOfJob(jobId, ['plan-proposed', 'job-failed', 'job-cancelled']) };
+  }
+  const entry = await append(tx, now, { actor, kind, planId: null, jobId, payload });
+  await tx.putJob(applyToJob(job, entry));
+  return { created: true, entries: [entry] };
+}
+
+export function recordJobFailed(tx: ArchiveTx, now: () => Date, input: RecordJobFailedInput): Promise<AppendResult> {
+  return recordJobEnd(tx, now, 'job-failed', input.jobId, input.actor, { errorName: input.errorName, message: input.message });
+}
+
+export function recordJobCancelled(tx: ArchiveTx, now: () => Date, input: RecordJobCancelledInput): Promise<AppendResult> {
+  return recordJobEnd(tx, now, 'job-cancelled', input.jobId, input.actor, { reason: input.reason ?? 'cancelled' });
+}
+
+export async function recordReview(tx: ArchiveTx, now: () => Date, input: RecordReviewInput, guard?: ReviewGuard): Promise<{ entry: ArchiveEntry; plan: PlanRecord }> {
+  requireText('reviewer', input.reviewer);
+  if (input.decision !== 'approve' && input.decision !== 'reject') throw new ArchiveInputError('decision', "must be 'approve' or 'reject'");
+  const plan = await tx.getPlan(input.planId);
+  if (!plan) throw new ArchiveNotFoundError(`plan ${input.planId} is not in the archive`);
+  if (plan.state !== 'proposed') {
+    throw new ArchiveConflictError(`plan ${input.planId} is already ${plan.state}${plan.decidedBy ? ` by ${plan.decidedBy}` : ''}; a decision is final`, plan.state);
+  }
+  guard?.(plan, input);
+  const entry = await append(tx, now, { actor: input.reviewer, kind: 'review', planId: plan.planId, jobId: plan.jobId,
+    payload: { decision: input.decision, reviewer: input.reviewer, comment: input.comment,
+      acknowledgedCaveatCodes: [...input.acknowledgedCaveatCodes] } });
+  const updated = applyToPlan(plan, entry);
+  await tx.putPlan(updated);
+  return { entry, plan: updated };
+}

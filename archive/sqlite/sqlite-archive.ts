@@ -1,0 +1,220 @@
+/**
+ * The SQLite store (better-sqlite3, WAL mode): the embedded default, one file in the data folder.
+ * Appends are serialised in the database: every write runs in a `BEGIN IMMEDIATE` transaction, which takes
+ * SQLite's single write lock across all processes using the file (others wait up to `busyTimeoutMs`).
+ * Inside one process the connection is shared, so a small queue keeps one transaction at a time on it.
+ */
+import Database from 'better-sqlite3';
+import { mkdirSync } from 'node:fs';
+import { dirname } from 'node:path';
+import * as ops from '../operations.ts';
+import type { ArchiveTx } from '../operations.ts';
+import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
+import { verifySource } from '../verify.ts';
+import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
+import type {
+  AppendResult, ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, RecordJobCancelledInput,
+  RecordJobFailedInput, RecordJobSubmittedInput, RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, ReviewGuard,
+  VerifyReport,
+} from '../types.ts';
+
+export interface SqliteArchiveOptions {
+  /** Path of the database file (created with its folder if missing). */
+  file: string;
+  /** How long a writer waits for another process's write lock. @defaultValue 15000 */
+  busyTimeoutMs?: number;
+  /** Clock for entry times. @defaultValue () => new Date() */
+  now?: () => Date;
+}
+
+type Row = Record<string, unknown>;
+
+/** Runs the schema migrations not yet applied (inside one write transaction, so concurrent starts are safe). */
+export function migrateSqlite(db: Database.Database, table = 'schema_migrations', migrations = SQLITE_ARCHIVE_MIGRATIONS): number {
+  db.exec(`CREATE TABLE IF NOT EXISTS ${table} (version INTEGER PRIMARY KEY, name TEXT NOT NULL, applied_at TEXT NOT NULL)`);
+  const run = db.transaction(() => {
+    const done = new Set((db.prepare(`SELECT version FROM ${table}`).all() as Row[]).map((r) => Number(r.version)));
+    let applied = 0;
+    for (const m of migrations) {
+      if (done.has(m.version)) continue;
+      db.exec(m.sql);
+      db.prepare(`INSERT INTO ${table} (version, name, applied_at) VALUES (?, ?, ?)`).run(m.version, m.name, new Date().toISOString());
+      applied += 1;
+    }
+    return applied;
+  });
+  return run.immediate();
+}
+
+/** Opens (creating if needed) a SQLite database file in WAL mode with a busy timeout. */
+export function openSqliteDatabase(file: string, busyTimeoutMs = 15_000): Database.Database {
+  if (file !== ':memory:') mkdirSync(dirname(file), { recursive: true });
+  const db = new Database(file, { timeout: busyTimeoutMs });
+  db.pragma('journal_mode = WAL');
+  db.pragma('synchronous = FULL');
+  db.pragma(`busy_timeout = ${busyTimeoutMs}`);
+  return db;
+}
+
+export class SqliteArchive implements PlanArchive {
+  readonly storeKind = 'sqlite' as const;
+  private readonly db: Database.Database;
+  private readonly now: () => Date;
+  private queue: Promise<unknown> = Promise.resolve();
+  private readonly tx: ArchiveTx;
+
+  constructor(options: SqliteArchiveOptions) {
+    this.db = openSqliteDatabase(options.file, options.busyTimeoutMs);
+    this.now = options.now ?? (() => new Date());
+    migrateSqlite(this.db);
+    this.tx = this.makeTx();
+  }
+
+  recordJobSubmitted(input: RecordJobSubmittedInput): Promise<AppendResult> {
+    return this.write((tx) => ops.recordJobSubmitted(tx, this.now, input));
+  }
+  recordPlanProposed(input: RecordPlanProposedInput): Promise<RecordPlanProposedResult> {
+    return this.write((tx) => ops.recordPlanProposed(tx, this.now, input));
+  }
+  recordJobFailed(input: RecordJobFailedInput): Promise<AppendResult> {
+    return this.write((tx) => ops.recordJobFailed(tx, this.now, input));
+  }
+  recordJobCancelled(input: RecordJobCancelledInput): Promise<AppendResult> {
+    return this.write((tx) => ops.recordJobCancelled(tx, this.now, input));
+  }
+  recordReview(input: RecordReviewInput, guard?: ReviewGuard): Promise<{ entry: ArchiveEntry; plan: PlanRecord }> {
+    return this.write((tx) => ops.recordReview(tx, this.now, input, guard));
+  }
+
+  getPlan(planId: string): Promise<PlanRecord | undefined> {
+    return this.read(() => this.tx.getPlan(planId));
+  }
+  getPlanByJob(jobId: string): Promise<PlanRecord | undefined> {
+    return this.read(() => this.tx.getPlanByJob(jobId));
+  }
+  getJob(jobId: string): Promise<JobRecord | undefined> {
+    return this.read(() => this.tx.getJob(jobId));
+  }
+  getPlanDocument(planId: string): Promise<ArchivablePlan | undefined> {
+    return this.read(async () => {
+      const row = this.db.prepare("SELECT * FROM archive_entries WHERE plan_id = ? AND kind = 'plan-proposed' ORDER BY sequence LIMIT 1").get(planId) as Row | undefined;
+      return row ? (entryFromRow(row).payload.plan as ArchivablePlan) : undefined;
+    });
+  }
+  listPlans(filter: PlanFilter = {}): Promise<PlanRecord[]> {
+    return this.read(async () => {
+      const where: string[] = [];
+      const values: unknown[] = [];
+      if (filter.state) { where.push('state = ?'); values.push(filter.state); }
+      if (filter.spacecraftName) { where.push('spacecraft_name = ?'); values.push(filter.spacecraftName); }
+      if (filter.from) { where.push('proposed_at >= ?'); values.push(filter.from); }
+      if (filter.to) { where.push('proposed_at < ?'); values.push(filter.to); }
+      if (filter.converged !== undefined) { where.push('converged = ?'); values.push(filter.converged ? 1 : 0); }
+      const sql = `SELECT * FROM archive_plans ${where.length ? `WHERE ${where.join(' AND ')}` : ''}
+        ORDER BY proposed_sequence DESC LIMIT ? OFFSET ?`;
+      return (this.db.prepare(sql).all(...values, clampLimit(filter.limit), Math.max(0, filter.offset ?? 0)) as Row[]).map(planFromRow);
+    });
+  }
+  history(planId: string): Promise<ArchiveEntry[]> {
+    return this.read(async () => {
+      const plan = await this.tx.getPlan(planId);
+      const rows = plan
+        ? this.db.prepare('SELECT * FROM archive_entries WHERE plan_id = ? OR job_id = ? ORDER BY sequence').all(planId, plan.jobId)
+        : this.db.prepare('SELECT * FROM archive_entries WHERE plan_id = ? ORDER BY sequence').all(planId);
+      return (rows as Row[]).map(entryFromRow);
+    });
+  }
+  entries(fromSequence = 1, limit = 1000): Promise<ArchiveEntry[]> {
+    return this.read(async () => this.page(fromSequence, clampLimit(limit, 1000)));
+  }
+  head(): Promise<{ sequence: number; hash: string }> {
+    return this.read(() => this.tx.head());
+  }
+
+  /** Verifies inside one read transaction (a WAL snapshot), so concurrent appends do not disturb it. */
+  verify(): Promise<VerifyReport> {
+    return this.serial(async () => {
+      this.db.exec('BEGIN DEFERRED');
+      try {
+        return await verifySource({
+          head: () => this.tx.head(),
+          page: async (from, limit) => this.page(from, limit),
+          plans: async () => (this.db.prepare('SELECT * FROM archive_plans').all() as Row[]).map(planFromRow),
+        });
+      } finally {
+        this.db.exec('COMMIT');
+      }
+    });
+  }
+
+  async close(): Promise<void> {
+    await this.serial(async () => this.db.close());
+  }
+
+  private page(from: number, limit: number): ArchiveEntry[] {
+    return (this.db.prepare('SELECT * FROM archive_entries WHERE sequence >= ? ORDER BY sequence LIMIT ?').all(from, limit) as Row[]).map(entryFromRow);
+  }
+
+  /** One operation at a time on this connection (the cross-process lock is SQLite's, taken by BEGIN IMMEDIATE). */
+  private serial<T>(fn: () => Promise<T>): Promise<T> {
+    const run = this.queue.then(fn, fn);
+    this.queue = run.catch(() => undefined);
+    return run;
+  }
+
+  private read<T>(fn: () => Promise<T>): Promise<T> {
+    return this.serial(fn);
+  }
+
+  private write<T>(fn: (tx: ArchiveTx) => Promise<T>): Promise<T> {
+    return this.serial(async () => {
+      this.db.exec('BEGIN IMMEDIATE');
+      try {
+        const result = await fn(this.tx);
+        this.db.exec('COMMIT');
+        return result;
+      } catch (error) {
+        if (this.db.inTransaction) this.db.exec('ROLLBACK');
+        throw error;
+      }
+    });
+  }
+
+  private makeTx(): ArchiveTx {
+    const db = this.db;
+    const insertEntry = db.prepare(`INSERT INTO archive_entries (${ENTRY_COLUMNS.join(', ')}) VALUES (${ENTRY_COLUMNS.map(() => '?').join(', ')})`);
+    const moveHead = db.prepare('UPDATE archive_head SET sequence = ?, hash = ? WHERE id = 1');
+    const putPlan = db.prepare(`INSERT OR REPLACE INTO archive_plans (${PLAN_COLUMNS.join(', ')}) VALUES (${PLAN_COLUMNS.map(() => '?').join(', ')})`);
+    const putJob = db.prepare(`INSERT OR REPLACE INTO archive_jobs (${JOB_COLUMNS.join(', ')}) VALUES (${JOB_COLUMNS.map(() => '?').join(', ')})`);
+    return {
+      head: async () => {
+        const row = db.prepare('SELECT sequence, hash FROM archive_head WHERE id = 1').get() as Row;
+        return { sequence: Number(row.sequence), hash: String(row.hash) };
+      },
+      insertEntry: async (entry: ArchiveEntry) => {
+        insertEntry.run(...entryValues(entry));
+        moveHead.run(entry.sequence, entry.hash);
+      },
+      getJob: async (jobId: string) => {
+        const row = db.prepare('SELECT * FROM archive_jobs WHERE job_id = ?').get(jobId) as Row | undefined;
+        return row ? jobFromRow(row) : undefined;
+      },
+      putJob: async (job: JobRecord) => { putJob.run(...jobValues(job)); },
+      getPlan: async (planId: string) => {
+        const row = db.prepare('SELECT * FROM archive_plans WHERE plan_id = ?').get(planId) as Row | undefined;
+        return row ? planFromRow(row) : undefined;
+      },
+      getPlanByJob: async (jobId: string) => {
+        const row = db.prepare('SELECT * FROM archive_plans WHERE job_id = ?').get(jobId) as Row | undefined;
+        return row ? planFromRow(row) : undefined;
+      },
+      putPlan: async (plan: PlanRecord) => { putPlan.run(...planValues(plan, 'integer')); },
+      proposedPlansFor: async (spacecraftName: string, targetSetKey: string) =>
+        (db.prepare("SELECT * FROM archive_plans WHERE spacecraft_name = ? AND target_set_key = ? AND state = 'proposed' ORDER BY proposed_sequence")
+          .all(spacecraftName, targetSetKey) as Row[]).map(planFromRow),
+      entriesOfJob: async (jobId: string, kinds: readonly EntryKind[]) =>
+        (db.prepare(`SELECT * FROM archive_entries WHERE job_id = ? AND kind IN (${kinds.map(() => '?').join(', ')}) ORDER BY sequence`)
+          .all(jobId, ...kinds) as Row[]).map(entryFromRow),
+    };
+  }
+}

@@ -1,0 +1,208 @@
+/**
+ * Shapes of the plan archive: entries of the hash chain, the plan records derived from them, the inputs
+ * of each kind of append, and the `PlanArchive` interface both stores (SQLite, PostgreSQL) implement.
+ */
+
+/** The kinds of entry. Every transition of a job or plan is exactly one entry. */
+export const ENTRY_KINDS = ['job-submitted', 'plan-proposed', 'review', 'plan-superseded', 'job-failed', 'job-cancelled'] as const;
+export type EntryKind = (typeof ENTRY_KINDS)[number];
+
+/** Plan states, in plain words. A not-converged plan stays `proposed` but is flagged and can never be approved. */
+export const PLAN_STATES = ['proposed', 'approved', 'rejected', 'superseded'] as const;
+export type PlanState = (typeof PLAN_STATES)[number];
+
+/** Review decisions. */
+export type ReviewDecision = 'approve' | 'reject';
+
+/** The hash every chain starts from (the `previousHash` of entry 1): 64 zeros. */
+export const GENESIS_HASH = '0'.repeat(64);
+
+/**
+ * One entry of the chain. `hash` = SHA-256 hex of the canonical JSON (see canonical-json.ts) of
+ * `{ sequence, at, actor, kind, planId, jobId, payload, previousHash }` — every field but `hash` itself.
+ */
+export interface ArchiveEntry {
+  /** 1, 2, 3, … without gaps. */
+  sequence: number;
+  /** When the entry was written, ISO 8601 UTC with milliseconds (`2030-01-02T03:04:05.678Z`). */
+  at: string;
+  /** Identity name of whoever (or which process) caused the transition. */
+  actor: string;
+  kind: EntryKind;
+  /** The plan the entry is about; null for job entries written before any plan exists. */
+  planId: string | null;
+  /** The job the entry is about (every plan comes from one job); null only if unknown. */
+  jobId: string | null;
+  /** Kind-specific content (see the *Payload types). */
+  payload: Record<string, unknown>;
+  previousHash: string;
+  hash: string;
+}
+
+/** Payload of `job-submitted`. */
+export interface JobSubmittedPayload { problem: unknown; problemHash: string; reason?: string }
+/** Payload of `plan-proposed`: the full plan, its canonical hash, and who submitted the job. */
+export interface PlanProposedPayload { plan: ArchivablePlan; planHash: string; submittedBy: string }
+/** Payload of `review`. */
+export interface ReviewPayload { decision: ReviewDecision; reviewer: string; comment: string; acknowledgedCaveatCodes: string[] }
+/** Payload of `plan-superseded`. */
+export interface PlanSupersededPayload { supersededBy: string; reason: string }
+/** Payload of `job-failed`. */
+export interface JobFailedPayload { errorName: string; message: string }
+/** Payload of `job-cancelled`. */
+export interface JobCancelledPayload { reason: string }
+
+/**
+ * What the archive needs to know about a plan. The planner's ManeuverPlan is structurally assignable to it
+ * (checked in plan-compat.ts); the whole plan object is stored, not just these fields.
+ */
+export interface ArchivablePlan {
+  status: 'converged' | 'not-converged';
+  problemHash: string;
+  softwareVersion: string;
+  spacecraftName: string;
+  targetSetKey: string;
+  crossCheck: { passed: boolean };
+  caveats: ReadonlyArray<{ code: string; severity: string; text: string }>;
+}
+
+/**
+ * A plan's current standing, derived from its entries (kept in a projection table updated in the same
+ * transaction as the entries; the entries remain the truth and `verify` re-derives it).
+ */
+export interface PlanRecord {
+  planId: string;
+  jobId: string;
+  spacecraftName: string;
+  targetSetKey: string;
+  state: PlanState;
+  /** False for a plan whose status is 'not-converged' (flagged; never approvable). */
+  converged: boolean;
+  crossCheckPassed: boolean;
+  caveatCodes: string[];
+  submittedBy: string;
+  problemHash: string;
+  softwareVersion: string;
+  /** ISO UTC time of the plan-proposed entry. */
+  proposedAt: string;
+  proposedSequence: number;
+  decidedAt: string | null;
+  decidedBy: string | null;
+  supersededBy: string | null;
+  /** Sequence of the latest entry about this plan. */
+  lastSequence: number;
+}
+
+/** A job as the archive knows it. */
+export type JobArchiveState = 'submitted' | 'proposed' | 'failed' | 'cancelled';
+export interface JobRecord {
+  jobId: string;
+  submittedBy: string | null;
+  problemHash: string | null;
+  state: JobArchiveState;
+  planId: string | null;
+  lastSequence: number;
+}
+
+/** Result of an idempotent append: `created` false when the job already had that entry. */
+export interface AppendResult { created: boolean; entries: ArchiveEntry[] }
+
+export interface RecordJobSubmittedInput { jobId: string; actor: string; problem: unknown; problemHash?: string; reason?: string }
+export interface RecordPlanProposedInput {
+  jobId: string;
+  /** Who writes it (usually the worker's name). */
+  actor: string;
+  /** Identity name of whoever submitted the job (the two-person rule compares against it). */
+  submittedBy: string;
+  plan: ArchivablePlan;
+}
+export interface RecordPlanProposedResult extends AppendResult { planId: string; superseded: string[] }
+export interface RecordJobFailedInput { jobId: string; actor: string; errorName: string; message: string }
+export interface RecordJobCancelledInput { jobId: string; actor: string; reason?: string }
+export interface RecordReviewInput {
+  planId: string;
+  reviewer: string;
+  decision: ReviewDecision;
+  comment: string;
+  acknowledgedCaveatCodes: string[];
+}
+/**
+ * Rules checked inside the store's write transaction, against the plan as it stands under the lock.
+ * Throw to refuse (the transaction rolls back and nothing is appended).
+ */
+export type ReviewGuard = (plan: PlanRecord, input: RecordReviewInput) => void;
+
+/** Filter for listing plans. Dates are ISO UTC; `from` inclusive, `to` exclusive, on `proposedAt`. */
+export interface PlanFilter {
+  state?: PlanState;
+  spacecraftName?: string;
+  from?: string;
+  to?: string;
+  /** Only not-converged (true) or only converged (false) plans. */
+  converged?: boolean;
+  /** @defaultValue 100, at most 1000 */
+  limit?: number;
+  offset?: number;
+}
+
+/** Where verification stopped, and why. */
+export type VerifyFailureReason = 'hash-mismatch' | 'previous-hash-mismatch' | 'missing-entry' | 'malformed' | 'head-mismatch';
+export interface VerifyFailure {
+  /** The first entry (by sequence) that does not match; for a missing entry, the sequence that is absent. */
+  sequence: number;
+  reason: VerifyFailureReason;
+  message: string;
+  expected?: string;
+  found?: string;
+}
+export interface ProjectionMismatch { planId: string; field: string; derived: unknown; stored: unknown }
+export interface VerifyReport {
+  ok: boolean;
+  entriesChecked: number;
+  /** Sequence and hash of the last entry that checked out (0 and GENESIS_HASH when none did). */
+  lastGoodSequence: number;
+  lastGoodHash: string;
+  /** The head the store records (sequence and hash of the newest entry). */
+  head: { sequence: number; hash: string };
+  firstFailure: VerifyFailure | null;
+  /** Plan states in the projection table that differ from what the entries say. */
+  projectionMismatches: ProjectionMismatch[];
+  durationMs: number;
+}
+
+/** The archive. Append-only: there is no method that updates or deletes an entry. */
+export interface PlanArchive {
+  readonly storeKind: 'sqlite' | 'postgres';
+  /** Records a submitted job (idempotent by jobId). */
+  recordJobSubmitted(input: RecordJobSubmittedInput): Promise<AppendResult>;
+  /**
+   * Records the plan a job produced, exactly once per job (idempotent by jobId: a repeat returns the first
+   * plan's id with `created: false`). In the same transaction, older proposed plans with the same spacecraft
+   * and targetSetKey are superseded — only by a plan that could be approved (converged, cross-check passed).
+   */
+  recordPlanProposed(input: RecordPlanProposedInput): Promise<RecordPlanProposedResult>;
+  /** Records a job's failure (idempotent: a job gets at most one terminal entry). */
+  recordJobFailed(input: RecordJobFailedInput): Promise<AppendResult>;
+  /** Records a job's cancellation (idempotent: a job gets at most one terminal entry). */
+  recordJobCancelled(input: RecordJobCancelledInput): Promise<AppendResult>;
+  /**
+   * Records a review. Under the write lock: the plan must exist (ArchiveNotFoundError) and be `proposed`
+   * (ArchiveConflictError otherwise — so of two concurrent reviews exactly one wins); then `guard` runs.
+   */
+  recordReview(input: RecordReviewInput, guard?: ReviewGuard): Promise<{ entry: ArchiveEntry; plan: PlanRecord }>;
+  getPlan(planId: string): Promise<PlanRecord | undefined>;
+  getPlanByJob(jobId: string): Promise<PlanRecord | undefined>;
+  /** The full plan document as archived in its plan-proposed entry. */
+  getPlanDocument(planId: string): Promise<ArchivablePlan | undefined>;
+  getJob(jobId: string): Promise<JobRecord | undefined>;
+  listPlans(filter?: PlanFilter): Promise<PlanRecord[]>;
+  /** Every entry about the plan and its job, in sequence order. */
+  history(planId: string): Promise<ArchiveEntry[]>;
+  /** Entries with sequence >= fromSequence, in order, at most `limit` (default 1000). */
+  entries(fromSequence?: number, limit?: number): Promise<ArchiveEntry[]>;
+  /** The newest entry's sequence and hash (0 and GENESIS_HASH for an empty archive). */
+  head(): Promise<{ sequence: number; hash: string }>;
+  /** Walks the whole chain; names the first entry that does not match. */
+  verify(): Promise<VerifyReport>;
+  close(): Promise<void>;
+}
