@@ -5,3 +5,4 @@ export * from './constants.ts';
 export * from './time/index.ts';
 export * from './ephemeris/index.ts';
 export * from './integrators/index.ts';
+export * from './forces/index.ts';

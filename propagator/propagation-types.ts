@@ -13,6 +13,9 @@ export interface SolarPressureSpec {
   reflectivityCoefficient: number;
   /** Spacecraft mass, kg (> 0). */
   massKg: number;
+  /** Shadow model: 'cylindrical' (the central body casts a cylindrical shadow, no penumbra) or 'none'.
+   * @defaultValue 'cylindrical' */
+  shadow?: 'none' | 'cylindrical';
 }
 
 /** Which forces act. The central body is a point mass (plus J2 when asked); perturbing bodies are point
@@ -23,6 +26,8 @@ export interface ForceModelSpec {
   /** Add the central body's J2 (only where a J2 constant is known; otherwise InvalidInputError). */
   centralJ2?: boolean;
   solarPressure?: SolarPressureSpec;
+  /** Override GM (km^3/s^2, > 0) of some bodies; the rest come from GM_KM3_S2 in constants.ts. */
+  gmOverridesKm3S2?: Partial<Record<BodyName, number>>;
 }
 
 /** An impulsive Δv applied at an epoch; the integrator stops exactly there. */

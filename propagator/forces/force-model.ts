@@ -1,0 +1,98 @@
+/**
+ * The force model compiled from a ForceModelSpec and an ephemeris: evaluates the spacecraft's
+ * acceleration (km/s^2, J2000 equatorial, relative to the central body) and, on request, its analytic
+ * gradient ∂a/∂r (1/s^2; ∂a/∂v = 0 for every force here). No allocation per evaluation.
+ */
+import type { Ephemeris } from '../ephemeris/ephemeris.ts';
+import type { ForceModelSpec } from '../propagation-types.ts';
+import type { BodyName } from '../types.ts';
+import { checkForceModel, type CheckedForceModel } from './force-model-checks.ts';
+import { addJ2 } from './zonal-j2.ts';
+import { addPointMass } from './point-mass.ts';
+import { addSolarPressure } from './solar-pressure.ts';
+import { addThirdBody } from './third-body.ts';
+
+export class ForceModel {
+  readonly centralBody: BodyName;
+  readonly centralGmKm3S2: number;
+  readonly centralRadiusKm: number;
+  readonly perturbingBodies: readonly BodyName[];
+  readonly perturbingGmKm3S2: Float64Array;
+  readonly perturbingRadiiKm: Float64Array;
+  /** Positions (km, from the central body) of the perturbing bodies at the last evaluated epoch. */
+  readonly bodyPositionsKm: Float64Array;
+  readonly ephemeris: Ephemeris;
+  /** Number of acceleration evaluations so far. */
+  evaluations = 0;
+  private readonly config: CheckedForceModel;
+  private readonly sunPosition = new Float64Array(3);
+  private lastEpoch = Number.NaN;
+
+  /** Validates the spec (InvalidInputError naming the field) and prepares buffers. */
+  constructor(spec: ForceModelSpec, ephemeris: Ephemeris) {
+    this.config = checkForceModel(spec, ephemeris);
+    this.ephemeris = ephemeris;
+    this.centralBody = spec.centralBody;
+    this.centralGmKm3S2 = this.config.centralGm;
+    this.centralRadiusKm = this.config.centralRadiusKm;
+    this.perturbingBodies = this.config.perturbingBodies;
+    this.perturbingGmKm3S2 = Float64Array.from(this.config.perturbingGm);
+    this.perturbingRadiiKm = Float64Array.from(this.config.perturbingRadiiKm);
+    this.bodyPositionsKm = new Float64Array(3 * this.perturbingBodies.length);
+  }
+
+  /** Looks up the perturbing bodies' positions at `epochTdbS` (cached for repeated calls at one epoch). */
+  updateBodies(epochTdbS: number): void {
+    if (epochTdbS === this.lastEpoch) return;
+    const bodies = this.perturbingBodies;
+    for (let b = 0; b < bodies.length; b++) {
+      this.ephemeris.positionInto(bodies[b], this.centralBody, epochTdbS, this.bodyPositionsKm, 3 * b);
+    }
+    const srp = this.config.solarPressure;
+    if (srp !== null && srp.sunIndex < 0 && this.centralBody !== 'sun') {
+      this.ephemeris.positionInto('sun', this.centralBody, epochTdbS, this.sunPosition, 0);
+    }
+    this.lastEpoch = epochTdbS;
+  }
+
+  /**
+   * Acceleration at `epochTdbS` (TDB s from J2000) for the spacecraft at position state[0..2] (km,
+   * J2000 equatorial, from the central body) into acc[0..2] (km/s^2); the 3x3 row-major ∂a/∂r into
+   * partials[0..8] (1/s^2) when given.
+   */
+  accelerationInto(epochTdbS: number, state: Float64Array, acc: Float64Array, partials: Float64Array | null): void {
+    this.evaluations += 1;
+    this.updateBodies(epochTdbS);
+    const rx = state[0];
+    const ry = state[1];
+    const rz = state[2];
+    acc[0] = 0;
+    acc[1] = 0;
+    acc[2] = 0;
+    if (partials !== null) partials.fill(0);
+    addPointMass(this.centralGmKm3S2, rx, ry, rz, acc, partials);
+    const pos = this.bodyPositionsKm;
+    const gms = this.perturbingGmKm3S2;
+    for (let b = 0; b < gms.length; b++) {
+      addThirdBody(gms[b], rx, ry, rz, pos[3 * b], pos[3 * b + 1], pos[3 * b + 2], acc, partials);
+    }
+    const j2 = this.config.j2;
+    if (j2 !== null) addJ2(this.centralGmKm3S2, j2.j2, j2.radiusKm, rx, ry, rz, acc, partials);
+    const srp = this.config.solarPressure;
+    if (srp !== null) {
+      let sx = 0;
+      let sy = 0;
+      let sz = 0;
+      if (srp.sunIndex >= 0) {
+        sx = pos[3 * srp.sunIndex];
+        sy = pos[3 * srp.sunIndex + 1];
+        sz = pos[3 * srp.sunIndex + 2];
+      } else if (this.centralBody !== 'sun') {
+        sx = this.sunPosition[0];
+        sy = this.sunPosition[1];
+        sz = this.sunPosition[2];
+      }
+      addSolarPressure(srp.strength, rx, ry, rz, sx, sy, sz, srp.occulterRadiusKm, acc, partials);
+    }
+  }
+}
