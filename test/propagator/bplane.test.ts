@@ -1,0 +1,57 @@
+import { describe, expect, it } from 'vitest';
+import { B_PLANE_PARTIAL_ROWS, bPlanePartials, computeBPlane, referencePole } from '../../propagator/bplane/index.ts';
+import { GM_KM3_S2 } from '../../propagator/constants.ts';
+import { InvalidInputError } from '../../propagator/errors.ts';
+
+const MU = GM_KM3_S2.earth;
+// An invented hyperbolic approach to Earth, 400 000 km out, v∞ ≈ 3.6 km/s.
+const APPROACH = [-250000, 300000, 40000, 2.1, -2.9, -0.6];
+
+describe('B-plane partials', () => {
+  describe('when compared with central finite differences', () => {
+    for (const plane of ['ecliptic', 'equator'] as const) {
+      it(`should agree to 1e-6 relative in every row (${plane} reference)`, () => {
+        const { rows } = bPlanePartials(APPROACH, MU, plane, 'earth');
+        for (const name of B_PLANE_PARTIAL_ROWS) {
+          const norm = Math.hypot(...rows[name].map((d, j) => d * (j < 3 ? 1000 : 1e-3)));
+          for (let j = 0; j < 6; j++) {
+            const h = j < 3 ? 1 : 1e-6; // km, km/s
+            const p = [...APPROACH]; p[j] += h;
+            const m = [...APPROACH]; m[j] -= h;
+            const a = computeBPlane(p, MU, plane, 'earth')[name];
+            const b = computeBPlane(m, MU, plane, 'earth')[name];
+            const fd = (a - b) / (2 * h);
+            const w = j < 3 ? 1000 : 1e-3; // compare on a common scale: per 1000 km and per 1 m/s
+            expect(Math.abs(fd - rows[name][j]) * w / norm, `${name} / x${j}`).toBeLessThan(1e-6);
+          }
+        }
+      });
+    }
+  });
+
+  describe('when the reference plane is an equator', () => {
+    it('should put T in that equator (T·pole = 0) and keep S, T, R orthonormal', () => {
+      for (const body of ['earth', 'mars', 'jupiter'] as const) {
+        const bp = computeBPlane(APPROACH, MU, 'equator', body);
+        const k = referencePole('equator', body);
+        const d = (a: number[], b: number[]) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+        expect(Math.abs(d(bp.tHat, k))).toBeLessThan(4e-15);
+        expect(Math.abs(d(bp.sHat, bp.tHat))).toBeLessThan(4e-15);
+        expect(Math.abs(d(bp.sHat, bp.rHat))).toBeLessThan(4e-15);
+        expect(Math.abs(d(bp.rHat, bp.rHat) - 1)).toBeLessThan(4e-15);
+        expect(Math.abs(d(bp.bVectorKm, bp.sHat))).toBeLessThan(1e-9);
+      }
+    });
+    it('should take the Earth pole as the J2000 z axis', () => {
+      expect(referencePole('equator', 'earth')).toEqual([0, 0, 1]);
+    });
+  });
+
+  describe('when the input is bad', () => {
+    it('should name the field', () => {
+      expect(() => computeBPlane([1, 2, 3], MU)).toThrow(InvalidInputError);
+      expect(() => computeBPlane(APPROACH, -1)).toThrow(/muKm3S2/);
+      expect(() => computeBPlane(APPROACH, MU, 'equator')).toThrow(/body/);
+    });
+  });
+});
