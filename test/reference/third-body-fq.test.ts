@@ -6,7 +6,7 @@
  * test shows that the naive double-precision difference loses about log10(|s|/|r|) digits while f(q)
  * stays at round-off.
  */
-import Decimal from 'decimal.js';
+import { Decimal } from 'decimal.js';
 import { describe, expect, it } from 'vitest';
 import { addThirdBody } from '../../propagator/forces/index.ts';
 
