@@ -6,3 +6,4 @@ export * from './time/index.ts';
 export * from './ephemeris/index.ts';
 export * from './integrators/index.ts';
 export * from './forces/index.ts';
+export * from './frames/index.ts';
