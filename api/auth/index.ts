@@ -1,0 +1,9 @@
+/** Identities and roles for api/: bearer tokens stored as hashes, `authenticate` and `requireRoles`. */
+export { ROLES, roleSchema, tokenNameSchema, type Identity, type Role } from './roles.ts';
+export type { TokenRecord, TokenStore } from './token-store.ts';
+export { SqliteTokenStore } from './sqlite-token-store.ts';
+export { PostgresTokenStore } from './postgres-token-store.ts';
+export { openTokenStore, SQLITE_TOKENS_FILE, type OpenTokenStoreOptions } from './open-token-store.ts';
+export { authenticate, identityOf, requireRoles, type RoleGuard } from './middleware.ts';
+export { generateTokenSecret, hashTokenSecret, TOKEN_PREFIX } from './token-secret.ts';
+export { newTokenSchema, parseNewToken, TokenInputError } from './token-input.ts';
