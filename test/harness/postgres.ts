@@ -1,0 +1,120 @@
+/**
+ * A real PostgreSQL for tests (never a mock). Order of preference:
+ *  1. DATABASE_URL from the environment (each `freshDatabase()` creates a new database on that server);
+ *  2. testcontainers (postgres:16-alpine) when a Docker engine answers;
+ *  3. initdb + pg_ctl from the PostgreSQL binaries (PG_BIN, else /usr/lib/postgresql/<newest>/bin) in a temporary
+ *     folder on a free port. initdb refuses to run as root, so under root the cluster belongs to the
+ *     `postgres` system user (created by Debian's package) and the commands run through `runuser -u postgres --`.
+ */
+import { execFile } from 'node:child_process';
+import { chownSync, existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { promisify } from 'node:util';
+import pg from 'pg';
+
+const run = promisify(execFile);
+
+export interface TestPostgres {
+  /** URL of the server's maintenance database (`postgres`). */
+  url: string;
+  kind: 'env' | 'container' | 'process';
+  /** Creates an empty database and resolves to its URL (isolates tests from one another). */
+  freshDatabase(): Promise<string>;
+  stop(): Promise<void>;
+}
+
+/** A TCP port nobody listens on right now (common practice: bind to port 0, read it, close). */
+async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const srv = createServer();
+    srv.on('error', reject);
+    srv.listen(0, '127.0.0.1', () => {
+      const address = srv.address();
+      const port = typeof address === 'object' && address ? address.port : 0;
+      srv.close(() => resolve(port));
+    });
+  });
+}
+
+function withDatabase(url: string, database: string): string {
+  const u = new URL(url);
+  u.pathname = `/${database}`;
+  return u.toString();
+}
+
+let counter = 0;
+function makeFresh(url: string): () => Promise<string> {
+  return async () => {
+    const name = `veer_t${process.pid}_${Date.now().toString(36)}_${(counter += 1)}`;
+    const client = new pg.Client({ connectionString: url });
+    await client.connect();
+    try {
+      await client.query(`CREATE DATABASE ${name}`);
+    } finally {
+      await client.end();
+    }
+    return withDatabase(url, name);
+  };
+}
+
+function postgresBinDir(): string | null {
+  if (process.env.PG_BIN && existsSync(join(process.env.PG_BIN, 'initdb'))) return process.env.PG_BIN;
+  const root = '/usr/lib/postgresql';
+  if (!existsSync(root)) return null;
+  const versions = readdirSync(root).filter((v) => existsSync(join(root, v, 'bin', 'initdb'))).sort((a, b) => Number(b) - Number(a));
+  return versions.length ? join(root, versions[0], 'bin') : null;
+}
+
+async function startContainer(): Promise<TestPostgres | null> {
+  if (!process.env.DOCKER_HOST && !existsSync('/var/run/docker.sock')) return null;
+  try {
+    const { GenericContainer, Wait } = await import('testcontainers');
+    const container = await new GenericContainer('postgres:16-alpine')
+      .withEnvironment({ POSTGRES_PASSWORD: 'veer', POSTGRES_USER: 'veer', POSTGRES_DB: 'postgres' })
+      .withExposedPorts(5432)
+      .withWaitStrategy(Wait.forLogMessage(/database system is ready to accept connections/, 2))
+      .start();
+    const url = `postgres://veer:veer@${container.getHost()}:${container.getMappedPort(5432)}/postgres`;
+    return { url, kind: 'container', freshDatabase: makeFresh(url), stop: async () => { await container.stop(); } };
+  } catch {
+    return null;
+  }
+}
+
+async function startProcess(): Promise<TestPostgres> {
+  const bin = postgresBinDir();
+  if (!bin) throw new Error('PostgreSQL binaries not found: install Debian\'s postgresql package, or set PG_BIN or DATABASE_URL');
+  const asRoot = process.getuid?.() === 0;
+  const dir = mkdtempSync(join(tmpdir(), 'veer-pg-'));
+  const data = join(dir, 'data');
+  if (asRoot) {
+    const { stdout } = await run('id', ['-u', 'postgres']).catch(() => ({ stdout: '' }));
+    if (!stdout.trim()) throw new Error('running as root needs the `postgres` system user (from Debian\'s postgresql package) to own the test cluster');
+    chownSync(dir, Number(stdout.trim()), Number((await run('id', ['-g', 'postgres'])).stdout.trim()));
+  }
+  const exec = (cmd: string, args: string[]): Promise<{ stdout: string; stderr: string }> =>
+    asRoot ? run('runuser', ['-u', 'postgres', '--', join(bin, cmd), ...args]) : run(join(bin, cmd), args);
+  const port = await freePort();
+  await exec('initdb', ['-D', data, '-U', 'veer', '-A', 'trust', '--no-sync', '-E', 'UTF8', '--locale=C']);
+  const options = `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=off -c max_connections=60`;
+  await exec('pg_ctl', ['-D', data, '-o', options, '-l', join(dir, 'server.log'), '-w', '-t', '60', 'start']);
+  const url = `postgres://veer@127.0.0.1:${port}/postgres`;
+  return {
+    url,
+    kind: 'process',
+    freshDatabase: makeFresh(url),
+    stop: async () => {
+      await exec('pg_ctl', ['-D', data, '-m', 'immediate', '-w', 'stop']).catch(() => undefined);
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** Starts (or connects to) a PostgreSQL server for a test file. */
+export async function startPostgres(): Promise<TestPostgres> {
+  const envUrl = process.env.DATABASE_URL;
+  if (envUrl) return { url: envUrl, kind: 'env', freshDatabase: makeFresh(envUrl), stop: async () => undefined };
+  return (await startContainer()) ?? startProcess();
+}
