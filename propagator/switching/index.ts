@@ -1,0 +1,2 @@
+/** Central-body switching at spheres of influence. */
+export { laplaceSoiRadiusKm, soiRadiusKm, MEAN_SEMI_MAJOR_AXIS_KM, PRIMARY_OF } from './sphere-of-influence.ts';
