@@ -1,0 +1,86 @@
+import { describe, expect, it } from 'vitest';
+import {
+  BODY_NAMES, buildChebyshevEphemeris, createBuiltinEphemeris, InvalidInputError, OutOfSpanError, parseEpoch,
+} from '../../propagator/index.ts';
+import type { BodyName, Ephemeris } from '../../propagator/index.ts';
+
+const source = createBuiltinEphemeris();
+const start = parseEpoch('2027-01-01T00:00:00 TDB');
+const end = start + 120 * 86400;
+const cache = buildChebyshevEphemeris(source, { bodies: BODY_NAMES, startTdbS: start, endTdbS: end });
+
+/** Largest position (km) and velocity (km/s) difference between two sources over `samples` epochs
+ * spread by an irrational step (so they fall everywhere within segments). */
+function maxDifference(a: Ephemeris, b: Ephemeris, target: BodyName, centre: BodyName, samples: number): [number, number] {
+  const x = new Float64Array(6);
+  const y = new Float64Array(6);
+  let dp = 0;
+  let dv = 0;
+  for (let i = 0; i <= samples; i++) {
+    const t = start + (end - start) * ((i * 0.6180339887498949) % 1);
+    a.stateInto(target, centre, t, x);
+    b.stateInto(target, centre, t, y);
+    dp = Math.max(dp, Math.hypot(x[0] - y[0], x[1] - y[1], x[2] - y[2]));
+    dv = Math.max(dv, Math.hypot(x[3] - y[3], x[4] - y[4], x[5] - y[5]));
+  }
+  return [dp, dv];
+}
+
+describe('Chebyshev ephemeris cache', () => {
+  describe('when compared with its source at epochs between the fit nodes', () => {
+    const planets = BODY_NAMES.filter((b) => b !== 'sun' && b !== 'moon');
+    for (const planet of planets) {
+      it(`should reproduce ${planet} relative to the Sun within 1 m`, () => {
+        const [dp] = maxDifference(cache, source, planet, 'sun', 300);
+        expect(dp).toBeLessThan(1e-3);
+      });
+    }
+    it('should reproduce the Moon relative to the Earth within 0.1 m and 1 mm/s', () => {
+      const [dp, dv] = maxDifference(cache, source, 'moon', 'earth', 600);
+      expect(dp).toBeLessThan(1e-4);
+      // The source's lunar velocity is itself a numerical derivative, smooth to ~1e-6 km/s.
+      expect(dv).toBeLessThan(1e-6);
+    });
+    it('should reproduce the Sun relative to the Earth (a chained look-up) within 1 m', () => {
+      const [dp] = maxDifference(cache, source, 'sun', 'earth', 300);
+      expect(dp).toBeLessThan(1e-3);
+    });
+    it('should report a measured fit error within its tolerance for every body', () => {
+      for (const row of cache.fitReport()) expect(row.maxErrorKm).toBeLessThanOrEqual(5e-5);
+    });
+  });
+  describe('when asked for positions only', () => {
+    it('should match the first three components of the full state exactly', () => {
+      const s = new Float64Array(6);
+      const p = new Float64Array(3);
+      cache.stateInto('jupiter', 'moon', start + 1234.5, s);
+      cache.positionInto('jupiter', 'moon', start + 1234.5, p);
+      expect([...p]).toEqual([...s.subarray(0, 3)]);
+    });
+  });
+  describe('when the epoch is outside the cached span', () => {
+    it('should throw OutOfSpanError rather than extrapolate, and answer at both ends', () => {
+      const out = new Float64Array(6);
+      expect(() => cache.stateInto('mars', 'sun', end + 1e-3, out)).toThrow(OutOfSpanError);
+      expect(() => cache.stateInto('mars', 'sun', start - 1e-3, out)).toThrow(OutOfSpanError);
+      expect(() => cache.stateInto('mars', 'sun', end, out)).not.toThrow();
+      expect(() => cache.stateInto('mars', 'sun', start, out)).not.toThrow();
+    });
+  });
+  describe('when built with bad options', () => {
+    it('should name the field', () => {
+      expect(() => buildChebyshevEphemeris(source, { bodies: ['mars'], startTdbS: end, endTdbS: start }))
+        .toThrow(InvalidInputError);
+      expect(() => buildChebyshevEphemeris(source, { bodies: ['mars'], startTdbS: start, endTdbS: 1e11 }))
+        .toThrow(OutOfSpanError);
+      expect(() => buildChebyshevEphemeris(source, { bodies: ['mars'], startTdbS: start, endTdbS: end, coefficients: 3 }))
+        .toThrow(/coefficients/);
+      expect(() => buildChebyshevEphemeris(source, { bodies: ['mars'], startTdbS: start, endTdbS: end, toleranceKm: 0 }))
+        .toThrow(/toleranceKm/);
+    });
+    it('should refuse a body it was not built for', () => {
+      const small = buildChebyshevEphemeris(source, { bodies: ['mars'], startTdbS: start, endTdbS: start + 86400 });
+      expect(() => small.stateInto('venus', 'sun', start, new Float64Array(6))).toThrow(/not provided/);
+    });
+  });
+});
