@@ -7,3 +7,8 @@ export * from './ephemeris/index.ts';
 export * from './integrators/index.ts';
 export * from './forces/index.ts';
 export * from './frames/index.ts';
+export * from './propagation-types.ts';
+export { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
+export { propagate, propagateAsync, propagationSteps, type StepWatcher, type WatchStop } from './propagate.ts';
+export type { PropagationDynamics } from './propagation-dynamics.ts';
+export { createCowellRhs, createCowellDynamics } from './cowell.ts';

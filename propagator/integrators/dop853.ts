@@ -88,6 +88,8 @@ export class Dop853Stepper {
   get dydt(): Float64Array { return this.fNow; }
   /** Step size the controller proposes next (signed). */
   get nextStep(): number { return this.hNext; }
+  /** True when `denseOutput()` may be called (an accepted step since construction or `reset()`). */
+  get hasDenseOutput(): boolean { return this.denseValid; }
   /** Size of the last accepted step (signed); 0 before the first. */
   get lastStep(): number { return this.hLast; }
 
@@ -112,6 +114,7 @@ export class Dop853Stepper {
       if (landing && Math.abs(h) <= roundOff) {
         // tStop is within round-off of t: snap to it rather than take a meaningless step.
         this.tNow = tStop;
+        this.tPrev = tStop;
         this.denseValid = false;
         return 'accepted';
       }

@@ -1,0 +1,114 @@
+/**
+ * Checks a PropagationRequest before any work (InvalidInputError / OutOfSpanError naming the field)
+ * and resolves its defaults.
+ */
+import { InvalidInputError, OutOfSpanError } from './errors.ts';
+import { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
+import type { ImpulsiveBurn, PropagationMethod, PropagationRequest } from './propagation-types.ts';
+import { BODY_NAMES, INERTIAL_FRAMES } from './types.ts';
+
+/** A burn in the order the run meets it, with its index in the request. */
+export interface OrderedBurn extends ImpulsiveBurn {
+  requestIndex: number;
+}
+
+export interface CheckedRequest {
+  method: PropagationMethod;
+  startTdbS: number;
+  endTdbS: number;
+  direction: 1 | -1;
+  relativeTolerance: number;
+  absoluteTolerance: number;
+  maxSteps: number;
+  burns: OrderedBurn[];
+  outputStepS: number | null;
+  withStm: boolean;
+}
+
+function finite(value: unknown, field: string): number {
+  if (typeof value !== 'number' || !Number.isFinite(value)) {
+    throw new InvalidInputError(field, `must be a finite number, got ${String(value)}`);
+  }
+  return value;
+}
+
+function vector3(value: unknown, field: string): void {
+  if (!Array.isArray(value) || value.length !== 3) throw new InvalidInputError(field, 'must be an array of 3 numbers');
+  value.forEach((v, i) => finite(v, `${field}[${i}]`));
+}
+
+function inRange(value: unknown, lo: number, hi: number, field: string, loOpen = false): number {
+  const v = finite(value, field);
+  if (v > hi || v < lo || (loOpen && v === lo)) {
+    throw new InvalidInputError(field, `must lie in ${loOpen ? '(' : '['}${lo}, ${hi}], got ${v}`);
+  }
+  return v;
+}
+
+/** Validates the request's own fields (forces are checked by ForceModel, frames by frames/). */
+export function checkRequest(request: PropagationRequest): CheckedRequest {
+  const initial = request.initial;
+  if (initial === null || typeof initial !== 'object') throw new InvalidInputError('initial', 'must be a state vector');
+  const start = finite(initial.epochTdbS, 'initial.epochTdbS');
+  vector3(initial.positionKm, 'initial.positionKm');
+  vector3(initial.velocityKmS, 'initial.velocityKmS');
+  if (!(BODY_NAMES as readonly string[]).includes(initial.centre)) {
+    throw new InvalidInputError('initial.centre', `unknown body ${JSON.stringify(initial.centre)}`);
+  }
+  if (!(INERTIAL_FRAMES as readonly string[]).includes(initial.frame)) {
+    throw new InvalidInputError('initial.frame', `unknown frame ${JSON.stringify(initial.frame)}; use ${INERTIAL_FRAMES.join(' or ')}`);
+  }
+  const end = finite(request.endEpochTdbS, 'endEpochTdbS');
+  const direction: 1 | -1 = end >= start ? 1 : -1;
+  const method = request.method ?? PROPAGATION_DEFAULTS.method;
+  if (method !== 'cowell' && method !== 'encke') {
+    throw new InvalidInputError('method', `must be 'cowell' or 'encke', got ${JSON.stringify(method)}`);
+  }
+  const relativeTolerance = inRange(request.relativeTolerance ?? PROPAGATION_DEFAULTS.relativeTolerance, 1e-14, 1e-3, 'relativeTolerance');
+  const absoluteTolerance = inRange(request.absoluteTolerance ?? PROPAGATION_DEFAULTS.absoluteTolerance, 0, 1, 'absoluteTolerance', true);
+  const maxSteps = request.maxSteps ?? PROPAGATION_DEFAULTS.maxSteps;
+  if (!Number.isInteger(maxSteps) || maxSteps < 1) throw new InvalidInputError('maxSteps', `must be an integer >= 1, got ${maxSteps}`);
+  const burns = checkBurns(request.burns ?? [], start, end, direction);
+  let outputStepS: number | null = null;
+  if (request.outputStepS !== undefined) {
+    outputStepS = finite(request.outputStepS, 'outputStepS');
+    if (outputStepS <= 0) throw new InvalidInputError('outputStepS', `must be > 0, got ${outputStepS}`);
+    const count = Math.abs(end - start) / outputStepS;
+    if (count > PROPAGATION_DEFAULTS.maxSamples) {
+      throw new InvalidInputError('outputStepS', `would give ${Math.ceil(count)} samples (limit ${PROPAGATION_DEFAULTS.maxSamples})`);
+    }
+  }
+  return {
+    method, startTdbS: start, endTdbS: end, direction, relativeTolerance, absoluteTolerance, maxSteps, burns,
+    outputStepS, withStm: request.withStm === true,
+  };
+}
+
+function checkBurns(burns: ImpulsiveBurn[], start: number, end: number, direction: 1 | -1): OrderedBurn[] {
+  if (!Array.isArray(burns)) throw new InvalidInputError('burns', 'must be an array');
+  const lo = Math.min(start, end);
+  const hi = Math.max(start, end);
+  const ordered = burns.map((burn, i): OrderedBurn => {
+    const epoch = finite(burn?.epochTdbS, `burns[${i}].epochTdbS`);
+    vector3(burn.deltaVKmS, `burns[${i}].deltaVKmS`);
+    if (epoch < lo || epoch > hi) {
+      throw new InvalidInputError(`burns[${i}].epochTdbS`, `epoch ${epoch} lies outside the propagation span [${lo}, ${hi}]`);
+    }
+    if (direction < 0 && epoch === start) {
+      throw new InvalidInputError(`burns[${i}].epochTdbS`, 'a burn at the initial epoch of a backward propagation is '
+        + 'ambiguous; fold it into the initial state');
+    }
+    return { epochTdbS: epoch, deltaVKmS: [...burn.deltaVKmS], requestIndex: i };
+  });
+  // Stable sort in the direction of time: burns at one epoch apply in request order.
+  return ordered.sort((a, b) => direction * (a.epochTdbS - b.epochTdbS) || a.requestIndex - b.requestIndex);
+}
+
+/** Throws OutOfSpanError unless [start, end] lies inside the ephemeris span. */
+export function checkEphemerisSpan(span: { startTdbS: number; endTdbS: number }, name: string, start: number, end: number): void {
+  for (const [epoch, field] of [[start, 'initial.epochTdbS'], [end, 'endEpochTdbS']] as const) {
+    if (epoch < span.startTdbS || epoch > span.endTdbS) {
+      throw new OutOfSpanError(field, `epoch ${epoch} TDB s is outside the span of ${name} [${span.startTdbS}, ${span.endTdbS}]`);
+    }
+  }
+}

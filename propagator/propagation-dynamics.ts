@@ -1,0 +1,26 @@
+/**
+ * What the generic propagation loop (propagate.ts) needs from a formulation of the equations of motion
+ * (Cowell here; Encke plugs in the same way): the integration vector, its right-hand side, how to read
+ * the Cartesian state out of it and how to apply an impulsive Δv.
+ */
+import type { ForceModel } from './forces/index.ts';
+import type { RhsFunction } from './integrators/index.ts';
+
+export interface PropagationDynamics {
+  /** Integration vector at the start epoch (the run's stepper copies it). */
+  readonly initialY: Float64Array;
+  readonly rhs: RhsFunction;
+  /** Leading components of the integration vector that enter the step-size error norm. */
+  readonly errorComponents: number;
+  /** True when y[6..41] carries the 6x6 STM of the Cartesian state (see variational.ts). */
+  readonly withStm: boolean;
+  readonly forces: ForceModel;
+  /**
+   * Writes the Cartesian state at `epochTdbS` (km, km/s, J2000 equatorial, from the central body) for
+   * integration vector `y` into out[0..5].
+   */
+  cartesianInto(epochTdbS: number, y: Float64Array, out: Float64Array): void;
+  /** Adds `dvKmS` (km/s, J2000 equatorial; already signed for the direction of time) to the velocity
+   * held in `y` at `epochTdbS`, in place. */
+  applyImpulse(epochTdbS: number, y: Float64Array, dvKmS: ArrayLike<number>): void;
+}
