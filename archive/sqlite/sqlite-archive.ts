@@ -6,7 +6,7 @@
  */
 import Database from 'better-sqlite3';
 import { mkdirSync } from 'node:fs';
-import { dirname } from 'node:path';
+import { dirname, resolve } from 'node:path';
 import * as ops from '../operations.ts';
 import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
@@ -56,17 +56,52 @@ export function openSqliteDatabase(file: string, busyTimeoutMs = 15_000): Databa
   return db;
 }
 
+/**
+ * One connection per file per process, shared by every SqliteArchive on that file. better-sqlite3 is
+ * synchronous: a second connection in the same process waiting for the write lock would block the event
+ * loop that the lock holder needs to finish, so in-process writers share the connection and its queue.
+ */
+interface SharedConnection { db: Database.Database; queue: Promise<unknown>; users: number }
+const connections = new Map<string, SharedConnection>();
+
+function acquire(file: string, busyTimeoutMs?: number): SharedConnection {
+  const key = resolve(file);
+  let shared = connections.get(key);
+  if (!shared) {
+    const db = openSqliteDatabase(file, busyTimeoutMs);
+    migrateSqlite(db);
+    shared = { db, queue: Promise.resolve(), users: 0 };
+    connections.set(key, shared);
+  }
+  shared.users += 1;
+  return shared;
+}
+
+function release(file: string): void {
+  const key = resolve(file);
+  const shared = connections.get(key);
+  if (!shared) return;
+  shared.users -= 1;
+  if (shared.users <= 0) {
+    connections.delete(key);
+    shared.db.close();
+  }
+}
+
 export class SqliteArchive implements PlanArchive {
   readonly storeKind = 'sqlite' as const;
+  private readonly file: string;
+  private readonly shared: SharedConnection;
   private readonly db: Database.Database;
   private readonly now: () => Date;
-  private queue: Promise<unknown> = Promise.resolve();
   private readonly tx: ArchiveTx;
+  private closed = false;
 
   constructor(options: SqliteArchiveOptions) {
-    this.db = openSqliteDatabase(options.file, options.busyTimeoutMs);
+    this.file = options.file;
+    this.shared = acquire(options.file, options.busyTimeoutMs);
+    this.db = this.shared.db;
     this.now = options.now ?? (() => new Date());
-    migrateSqlite(this.db);
     this.tx = this.makeTx();
   }
 
@@ -148,7 +183,9 @@ export class SqliteArchive implements PlanArchive {
   }
 
   async close(): Promise<void> {
-    await this.serial(async () => this.db.close());
+    if (this.closed) return;
+    this.closed = true;
+    await this.serial(async () => release(this.file));
   }
 
   private page(from: number, limit: number): ArchiveEntry[] {
@@ -157,8 +194,8 @@ export class SqliteArchive implements PlanArchive {
 
   /** One operation at a time on this connection (the cross-process lock is SQLite's, taken by BEGIN IMMEDIATE). */
   private serial<T>(fn: () => Promise<T>): Promise<T> {
-    const run = this.queue.then(fn, fn);
-    this.queue = run.catch(() => undefined);
+    const run = this.shared.queue.then(fn, fn);
+    this.shared.queue = run.catch(() => undefined);
     return run;
   }
 

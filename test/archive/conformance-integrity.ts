@@ -1,0 +1,156 @@
+/**
+ * Conformance suite, part 2: tamper evidence and concurrency, against real databases and real processes.
+ */
+import { execFile } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { promisify } from 'node:util';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { ArchiveConflictError, type PlanArchive } from '../../archive/index.ts';
+import { makePlan, PROBLEM } from './fixtures.ts';
+import type { StoreFactory, StoreHandle } from './store-handles.ts';
+
+const run = promisify(execFile);
+const CHILD = fileURLToPath(new URL('./archive-child.ts', import.meta.url));
+
+export function describeArchiveIntegrity(factory: StoreFactory): void {
+  describe(`plan archive integrity on ${factory.name}`, () => {
+    let handle: StoreHandle;
+    let archive: PlanArchive;
+    beforeEach(async () => {
+      handle = await factory.create();
+      archive = await handle.open();
+    });
+    afterEach(async () => {
+      await archive.close();
+      await handle.dispose();
+    });
+
+    /** Six entries: three jobs each submitted and proposed (different target sets, so nothing is superseded). */
+    async function fill(): Promise<string[]> {
+      const ids: string[] = [];
+      for (let i = 1; i <= 3; i += 1) {
+        await archive.recordJobSubmitted({ jobId: `j${i}`, actor: 'ann', problem: { ...PROBLEM, i } });
+        ids.push((await archive.recordPlanProposed({ jobId: `j${i}`, actor: 'w', submittedBy: 'ann', plan: makePlan({ targetSetKey: `k${i}` }) })).planId);
+      }
+      return ids;
+    }
+
+    describe('when nobody has touched the database', () => {
+      it('should verify the whole chain', async () => {
+        await fill();
+        const report = await archive.verify();
+        expect(report).toMatchObject({ ok: true, entriesChecked: 6, firstFailure: null, projectionMismatches: [] });
+        expect(report.head.sequence).toBe(6);
+      });
+    });
+
+    describe('when a stored row is changed or removed through the application database', () => {
+      it('should refuse UPDATE and DELETE on entries while the append-only guards are in place', async () => {
+        await fill();
+        await expect(handle.sql("UPDATE archive_entries SET actor = 'mallory' WHERE sequence = 2")).rejects.toThrow(/append-only/);
+        await expect(handle.sql('DELETE FROM archive_entries WHERE sequence = 2')).rejects.toThrow(/append-only/);
+        expect((await archive.verify()).ok).toBe(true);
+      });
+    });
+
+    describe('when someone edits the database by hand', () => {
+      it('should name the entry whose payload was changed', async () => {
+        await fill();
+        for (const s of handle.dropGuardsSql) await handle.sql(s);
+        await handle.sql("UPDATE archive_entries SET payload = REPLACE(payload, '1.27', '0.27') WHERE sequence = 4");
+        const report = await archive.verify();
+        expect(report.ok).toBe(false);
+        expect(report.firstFailure).toMatchObject({ sequence: 4, reason: 'hash-mismatch' });
+        expect(report.lastGoodSequence).toBe(3);
+      });
+
+      it('should name an entry whose hash was recomputed to hide a change (its successor no longer points at it)', async () => {
+        await fill();
+        for (const s of handle.dropGuardsSql) await handle.sql(s);
+        await handle.sql("UPDATE archive_entries SET actor = 'mallory', hash = '" + 'f'.repeat(64) + "' WHERE sequence = 3");
+        const report = await archive.verify();
+        expect(report.firstFailure).toMatchObject({ sequence: 3, reason: 'hash-mismatch' });
+      });
+
+      it('should name a deleted entry as missing', async () => {
+        await fill();
+        for (const s of handle.dropGuardsSql) await handle.sql(s);
+        await handle.sql('DELETE FROM archive_entries WHERE sequence = 2');
+        expect((await archive.verify()).firstFailure).toMatchObject({ sequence: 2, reason: 'missing-entry' });
+      });
+
+      it('should notice the newest entry removed (the head still names it)', async () => {
+        await fill();
+        for (const s of handle.dropGuardsSql) await handle.sql(s);
+        await handle.sql('DELETE FROM archive_entries WHERE sequence = 6');
+        expect((await archive.verify()).firstFailure).toMatchObject({ sequence: 6, reason: 'missing-entry' });
+      });
+
+      it('should report a plan state changed in the projection table', async () => {
+        const [planId] = await fill();
+        await handle.sql(`UPDATE archive_plans SET state = 'approved', decided_by = 'mallory' WHERE plan_id = '${planId}'`);
+        const report = await archive.verify();
+        expect(report.ok).toBe(false);
+        expect(report.firstFailure).toBeNull();
+        expect(report.projectionMismatches).toEqual(expect.arrayContaining([
+          { planId, field: 'state', derived: 'proposed', stored: 'approved' },
+          { planId, field: 'decidedBy', derived: null, stored: 'mallory' },
+        ]));
+      });
+    });
+
+    describe('when four processes append at the same time', () => {
+      it('should keep one unbroken chain with every entry', async () => {
+        const perProcess = 12;
+        const outputs = await Promise.all([0, 1, 2, 3].map((i) =>
+          run(process.execPath, ['--import', 'tsx', CHILD, 'append', handle.location, String(i), String(perProcess)], { timeout: 60_000 })));
+        const planIds = outputs.flatMap((o) => JSON.parse(o.stdout.trim()) as string[]);
+        expect(new Set(planIds).size).toBe(4 * perProcess);
+        const report = await archive.verify();
+        expect(report.firstFailure).toBeNull();
+        expect(report.ok).toBe(true);
+        const entries = await archive.entries(1, 1000);
+        expect(entries.map((e) => e.sequence)).toEqual(Array.from({ length: entries.length }, (_, i) => i + 1));
+        expect(entries.filter((e) => e.kind === 'plan-proposed')).toHaveLength(4 * perProcess);
+        // Supersession raced too: exactly one proposed plan is left per target-set key.
+        for (const key of ['key-0', 'key-1', 'key-2']) {
+          const open = (await archive.listPlans({ state: 'proposed', limit: 1000 })).filter((p) => p.targetSetKey === key);
+          expect(open, key).toHaveLength(1);
+        }
+      });
+    });
+
+    describe('when two reviewers decide the same plan at once', () => {
+      it('should let exactly one win and refuse the other with a conflict', async () => {
+        const [planId] = await fill();
+        const second = await handle.open();
+        try {
+          const results = await Promise.allSettled([
+            archive.recordReview({ planId, reviewer: 'bob', decision: 'approve', comment: '', acknowledgedCaveatCodes: [] }),
+            second.recordReview({ planId, reviewer: 'cy', decision: 'reject', comment: 'no', acknowledgedCaveatCodes: [] }),
+          ]);
+          const won = results.filter((r) => r.status === 'fulfilled');
+          const lost = results.filter((r): r is PromiseRejectedResult => r.status === 'rejected');
+          expect(won).toHaveLength(1);
+          expect(lost).toHaveLength(1);
+          expect(lost[0].reason).toBeInstanceOf(ArchiveConflictError);
+          expect((await archive.history(planId)).filter((e) => e.kind === 'review')).toHaveLength(1);
+        } finally {
+          await second.close();
+        }
+      });
+
+      it('should let exactly one of several processes win', async () => {
+        const [planId] = await fill();
+        const startAt = String(Date.now() + 2500);
+        const outputs = await Promise.all(['bob', 'cy', 'dee'].map((reviewer) =>
+          run(process.execPath, ['--import', 'tsx', CHILD, 'review', handle.location, planId, reviewer, startAt], { timeout: 60_000 })));
+        const answers = outputs.map((o) => JSON.parse(o.stdout.trim()) as { ok?: boolean; error?: string });
+        expect(answers.filter((a) => a.ok)).toHaveLength(1);
+        expect(answers.filter((a) => a.error === 'ArchiveConflictError')).toHaveLength(2);
+        expect((await archive.history(planId)).filter((e) => e.kind === 'review')).toHaveLength(1);
+        expect((await archive.verify()).ok).toBe(true);
+      });
+    });
+  });
+}
