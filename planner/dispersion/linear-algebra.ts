@@ -1,0 +1,128 @@
+/** Small dense matrix helpers for covariances (row-major number[][]); sizes up to ~10, so plain loops. */
+import { InvalidInputError } from '../../propagator/index.ts';
+
+export type Matrix = number[][];
+
+export function zeros(rows: number, cols: number): Matrix {
+  return Array.from({ length: rows }, () => new Array<number>(cols).fill(0));
+}
+
+export function transpose(a: Matrix): Matrix {
+  return a[0].map((_, j) => a.map((row) => row[j]));
+}
+
+export function multiply(a: Matrix, b: Matrix): Matrix {
+  const out = zeros(a.length, b[0].length);
+  for (let i = 0; i < a.length; i += 1) {
+    for (let k = 0; k < b.length; k += 1) {
+      const aik = a[i][k];
+      if (aik === 0) continue;
+      for (let j = 0; j < b[0].length; j += 1) out[i][j] += aik * b[k][j];
+    }
+  }
+  return out;
+}
+
+export function add(a: Matrix, b: Matrix): Matrix {
+  return a.map((row, i) => row.map((v, j) => v + b[i][j]));
+}
+
+/** (A + Aᵀ)/2: removes round-off asymmetry from covariance products. */
+export function symmetrise(a: Matrix): Matrix {
+  return a.map((row, i) => row.map((v, j) => (v + a[j][i]) / 2));
+}
+
+/** Checks a square, finite, symmetric matrix of size n; names `field` in the error. */
+export function requireCovariance(field: string, a: Matrix, n: number): void {
+  if (!Array.isArray(a) || a.length !== n || a.some((row) => !Array.isArray(row) || row.length !== n)) {
+    throw new InvalidInputError(field, `must be a ${n}x${n} matrix`);
+  }
+  for (let i = 0; i < n; i += 1) {
+    for (let j = 0; j < n; j += 1) {
+      if (!Number.isFinite(a[i][j])) throw new InvalidInputError(`${field}[${i}][${j}]`, `must be finite, got ${a[i][j]}`);
+      const scale = Math.max(Math.abs(a[i][j]), Math.abs(a[j][i]), 1e-300);
+      if (Math.abs(a[i][j] - a[j][i]) > 1e-9 * scale) {
+        throw new InvalidInputError(`${field}[${i}][${j}]`, `matrix is not symmetric: ${a[i][j]} vs ${a[j][i]}`);
+      }
+    }
+    if (a[i][i] < 0) throw new InvalidInputError(`${field}[${i}][${i}]`, `variance must be >= 0, got ${a[i][i]}`);
+  }
+}
+
+/**
+ * Lower-triangular L with L·Lᵀ = A for a symmetric positive semi-definite A. Pivots within
+ * 1e-12·max(diag) of zero are taken as zero (a degenerate direction gets no spread).
+ * @throws InvalidInputError naming `field` when A is not positive semi-definite.
+ */
+export function choleskySemidefinite(a: Matrix, field = 'covariance'): Matrix {
+  const n = a.length;
+  const l = zeros(n, n);
+  const maxDiag = Math.max(...a.map((row, i) => Math.abs(row[i])), 0);
+  const floor = 1e-12 * maxDiag;
+  for (let j = 0; j < n; j += 1) {
+    let d = a[j][j];
+    for (let k = 0; k < j; k += 1) d -= l[j][k] * l[j][k];
+    if (d < -floor * 10 - 1e-300) {
+      throw new InvalidInputError(field, `is not positive semi-definite (pivot ${j} = ${d.toExponential(3)})`);
+    }
+    if (d <= floor) continue; // zero column
+    const ljj = Math.sqrt(d);
+    l[j][j] = ljj;
+    for (let i = j + 1; i < n; i += 1) {
+      let s = a[i][j];
+      for (let k = 0; k < j; k += 1) s -= l[i][k] * l[j][k];
+      l[i][j] = s / ljj;
+    }
+  }
+  return l;
+}
+
+/** Inverse of a symmetric positive definite matrix by Gauss–Jordan with partial pivoting.
+ * @throws InvalidInputError naming `field` when singular. */
+export function invert(a: Matrix, field = 'matrix'): Matrix {
+  const n = a.length;
+  const m = a.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
+  const scale = Math.max(...a.flat().map(Math.abs), 1e-300);
+  for (let c = 0; c < n; c += 1) {
+    let p = c;
+    for (let r = c + 1; r < n; r += 1) if (Math.abs(m[r][c]) > Math.abs(m[p][c])) p = r;
+    if (Math.abs(m[p][c]) <= 1e-14 * scale) throw new InvalidInputError(field, 'matrix is singular');
+    [m[c], m[p]] = [m[p], m[c]];
+    const pivot = m[c][c];
+    for (let j = 0; j < 2 * n; j += 1) m[c][j] /= pivot;
+    for (let r = 0; r < n; r += 1) {
+      if (r === c || m[r][c] === 0) continue;
+      const f = m[r][c];
+      for (let j = 0; j < 2 * n; j += 1) m[r][j] -= f * m[c][j];
+    }
+  }
+  return m.map((row) => row.slice(n));
+}
+
+/** Determinant by LU with partial pivoting. */
+export function determinant(a: Matrix): number {
+  const n = a.length;
+  const m = a.map((row) => [...row]);
+  let det = 1;
+  for (let c = 0; c < n; c += 1) {
+    let p = c;
+    for (let r = c + 1; r < n; r += 1) if (Math.abs(m[r][c]) > Math.abs(m[p][c])) p = r;
+    if (m[p][c] === 0) return 0;
+    if (p !== c) { [m[c], m[p]] = [m[p], m[c]]; det = -det; }
+    det *= m[c][c];
+    for (let r = c + 1; r < n; r += 1) {
+      const f = m[r][c] / m[c][c];
+      for (let j = c; j < n; j += 1) m[r][j] -= f * m[c][j];
+    }
+  }
+  return det;
+}
+
+export function trace(a: Matrix): number {
+  return a.reduce((s, row, i) => s + row[i], 0);
+}
+
+/** Rows `indices` and the same columns of a square matrix. */
+export function subMatrix(a: Matrix, indices: readonly number[]): Matrix {
+  return indices.map((i) => indices.map((j) => a[i][j]));
+}
