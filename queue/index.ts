@@ -1,2 +1,25 @@
-/** Public face of queue/: other rooms import from here only. */
-export {};
+/**
+ * Public face of queue/: the retarget queue (producer side for the API), the worker, job shapes and
+ * configuration. queue/ imports planner/ and archive/ only, and knows nothing of HTTP.
+ *
+ * The API gets the planner's problem schema through `jobRequestSchema` here (it embeds `problemSchema`),
+ * so api/ never imports planner/.
+ */
+export {
+  JOB_NAMES, JOB_STATES, PRIORITIES, RETARGET_QUEUE, BULL_PRIORITY, idempotencyKeySchema, jobRequestSchema,
+  type JobProgress, type JobRequest, type JobRequestInput, type JobState, type JobStatus, type Priority,
+  type RetargetJobData, type RetargetJobResult, type SampleBatchData, type SampleBatchResult,
+} from './job-types.ts';
+export { RetargetQueue, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './retarget-queue.ts';
+export { JobEventHub, type JobEvent } from './job-events.ts';
+export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './retarget-worker.ts';
+export { ArchivePlanSink, JobResultSink, type ArchiveAppends, type PlanSink, type ProposedPlanInput } from './plan-sink.ts';
+export { createPlanSink } from './sink-from-config.ts';
+export { PlannerPool, type PlannerPoolOptions } from './planner-pool.ts';
+export { sampleBatches } from './processor.ts';
+export { findProblemIssue, type ProblemIssue } from './job-request-check.ts';
+export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from './env-config.ts';
+export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './worker-config.ts';
+export { createRedis } from './connection.ts';
+export { createLogger } from './logger.ts';
+export { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, cancelKey, type CancelRecord } from './cancellation.ts';

@@ -1,0 +1,53 @@
+/**
+ * JSON errors: `{ error: { code, message, issues? } }`. Never a stack trace in a response: unexpected
+ * errors are logged with their stack and answered with a plain 500 and the request id.
+ */
+import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
+import type { Logger } from 'pino';
+
+/** One failing field: `path` is dotted with [i] for array items, rooted at body/query/params. */
+export interface FieldIssue { path: string; message: string; code?: string }
+
+/** An error with an HTTP status, safe to show the client. */
+export class HttpError extends Error {
+  override readonly name = 'HttpError';
+  constructor(readonly status: number, readonly code: string, message: string, readonly issues?: FieldIssue[]) {
+    super(message);
+  }
+}
+
+export function sendError(res: Response, status: number, code: string, message: string, issues?: FieldIssue[]): void {
+  if (res.headersSent) return;
+  res.status(status).json({ error: { code, message, ...(issues ? { issues } : {}) } });
+}
+
+/** 404 for every route nobody answered. */
+export const notFound: RequestHandler = (req, res) => {
+  sendError(res, 404, 'NOT_FOUND', `no route ${req.method} ${req.path}`);
+};
+
+interface BodyParserError { type?: string; status?: number; expose?: boolean; limit?: number }
+
+/** The last middleware: maps known errors to their status, everything else to 500 without details. */
+export function errorHandler(logger: Logger): ErrorRequestHandler {
+  return (err: unknown, req: Request, res: Response, _next) => {
+    if (err instanceof HttpError) { sendError(res, err.status, err.code, err.message, err.issues); return; }
+    const bp = (typeof err === 'object' && err !== null ? err : {}) as BodyParserError;
+    if (bp.type === 'entity.too.large') {
+      sendError(res, 413, 'PAYLOAD_TOO_LARGE', `request body larger than the limit of ${bp.limit ?? '?'} bytes`);
+      return;
+    }
+    if (bp.type === 'entity.parse.failed') { sendError(res, 400, 'INVALID_JSON', 'request body is not valid JSON'); return; }
+    if (bp.type === 'encoding.unsupported' || bp.type === 'charset.unsupported') {
+      sendError(res, 415, 'UNSUPPORTED_ENCODING', 'unsupported body encoding or charset');
+      return;
+    }
+    if (typeof bp.status === 'number' && bp.status >= 400 && bp.status < 500 && bp.expose) {
+      sendError(res, bp.status, 'BAD_REQUEST', 'malformed request');
+      return;
+    }
+    const requestId = String(res.locals.requestId ?? '');
+    logger.error({ err, requestId, method: req.method, path: req.path }, 'unhandled error');
+    sendError(res, 500, 'INTERNAL', `internal error (request id ${requestId})`);
+  };
+}

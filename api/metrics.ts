@@ -1,0 +1,62 @@
+/**
+ * Prometheus metrics (prom-client) on a registry of our own: jobs by state, queue depth and worker count
+ * (read from Redis at scrape time), job run duration (observed from queue events), HTTP request durations.
+ */
+import { Counter, Gauge, Histogram, Registry, collectDefaultMetrics } from 'prom-client';
+import { JOB_NAMES, type JobEventHub, type RetargetQueue } from '../queue/index.ts';
+
+export class ServiceMetrics {
+  readonly registry = new Registry();
+  readonly httpDuration: Histogram<'method' | 'route' | 'status'>;
+  readonly jobDuration: Histogram<'outcome'>;
+  readonly submissions: Counter<'outcome'>;
+  private unsubscribe: (() => void) | null = null;
+
+  constructor(private readonly queue: RetargetQueue) {
+    const registers = [this.registry];
+    collectDefaultMetrics({ register: this.registry, prefix: 'veer_api_' });
+    new Gauge({
+      name: 'veer_jobs', help: 'Jobs in the queue by state (retarget jobs and Monte Carlo batches)', labelNames: ['state'], registers,
+      collect: async function collect(this: Gauge<'state'>) {
+        const counts = await queue.counts();
+        for (const [state, n] of Object.entries(counts)) this.set({ state }, n);
+      },
+    });
+    new Gauge({
+      name: 'veer_queue_depth', help: 'Jobs waiting for a worker (waiting + delayed)', registers,
+      collect: async function collect(this: Gauge) {
+        const c = await queue.counts();
+        this.set(c.waiting + c.delayed);
+      },
+    });
+    new Gauge({
+      name: 'veer_workers', help: 'Worker connections seen on the queue', registers,
+      collect: async function collect(this: Gauge) { this.set(await queue.workerCount()); },
+    });
+    this.jobDuration = new Histogram({
+      name: 'veer_job_duration_seconds', help: 'Run time of finished retarget jobs (processing start to end)',
+      labelNames: ['outcome'], buckets: [0.05, 0.1, 0.25, 0.5, 1, 2.5, 5, 10, 30, 60, 120, 300, 900], registers,
+    });
+    this.httpDuration = new Histogram({
+      name: 'veer_http_request_duration_seconds', help: 'HTTP request durations', labelNames: ['method', 'route', 'status'],
+      buckets: [0.001, 0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5, 1, 2.5], registers,
+    });
+    this.submissions = new Counter({
+      name: 'veer_job_submissions_total', help: 'Job submissions by outcome (created, existing, conflict, invalid)',
+      labelNames: ['outcome'], registers,
+    });
+  }
+
+  /** Observes job durations from queue events. */
+  watch(events: JobEventHub): void {
+    this.unsubscribe = events.subscribe('*', (e) => {
+      if (e.type !== 'completed' && e.type !== 'failed') return;
+      void this.queue.queue.getJob(e.jobId).then((job) => {
+        if (!job || job.name !== JOB_NAMES.retarget || !job.processedOn || !job.finishedOn) return;
+        this.jobDuration.observe({ outcome: e.type }, (job.finishedOn - job.processedOn) / 1000);
+      }, () => {});
+    });
+  }
+
+  stop(): void { this.unsubscribe?.(); }
+}

@@ -1,0 +1,77 @@
+/**
+ * Live progress of a job as server-sent events: `status` (the full status, first and on every state
+ * change), `progress` (stage, fraction, iteration, samples), then `end` (final status) and the stream closes.
+ * A comment line every SSE_HEARTBEAT_S keeps proxies from closing an idle stream.
+ */
+import type { Response } from 'express';
+import { z } from 'zod';
+import type { JobEvent, JobStatus } from '../../queue/index.ts';
+import type { AppDeps } from '../deps.ts';
+import { sendError } from '../errors.ts';
+import type { ApiRoutes } from '../route-table.ts';
+import { jobParamsSchema } from '../schemas.ts';
+import { validOf } from '../validate.ts';
+
+const FINAL = new Set(['completed', 'failed', 'cancelled']);
+
+function write(res: Response, event: string, data: unknown): void {
+  res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
+}
+
+export function jobEventRoutes(routes: ApiRoutes, deps: AppDeps): void {
+  routes.add({
+    method: 'get', path: '/v1/jobs/:jobId/events', tags: ['jobs'], roles: ['submitter', 'reviewer', 'auditor'],
+    summary: 'Live progress stream (server-sent events)',
+    description: 'Events: `status` (JobStatus JSON), `progress` (JobProgress JSON), `end` (final JobStatus); then the stream closes.',
+    params: jobParamsSchema,
+    responses: {
+      200: { description: 'text/event-stream of status, progress and end events', schema: z.string(), contentType: 'text/event-stream' },
+      404: { description: 'No such job' },
+    },
+  }, async (req, res) => {
+    const { jobId } = validOf<z.infer<typeof jobParamsSchema>, unknown, unknown>(res).params;
+    const first = await deps.queue.status(jobId);
+    if (!first) { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${jobId}`); return; }
+    res.status(200).set({
+      'Content-Type': 'text/event-stream; charset=utf-8', 'Cache-Control': 'no-cache, no-transform',
+      Connection: 'keep-alive', 'X-Accel-Buffering': 'no',
+    });
+    res.flushHeaders();
+    res.write('retry: 2000\n\n');
+    let closed = false;
+    let lastState = first.state;
+    const cleanups: (() => void)[] = [];
+    const close = (): void => {
+      if (closed) return;
+      closed = true;
+      for (const c of cleanups) c();
+      res.end();
+    };
+    const refresh = async (): Promise<JobStatus | undefined> => {
+      const s = await deps.queue.status(jobId);
+      if (closed || !s) return s;
+      if (FINAL.has(s.state)) { write(res, 'end', s); close(); return s; }
+      if (s.state !== lastState) { lastState = s.state; write(res, 'status', s); }
+      if (s.state === 'waiting-children' && s.progress) write(res, 'progress', s.progress);
+      return s;
+    };
+    write(res, 'status', first);
+    if (FINAL.has(first.state)) { write(res, 'end', first); close(); return; }
+    const onEvent = (e: JobEvent): void => {
+      if (closed) return;
+      if (e.type === 'progress') { write(res, 'progress', e.data); return; }
+      void refresh().catch((err: unknown) => deps.logger.warn({ err, jobId }, 'progress stream refresh failed'));
+    };
+    cleanups.push(deps.events.subscribe(jobId, onEvent));
+    // Sample batches of a fanned-out run report on their parent's stream.
+    const childPrefix = `${jobId}-mc-`;
+    cleanups.push(deps.events.subscribe('*', (e) => {
+      if (e.type === 'completed' && e.jobId.startsWith(childPrefix)) onEvent({ type: 'waiting-children', jobId });
+    }));
+    const heartbeat = setInterval(() => { if (!closed) res.write(': keep-alive\n\n'); }, deps.limits.sseHeartbeatMs);
+    cleanups.push(() => clearInterval(heartbeat));
+    req.on('close', close);
+    // The job may have moved on between the first read and the subscription.
+    await refresh();
+  });
+}

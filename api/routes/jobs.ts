@@ -1,0 +1,127 @@
+/**
+ * Retargeting jobs: submit (202 new / 200 same idempotency key and request / 409 same key, other request),
+ * list, status, cancel.
+ */
+import type { Request, Response } from 'express';
+import { z } from 'zod';
+import { findProblemIssue, type JobRequest } from '../../queue/index.ts';
+import { identityOf } from '../auth/index.ts';
+import type { AppDeps } from '../deps.ts';
+import { HttpError, sendError } from '../errors.ts';
+import type { ApiRoutes } from '../route-table.ts';
+import {
+  cancelBodySchema, idempotencyKeySchema, jobListQuerySchema, jobParamsSchema, jobRequestSchema, jobStatusSchema,
+  submitResponseSchema,
+} from '../schemas.ts';
+import { validOf } from '../validate.ts';
+
+const READERS = ['submitter', 'reviewer', 'auditor'] as const;
+
+export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
+  routes.add({
+    method: 'post', path: '/v1/jobs', tags: ['jobs'], roles: ['submitter'],
+    summary: 'Submit a retargeting job',
+    description: 'Validates the problem (schema, then semantic checks), enqueues it and answers 202 with the job id. '
+      + 'With an idempotency key (body `idempotencyKey` or header `Idempotency-Key`): the same key and the same request '
+      + 'answer 200 with the existing job; the same key with a different request answers 409. Keys are per submitter.',
+    body: jobRequestSchema,
+    responses: {
+      202: { description: 'Job created', schema: submitResponseSchema },
+      200: { description: 'Same idempotency key and request: the existing job', schema: submitResponseSchema },
+      409: { description: 'Idempotency key already used for a different request' },
+    },
+  }, async (req: Request, res: Response) => {
+    const request = { ...validOf<unknown, unknown, JobRequest>(res).body };
+    const headerKey = req.get('idempotency-key');
+    if (headerKey !== undefined) {
+      const parsed = idempotencyKeySchema.safeParse(headerKey);
+      if (!parsed.success) {
+        throw new HttpError(400, 'INVALID_REQUEST', 'invalid Idempotency-Key header', [{ path: 'headers.idempotency-key', message: parsed.error.issues[0]?.message ?? 'invalid' }]);
+      }
+      if (request.idempotencyKey && request.idempotencyKey !== parsed.data) {
+        throw new HttpError(400, 'INVALID_REQUEST', 'Idempotency-Key header and body idempotencyKey differ', [{ path: 'body.idempotencyKey', message: 'differs from the Idempotency-Key header' }]);
+      }
+      request.idempotencyKey = parsed.data;
+    }
+    const issue = findProblemIssue(request.problem);
+    if (issue) {
+      deps.metrics.submissions.inc({ outcome: 'invalid' });
+      throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.problem.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
+    }
+    const identity = identityOf(req);
+    const outcome = await deps.queue.submit(request, identity.name);
+    deps.metrics.submissions.inc({ outcome: outcome.outcome });
+    if (outcome.outcome === 'conflict') {
+      sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
+      return;
+    }
+    if (outcome.outcome === 'created' && deps.archive) {
+      // The worker records it too (idempotent by job id); recording here also covers jobs cancelled before they run.
+      await deps.archive.recordJobSubmitted({
+        jobId: outcome.jobId, actor: identity.name, problem: request.problem, reason: request.reason,
+      }).catch((err: unknown) => deps.logger.error({ err, jobId: outcome.jobId }, 'archive: job-submitted not recorded'));
+    }
+    const body = {
+      jobId: outcome.jobId, outcome: outcome.outcome,
+      statusUrl: `/v1/jobs/${outcome.jobId}`, eventsUrl: `/v1/jobs/${outcome.jobId}/events`,
+    };
+    res.status(outcome.outcome === 'created' ? 202 : 200).location(body.statusUrl).json(body);
+  });
+
+  routes.add({
+    method: 'get', path: '/v1/jobs', tags: ['jobs'], roles: [...READERS],
+    summary: 'List recent retargeting jobs', query: jobListQuerySchema,
+    responses: { 200: { description: 'Jobs, newest first', schema: z.object({ jobs: z.array(jobStatusSchema) }) } },
+  }, async (_req, res) => {
+    const q = validOf<unknown, z.infer<typeof jobListQuerySchema>, unknown>(res).query;
+    const states = q.state === 'waiting' ? ['waiting', 'prioritized'] as const : q.state ? [q.state] as const
+      : ['waiting', 'prioritized', 'delayed', 'active', 'waiting-children', 'completed', 'failed'] as const;
+    res.json({ jobs: await deps.queue.list([...states], q.offset, q.offset + q.limit - 1) });
+  });
+
+  routes.add({
+    method: 'get', path: '/v1/jobs/:jobId', tags: ['jobs'], roles: [...READERS],
+    summary: 'Status and progress of a job', params: jobParamsSchema,
+    responses: { 200: { description: 'Job status', schema: jobStatusSchema }, 404: { description: 'No such job' } },
+  }, async (_req, res) => {
+    const { jobId } = validOf<z.infer<typeof jobParamsSchema>, unknown, unknown>(res).params;
+    const status = await deps.queue.status(jobId);
+    if (!status) { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${jobId}`); return; }
+    res.json(status);
+  });
+
+  routes.add({
+    method: 'post', path: '/v1/jobs/:jobId/cancel', tags: ['jobs'], roles: ['submitter', 'admin'],
+    summary: 'Cancel a job',
+    description: 'A waiting job is removed at once (200, state cancelled). A running one is told to stop (202); it ends '
+      + 'in state cancelled. A finished job answers 409. Submitters may cancel only their own jobs; admins any.',
+    params: jobParamsSchema, body: cancelBodySchema,
+    responses: {
+      200: { description: 'Cancelled', schema: jobStatusSchema },
+      202: { description: 'Cancellation requested; the job stops shortly', schema: jobStatusSchema },
+      404: { description: 'No such job' },
+      409: { description: 'The job already finished' },
+    },
+  }, async (req, res) => {
+    const { params, body } = validOf<z.infer<typeof jobParamsSchema>, unknown, z.infer<typeof cancelBodySchema>>(res);
+    const identity = identityOf(req);
+    const before = await deps.queue.status(params.jobId);
+    if (!before) { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${params.jobId}`); return; }
+    if (!identity.roles.includes('admin') && before.submittedBy !== identity.name) {
+      sendError(res, 403, 'FORBIDDEN', 'submitters may cancel only their own jobs');
+      return;
+    }
+    const outcome = await deps.queue.cancel(params.jobId, identity.name, body.reason);
+    if (outcome.outcome === 'not-found') { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${params.jobId}`); return; }
+    if (outcome.outcome === 'already-finished') {
+      sendError(res, 409, 'JOB_FINISHED', `job ${params.jobId} already finished (${outcome.state})`);
+      return;
+    }
+    if (outcome.outcome === 'cancelled' && deps.archive) {
+      await deps.archive.recordJobCancelled({ jobId: params.jobId, actor: identity.name, reason: body.reason })
+        .catch((err: unknown) => deps.logger.error({ err, jobId: params.jobId }, 'archive: job-cancelled not recorded'));
+    }
+    const after = await deps.queue.status(params.jobId);
+    res.status(outcome.outcome === 'cancelled' ? 200 : 202).json(after ?? before);
+  });
+}

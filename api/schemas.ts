@@ -1,0 +1,108 @@
+/**
+ * zod schemas of what the routes take and return (request schemas validate; response schemas document the
+ * OpenAPI side). The problem itself is the planner's one schema, reached through queue/'s jobRequestSchema.
+ */
+import { z } from 'zod';
+import { JOB_STATES, PRIORITIES, idempotencyKeySchema, jobRequestSchema, type JobStatus } from '../queue/index.ts';
+
+export { jobRequestSchema };
+
+/** Ids of jobs (`j-<uuid>` or `k-<hex>`) and plans: a conservative token. */
+export const idSchema = z.string().regex(/^[A-Za-z0-9_.:-]{1,128}$/, { error: 'must be 1–128 of A-Z a-z 0-9 _ . : -' });
+
+export const jobParamsSchema = z.object({ jobId: idSchema }).strict();
+export const planParamsSchema = z.object({ planId: idSchema }).strict();
+
+export const submitHeadersNote = 'An `Idempotency-Key` header may be given instead of the body field (same rules).';
+export { idempotencyKeySchema };
+
+export const cancelBodySchema = z.object({
+  reason: z.string().trim().min(1).max(500).default('cancelled on request'),
+}).strict();
+
+const progressSchema = z.object({
+  stage: z.enum(['validating', 'correcting', 'cross-checking', 'dispersion', 'done']),
+  fraction: z.number().min(0).max(1),
+  message: z.string(),
+  iteration: z.number().int().optional(),
+  samplesDone: z.number().int().optional(),
+  samplesTotal: z.number().int().optional(),
+  at: z.string(),
+});
+
+export const jobStatusSchema = z.object({
+  id: z.string(),
+  state: z.enum(JOB_STATES),
+  priority: z.enum(PRIORITIES),
+  submittedBy: z.string(),
+  submittedAt: z.string(),
+  reason: z.string(),
+  spacecraftName: z.string(),
+  problemHash: z.string().optional(),
+  attemptsMade: z.number().int(),
+  progress: progressSchema.nullable(),
+  startedAt: z.string().nullable(),
+  finishedAt: z.string().nullable(),
+  result: z.object({
+    planId: z.string(), planStatus: z.enum(['converged', 'not-converged']), problemHash: z.string(), storedIn: z.string(),
+  }).nullable(),
+  error: z.object({ name: z.string(), field: z.string().optional(), message: z.string() }).nullable(),
+  cancelRequested: z.boolean(),
+});
+// Compile-time check that the documented shape is the one the queue returns.
+const _statusShape: z.infer<typeof jobStatusSchema> = null as unknown as JobStatus;
+void _statusShape;
+
+export const submitResponseSchema = z.object({
+  jobId: z.string(),
+  /** `created` (202), `existing` (200: same key, same request). */
+  outcome: z.enum(['created', 'existing']),
+  statusUrl: z.string(),
+  eventsUrl: z.string(),
+});
+
+export const jobListQuerySchema = z.object({
+  state: z.enum(['waiting', 'delayed', 'active', 'waiting-children', 'completed', 'failed']).optional(),
+  limit: z.coerce.number().int().min(1).max(200).default(50),
+  offset: z.coerce.number().int().min(0).max(100_000).default(0),
+}).strict();
+
+export const planListQuerySchema = z.object({
+  state: z.enum(['proposed', 'approved', 'rejected', 'superseded']).optional(),
+  spacecraft: z.string().min(1).max(80).optional(),
+  from: z.iso.datetime({ error: 'must be an ISO 8601 UTC time, e.g. 2030-01-01T00:00:00Z' }).optional(),
+  to: z.iso.datetime({ error: 'must be an ISO 8601 UTC time, e.g. 2030-01-01T00:00:00Z' }).optional(),
+  converged: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),
+  limit: z.coerce.number().int().min(1).max(1000).default(100),
+  offset: z.coerce.number().int().min(0).max(1_000_000).default(0),
+}).strict();
+
+export const planSummarySchema = z.object({
+  planId: z.string(),
+  jobId: z.string(),
+  spacecraftName: z.string(),
+  state: z.enum(['proposed', 'approved', 'rejected', 'superseded']),
+  converged: z.boolean(),
+  crossCheckPassed: z.boolean(),
+  caveatCodes: z.array(z.string()),
+  submittedBy: z.string(),
+  proposedAt: z.string(),
+});
+
+export const planResponseSchema = z.object({
+  summary: planSummarySchema,
+  /** The full plan document as the planner produced it (ManeuverPlan, planFormatVersion 1). */
+  plan: z.record(z.string(), z.unknown()).describe('ManeuverPlan (planFormatVersion 1): burns, targets, cross-check, dispersion, caveats, trajectory'),
+  notice: z.string(),
+});
+
+export const healthSchema = z.object({ status: z.literal('ok') });
+export const readySchema = z.object({
+  ready: z.boolean(),
+  redis: z.object({ ok: z.boolean(), latencyMs: z.number().nullable(), error: z.string().optional() }),
+  workers: z.object({ ok: z.boolean(), count: z.number().int() }),
+});
+
+/** Shown with every plan. */
+export const REVIEW_NOTICE = 'PROPOSAL ONLY: this maneuver plan must be reviewed and approved by qualified flight-dynamics staff, '
+  + 'verified independently, and handled under the mission\'s own procedures before anything is commanded.';

@@ -1,0 +1,56 @@
+/**
+ * Reading configuration from environment variables with a zod schema: every bad value is reported on its
+ * own line, naming the variable, what it must be, and what was given.
+ */
+import { z } from 'zod';
+
+/** Start-up configuration that cannot be used; `problems` has one line per bad variable. */
+export class ConfigError extends Error {
+  override readonly name = 'ConfigError';
+  readonly code = 'BAD_CONFIGURATION';
+  readonly problems: string[];
+  constructor(problems: string[]) {
+    super(`invalid configuration:\n  ${problems.join('\n  ')}`);
+    this.problems = problems;
+  }
+}
+
+/** Parses `env` with `schema` (an object schema keyed by variable name); throws ConfigError listing every bad value. */
+export function parseEnv<S extends z.ZodObject>(schema: S, env: NodeJS.ProcessEnv = process.env): z.infer<S> {
+  // Empty strings count as unset, as shells and compose files often leave them that way.
+  const cleaned: Record<string, string> = {};
+  for (const key of Object.keys(schema.shape)) {
+    const value = env[key];
+    if (value !== undefined && value !== '') cleaned[key] = value;
+  }
+  const result = schema.safeParse(cleaned);
+  if (result.success) return result.data;
+  const problems = result.error.issues.map((issue) => {
+    const name = issue.path.map(String).join('.') || '(environment)';
+    const given = cleaned[name];
+    return `${name}: ${issue.message}${given === undefined ? ' (not set)' : ` (got ${JSON.stringify(given)})`}`;
+  });
+  throw new ConfigError(problems);
+}
+
+/** An integer variable within [min, max]. */
+export function envInt(min: number, max: number, fallback: number) {
+  return z.coerce.number({ error: `must be a whole number in [${min}, ${max}]` })
+    .int({ error: `must be a whole number in [${min}, ${max}]` })
+    .min(min, { error: `must be at least ${min}` })
+    .max(max, { error: `must be at most ${max}` })
+    .default(fallback);
+}
+
+/** A redis:// or rediss:// URL. */
+export const redisUrlSchema = z.string()
+  .regex(/^rediss?:\/\/[^\s]+$/, { error: 'must be a redis:// or rediss:// URL, e.g. redis://127.0.0.1:6379' });
+
+/** A postgres:// or postgresql:// URL. */
+export const postgresUrlSchema = z.string()
+  .regex(/^postgres(ql)?:\/\/[^\s]+$/, { error: 'must be a postgres:// URL, e.g. postgres://veer:secret@db:5432/veer' });
+
+/** Log levels understood by pino. */
+export const logLevelSchema = z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'], {
+  error: 'must be one of fatal, error, warn, info, debug, trace, silent',
+}).default('info');

@@ -1,0 +1,24 @@
+/**
+ * The semantic checks of a submitted problem (epochs in order, bodies modelled, ...), run at submission so
+ * the caller hears about them at once (HTTP 400 with the field) instead of from a failed job.
+ */
+import { checkProblem, type PlanningProblem } from '../planner/index.ts';
+
+/** A semantic problem with a submitted problem: `field` is the dotted path inside the problem. */
+export interface ProblemIssue { field: string; message: string }
+
+/** Returns the first semantic issue of a schema-valid problem, or null when it passes. */
+export function findProblemIssue(problem: PlanningProblem): ProblemIssue | null {
+  try {
+    checkProblem(problem);
+    return null;
+  } catch (error) {
+    const e = error as Error & { field?: unknown };
+    if (e.name === 'InvalidInputError' || e.name === 'OutOfSpanError') {
+      const field = typeof e.field === 'string' ? e.field : '';
+      const prefix = `${field}: `;
+      return { field, message: e.message.startsWith(prefix) ? e.message.slice(prefix.length) : e.message };
+    }
+    throw error;
+  }
+}

@@ -1,0 +1,55 @@
+/**
+ * Runs inside a worker thread: executes planner tasks so the worker process's event loop stays free for
+ * lock renewal, progress and cancellation. One task at a time per thread.
+ */
+import { parentPort } from 'node:worker_threads';
+import * as plannerModule from '../planner/index.ts';
+import type { DispersionSample, ManeuverPlan, MonteCarloSummary, PlanningProblem, PlanProgress } from '../planner/index.ts';
+import { serialiseError, type FromThread, type PlannerTask, type ToThread } from './planner-task.ts';
+
+/** The planner functions this thread calls (names and signatures fixed by the planner's contract). */
+interface PlannerFunctions {
+  planManeuvers(problem: PlanningProblem, options?: {
+    onProgress?: (p: PlanProgress) => void; signal?: AbortSignal; monteCarlo?: 'in-process' | 'skip';
+  }): Promise<ManeuverPlan>;
+  runDispersionSamples(problem: PlanningProblem, plan: ManeuverPlan, options: {
+    seed: number; firstIndex: number; count: number; signal?: AbortSignal;
+  }): Promise<DispersionSample[]>;
+  summariseDispersion(problem: PlanningProblem, plan: ManeuverPlan, samples: DispersionSample[]): MonteCarloSummary;
+  attachMonteCarlo(plan: ManeuverPlan, summary: MonteCarloSummary): ManeuverPlan;
+}
+const { attachMonteCarlo, planManeuvers, runDispersionSamples, summariseDispersion } = plannerModule as unknown as PlannerFunctions;
+
+const port = parentPort;
+if (!port) throw new Error('planner-thread.ts must run in a worker thread');
+const controllers = new Map<number, AbortController>();
+const send = (message: FromThread): void => port.postMessage(message);
+
+async function run(taskId: number, task: PlannerTask, signal: AbortSignal): Promise<unknown> {
+  switch (task.kind) {
+    case 'plan':
+      return planManeuvers(task.problem, {
+        signal, monteCarlo: task.monteCarlo, onProgress: (progress) => send({ type: 'progress', taskId, progress }),
+      });
+    case 'samples':
+      return runDispersionSamples(task.problem, task.plan, {
+        seed: task.seed, firstIndex: task.firstIndex, count: task.count, signal,
+      });
+    case 'combine':
+      return attachMonteCarlo(task.plan, summariseDispersion(task.problem, task.plan, task.samples));
+  }
+}
+
+port.on('message', (message: ToThread) => {
+  if (message.type === 'cancel') {
+    controllers.get(message.taskId)?.abort(message.reason);
+    return;
+  }
+  const controller = new AbortController();
+  controllers.set(message.taskId, controller);
+  run(message.taskId, message.task, controller.signal).then(
+    (result) => send({ type: 'done', taskId: message.taskId, result }),
+    (error: unknown) => send({ type: 'failed', taskId: message.taskId, error: serialiseError(error) }),
+  ).finally(() => controllers.delete(message.taskId));
+});
+send({ type: 'ready' });

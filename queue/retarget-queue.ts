@@ -1,0 +1,257 @@
+/**
+ * The producer side of the retarget queue, used by the API: submit (idempotent), status, cancel, counts.
+ * Knows nothing of HTTP; returns outcomes the API maps to status codes.
+ */
+import { createHash, randomUUID } from 'node:crypto';
+import { Queue, type Job, type JobState as BullState } from 'bullmq';
+import type { Redis } from 'ioredis';
+import { canonicalJson, problemHash, type PlanningProblem } from '../planner/index.ts';
+import {
+  CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
+} from './cancellation.ts';
+import { createRedis } from './connection.ts';
+import {
+  BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
+  type RetargetJobData, type RetargetJobResult,
+} from './job-types.ts';
+
+export interface RetargetQueueOptions {
+  redisUrl: string;
+  prefix: string;
+  /** Tries for transient failures. @defaultValue 3 */
+  attempts?: number;
+  /** Seconds finished jobs are kept. @defaultValue 7 days */
+  retentionS?: number;
+}
+
+/** `created`: a new job (HTTP 202). `existing`: same key, same request (200). `conflict`: same key, other request (409). */
+export type SubmitOutcome =
+  | { outcome: 'created'; jobId: string }
+  | { outcome: 'existing'; jobId: string }
+  | { outcome: 'conflict'; jobId: string };
+
+export type CancelOutcome =
+  | { outcome: 'cancelled'; jobId: string }
+  | { outcome: 'cancelling'; jobId: string }
+  | { outcome: 'already-finished'; jobId: string; state: JobState }
+  | { outcome: 'not-found'; jobId: string };
+
+/** Job counts by client-facing state. */
+export type JobCounts = Record<'waiting' | 'delayed' | 'active' | 'waiting-children' | 'completed' | 'failed', number>;
+
+const CLIENT_STATE: Record<string, JobState> = {
+  waiting: 'waiting', prioritized: 'waiting', 'waiting-children': 'waiting-children', delayed: 'delayed',
+  active: 'active', completed: 'completed', failed: 'failed',
+};
+
+export class RetargetQueue {
+  readonly queue: Queue<RetargetJobData, RetargetJobResult>;
+  readonly redis: Redis;
+  private readonly attempts: number;
+  private readonly retentionS: number;
+
+  constructor(private readonly opts: RetargetQueueOptions) {
+    this.redis = createRedis(opts.redisUrl, { failFast: true, name: 'veer-producer' });
+    this.queue = new Queue(RETARGET_QUEUE, { connection: this.redis, prefix: opts.prefix });
+    this.attempts = opts.attempts ?? 3;
+    this.retentionS = opts.retentionS ?? 7 * 86_400;
+  }
+
+  get prefix(): string { return this.opts.prefix; }
+
+  /**
+   * Enqueues a validated request. With an idempotency key the job id is derived from (submitter, key), so a
+   * repeat finds the first job; the stored request hash tells a true repeat from a key reused for other work.
+   */
+  async submit(request: JobRequest, submittedBy: string): Promise<SubmitOutcome> {
+    const requestHash = sha256(canonicalJson({ problem: request.problem, reason: request.reason, priority: request.priority }));
+    const jobId = request.idempotencyKey
+      ? `k-${sha256(`${submittedBy}\n${request.idempotencyKey}`).slice(0, 40)}`
+      : `j-${randomUUID()}`;
+    if (request.idempotencyKey) {
+      const existing = await this.queue.getJob(jobId);
+      if (existing) return { outcome: existing.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
+      const cancelled = await readCancel(this.redis, this.prefix, jobId);
+      if (cancelled) return { outcome: 'existing', jobId };
+    }
+    const submissionId = randomUUID();
+    const data: RetargetJobData = {
+      problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
+      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'plan',
+      problemHash: problemHash(request.problem as PlanningProblem),
+      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
+    };
+    await this.queue.add(JOB_NAMES.retarget, data, {
+      jobId,
+      priority: request.priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
+      attempts: this.attempts,
+      backoff: { type: 'exponential', delay: 2_000 },
+      removeOnComplete: { age: this.retentionS },
+      removeOnFail: { age: this.retentionS },
+    });
+    if (!request.idempotencyKey) return { outcome: 'created', jobId };
+    // Two concurrent first submissions with one key: BullMQ keeps the first; tell the second apart.
+    const stored = await this.queue.getJob(jobId);
+    if (!stored || stored.data.submissionId === submissionId) return { outcome: 'created', jobId };
+    return { outcome: stored.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
+  }
+
+  /** A retarget job's status, or undefined when unknown (never submitted, or expired). */
+  async status(jobId: string): Promise<JobStatus | undefined> {
+    const job = await this.queue.getJob(jobId);
+    const cancel = await readCancel(this.redis, this.prefix, jobId);
+    if (!job || job.name !== JOB_NAMES.retarget) {
+      if (!cancel?.removedWhileWaiting) return undefined;
+      const w = cancel.removedWhileWaiting;
+      return {
+        id: jobId, state: 'cancelled', priority: w.priority === 'urgent' ? 'urgent' : 'routine', submittedBy: w.submittedBy,
+        submittedAt: w.submittedAt, reason: w.reason, spacecraftName: w.spacecraftName, attemptsMade: 0, progress: null,
+        startedAt: null, finishedAt: cancel.at, result: null, cancelRequested: true,
+        error: { name: 'CancelledError', message: `cancelled by ${cancel.by} before it ran: ${cancel.reason}` },
+      };
+    }
+    const state = await job.getState();
+    const status = this.describe(job, state, cancel);
+    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job) ?? status.progress;
+    return status;
+  }
+
+  /**
+   * Progress of a fanned-out Monte Carlo run, from its child jobs (ids end in `-mc-<firstIndex>`): samples in
+   * finished batches over all samples. Exact, since batch sizes follow from the first indices.
+   */
+  async fanOutProgress(job: Job<RetargetJobData>): Promise<JobProgress | null> {
+    const deps = await job.getDependencies({ processed: { count: 10_000 }, unprocessed: { count: 10_000 } });
+    const firstIndex = (key: string): number => Number(/-mc-(\d+)$/.exec(key)?.[1] ?? NaN);
+    const done = Object.keys(deps.processed ?? {}).map(firstIndex);
+    const all = [...done, ...(deps.unprocessed ?? []).map(firstIndex)].filter(Number.isFinite).sort((a, b) => a - b);
+    if (all.length === 0) return null;
+    const total = job.data.problem.dispersion.samples;
+    const sizeOf = (first: number): number => {
+      const next = all.find((f) => f > first);
+      return (next ?? total) - first;
+    };
+    const samplesDone = done.filter(Number.isFinite).reduce((sum, f) => sum + sizeOf(f), 0);
+    return {
+      stage: 'dispersion', fraction: 0.5 + 0.45 * (samplesDone / total),
+      message: `Monte Carlo: ${done.length} of ${all.length} batches done`, samplesDone, samplesTotal: total,
+      at: new Date().toISOString(),
+    };
+  }
+
+  /** The finished job's result (with the plan when no archive holds it). */
+  async result(jobId: string): Promise<RetargetJobResult | undefined> {
+    const job = await this.queue.getJob(jobId);
+    return job?.returnvalue ?? undefined;
+  }
+
+  /**
+   * Cancels a job: a waiting one is removed at once (`cancelled`); a running one is told to stop
+   * (`cancelling`; it ends failed with a CancelledError reason, reported as `cancelled`).
+   */
+  async cancel(jobId: string, by: string, reason: string): Promise<CancelOutcome> {
+    const job = await this.queue.getJob(jobId);
+    if (!job || job.name !== JOB_NAMES.retarget) {
+      const earlier = await readCancel(this.redis, this.prefix, jobId);
+      return earlier ? { outcome: 'already-finished', jobId, state: 'cancelled' } : { outcome: 'not-found', jobId };
+    }
+    const state = await job.getState();
+    if (state === 'completed' || state === 'failed') {
+      const cancel = await readCancel(this.redis, this.prefix, jobId);
+      return { outcome: 'already-finished', jobId, state: this.clientState(state, job, cancel) };
+    }
+    const record: CancelRecord = { by, at: new Date().toISOString(), reason };
+    if (state === 'waiting' || state === 'prioritized' || state === 'delayed') {
+      record.removedWhileWaiting = {
+        submittedBy: job.data.submittedBy, submittedAt: job.data.submittedAt, reason: job.data.reason,
+        priority: job.data.priority, spacecraftName: job.data.problem.spacecraft.name,
+      };
+      await requestCancel(this.redis, this.prefix, jobId, record, this.retentionS);
+      try {
+        await job.remove();
+        return { outcome: 'cancelled', jobId };
+      } catch {
+        // It became active meanwhile (a locked job cannot be removed): the worker sees the marker.
+        delete record.removedWhileWaiting;
+      }
+    }
+    await requestCancel(this.redis, this.prefix, jobId, record, this.retentionS);
+    return { outcome: 'cancelling', jobId };
+  }
+
+  /** Counts of jobs by state (both job kinds). */
+  async counts(): Promise<JobCounts> {
+    const c = await this.queue.getJobCounts('waiting', 'prioritized', 'delayed', 'active', 'waiting-children', 'completed', 'failed');
+    return {
+      waiting: (c.waiting ?? 0) + (c.prioritized ?? 0), delayed: c.delayed ?? 0, active: c.active ?? 0,
+      'waiting-children': c['waiting-children'] ?? 0, completed: c.completed ?? 0, failed: c.failed ?? 0,
+    };
+  }
+
+  /** Workers connected to the queue now (BullMQ lists them by their Redis client names). */
+  async workerCount(): Promise<number> {
+    return (await this.queue.getWorkers()).length;
+  }
+
+  /** Round trip to Redis, ms; throws when Redis does not answer. */
+  async ping(): Promise<number> {
+    const t0 = performance.now();
+    await this.redis.ping();
+    return performance.now() - t0;
+  }
+
+  /** Lists recent retarget jobs, newest first, in the given BullMQ states. */
+  async list(states: BullState[], start: number, end: number): Promise<JobStatus[]> {
+    const jobs = await this.queue.getJobs(states, start, end, false);
+    const out: JobStatus[] = [];
+    for (const job of jobs) {
+      if (!job || job.name !== JOB_NAMES.retarget) continue;
+      out.push(this.describe(job, await job.getState(), await readCancel(this.redis, this.prefix, String(job.id))));
+    }
+    return out;
+  }
+
+  async close(): Promise<void> {
+    await this.queue.close();
+    this.redis.disconnect();
+  }
+
+  /** Key of the cancel marker (for tests and tools). */
+  cancelKey(jobId: string): string { return cancelKey(this.prefix, jobId); }
+
+  private clientState(state: string, job: Job<RetargetJobData>, cancel: CancelRecord | null): JobState {
+    if (state === 'failed' && (cancel || job.failedReason?.startsWith(CANCELLED_REASON_PREFIX))) return 'cancelled';
+    return CLIENT_STATE[state] ?? 'unknown';
+  }
+
+  private describe(job: Job<RetargetJobData, RetargetJobResult>, state: string, cancel: CancelRecord | null): JobStatus {
+    const clientState = this.clientState(state, job, cancel);
+    const progress = typeof job.progress === 'object' && job.progress !== null ? job.progress as unknown as JobProgress : null;
+    const result = job.returnvalue ? { ...job.returnvalue } : null;
+    if (result) delete result.plan;
+    return {
+      id: String(job.id), state: clientState, priority: job.data.priority, submittedBy: job.data.submittedBy,
+      submittedAt: job.data.submittedAt, reason: job.data.reason, spacecraftName: job.data.problem.spacecraft.name,
+      problemHash: job.data.problemHash, attemptsMade: job.attemptsMade, progress,
+      startedAt: job.processedOn ? new Date(job.processedOn).toISOString() : null,
+      finishedAt: job.finishedOn ? new Date(job.finishedOn).toISOString() : null,
+      result: clientState === 'completed' ? result : null,
+      error: clientState === 'failed' || clientState === 'cancelled' ? parseFailure(job.failedReason, cancel) : null,
+      cancelRequested: cancel !== null,
+    };
+  }
+}
+
+/** Splits `Name [field]: message` (as the processor writes failures) back into parts. */
+export function parseFailure(reason: string | undefined, cancel: CancelRecord | null): { name: string; field?: string; message: string } {
+  if (cancel && !(reason ?? '').startsWith(CANCELLED_REASON_PREFIX)) {
+    return { name: 'CancelledError', message: `cancelled by ${cancel.by}: ${cancel.reason}` };
+  }
+  const m = /^([A-Za-z]+)(?: \[([^\]]+)\])?: ([\s\S]*)$/.exec(reason ?? '');
+  if (!m) return { name: 'Error', message: reason ?? 'unknown failure' };
+  return { name: m[1] ?? 'Error', ...(m[2] ? { field: m[2] } : {}), message: m[3] ?? '' };
+}
+
+function sha256(text: string): string {
+  return createHash('sha256').update(text, 'utf8').digest('hex');
+}

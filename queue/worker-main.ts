@@ -1,0 +1,48 @@
+/**
+ * `npm run worker`: one worker process. Configuration from the environment (see README "Service");
+ * SIGTERM/SIGINT stop taking jobs and let running ones finish (a second signal forces).
+ */
+import { ConfigError } from './env-config.ts';
+import { createLogger } from './logger.ts';
+import { startRetargetWorker } from './retarget-worker.ts';
+import { createPlanSink } from './sink-from-config.ts';
+import { loadWorkerConfig } from './worker-config.ts';
+
+async function main(): Promise<void> {
+  let config;
+  try {
+    config = loadWorkerConfig();
+  } catch (e) {
+    if (e instanceof ConfigError) {
+      process.stderr.write(`veer worker: ${e.message}\n`);
+      process.exit(2);
+    }
+    throw e;
+  }
+  const logger = createLogger('veer-worker', config.LOG_LEVEL);
+  const sink = await createPlanSink(config);
+  const worker = await startRetargetWorker({
+    redisUrl: config.REDIS_URL, prefix: config.QUEUE_PREFIX, sink, logger,
+    concurrency: config.WORKER_CONCURRENCY, jobTimeLimitS: config.JOB_TIME_LIMIT_S,
+    lockDurationMs: config.LOCK_DURATION_MS, stalledIntervalMs: config.STALLED_INTERVAL_MS,
+    maxStalledCount: config.MAX_STALLED_COUNT, fanOutMinSamples: config.MC_FANOUT_MIN_SAMPLES,
+    batchSize: config.MC_BATCH_SIZE, retentionS: config.JOB_RETENTION_S,
+  });
+  let stopping = false;
+  const stop = (signal: string): void => {
+    if (stopping) { logger.warn({ signal }, 'forced stop'); process.exit(1); }
+    stopping = true;
+    logger.info({ signal }, 'stopping: finishing running jobs');
+    worker.close().then(() => sink.close()).then(() => process.exit(0), (err: unknown) => {
+      logger.error({ err }, 'error while stopping');
+      process.exit(1);
+    });
+  };
+  process.on('SIGTERM', () => stop('SIGTERM'));
+  process.on('SIGINT', () => stop('SIGINT'));
+}
+
+main().catch((err: unknown) => {
+  process.stderr.write(`veer worker: ${err instanceof Error ? err.message : String(err)}\n`);
+  process.exit(1);
+});
