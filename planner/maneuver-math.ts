@@ -3,8 +3,12 @@
  * Rocket equation (Tsiolkovsky): Δv = Isp·g0·ln(m0/m1), g0 = 9.80665 m/s² exactly (3rd CGPM, 1901).
  * Burn duration assumes constant thrust and constant mass flow ṁ = F/(Isp·g0) (common practice for a
  * first estimate of a chemical engine's burn).
+ * Δv axes: inertial (the state's frame, J2000 equatorial in the planner) and the local RTN / VNB frames of
+ * propagator/frames, taken at the pre-burn state relative to the integration centre.
  */
-import { InvalidInputError, STANDARD_GRAVITY_M_S2 } from '../propagator/index.ts';
+import {
+  InvalidInputError, STANDARD_GRAVITY_M_S2, inertialToLocal, localFrameMatrix, localToInertial, type LocalFrame, type Vec3,
+} from '../propagator/index.ts';
 
 function requirePositive(field: string, value: number): void {
   if (!Number.isFinite(value) || value <= 0) throw new InvalidInputError(field, `must be a finite number > 0, got ${value}`);
@@ -93,4 +97,55 @@ export function budgetBurns(
     mass -= propellantKg;
     return budget;
   });
+}
+
+/** Axes a burn's Δv may be given in: the inertial frame of the state, or a local frame built from it. */
+export type BurnAxes = 'inertial' | LocalFrame;
+
+function requireVec3(field: string, v: readonly number[]): void {
+  if (!Array.isArray(v) || v.length !== 3 || !v.every(Number.isFinite)) {
+    throw new InvalidInputError(field, `must be three finite numbers, got ${JSON.stringify(v)}`);
+  }
+}
+
+/**
+ * Δv given in `axes` → inertial components (km/s, the frame of positionKm/velocityKmS).
+ * @param positionKm, velocityKmS the pre-burn state (km, km/s) relative to the integration centre.
+ */
+export function deltaVToInertialKmS(deltaVKmS: Vec3, axes: BurnAxes, positionKm: Vec3, velocityKmS: Vec3): Vec3 {
+  requireVec3('deltaVKmS', deltaVKmS);
+  if (axes === 'inertial') return [deltaVKmS[0], deltaVKmS[1], deltaVKmS[2]];
+  return localToInertial(deltaVKmS, axes, positionKm, velocityKmS);
+}
+
+/** Inertial Δv (km/s) → components in `axes` at the pre-burn state (km, km/s). */
+export function deltaVFromInertialKmS(deltaVInertialKmS: Vec3, axes: BurnAxes, positionKm: Vec3, velocityKmS: Vec3): Vec3 {
+  requireVec3('deltaVInertialKmS', deltaVInertialKmS);
+  if (axes === 'inertial') return [deltaVInertialKmS[0], deltaVInertialKmS[1], deltaVInertialKmS[2]];
+  return inertialToLocal(deltaVInertialKmS, axes, positionKm, velocityKmS);
+}
+
+/** One inertial Δv (km/s) expressed in every axes set a plan reports, plus its magnitude in m/s. */
+export function deltaVInAllAxes(deltaVInertialKmS: Vec3, positionKm: Vec3, velocityKmS: Vec3): {
+  inertialKmS: Vec3; rtnKmS: Vec3; vnbKmS: Vec3; magnitudeMS: number;
+} {
+  requireVec3('deltaVInertialKmS', deltaVInertialKmS);
+  return {
+    inertialKmS: [deltaVInertialKmS[0], deltaVInertialKmS[1], deltaVInertialKmS[2]],
+    rtnKmS: inertialToLocal(deltaVInertialKmS, 'RTN', positionKm, velocityKmS),
+    vnbKmS: inertialToLocal(deltaVInertialKmS, 'VNB', positionKm, velocityKmS),
+    magnitudeMS: Math.hypot(...deltaVInertialKmS) * 1000,
+  };
+}
+
+/**
+ * ∂(inertial Δv)/∂(Δv in `axes`): the 3×3 matrix (rows inertial x, y, z) that maps components in `axes` to
+ * inertial ones at the given state — the identity for 'inertial', the transposed local rotation otherwise.
+ * Use it to chain a corrector's Jacobian (∂targets/∂Δv_axes = ∂targets/∂Δv_inertial · this) or to rotate
+ * a covariance (P_inertial = M·P_axes·Mᵀ).
+ */
+export function axesToInertialMatrix(axes: BurnAxes, positionKm: Vec3, velocityKmS: Vec3): number[][] {
+  if (axes === 'inertial') return [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
+  const m = localFrameMatrix(axes, positionKm, velocityKmS); // rows = local axes in inertial components
+  return [0, 1, 2].map((i) => [m[i], m[3 + i], m[6 + i]]);
 }
