@@ -9,3 +9,15 @@ export { canonicalJson, problemHash, targetSetKey } from './problem-hash.ts';
 export { CAVEAT_CODES, REVIEW_TEXT, caveat, reviewCaveat, orderCaveats } from './caveats.ts';
 export type { CaveatCode } from './caveats.ts';
 export type * from './plan-types.ts';
+export { planManeuvers } from './plan/plan-maneuvers.ts';
+export type { PlanOptions } from './plan/plan-maneuvers.ts';
+export { runDispersionSamples, summariseDispersion, attachMonteCarlo } from './plan/monte-carlo.ts';
+export type { SampleRunOptions } from './plan/monte-carlo.ts';
+export { SOFTWARE_VERSION } from './plan/software-version.ts';
+export { solveLambert, LAMBERT_DEFAULTS } from './lambert/index.ts';
+export type { LambertDirection, LambertOptions, LambertSolution } from './lambert/index.ts';
+export {
+  propellantMassKg, deltaVFromPropellantKmS, massFlowRateKgS, burnDurationS, budgetBurns, exhaustVelocityKmS,
+  deltaVToInertialKmS, deltaVFromInertialKmS, deltaVInAllAxes, axesToInertialMatrix,
+} from './maneuver-math.ts';
+export type { BurnBudget, BurnAxes } from './maneuver-math.ts';
