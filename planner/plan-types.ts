@@ -173,7 +173,17 @@ export interface MonteCarloSummary {
   impacts: number;
   impactProbability: number;
   /** Linear vs sample covariance: largest relative difference of the ellipse axes. */
-  linearAgreement: { axisRatioError: number | null; orientationErrorDeg: number | null; passed: boolean; limit: number } | null;
+  linearAgreement: {
+    axisRatioError: number | null; orientationErrorDeg: number | null; passed: boolean;
+    /** Significance of the statistical tests (mean and covariance) of the samples against the linear model. */
+    limit: number; meanPValue: number | null; covariancePValue: number | null; message: string;
+  } | null;
+  /** Monte Carlo impact probability with its binomial 95 % interval. */
+  impactProbabilityInterval: { lower95: number; upper95: number };
+  /** Up to 500 sample points in the B-plane (km) for plots. */
+  bPlanePoints: { bDotTKm: number; bDotRKm: number }[];
+  /** Samples whose propagation failed for a reason other than impact. */
+  failedSamples: number;
   targetSigmas: (number | null)[];
 }
 
@@ -221,7 +231,16 @@ export interface ManeuverPlan {
   totalPropellantKg: number;
   targets: TargetResult[];
   iterations: IterationRecord[];
-  convergence: { outcome: 'converged' | 'iteration-limit' | 'diverged' | 'singular' | 'propagation-failed' | 'event-not-found'; message: string; leastSquares: boolean };
+  convergence: {
+    outcome: 'converged' | 'iteration-limit' | 'diverged' | 'singular' | 'evaluation-failed' | 'least-squares-stationary';
+    message: string;
+    /** Targets outnumber free variables: steps were least-squares ones. */
+    leastSquares: boolean;
+    /** Largest 2-norm condition number of the scaled Jacobian over the iterations. */
+    maxConditionNumber: number | null;
+    /** When not converged: the controls of the last iterate (diagnostics only — never a plan to execute). */
+    lastIterate: { controls: number[]; burnsInertialKmS: Vec3[] } | null;
+  };
   sensitivities: Sensitivities | null;
   /** Always present; `passed: false` with a message when it could not run (e.g. not converged). */
   crossCheck: CrossCheck;
@@ -229,6 +248,10 @@ export interface ManeuverPlan {
   caveats: Caveat[];
   trajectory: TrajectoryPoint[];
   bPlane: PlanBPlane | null;
+  /** Closest approaches found after the last burn (planned trajectory). */
+  approaches: { body: BodyName; epoch: PlanEpoch; distanceKm: number; altitudeKm: number }[];
+  /** The thresholds the caveats were judged against (problem.limits). */
+  limits: { safeAltitudeKm: number; impactProbabilityLimit: number; impulsiveDurationFraction: number; crossCheckToleranceFraction: number; conditionNumberLimit: number };
   /** Counts of work done: propagations and wall-independent integrator effort. */
   effort: { propagations: number; evaluations: number };
 }

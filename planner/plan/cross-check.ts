@@ -1,0 +1,54 @@
+/**
+ * The independent cross-check: the final burns re-propagated with the other method (Encke if the plan
+ * used Cowell and vice versa) at a tolerance 100 times tighter, every target compared. It passes when each
+ * component differs by at most `crossCheckToleranceFraction` × its tolerance AND the re-propagation itself
+ * meets every target. Same ephemeris and force model: it checks the numerics, not the models.
+ */
+import type { CrossCheck } from '../plan-types.ts';
+import type { BurnSetting } from '../targeting/controls.ts';
+import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
+import type { PlanningContext } from './planning-context.ts';
+
+/** Runs the cross-check of `settings` whose primary target values are `primary`. */
+export async function runCrossCheck(ctx: PlanningContext, settings: BurnSetting[], primary: number[], signal?: AbortSignal): Promise<{ check: CrossCheck; propagations: number; evaluations: number }> {
+  const fm = ctx.problem.forceModel;
+  const method = fm.method === 'cowell' ? 'encke' : 'cowell';
+  const relativeTolerance = Math.max(1e-13, fm.relativeTolerance / 100);
+  const fraction = ctx.problem.limits.crossCheckToleranceFraction;
+  let ev: Awaited<ReturnType<typeof evaluateTrajectory>>;
+  try {
+    ev = await evaluateTrajectory(ctx.evaluation, settings, { withStm: false, method, relativeTolerance, signal });
+  } catch (error) {
+    if ((error as Error).name === 'CancelledError') throw error;
+    ev = { ok: false, reason: `${(error as Error).name}: ${(error as Error).message}`, impact: null, burns: [] };
+  }
+  const base = { primaryMethod: fm.method, method, relativeTolerance, toleranceFraction: fraction } as const;
+  const comps = ctx.components.slice(0, ctx.targetCount);
+  if (!ev.ok) {
+    return {
+      check: {
+        ...base, passed: false, message: `the ${method} re-propagation failed: ${ev.reason}`,
+        differences: comps.map((c, i) => ({
+          component: c.component, targetIndex: c.targetIndex, primary: primary[i], check: null, difference: null,
+          allowed: fraction * c.tolerance, withinTolerance: false, metByCheck: false,
+        })),
+      },
+      propagations: 0, evaluations: 0,
+    };
+  }
+  const differences = comps.map((c, i) => {
+    const difference = ev.values[i] - primary[i];
+    const allowed = fraction * c.tolerance;
+    return {
+      component: c.component, targetIndex: c.targetIndex, primary: primary[i], check: ev.values[i], difference, allowed,
+      withinTolerance: Math.abs(difference) <= allowed,
+      metByCheck: Math.abs(ev.values[i] - c.requested) <= c.tolerance,
+    };
+  });
+  const bad = differences.filter((d) => !d.withinTolerance || !d.metByCheck);
+  const passed = bad.length === 0;
+  const message = passed
+    ? `${method} at relative tolerance ${relativeTolerance} agrees on every target within ${fraction} × its tolerance and meets every target`
+    : `${method} at relative tolerance ${relativeTolerance} disagrees: ${bad.map((d) => `${d.component} differs by ${d.difference?.toPrecision(3)} (allowed ${d.allowed.toPrecision(3)})${d.metByCheck ? '' : ', target not met'}`).join('; ')}`;
+  return { check: { ...base, passed, message, differences }, propagations: ev.propagations, evaluations: ev.evaluations };
+}

@@ -1,0 +1,77 @@
+/**
+ * Which caveats apply to a plan, judged from the plan's own data against its stated limits, so that they
+ * can be recomputed when Monte Carlo results are attached later (queue fan-out).
+ */
+import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
+import type { Caveat, ManeuverPlan } from '../plan-types.ts';
+
+/** Codes that depend on the dispersion results (recomputed by attachMonteCarlo). */
+export const DISPERSION_CAVEAT_CODES = new Set([
+  'IMPACT_PROBABILITY_ABOVE_LIMIT', 'DISPERSION_LINEARITY_CHECK_FAILED', 'MONTE_CARLO_NOT_RUN', 'NO_EXECUTION_ERROR_MODEL',
+]);
+
+const pct = (x: number): string => `${(x * 100).toPrecision(3)} %`;
+
+/** Caveats that depend on the dispersion part of the plan. */
+export function dispersionCaveats(plan: ManeuverPlan): Caveat[] {
+  const out: Caveat[] = [];
+  if (plan.status !== 'converged') return out;
+  const d = plan.dispersion;
+  const limit = plan.limits.impactProbabilityLimit;
+  if (!d.executionModel) {
+    out.push(caveat('NO_EXECUTION_ERROR_MODEL', 'The problem gives no execution-error model (executionErrors): no Δv execution dispersion was computed.'));
+  }
+  const pLinear = d.linear?.impactProbability ?? null;
+  const pMc = d.monteCarlo ? d.monteCarlo.impactProbability : null;
+  const worst = Math.max(pLinear ?? 0, pMc ?? 0, d.monteCarlo ? d.monteCarlo.impactProbabilityInterval.lower95 : 0);
+  if (worst > limit) {
+    out.push(caveat('IMPACT_PROBABILITY_ABOVE_LIMIT', `Probability of impact ${pct(worst)} exceeds the limit ${pct(limit)} `
+      + `(linear ${pLinear === null ? 'n/a' : pct(pLinear)}, Monte Carlo ${pMc === null ? 'not run' : `${pct(pMc)} of ${d.monteCarlo?.samples}`}).`));
+  }
+  if (d.monteCarlo?.linearAgreement && !d.monteCarlo.linearAgreement.passed) {
+    out.push(caveat('DISPERSION_LINEARITY_CHECK_FAILED', `The linear (STM) dispersion does not match the Monte Carlo samples: ${d.monteCarlo.linearAgreement.message}. Trust the Monte Carlo figures, not the linear ellipse.`));
+  }
+  if (d.executionModel && !d.monteCarlo) {
+    out.push(caveat('MONTE_CARLO_NOT_RUN', 'No Monte Carlo run is attached yet: the dispersion and impact probability are linear estimates only.'));
+  }
+  return out;
+}
+
+/** Every caveat of a plan (review first, critical before warning before info). */
+export function planCaveats(plan: ManeuverPlan): Caveat[] {
+  const out: Caveat[] = [reviewCaveat()];
+  const lim = plan.limits;
+  if (plan.status !== 'converged') {
+    out.push(caveat('NOT_CONVERGED', `NOT CONVERGED (${plan.convergence.outcome}): ${plan.convergence.message}. There is no plan to execute; the last iterate is kept as diagnostics only.`));
+  }
+  if (plan.status === 'converged' && !plan.crossCheck.passed) {
+    out.push(caveat('CROSS_CHECK_FAILED', `Independent cross-check failed: ${plan.crossCheck.message}`));
+  }
+  for (const b of plan.burns) {
+    if (b.timeToTargetS !== null && b.durationS > lim.impulsiveDurationFraction * b.timeToTargetS) {
+      out.push(caveat('IMPULSIVE_APPROXIMATION_QUESTIONABLE', `${b.label}: burn duration ${b.durationS.toFixed(1)} s is ${pct(b.durationS / b.timeToTargetS)} of the ${(b.timeToTargetS / 86400).toFixed(2)} d to its target (limit ${pct(lim.impulsiveDurationFraction)}); model it as a finite burn before use.`));
+    }
+  }
+  for (const a of plan.approaches) {
+    if (a.altitudeKm < lim.safeAltitudeKm) {
+      out.push(caveat('CLOSEST_APPROACH_BELOW_SAFE_ALTITUDE', `Closest approach to ${a.body} at ${a.altitudeKm.toFixed(1)} km altitude is below the safe altitude ${lim.safeAltitudeKm} km.`));
+    }
+  }
+  const cond = plan.convergence.maxConditionNumber;
+  if (cond !== null && cond > lim.conditionNumberLimit) {
+    out.push(caveat('JACOBIAN_ILL_CONDITIONED', `The targeting Jacobian was ill-conditioned (condition number ${cond.toExponential(2)} > ${lim.conditionNumberLimit.toExponential(0)}): the solution is sensitive to small changes and may not be unique.`));
+  }
+  if (plan.convergence.leastSquares) {
+    out.push(caveat('TARGETS_MET_IN_LEAST_SQUARES_ONLY', 'The targets outnumber the free variables: the burns were solved in least squares, and the targets are met only as far as the table shows.'));
+  }
+  out.push(caveat('BUILTIN_EPHEMERIS_ACCURACY', `Planet positions come from the built-in ${plan.forceModel.ephemeris} series (truncated VSOP87-class theory, about one arcminute: thousands to tens of thousands of km at planetary distances). Targets relative to a planet inherit that error; re-plan against the mission's reference ephemeris before use.`));
+  if (!plan.createdFrom.hasCovariance) {
+    out.push(caveat('NO_INITIAL_STATE_COVARIANCE', 'The initial state has no covariance: the dispersion covers burn execution errors only, not orbit-determination uncertainty.'));
+  }
+  const epochs = [plan.createdFrom.initialEpoch, plan.createdFrom.endEpoch, ...plan.burns.map((b) => b.epoch)];
+  if (epochs.some((e) => e.utc === null)) {
+    out.push(caveat('UTC_BEYOND_LEAP_SECOND_TABLE', 'Some epochs lie beyond the leap-second table: they are given in TDB only.'));
+  }
+  out.push(...dispersionCaveats(plan));
+  return orderCaveats(out);
+}

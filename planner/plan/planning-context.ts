@@ -1,0 +1,102 @@
+/**
+ * Everything a planning run derives from a validated problem before propagating: parsed epochs, target
+ * components (plus auxiliary ones the dispersion needs), the control layout, the ephemeris (a Chebyshev
+ * cache fitted to the built-in source over the span) and the initial state in J2000 equatorial axes
+ * relative to the central body.
+ */
+import {
+  BUILTIN_EPHEMERIS_SPAN, buildChebyshevEphemeris, changeCentre, createBuiltinEphemeris, stateToFrame,
+} from '../../propagator/index.ts';
+import type { BodyName, Ephemeris, StateVector, Vec3 } from '../../propagator/index.ts';
+import { checkProblem } from '../problem-checks.ts';
+import type { ProblemEpochs } from '../problem-checks.ts';
+import type { PlanningProblem } from '../problem-schema.ts';
+import { controlLayout } from '../targeting/controls.ts';
+import type { ControlLayout } from '../targeting/controls.ts';
+import type { EvaluationContext } from '../targeting/evaluate-trajectory.ts';
+import { targetComponents } from '../targeting/target-components.ts';
+import type { TargetComponent } from '../targeting/target-components.ts';
+
+export interface PlanningContext {
+  problem: PlanningProblem;
+  epochs: ProblemEpochs;
+  /** Target components first (the corrector's residuals), then auxiliary ones (dispersion only). */
+  components: TargetComponent[];
+  targetCount: number;
+  layout: ControlLayout;
+  ephemeris: Ephemeris;
+  ephemerisName: string;
+  evaluation: EvaluationContext;
+  /** Index in `components` of B·T, B·R and closest-approach epoch at the B-plane body, when any. */
+  bPlaneIndex: { body: BodyName; bDotT: number; bDotR: number; closestApproach: number } | null;
+  /** 6x6 initial covariance rotated to J2000 equatorial, or null. */
+  initialCovariance: number[][] | null;
+}
+
+const MARGIN_S = 2 * 86400;
+
+function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | null {
+  const c = problem.initialState.covarianceKmKmS;
+  if (!c) return null;
+  if (problem.initialState.frame === 'J2000_EQUATORIAL') return c.map((row) => row.slice());
+  // Columns of the 6x6 block rotation R = diag(Q, Q): rotate unit vectors through stateToFrame.
+  const unitState = (k: number): StateVector => {
+    const v = [0, 0, 0, 0, 0, 0];
+    v[k] = 1;
+    return { epochTdbS: 0, centre: 'sun', frame: problem.initialState.frame, positionKm: v.slice(0, 3) as Vec3, velocityKmS: v.slice(3) as Vec3 };
+  };
+  const cols = [0, 1, 2, 3, 4, 5].map((k) => {
+    const s = stateToFrame(unitState(k), 'J2000_EQUATORIAL');
+    return [...s.positionKm, ...s.velocityKmS];
+  });
+  const R = [0, 1, 2, 3, 4, 5].map((i) => cols.map((col) => col[i]));
+  const RC = R.map((row) => [0, 1, 2, 3, 4, 5].map((j) => row.reduce((s, v, k) => s + v * c[k][j], 0)));
+  return RC.map((row) => [0, 1, 2, 3, 4, 5].map((j) => row.reduce((s, v, k) => s + v * R[j][k], 0)));
+}
+
+/** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. */
+export function planningContext(problem: PlanningProblem): PlanningContext {
+  const epochs = checkProblem(problem);
+  const components = targetComponents(problem, epochs);
+  const targetCount = components.length;
+  let bPlaneIndex: PlanningContext['bPlaneIndex'] = null;
+  const bt = components.findIndex((c) => c.quantity.q === 'bdott');
+  if (bt >= 0) {
+    const body = components[bt].body as BodyName;
+    const br = components.findIndex((c) => c.quantity.q === 'bdotr' && c.body === body);
+    let ca = components.findIndex((c) => c.quantity.q === 'ca-epoch' && c.body === body);
+    if (ca < 0) {
+      components.push({
+        targetIndex: -1, kind: 'closest-approach-epoch', component: 'closest-approach epoch (auxiliary)', unit: 's',
+        body, requested: 0, tolerance: 1, quantity: { q: 'ca-epoch', body }, station: { kind: 'approach', body },
+      });
+      ca = components.length - 1;
+    }
+    bPlaneIndex = { body, bDotT: bt, bDotR: br, closestApproach: ca };
+  }
+  const layout = controlLayout(problem, epochs);
+  const fm = problem.forceModel;
+  const bodies = [...new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies, problem.initialState.centre,
+    ...components.flatMap((c) => (c.body ? [c.body] : [])), 'sun'])];
+  const source = createBuiltinEphemeris();
+  const start = Math.max(BUILTIN_EPHEMERIS_SPAN.startTdbS, epochs.initialTdbS - MARGIN_S);
+  const end = Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, epochs.endTdbS + MARGIN_S);
+  const ephemeris = bodies.length === 1 && bodies[0] === 'sun'
+    ? source
+    : buildChebyshevEphemeris(source, { bodies, startTdbS: start, endTdbS: end });
+  let initial: StateVector = {
+    epochTdbS: epochs.initialTdbS, centre: problem.initialState.centre, frame: problem.initialState.frame,
+    positionKm: [...problem.initialState.positionKm] as Vec3, velocityKmS: [...problem.initialState.velocityKmS] as Vec3,
+  };
+  initial = stateToFrame(initial, 'J2000_EQUATORIAL');
+  if (initial.centre !== fm.centralBody) initial = changeCentre(initial, fm.centralBody, ephemeris);
+  return {
+    problem, epochs, components, targetCount, layout, ephemeris, ephemerisName: source.name,
+    evaluation: {
+      problem, initial, endTdbS: epochs.endTdbS, components, ephemeris,
+      controlMap: layout.descriptors.map((d) => ({ burnIndex: d.burnIndex, kind: d.kind })),
+    },
+    bPlaneIndex,
+    initialCovariance: rotateCovarianceToEquatorial(problem),
+  };
+}
