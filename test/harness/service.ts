@@ -147,3 +147,46 @@ export async function startService(opts: ServiceOptions = {}): Promise<TestServi
   };
   return service;
 }
+
+export interface SseEvent { event: string; data: any }
+
+/** Reads a server-sent event stream until it closes (or `timeoutMs`); returns every event in order. */
+export async function readEventStream(url: string, token: string, timeoutMs = 60_000): Promise<{ status: number; contentType: string | null; events: SseEvent[] }> {
+  const controller = new AbortController();
+  const timer = setTimeout(() => controller.abort(), timeoutMs);
+  const res = await fetch(url, { headers: { authorization: `Bearer ${token}`, accept: 'text/event-stream' }, signal: controller.signal });
+  const events: SseEvent[] = [];
+  if (!res.body) return { status: res.status, contentType: res.headers.get('content-type'), events };
+  const decoder = new TextDecoder();
+  let buffer = '';
+  try {
+    for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) {
+      buffer += decoder.decode(chunk, { stream: true });
+      let cut: number;
+      while ((cut = buffer.indexOf('\n\n')) >= 0) {
+        const block = buffer.slice(0, cut);
+        buffer = buffer.slice(cut + 2);
+        const event = /^event: (.*)$/m.exec(block)?.[1];
+        const data = /^data: (.*)$/m.exec(block)?.[1];
+        if (event && data) events.push({ event, data: JSON.parse(data) });
+      }
+    }
+  } catch (e) {
+    if (!controller.signal.aborted) throw e;
+  } finally {
+    clearTimeout(timer);
+  }
+  return { status: res.status, contentType: res.headers.get('content-type'), events };
+}
+
+/** Polls the job's status until `predicate` holds (or throws after `timeoutMs`). */
+export async function waitForJob(svc: TestService, jobId: string, predicate: (s: any) => boolean, timeoutMs = 60_000): Promise<any> {
+  const deadline = Date.now() + timeoutMs;
+  let last: any = null;
+  while (Date.now() < deadline) {
+    last = (await svc.request('GET', `/v1/jobs/${jobId}`, { token: svc.tokens.auditor })).body;
+    if (last && predicate(last)) return last;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error(`job ${jobId} did not reach the expected state in ${timeoutMs} ms; last status: ${JSON.stringify(last)}`);
+}

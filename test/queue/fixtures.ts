@@ -25,6 +25,27 @@ export function schemaValidProblem(): Record<string, any> {
   };
 }
 
+/** GM of the Earth, km³/s² (IERS Conventions 2010, Table 1.1 — from memory); only used to place a reachable target. */
+const GM_EARTH_KM3_S2 = 398600.4418;
+
+/**
+ * A fast, convergent problem: circular Earth orbit of radius 7000 km in the J2000 equator; the target is
+ * the two-body position one hour later shifted 0.002 rad ahead along the orbit (about 14 km), which a small
+ * burn after ten minutes reaches. Optional execution errors and Monte Carlo settings for dispersion tests.
+ */
+export function reachableProblem(opts: { samples?: number; seed?: number; name?: string } = {}): Record<string, any> {
+  const rKm = 7000;
+  const n = Math.sqrt(GM_EARTH_KM3_S2 / rKm ** 3);
+  const angle = n * 3600 + 0.002;
+  const p = schemaValidProblem();
+  p.spacecraft.name = opts.name ?? 'TESTSAT-1';
+  p.initialState.velocityKmS = [0, Math.sqrt(GM_EARTH_KM3_S2 / rKm), 0];
+  p.targets = [{ kind: 'position', epoch: '2031-03-01T01:00:00 TDB', centre: 'earth', positionKm: [rKm * Math.cos(angle), rKm * Math.sin(angle), 0], toleranceKm: 0.5 }];
+  p.executionErrors = { fixedMagnitudeMS: 0.01, proportionalMagnitudeFraction: 0.01, fixedPointingMS: 0.01, proportionalPointingDeg: 0.5 };
+  p.dispersion = { samples: opts.samples ?? 20, seed: opts.seed ?? 7 };
+  return p;
+}
+
 /** The planner's two-body demo problem, or null while it does not exist. */
 export function twoBodyDemo(): Record<string, any> | null {
   if (!existsSync(TWO_BODY_DEMO)) return null;
