@@ -5,6 +5,8 @@
  * every accepted step, drained synchronously by propagate() and cooperatively by propagateAsync().
  */
 import { createCowellDynamics } from './cowell.ts';
+import { createEnckeOrFallback } from './encke/index.ts';
+import { needsSegmentedRun, segmentedSteps } from './switching/index.ts';
 import type { Ephemeris } from './ephemeris/ephemeris.ts';
 import { InvalidInputError } from './errors.ts';
 import { ForceModel } from './forces/index.ts';
@@ -29,7 +31,7 @@ export interface WatchStop {
 
 /** Inspects every accepted step; may record events and ask to stop inside the step. */
 export interface StepWatcher {
-  afterStep(stepper: Dop853Stepper, events: EventRecord[]): WatchStop | null;
+  afterStep(stepper: Dop853Stepper, events: EventRecord[], dynamics?: PropagationDynamics): WatchStop | null;
 }
 
 /** How often propagateAsync yields to the event loop (and reports progress), ms. */
@@ -73,6 +75,7 @@ function finishProgress(result: PropagationResult, options: PropagationOptions):
 /** Equations of motion for the requested method. */
 function createDynamics(checked: CheckedRequest, forces: ForceModel, cart: number[]): PropagationDynamics {
   if (checked.method === 'cowell') return createCowellDynamics(forces, cart, checked.withStm);
+  if (checked.method === 'encke') return createEnckeOrFallback(checked, forces, cart, createCowellDynamics);
   throw new InvalidInputError('method', `'${checked.method}' is not available in this build`);
 }
 
@@ -128,6 +131,7 @@ function impactWatcher(dynamics: PropagationDynamics): StepWatcher {
 export function* propagationSteps(
   request: PropagationRequest, options: PropagationOptions = {}, extraWatchers: StepWatcher[] = [],
 ): Generator<number, PropagationResult, void> {
+  if (needsSegmentedRun(request)) return yield* segmentedSteps(request, options, propagationSteps);
   const { checked, dynamics } = prepare(request);
   const { startTdbS: start, endTdbS: end, direction, burns } = checked;
   const central = dynamics.forces.centralBody;
@@ -138,7 +142,7 @@ export function* propagationSteps(
   });
   const watchers = [impactWatcher(dynamics), ...extraWatchers];
   const events: EventRecord[] = [];
-  const warnings: string[] = [];
+  const warnings: string[] = [...(dynamics.warnings ?? [])];
   const segments = checked.withStm ? new StmSegments() : null;
   const sampler = checked.outputStepS === null ? null : new OutputSampler(dynamics, start, end, checked.outputStepS, direction);
   sampler?.emitStart(stepper.y);
@@ -167,7 +171,7 @@ export function* propagationSteps(
         break run;
       }
       for (const watcher of watchers) {
-        const hit = watcher.afterStep(stepper, events);
+        const hit = watcher.afterStep(stepper, events, dynamics);
         if (hit !== null && (stop === null || (hit.epochTdbS - stop.epochTdbS) * direction < 0)) stop = hit;
       }
       sampler?.emitThrough(stepper, stop?.epochTdbS ?? stepper.t);
@@ -176,6 +180,8 @@ export function* propagationSteps(
         message = stop.message;
         break run;
       }
+      const rectified = dynamics.maybeRectify === undefined ? null : Float64Array.from(stepper.y);
+      if (rectified !== null && dynamics.maybeRectify!(stepper.t, rectified)) stepper.reset(rectified);
       yield span === 0 ? 1 : Math.min(1, Math.abs(stepper.t - start) / span);
     }
     while (burnsApplied < burns.length && burns[burnsApplied].epochTdbS === target) {
@@ -204,7 +210,7 @@ export function* propagationSteps(
   sampler?.finish(final);
   const result: PropagationResult = {
     outcome, message, final, samples: sampler?.samples ?? [], events, warnings,
-    stats: { ...stepper.counts, rectifications: 0, switches: [] },
+    stats: { ...stepper.counts, rectifications: dynamics.rectifications ?? 0, switches: [] },
   };
   if (segments !== null) {
     const { stm, burnSensitivities } = segments.finish(yFinal, burns.length - burnsApplied);

@@ -23,4 +23,11 @@ export interface PropagationDynamics {
   /** Adds `dvKmS` (km/s, J2000 equatorial; already signed for the direction of time) to the velocity
    * held in `y` at `epochTdbS`, in place. */
   applyImpulse(epochTdbS: number, y: Float64Array, dvKmS: ArrayLike<number>): void;
+  /** Encke: after an accepted step, restarts the reference conic when the deviation is past its
+   * threshold, rewriting `y` in place; true when it did (the loop then resets the stepper with y). */
+  maybeRectify?(epochTdbS: number, y: Float64Array): boolean;
+  /** Encke: reference-conic rectifications so far. */
+  readonly rectifications?: number;
+  /** Notes for the result's `warnings` (e.g. a fallback from Encke to Cowell). */
+  readonly warnings?: readonly string[];
 }

@@ -35,9 +35,9 @@ export interface KeplerSolution {
 
 const MAX_ITERATIONS = 200;
 
-function checkVec(name: string, v: readonly number[]): void {
-  if (v.length !== 3 || !v.every(Number.isFinite)) {
-    throw new InvalidInputError(name, `must be three finite numbers, got [${v.join(', ')}]`);
+function checkVec(name: string, v: ArrayLike<number>): void {
+  if (v.length !== 3 || !Number.isFinite(v[0]) || !Number.isFinite(v[1]) || !Number.isFinite(v[2])) {
+    throw new InvalidInputError(name, `must be three finite numbers, got [${Array.from(v).join(', ')}]`);
   }
 }
 
@@ -61,7 +61,7 @@ function timeEquation(chi: number, alpha: number, r0: number, sigma0: number) {
  * @param muKm3S2 gravitational parameter GM of the attracting body, km^3/s^2, > 0
  * @throws InvalidInputError for non-finite input, μ ≤ 0, r0 = 0
  */
-export function keplerSolve(r0Km: readonly number[], v0KmS: readonly number[], dtS: number,
+export function keplerSolve(r0Km: ArrayLike<number>, v0KmS: ArrayLike<number>, dtS: number,
   muKm3S2: number): KeplerSolution {
   checkVec('r0Km', r0Km);
   checkVec('v0KmS', v0KmS);
@@ -69,8 +69,8 @@ export function keplerSolve(r0Km: readonly number[], v0KmS: readonly number[], d
   if (!(muKm3S2 > 0) || !Number.isFinite(muKm3S2)) {
     throw new InvalidInputError('muKm3S2', `must be a finite number > 0, got ${muKm3S2}`);
   }
-  const [x, y, z] = r0Km;
-  const [vx, vy, vz] = v0KmS;
+  const x = r0Km[0], y = r0Km[1], z = r0Km[2];
+  const vx = v0KmS[0], vy = v0KmS[1], vz = v0KmS[2];
   const r0 = Math.hypot(x, y, z);
   if (!(r0 > 0)) throw new InvalidInputError('r0Km', 'position must not be zero');
   const v2 = vx * vx + vy * vy + vz * vz;
@@ -161,7 +161,7 @@ export function keplerSolve(r0Km: readonly number[], v0KmS: readonly number[], d
  * @param muKm3S2 GM, km^3/s^2 (> 0)
  * @returns position km and velocity km/s after dtS
  */
-export function keplerPropagate(r0Km: readonly number[], v0KmS: readonly number[], dtS: number,
+export function keplerPropagate(r0Km: ArrayLike<number>, v0KmS: ArrayLike<number>, dtS: number,
   muKm3S2: number): { positionKm: Vec3; velocityKmS: Vec3 } {
   const s = keplerSolve(r0Km, v0KmS, dtS, muKm3S2);
   return { positionKm: s.positionKm, velocityKmS: s.velocityKmS };

@@ -1,0 +1,178 @@
+/**
+ * Encke's method: the integration vector holds the deviation δ = x − x_ref of the true state from an
+ * osculating reference conic x_ref(t), which the universal-variable Kepler solver advances exactly.
+ *
+ * Deviation acceleration in Battin's cancellation-free form (Battin 1999, §8.4): with ρ the reference
+ * position and r = ρ + δ the true position,
+ *     δ̈ = −(μ/r³) (δ − f(q) ρ) + a_p,   q = δ·(δ + 2ρ)/ρ²,   f(q) = (1 + q)^{3/2} − 1
+ * (f evaluated as q(3 + 3q + q²)/(1 + (1 + q)^{3/2}), forces/battinF), so the difference of the two large
+ * central accelerations is never formed by subtraction. a_p is the perturbing acceleration of the same
+ * force model Cowell uses (third bodies, J2, SRP), taken as the model's total acceleration minus its
+ * central point-mass term at r: that difference carries only the round-off of the total acceleration,
+ * i.e. the same absolute error Cowell's right-hand side has.
+ *
+ * Step control: the deviation is integrated in scaled units y = δ/λ with λ_r = (atol + rtol·|r0|)/atol and
+ * λ_v = (atol + rtol·|v0|)/atol (|r0|, |v0| at the run's start), so the stepper's per-component error scale
+ * atol + rtol·|y| ≈ atol corresponds to atol + rtol·|x| in km and km/s: the error is judged against the
+ * size of the whole state, as Cowell's relative tolerance does, not against the (small) deviation.
+ *
+ * Rectification: when |δr|/|ρ| exceeds ENCKE_DEFAULTS.rectificationRatio the reference conic is restarted
+ * from the current true state (δ = 0); the run counts each one.
+ *
+ * STM: Φ rides along in y[6..41] and obeys Φ' = A Φ with the full-state gradient of the force model at
+ * the reconstructed true state (Φ is a property of the true trajectory, unaffected by rectification).
+ */
+import type { ForceModel } from '../forces/index.ts';
+import { battinF } from '../forces/index.ts';
+import { keplerSolve } from '../kepler/universal-kepler.ts';
+
+export const ENCKE_DEFAULTS = Object.freeze({
+  /** Rectify when |δr|/|ρ| exceeds this (dimensionless). Common practice: 1e-2 (Battin §8.4 suggests
+   * rectifying "when the deviation becomes large"; the value is ours). */
+  rectificationRatio: 1e-2,
+  /** Degenerate reference conic guard: |1 − e| below this is treated as parabolic. */
+  parabolicGuard: 1e-6,
+  /** Degenerate reference conic guard: |r × v| / (|r||v|) below this is rectilinear. */
+  rectilinearGuard: 1e-10,
+});
+
+/** Why a reference conic cannot serve Encke's method, or null when it can. */
+export function degenerateReason(state: ArrayLike<number>, mu: number): string | null {
+  const [x, y, z, vx, vy, vz] = [state[0], state[1], state[2], state[3], state[4], state[5]];
+  const r = Math.hypot(x, y, z);
+  const v = Math.hypot(vx, vy, vz);
+  const hx = y * vz - z * vy;
+  const hy = z * vx - x * vz;
+  const hz = x * vy - y * vx;
+  const h = Math.hypot(hx, hy, hz);
+  if (!(h > ENCKE_DEFAULTS.rectilinearGuard * r * v)) {
+    return `zero angular momentum (|h| = ${h.toExponential(3)} km^2/s)`;
+  }
+  const rv = x * vx + y * vy + z * vz;
+  const c = v * v - mu / r;
+  const e = Math.hypot(c * x - rv * vx, c * y - rv * vy, c * z - rv * vz) / mu;
+  if (Math.abs(1 - e) < ENCKE_DEFAULTS.parabolicGuard) {
+    return `near-parabolic reference conic (|1 − e| = ${Math.abs(1 - e).toExponential(3)} < ${ENCKE_DEFAULTS.parabolicGuard})`;
+  }
+  return null;
+}
+
+/** Encke formulation over one force model (one central body); shaped as PropagationDynamics. */
+export class EnckeDynamics {
+  readonly forces: ForceModel;
+  readonly withStm: boolean;
+  readonly errorComponents = 6;
+  readonly initialY: Float64Array;
+  /** Reference-conic restarts driven by the deviation threshold. */
+  rectifications = 0;
+  private readonly mu: number;
+  private readonly lengthKm: number;
+  private readonly speedKmS: number;
+  private refEpoch = 0;
+  private refState = new Float64Array(6);
+  private readonly acc = new Float64Array(3);
+  private readonly grad = new Float64Array(9);
+  private readonly total = new Float64Array(6);
+  private readonly scratch = new Float64Array(6);
+
+  /**
+   * @param total0 true state at epoch0 (km, km/s, J2000 equatorial, from the force model's centre)
+   * @param tolerances the run's relative and absolute tolerances (they set the deviation's scaling)
+   */
+  constructor(forces: ForceModel, epoch0: number, total0: ArrayLike<number>, withStm: boolean,
+    tolerances: { relativeTolerance: number; absoluteTolerance: number }) {
+    this.forces = forces;
+    this.withStm = withStm;
+    this.mu = forces.centralGmKm3S2;
+    const { relativeTolerance: rtol, absoluteTolerance: atol } = tolerances;
+    this.lengthKm = (atol + rtol * Math.hypot(total0[0], total0[1], total0[2])) / atol;
+    this.speedKmS = (atol + rtol * Math.hypot(total0[3], total0[4], total0[5])) / atol;
+    this.setReference(epoch0, total0);
+    this.initialY = new Float64Array(withStm ? 42 : 6);
+    if (withStm) for (let i = 0; i < 6; i++) this.initialY[6 + 7 * i] = 1;
+  }
+
+  /** Restarts the reference conic at the true state `total` (δ = 0 from here). */
+  private setReference(epoch: number, total: ArrayLike<number>): void {
+    this.refEpoch = epoch;
+    this.refState = Float64Array.from({ length: 6 }, (_, i) => total[i]);
+  }
+
+  private reference(epoch: number): { r: number[]; v: number[] } {
+    const s = keplerSolve(this.refState.subarray(0, 3), this.refState.subarray(3, 6), epoch - this.refEpoch, this.mu);
+    return { r: s.positionKm, v: s.velocityKmS };
+  }
+
+  readonly rhs = (t: number, y: Float64Array, dydt: Float64Array): void => {
+    const L = this.lengthKm;
+    const V = this.speedKmS;
+    const { r: rho } = this.reference(t);
+    const d0 = y[0] * L;
+    const d1 = y[1] * L;
+    const d2 = y[2] * L;
+    const tot = this.total;
+    tot[0] = rho[0] + d0;
+    tot[1] = rho[1] + d1;
+    tot[2] = rho[2] + d2;
+    const rho2 = rho[0] * rho[0] + rho[1] * rho[1] + rho[2] * rho[2];
+    const q = (d0 * (d0 + 2 * rho[0]) + d1 * (d1 + 2 * rho[1]) + d2 * (d2 + 2 * rho[2])) / rho2;
+    const f = battinF(q);
+    const r2 = tot[0] * tot[0] + tot[1] * tot[1] + tot[2] * tot[2];
+    const k = this.mu / (r2 * Math.sqrt(r2));
+    this.forces.accelerationInto(t, tot, this.acc, this.withStm ? this.grad : null);
+    const d = [d0, d1, d2];
+    for (let i = 0; i < 3; i++) {
+      const perturbation = this.acc[i] + k * tot[i]; // model total minus its central term −μr/r³
+      dydt[i] = (y[3 + i] * V) / L;
+      dydt[3 + i] = (-k * (d[i] - f * rho[i]) + perturbation) / V;
+    }
+    if (this.withStm) {
+      const g = this.grad;
+      for (let j = 0; j < 18; j++) dydt[6 + j] = y[24 + j];
+      for (let i = 0; i < 3; i++) {
+        for (let j = 0; j < 6; j++) {
+          dydt[24 + 6 * i + j] = g[3 * i] * y[6 + j] + g[3 * i + 1] * y[12 + j] + g[3 * i + 2] * y[18 + j];
+        }
+      }
+    }
+  };
+
+  /** True state (km, km/s, from the centre) at `epochTdbS` for integration vector y into out[0..5]. */
+  cartesianInto(epochTdbS: number, y: Float64Array, out: Float64Array): void {
+    const { r, v } = this.reference(epochTdbS);
+    for (let i = 0; i < 3; i++) {
+      out[i] = r[i] + y[i] * this.lengthKm;
+      out[3 + i] = v[i] + y[3 + i] * this.speedKmS;
+    }
+  }
+
+  /** |δr| / |ρ| for integration vector y at `epochTdbS`. */
+  deviationRatio(epochTdbS: number, y: Float64Array): number {
+    const { r } = this.reference(epochTdbS);
+    return (Math.hypot(y[0], y[1], y[2]) * this.lengthKm) / Math.hypot(r[0], r[1], r[2]);
+  }
+
+  /**
+   * Rectifies when |δr|/|ρ| is past the threshold: restarts the reference at the true state and zeroes
+   * δ in `y` (Φ kept). Returns true when it did (the caller then resets its stepper with y).
+   */
+  maybeRectify(epochTdbS: number, y: Float64Array): boolean {
+    if (this.deviationRatio(epochTdbS, y) <= ENCKE_DEFAULTS.rectificationRatio) return false;
+    this.restartAt(epochTdbS, y);
+    this.rectifications += 1;
+    return true;
+  }
+
+  private restartAt(epochTdbS: number, y: Float64Array): void {
+    this.cartesianInto(epochTdbS, y, this.scratch);
+    this.setReference(epochTdbS, this.scratch);
+    for (let i = 0; i < 6; i++) y[i] = 0;
+  }
+
+  /** Adds Δv (km/s, J2000 equatorial, signed for the direction of time) at `epochTdbS`; the reference
+   * conic restarts at the new state (not counted as a rectification). */
+  applyImpulse(epochTdbS: number, y: Float64Array, dvKmS: ArrayLike<number>): void {
+    for (let i = 0; i < 3; i++) y[3 + i] += dvKmS[i] / this.speedKmS;
+    this.restartAt(epochTdbS, y);
+  }
+}

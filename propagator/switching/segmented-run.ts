@@ -1,0 +1,166 @@
+/**
+ * A propagation with events and/or central-body switching, run as a chain of single-centre segments of
+ * the generic propagation loop (propagate.ts). Each segment carries an EventWatcher; a sphere-of-influence
+ * crossing ends the segment at the located epoch, the state is translated to the new centre through the
+ * ephemeris at that fixed epoch (identity Jacobian, so Φ chains by multiplication), and the next segment
+ * integrates about the new centre with the same set of attracting bodies (old centre becomes a perturber).
+ * J2 applies only while the originally requested central body is the centre.
+ */
+import { InvalidInputError } from '../errors.ts';
+import { buildEvents, EventWatcher, type CartesianSource, type DenseStepper, type EventStop } from '../events/index.ts';
+import { changeCentre } from '../frames/index.ts';
+import type {
+  EventRecord, PropagationOptions, PropagationRequest, PropagationResult,
+} from '../propagation-types.ts';
+import type { BodyName, StateVector } from '../types.ts';
+import { PRIMARY_OF, soiRadiusKm } from './sphere-of-influence.ts';
+
+/** Structural copy of propagate.ts's StepWatcher (kept here to avoid an import cycle). */
+interface SegmentWatcher {
+  afterStep(stepper: DenseStepper, events: EventRecord[], dynamics?: CartesianSource): EventStop | null;
+}
+/** The generic single-segment loop, injected by propagate.ts. */
+export type SegmentSteps = (request: PropagationRequest, options: PropagationOptions,
+  extraWatchers: SegmentWatcher[]) => Generator<number, PropagationResult, void>;
+
+/** True when a request needs this chained runner (events or switching). */
+export function needsSegmentedRun(request: PropagationRequest): boolean {
+  return (request.events?.length ?? 0) > 0 || request.switching?.enabled === true;
+}
+
+const mul6 = (a: number[], b: number[]): number[] => {
+  const c = new Array<number>(a.length === 36 ? 36 : 0).fill(0);
+  for (let i = 0; i < 6; i++) for (let k = 0; k < 6; k++) for (let j = 0; j < 6; j++) c[i * 6 + j] += a[i * 6 + k] * b[k * 6 + j];
+  return c;
+};
+const mul63 = (a: number[], s: number[]): number[] => {
+  const c = new Array<number>(18).fill(0);
+  for (let i = 0; i < 6; i++) for (let k = 0; k < 6; k++) for (let j = 0; j < 3; j++) c[i * 3 + j] += a[i * 6 + k] * s[k * 3 + j];
+  return c;
+};
+
+interface Candidates {
+  entries: { body: BodyName; radiusKm: number }[];
+  exit?: { to: BodyName; radiusKm: number };
+}
+
+function switchCandidates(centre: BodyName, bodies: BodyName[], request: PropagationRequest): Candidates {
+  if (request.switching?.enabled !== true) return { entries: [] };
+  const overrides = request.switching.radiusKm;
+  const entries = bodies.filter((b) => b !== centre && PRIMARY_OF[b] === centre)
+    .map((body) => ({ body, radiusKm: soiRadiusKm(body, overrides) }));
+  const primary = PRIMARY_OF[centre];
+  const exit = primary !== undefined && bodies.includes(primary) ? { to: primary, radiusKm: soiRadiusKm(centre, overrides) } : undefined;
+  return { entries, exit };
+}
+
+/** Where the state starts inside a candidate's sphere (switch at once), else null. */
+function insideAtStart(state: StateVector, c: Candidates, request: PropagationRequest): BodyName | null {
+  const r = Math.hypot(...state.positionKm);
+  if (c.exit && r > c.exit.radiusKm) return c.exit.to;
+  for (const e of c.entries) {
+    const b = changeCentre(state, e.body, request.ephemeris);
+    if (Math.hypot(...b.positionKm) < e.radiusKm) return e.body;
+  }
+  return null;
+}
+
+/** The chained run as a generator yielding the fraction of the whole span done. */
+export function* segmentedSteps(request: PropagationRequest, options: PropagationOptions,
+  segmentSteps: SegmentSteps): Generator<number, PropagationResult, void> {
+  const start = request.initial.epochTdbS;
+  const end = request.endEpochTdbS;
+  const direction: 1 | -1 = end >= start ? 1 : -1;
+  const span = Math.abs(end - start);
+  const bodies: BodyName[] = [request.forces.centralBody, ...request.forces.perturbingBodies];
+  const j2Body = request.forces.centralJ2 === true ? request.forces.centralBody : null;
+  const burns = (request.burns ?? []).map((b, i) => ({ ...b, index: i }));
+  const maxSteps = request.maxSteps ?? 1_000_000;
+  const events: EventRecord[] = [];
+  const warnings: string[] = [];
+  const switches: PropagationResult['stats']['switches'] = [];
+  const counts = { steps: 0, acceptedSteps: 0, rejectedSteps: 0, evaluations: 0 };
+  let rectifications = 0;
+  let stm: number[] | undefined;
+  const sens: (number[] | undefined)[] = burns.map(() => undefined);
+  let state: StateVector = changeCentre(request.initial, request.forces.centralBody, request.ephemeris);
+  let centre = request.forces.centralBody;
+  let last: PropagationResult | null = null;
+  const samples: StateVector[] = [];
+
+  for (let segment = 0; segment < 1000; segment++) {
+    const cand = switchCandidates(centre, bodies, request);
+    const jump = segment === 0 ? insideAtStart(state, cand, request) : null;
+    if (jump !== null) {
+      switches.push({ epochTdbS: state.epochTdbS, from: centre, to: jump });
+      state = changeCentre(state, jump, request.ephemeris);
+      centre = jump;
+      segment -= 1;
+      continue;
+    }
+    const segStart = state.epochTdbS;
+    const segBurns = burns.filter((b) => (b.epochTdbS - segStart) * direction > 0 && (b.epochTdbS - end) * direction <= 0);
+    const segRequest: PropagationRequest = {
+      ...request, initial: state, events: [], switching: undefined, burns: segBurns,
+      forces: { ...request.forces, centralBody: centre, perturbingBodies: bodies.filter((b) => b !== centre),
+        centralJ2: centre === j2Body },
+      maxSteps: Math.max(1, maxSteps - counts.steps),
+    };
+    let watcher: EventWatcher | null = null;
+    const factory: SegmentWatcher = {
+      afterStep(stepper, out, dynamics) {
+        if (dynamics === undefined) throw new InvalidInputError('events', 'the propagation loop gave no dynamics to the event watcher');
+        if (watcher === null) {
+          const active = buildEvents(request.events ?? [], {
+            ephemeris: request.ephemeris, centre, impactBodies: [], soiEntries: cand.entries, soiExit: cand.exit,
+          });
+          watcher = new EventWatcher(active, dynamics, request.ephemeris, direction);
+        }
+        return watcher.afterStep(stepper, out);
+      },
+    };
+    const run = segmentSteps(segRequest, options, [factory]);
+    const done = Math.abs(segStart - start);
+    let next = run.next();
+    while (next.done !== true) {
+      yield span === 0 ? 1 : Math.min(1, (done + next.value * Math.abs(end - segStart)) / span);
+      next = run.next();
+    }
+    const result = next.value;
+    last = result;
+    events.push(...result.events);
+    warnings.push(...result.warnings.filter((w) => !w.includes('not reached')));
+    for (const k of Object.keys(counts) as (keyof typeof counts)[]) counts[k] += result.stats[k];
+    rectifications += result.stats.rectifications;
+    const tEnd = result.final.epochTdbS;
+    samples.push(...result.samples.filter((s) => samples.length === 0 || (s.epochTdbS - samples[samples.length - 1].epochTdbS) * direction > 0));
+    if (result.stm !== undefined) {
+      // Earlier burns' sensitivities pass through this segment's Φ; this segment's burns start here.
+      sens.forEach((s, k) => { if (s !== undefined) sens[k] = mul63(result.stm!, s); });
+      segBurns.forEach((b, k) => {
+        if ((b.epochTdbS - tEnd) * direction <= 0) sens[b.index] = result.burnSensitivities![k];
+      });
+      stm = stm === undefined ? result.stm : mul6(result.stm, stm);
+    }
+    const sw = (watcher as EventWatcher | null)?.switchTo ?? null;
+    if (result.outcome !== 'stopped-by-event' || sw === null || sw.epochTdbS !== tEnd) break;
+    switches.push({ epochTdbS: tEnd, from: centre, to: sw.body });
+    state = changeCentre(result.final, sw.body, request.ephemeris);
+    centre = sw.body;
+    if (tEnd === end) break;
+  }
+  if (last === null) throw new InvalidInputError('switching', 'no segment was run');
+  const finishedBySwitch = last.outcome === 'stopped-by-event' && switches.length > 0
+    && switches[switches.length - 1].epochTdbS === last.final.epochTdbS;
+  const result: PropagationResult = {
+    outcome: finishedBySwitch ? 'finished' : last.outcome, message: finishedBySwitch ? undefined : last.message,
+    final: finishedBySwitch ? state : last.final, samples, events, warnings,
+    stats: { ...counts, rectifications, switches },
+  };
+  if (stm !== undefined) {
+    result.stm = stm;
+    result.burnSensitivities = sens.map((s) => s ?? new Array<number>(18).fill(0));
+    if (sens.some((s) => s === undefined)) warnings.push('some burn(s) not reached; their sensitivities are zero');
+  }
+  return result;
+}
