@@ -98,7 +98,7 @@ export class RetargetQueue {
 
   /** A retarget job's status, or undefined when unknown (never submitted, or expired). */
   async status(jobId: string): Promise<JobStatus | undefined> {
-    const job = await this.queue.getJob(jobId);
+    const { job, state } = await this.snapshot(jobId);
     const cancel = await readCancel(this.redis, this.prefix, jobId);
     if (!job || job.name !== JOB_NAMES.retarget) {
       if (!cancel?.removedWhileWaiting) return undefined;
@@ -110,7 +110,6 @@ export class RetargetQueue {
         error: { name: 'CancelledError', message: `cancelled by ${cancel.by} before it ran: ${cancel.reason}` },
       };
     }
-    const state = await job.getState();
     const status = this.describe(job, state, cancel);
     if (state === 'waiting-children') status.progress = await this.fanOutProgress(job) ?? status.progress;
     return status;
@@ -137,6 +136,18 @@ export class RetargetQueue {
       message: `Monte Carlo: ${done.length} of ${all.length} batches done`, samplesDone, samplesTotal: total,
       at: new Date().toISOString(),
     };
+  }
+
+  /**
+   * The job and its state, consistent: reading the job and then its state can see a job that finished in
+   * between (state completed, no result yet), so a finished state is followed by a fresh read of the job.
+   */
+  private async snapshot(jobId: string): Promise<{ job: Job<RetargetJobData, RetargetJobResult> | undefined; state: string }> {
+    let job = await this.queue.getJob(jobId);
+    if (!job) return { job, state: 'unknown' };
+    const state = await job.getState();
+    if ((state === 'completed' || state === 'failed') && !job.finishedOn) job = await this.queue.getJob(jobId);
+    return { job, state };
   }
 
   /** The finished job's result (with the plan when no archive holds it). */

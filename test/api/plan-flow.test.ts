@@ -69,7 +69,7 @@ describe('submit → progress → plan', () => {
       const res = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(problem) });
       const done = await waitForJob(svc, res.body.jobId, (s) => ['completed', 'failed'].includes(s.state));
       expect(done.state).toBe('completed');
-      expect(done.attemptsMade).toBe(0); // BullMQ counts failed attempts: none
+      expect(done.attemptsMade).toBe(1); // one attempt, no retry
       expect(done.result.planStatus).toBe('not-converged');
       const plan = await svc.request('GET', `/v1/plans/${done.result.planId}`, { token: svc.tokens.reviewer });
       expect(plan.body.summary.converged).toBe(false);
