@@ -9,12 +9,38 @@ import { ENTRY_KINDS, GENESIS_HASH, type ArchiveEntry, type VerifyFailure } from
 export type UnhashedEntry = Omit<ArchiveEntry, 'hash'>;
 
 /**
- * SHA-256 hex over the canonical JSON of every field but `hash`:
- * `{actor, at, jobId, kind, payload, planId, previousHash, sequence}` (keys sorted; see canonical-json.ts).
+ * The hash of an entry's payload: SHA-256 hex of its canonical JSON. The entry hash covers this digest rather
+ * than the payload itself, so a chain segment can be checked from entry headers alone (an export bundle
+ * carries other plans' entries as headers, without their content).
  */
+export function payloadHash(payload: Record<string, unknown>): string {
+  return sha256Hex(canonicalJson(payload));
+}
+
+/** An entry without its payload: enough to recompute its hash and check its link. */
+export interface EntryHeader {
+  sequence: number; at: string; actor: string; kind: string; planId: string | null; jobId: string | null;
+  payloadHash: string; previousHash: string; hash: string;
+}
+
+/**
+ * SHA-256 hex over the canonical JSON (keys sorted, no whitespace; see canonical-json.ts) of
+ * `{actor, at, jobId, kind, payloadHash, planId, previousHash, sequence}`.
+ */
+export function headerHash(header: Omit<EntryHeader, 'hash'>): string {
+  const { sequence, at, actor, kind, planId, jobId, previousHash } = header;
+  return sha256Hex(canonicalJson({ sequence, at, actor, kind, planId, jobId, payloadHash: header.payloadHash, previousHash }));
+}
+
+/** The entry's hash (see headerHash). */
 export function entryHash(entry: UnhashedEntry): string {
-  const { sequence, at, actor, kind, planId, jobId, payload, previousHash } = entry;
-  return sha256Hex(canonicalJson({ sequence, at, actor, kind, planId, jobId, payload, previousHash }));
+  return headerHash({ ...entry, payloadHash: payloadHash(entry.payload) });
+}
+
+/** The header of an entry (its payload replaced by the payload's hash). */
+export function entryHeader(entry: ArchiveEntry): EntryHeader {
+  const { sequence, at, actor, kind, planId, jobId, previousHash, hash } = entry;
+  return { sequence, at, actor, kind, planId, jobId, payloadHash: payloadHash(entry.payload), previousHash, hash };
 }
 
 /** Completes an entry with its hash. */

@@ -2,9 +2,11 @@
 export * from './types.ts';
 export { ArchiveConflictError, ArchiveInputError, ArchiveNotFoundError } from './errors.ts';
 export { canonicalJson, canonicalHash, sha256Hex } from './canonical-json.ts';
-export { entryHash, ChainVerifier } from './chain.ts';
+export { entryHash, entryHeader, headerHash, payloadHash, ChainVerifier, type EntryHeader } from './chain.ts';
+export type { ManeuverPlanIsArchivable } from './plan-compat.ts';
 export { openArchive, SQLITE_ARCHIVE_FILE, type OpenArchiveOptions } from './open-archive.ts';
 export { SqliteArchive, migrateSqlite, openSqliteDatabase, type SqliteArchiveOptions } from './sqlite/sqlite-archive.ts';
 export { PostgresArchive, migratePostgres, type PostgresArchiveOptions } from './postgres/postgres-archive.ts';
 export { type Migration } from './sqlite/sqlite-migrations.ts';
 export { type PgMigration } from './postgres/postgres-migrations.ts';
+export { buildPlanBundle, checkPlanBundle, BUNDLE_FORMAT, HASHING_RULES, type PlanBundle, type BundleCheck, type BundleOptions } from './bundle.ts';

@@ -19,7 +19,8 @@ export const GENESIS_HASH = '0'.repeat(64);
 
 /**
  * One entry of the chain. `hash` = SHA-256 hex of the canonical JSON (see canonical-json.ts) of
- * `{ sequence, at, actor, kind, planId, jobId, payload, previousHash }` — every field but `hash` itself.
+ * `{ actor, at, jobId, kind, payloadHash, planId, previousHash, sequence }` where
+ * `payloadHash` = SHA-256 hex of the canonical JSON of `payload` — so every field but `hash` is covered.
  */
 export interface ArchiveEntry {
   /** 1, 2, 3, … without gaps. */

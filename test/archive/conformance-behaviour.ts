@@ -37,8 +37,9 @@ export function describeArchiveBehaviour(factory: StoreFactory): void {
         // Independent computation: keys sorted, no whitespace, SHA-256 over UTF-8 (archive/canonical-json.ts).
         const problemHash = createHash('sha256').update('{"a":[1.5,"x"],"b":2}').digest('hex');
         expect(first.payload.problemHash).toBe(problemHash);
-        const canonical = `{"actor":"ann","at":"${first.at}","jobId":"j1","kind":"job-submitted","payload":{"problem":{"a":[1.5,"x"],"b":2},`
-          + `"problemHash":"${problemHash}"},"planId":null,"previousHash":"${GENESIS_HASH}","sequence":1}`;
+        const payloadHash = createHash('sha256').update(`{"problem":{"a":[1.5,"x"],"b":2},"problemHash":"${problemHash}"}`).digest('hex');
+        const canonical = `{"actor":"ann","at":"${first.at}","jobId":"j1","kind":"job-submitted","payloadHash":"${payloadHash}",`
+          + `"planId":null,"previousHash":"${GENESIS_HASH}","sequence":1}`;
         expect(first.hash).toBe(createHash('sha256').update(canonical).digest('hex'));
         const second = (await archive.recordJobSubmitted({ jobId: 'j2', actor: 'ann', problem: PROBLEM })).entries[0];
         expect(second.sequence).toBe(2);
