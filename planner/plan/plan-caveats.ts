@@ -64,7 +64,9 @@ export function planCaveats(plan: ManeuverPlan): Caveat[] {
   if (plan.convergence.leastSquares) {
     out.push(caveat('TARGETS_MET_IN_LEAST_SQUARES_ONLY', 'The targets outnumber the free variables: the burns were solved in least squares, and the targets are met only as far as the table shows.'));
   }
-  out.push(caveat('BUILTIN_EPHEMERIS_ACCURACY', `Planet positions come from the built-in ${plan.forceModel.ephemeris} series (truncated VSOP87-class theory, about one arcminute: thousands to tens of thousands of km at planetary distances). Targets relative to a planet inherit that error; re-plan against the mission's reference ephemeris before use.`));
+  const usesEphemeris = plan.forceModel.perturbingBodies.length > 0 || plan.createdFrom.centre !== plan.forceModel.centralBody
+    || plan.targets.some((t) => t.body !== null && t.body !== plan.forceModel.centralBody);
+  if (usesEphemeris) out.push(caveat('BUILTIN_EPHEMERIS_ACCURACY', `Planet positions come from the built-in ${plan.forceModel.ephemeris} series (truncated VSOP87-class theory, about one arcminute: thousands to tens of thousands of km at planetary distances). Targets relative to a planet inherit that error; re-plan against the mission's reference ephemeris before use.`));
   if (!plan.createdFrom.hasCovariance) {
     out.push(caveat('NO_INITIAL_STATE_COVARIANCE', 'The initial state has no covariance: the dispersion covers burn execution errors only, not orbit-determination uncertainty.'));
   }

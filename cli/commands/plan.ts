@@ -1,0 +1,118 @@
+/** `veer plan <problem.json> [--json] [--out FILE]`: the whole planning job in-process, no server. */
+import { readFile, writeFile } from 'node:fs/promises';
+import { InvalidInputError } from '../../propagator/index.ts';
+import { parseProblem, planManeuvers } from '../../planner/index.ts';
+import type { ManeuverPlan, PlanProgress } from '../../planner/index.ts';
+import type { CliCommand } from '../command.ts';
+import { formatPlanReport } from '../report/plan-report.ts';
+
+const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE]
+
+Plans the correction burns of a retargeting problem in this process: differential correction, an
+independent cross-check (the other propagation method at a tighter tolerance), linear and Monte Carlo
+dispersion, caveats. Progress goes to stderr; the readable report to stdout.
+
+  --json       print the plan as JSON on stdout instead of the report
+  --out FILE   also write the plan as JSON to FILE
+
+Exit codes: 0 converged and cross-check passed; 3 not converged or cross-check failed;
+2 bad usage or invalid problem (the field is named); 1 other failures.
+Every plan is a PROPOSAL: it requires review and approval by qualified flight-dynamics staff and
+independent verification before any commanding; follow the mission's own procedures.`;
+
+function progressWriter(): { update: (p: PlanProgress) => void; end: () => void } {
+  const tty = process.stderr.isTTY === true;
+  let lastStage = '';
+  let lastLen = 0;
+  return {
+    update(p) {
+      const pct = Math.round(p.fraction * 100);
+      if (tty) {
+        const width = 30;
+        const filled = Math.round(p.fraction * width);
+        const text = `[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${String(pct).padStart(3)}% ${p.stage}: ${p.message}`.slice(0, 110);
+        process.stderr.write(`\r${text.padEnd(lastLen)}`);
+        lastLen = text.length;
+      } else if (p.stage !== lastStage) {
+        process.stderr.write(`veer plan: ${String(pct).padStart(3)}% ${p.stage}: ${p.message}\n`);
+      }
+      lastStage = p.stage;
+    },
+    end() {
+      if (tty && lastLen > 0) process.stderr.write('\n');
+    },
+  };
+}
+
+/** Reads and validates a problem file; InvalidInputError names the file or the field. */
+export async function readProblemFile(path: string): Promise<ReturnType<typeof parseProblem>> {
+  let text: string;
+  try {
+    text = await readFile(path, 'utf8');
+  } catch (error) {
+    throw new InvalidInputError('problem', `cannot read '${path}': ${(error as Error).message}`);
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (error) {
+    throw new InvalidInputError('problem', `'${path}' is not valid JSON: ${(error as Error).message}`);
+  }
+  return parseProblem(json);
+}
+
+/** Exit code of a finished plan: 0 only when converged and cross-checked. */
+export function planExitCode(plan: ManeuverPlan): number {
+  return plan.status === 'converged' && plan.crossCheck.passed ? 0 : 3;
+}
+
+export const planCommand: CliCommand = {
+  name: 'plan',
+  summary: 'plan correction burns for a problem file (in-process) and print the proposed plan',
+  usage: USAGE,
+  async run(args: string[]): Promise<number> {
+    let json = false;
+    let out: string | undefined;
+    const files: string[] = [];
+    for (let i = 0; i < args.length; i++) {
+      const a = args[i];
+      if (a === '--json') json = true;
+      else if (a === '--out') {
+        out = args[++i];
+        if (!out) {
+          process.stderr.write(`veer plan: --out needs a file name\n\n${USAGE}\n`);
+          return 2;
+        }
+      } else if (a.startsWith('-')) {
+        process.stderr.write(`veer plan: unknown option '${a}'\n\n${USAGE}\n`);
+        return 2;
+      } else files.push(a);
+    }
+    if (files.length !== 1) {
+      process.stderr.write(`veer plan: give exactly one problem file\n\n${USAGE}\n`);
+      return 2;
+    }
+    const problem = await readProblemFile(files[0]);
+    const bar = progressWriter();
+    const controller = new AbortController();
+    const onSigint = (): void => controller.abort();
+    process.once('SIGINT', onSigint);
+    let plan: ManeuverPlan;
+    try {
+      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal });
+    } finally {
+      bar.end();
+      process.removeListener('SIGINT', onSigint);
+    }
+    const text = `${JSON.stringify(plan, null, 2)}\n`;
+    if (out) await writeFile(out, text, 'utf8');
+    process.stdout.write(json ? text : `${formatPlanReport(plan)}\n`);
+    const code = planExitCode(plan);
+    if (code !== 0) {
+      process.stderr.write(plan.status !== 'converged'
+        ? `veer plan: NOT CONVERGED (${plan.convergence.outcome}) — no plan to execute\n`
+        : `veer plan: CROSS-CHECK FAILED — ${plan.crossCheck.message}\n`);
+    }
+    return code;
+  },
+};

@@ -1,0 +1,135 @@
+/**
+ * The readable plan report: caveats first and last, status and cross-check, burn table, targets,
+ * closest approaches, dispersion, iterations. A plan that did not converge shows NO burn table — only
+ * the last iterate, marked as diagnostics.
+ */
+import type { ManeuverPlan } from '../../planner/index.ts';
+import { table } from './text-table.ts';
+
+const RULE = '='.repeat(100);
+
+function num(x: number | null | undefined, digits = 3): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
+  const a = Math.abs(x);
+  if (a !== 0 && (a >= 1e7 || a < 1e-3)) return x.toExponential(digits);
+  return x.toFixed(digits);
+}
+
+function caveatBlock(plan: ManeuverPlan, heading: string): string[] {
+  return [RULE, heading, ...plan.caveats.map((c) => `  [${c.severity.toUpperCase()}] ${c.code}: ${c.text}`), RULE];
+}
+
+function statusLines(plan: ManeuverPlan): string[] {
+  const lines: string[] = [];
+  if (plan.status !== 'converged') {
+    lines.push('*'.repeat(100),
+      `***  NOT CONVERGED (${plan.convergence.outcome}) — THIS IS NOT A PLAN. THERE ARE NO BURNS TO EXECUTE.`,
+      `***  ${plan.convergence.message}`, '*'.repeat(100));
+  } else {
+    lines.push(`Status: converged — ${plan.convergence.message}${plan.convergence.leastSquares ? ' (least squares)' : ''}`);
+  }
+  if (plan.status === 'converged') {
+    const cc = plan.crossCheck;
+    lines.push(cc.passed
+      ? `Cross-check: PASSED — ${cc.message}`
+      : `${'!'.repeat(100)}\n!!!  CROSS-CHECK FAILED — ${cc.message}\n${'!'.repeat(100)}`);
+  }
+  return lines;
+}
+
+function burnTable(plan: ManeuverPlan): string[] {
+  if (plan.status !== 'converged') {
+    const li = plan.convergence.lastIterate;
+    if (!li) return [];
+    return ['Last iterate (diagnostics only — NOT a burn to execute):',
+      ...li.burnsInertialKmS.map((dv, i) => `  burn ${i + 1}: Δv J2000 [${dv.map((v) => (v * 1000).toFixed(4)).join(', ')}] m/s`)];
+  }
+  const rows = plan.burns.map((b) => [
+    b.label, b.epoch.utc ?? '(beyond leap table)', b.epoch.tdb, b.magnitudeMS.toFixed(4),
+    b.deltaVRtnKmS.map((v) => (v * 1000).toFixed(4)).join(' '), b.deltaVVnbKmS.map((v) => (v * 1000).toFixed(4)).join(' '),
+    b.propellantKg.toFixed(3), b.durationS.toFixed(1),
+  ]);
+  return ['Proposed burns (impulsive; Δv in m/s):',
+    ...table(['burn', 'epoch UTC', 'epoch TDB', '|Δv|', 'Δv R T N', 'Δv V N B', 'propellant kg', 'duration s'], rows),
+    `  Δv J2000 equatorial (km/s): ${plan.burns.map((b) => `[${b.deltaVInertialKmS.map((v) => v.toExponential(9)).join(', ')}]`).join('; ')}`,
+    `  total |Δv| ${plan.totalDeltaVMS.toFixed(4)} m/s, propellant ${plan.totalPropellantKg.toFixed(3)} kg`];
+}
+
+function targetTable(plan: ManeuverPlan): string[] {
+  const rows = plan.targets.map((t) => [
+    `${t.targetIndex}:${t.kind}`, `${t.component}${t.body ? ` @${t.body}` : ''}`, num(t.requested), num(t.achieved), num(t.residual),
+    `${num(t.tolerance)} ${t.unit}`, t.met ? 'yes' : 'NO',
+  ]);
+  return ['Targets (requested vs achieved):', ...table(['target', 'component', 'requested', 'achieved', 'residual', 'tolerance', 'met'], rows)];
+}
+
+function crossCheckTable(plan: ManeuverPlan): string[] {
+  const cc = plan.crossCheck;
+  if (cc.differences.length === 0) return [];
+  return [`Cross-check (${cc.primaryMethod} vs ${cc.method} at relative tolerance ${cc.relativeTolerance}):`,
+    ...table(['component', 'plan', 'check', 'difference', 'allowed', 'ok'], cc.differences.map((d) => [
+      d.component, num(d.primary), num(d.check), num(d.difference), num(d.allowed), d.withinTolerance && d.metByCheck ? 'yes' : 'NO',
+    ]))];
+}
+
+function dispersionLines(plan: ManeuverPlan): string[] {
+  const d = plan.dispersion;
+  const out = ['Dispersion:'];
+  if (d.executionModel) {
+    const e = d.executionModel;
+    out.push(`  Gates execution errors (1σ): magnitude ${e.fixedMagnitudeMS} m/s + ${(e.proportionalMagnitudeFraction * 100).toFixed(3)} %, pointing ${e.fixedPointingMS} m/s + ${e.proportionalPointingDeg}°`);
+  }
+  const l = d.linear;
+  if (l) {
+    const part = (name: string, p: typeof l.total | null): void => {
+      if (!p) return;
+      const e = p.bPlane;
+      out.push(`  linear ${name}: ${e ? `B-plane 1σ ${num(e.semiMajorKm)} x ${num(e.semiMinorKm)} km at ${num(e.orientationDeg, 2)}°` : ''}${p.closestApproachSigmaS !== null ? `, TCA σ ${num(p.closestApproachSigmaS)} s` : ''}; target σ ${p.targetSigmas.map((s) => num(s)).join(', ')}`);
+    };
+    part('execution', l.execution);
+    part('initial state', l.initialState);
+    part('total', l.total);
+    if (l.threeSigma) out.push(`  linear 3σ ellipse: ${num(l.threeSigma.semiMajorKm)} x ${num(l.threeSigma.semiMinorKm)} km`);
+    if (l.impactProbability !== null) out.push(`  impact probability (linear): ${l.impactProbability.toExponential(3)}`);
+  }
+  const mc = d.monteCarlo;
+  if (mc) {
+    out.push(`  Monte Carlo: ${mc.samples} samples (seed ${mc.seed}), ${mc.impacts} impacts → P = ${mc.impactProbability.toExponential(3)} (95 % ${mc.impactProbabilityInterval.lower95.toExponential(2)}–${mc.impactProbabilityInterval.upper95.toExponential(2)})${mc.failedSamples ? `, ${mc.failedSamples} failed` : ''}`);
+    if (mc.bPlane) out.push(`  Monte Carlo B-plane 1σ ${num(mc.bPlane.semiMajorKm)} x ${num(mc.bPlane.semiMinorKm)} km at ${num(mc.bPlane.orientationDeg, 2)}°${mc.closestApproachSigmaS !== null ? `, TCA σ ${num(mc.closestApproachSigmaS)} s` : ''}`);
+    out.push(`  Monte Carlo target σ ${mc.targetSigmas.map((s) => num(s)).join(', ')}`);
+    if (mc.linearAgreement) out.push(`  linear vs Monte Carlo: ${mc.linearAgreement.passed ? 'agree' : 'DISAGREE'} — ${mc.linearAgreement.message}`);
+  }
+  for (const n of d.notes) out.push(`  note: ${n}`);
+  return out;
+}
+
+/** The full readable report of a plan. */
+export function formatPlanReport(plan: ManeuverPlan): string {
+  const lines: string[] = [
+    ...caveatBlock(plan, 'PROPOSED MANEUVER PLAN — requires review and approval by qualified flight-dynamics staff and independent verification before any commanding. Caveats:'),
+    `Spacecraft: ${plan.spacecraftName}${plan.title ? ` — ${plan.title}` : ''}`,
+    `Problem hash (SHA-256): ${plan.problemHash}   software: ${plan.softwareVersion}`,
+    `Initial state: ${plan.createdFrom.initialEpoch.tdb} (${plan.createdFrom.initialEpoch.utc ?? 'UTC n/a'}), centre ${plan.createdFrom.centre}, ${plan.createdFrom.frame}; span to ${plan.createdFrom.endEpoch.tdb}`,
+    `Force model: ${plan.forceModel.summary}; ephemeris ${plan.forceModel.ephemeris}`,
+    '',
+    ...statusLines(plan),
+    '',
+    ...burnTable(plan),
+    '',
+    ...targetTable(plan),
+    '',
+    ...(plan.approaches.length ? ['Closest approaches:', ...plan.approaches.map((a) => `  ${a.body}: ${a.epoch.tdb}, distance ${num(a.distanceKm)} km, altitude ${num(a.altitudeKm)} km`), ''] : []),
+    ...crossCheckTable(plan),
+    '',
+    ...dispersionLines(plan),
+    '',
+    `Iterations (${plan.iterations.length}):`,
+    ...plan.iterations.map((it) => `  ${it.iteration}: max |residual|/tol ${num(it.maxScaledResidual)}, cond ${num(it.conditionNumber)}, step ${num(it.stepNorm)}, Jacobian ${it.jacobianSource}${it.note ? ` — ${it.note}` : ''}`),
+    `Effort: ${plan.effort.propagations} propagations, ${plan.effort.evaluations} force evaluations`,
+    '',
+    ...caveatBlock(plan, plan.status === 'converged'
+      ? 'REMINDER — this is a PROPOSAL. Review, approval and independent verification come first; follow the mission\'s own procedures. Caveats:'
+      : 'NOT CONVERGED — no plan. Caveats:'),
+  ];
+  return lines.join('\n');
+}
