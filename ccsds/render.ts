@@ -17,6 +17,16 @@ export type Item =
   | { kind: 'covariance'; values: string[]; rows: boolean }
   | { kind: 'blank' };
 
+const ASCII_FOR: Readonly<Record<string, string>> = {
+  'Δ': 'D', 'σ': 'sigma', '·': '.', '×': 'x', '≤': '<=', '≥': '>=', '−': '-', '–': '-', '—': '-', '²': '2', '³': '3',
+  'µ': 'u', 'μ': 'u', '°': ' deg', '’': "'", '‘': "'", '“': '"', '”': '"', '…': '...',
+};
+
+/** The messages are ASCII (502.0-B 7.2): common symbols are spelled out, anything else becomes '?'. */
+export function asciiText(text: string): string {
+  return text.replace(/[^\t\x20-\x7e]/g, (c) => ASCII_FOR[c] ?? '?').replace(/\t/g, ' ');
+}
+
 /** Longest keyword written, for aligned `=` signs as in the standard's examples. */
 const KEYWORD_WIDTH = 20;
 
@@ -26,9 +36,9 @@ export function renderKvn(items: readonly Item[]): string {
   for (const item of items) {
     switch (item.kind) {
       case 'keyword':
-        lines.push(`${item.keyword.padEnd(KEYWORD_WIDTH)} = ${item.value}${item.unit ? ` [${item.unit}]` : ''}`);
+        lines.push(`${item.keyword.padEnd(KEYWORD_WIDTH)} = ${asciiText(item.value)}${item.unit ? ` [${item.unit}]` : ''}`);
         break;
-      case 'comment': lines.push(`COMMENT ${item.text}`.trimEnd()); break;
+      case 'comment': lines.push(`COMMENT ${asciiText(item.text)}`.trimEnd()); break;
       case 'open': case 'close': if (item.kvn) lines.push(item.kvn); break;
       case 'state': lines.push(item.fields.join(' ')); break;
       case 'covariance':
@@ -54,7 +64,7 @@ export function renderKvn(items: readonly Item[]): string {
 }
 
 function escapeXml(text: string): string {
-  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+  return asciiText(text).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 }
 
 /** Renders items as an NDM/XML document whose root is `<opm>` or `<oem>` with the version attribute. */

@@ -1,0 +1,29 @@
+/**
+ * Public face of ccsds/: CCSDS Orbit Data Messages (502.0-B) in and out — the Orbit Parameter Message
+ * (initial state, covariance, maneuvers) and the Orbit Ephemeris Message (tabulated trajectories), in
+ * KVN and XML. Pure: text in, data out (and back); the CLI and the API do the file and HTTP work.
+ */
+export { CcsdsFormatError } from './errors.ts';
+export type * from './odm-types.ts';
+export { readOpm } from './opm-reader.ts';
+export { writeOpm } from './opm-writer.ts';
+export { readOem } from './oem-reader.ts';
+export { writeOem } from './oem-writer.ts';
+export { encodingOf } from './tokenise.ts';
+export { ODM_WRITE_DEFAULTS, type OdmWriteOptions } from './write-options.ts';
+export { formatCcsdsEpoch, parseCcsdsEpoch, SUPPORTED_TIME_SYSTEMS } from './values.ts';
+export {
+  CENTRE_NAME_OF_BODY, FRAME_NAME_OF_INERTIAL, centreFromName, inertialFrameFromName, frameMeaningFromName,
+  vnbFromTnw, tnwFromVnb, type FrameMeaning,
+} from './frames.ts';
+export { assertPositiveSemiDefinite, PSD_TOLERANCE } from './covariance.ts';
+export {
+  readOpmAsInitialState, covarianceInStateFrame, type OpmInitialState, type PlannerInitialState,
+} from './initial-state.ts';
+export {
+  oemToEphemeris, oemToTrajectory, segmentInterpolation, OEM_EPHEMERIS_DEFAULTS, type OemEphemerisOptions,
+  type OemTrajectory,
+} from './oem-ephemeris.ts';
+export { planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './plan-opm.ts';
+export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './plan-oem.ts';
+export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export-plan.ts';

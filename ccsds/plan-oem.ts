@@ -1,0 +1,168 @@
+/**
+ * The predicted post-burn trajectory of a proposed plan as an Orbit Ephemeris Message: the problem's
+ * initial state propagated with the plan's burns (the problem's force model, the built-in ephemeris),
+ * sampled at a chosen step, one segment per arc between burns (an ephemeris must not be interpolated
+ * across a velocity jump). When the problem has an initial covariance, each segment ends with that
+ * covariance mapped linearly through the state transition matrix — orbit-determination uncertainty only;
+ * execution errors of the burns are not in it (said in the block's comment).
+ */
+import type { ManeuverPlan, PlanningProblem } from '../planner/index.ts';
+import {
+  CancelledError, changeCentre, createBuiltinEphemeris, type Ephemeris, type ForceModelSpec, InvalidInputError,
+  type InertialFrame, parseEpoch, propagateAsync, type StateVector, stateToFrame,
+} from '../propagator/index.ts';
+import { rotateInertialCovariance } from './initial-state.ts';
+import { CENTRE_NAME_OF_BODY, FRAME_NAME_OF_INERTIAL } from './frames.ts';
+import type { InterpolationMethod, Oem, OemCovariance, OemSegment, OemState } from './odm-types.ts';
+import { assertExportable, type PlanExportOptions, planHeader } from './plan-opm.ts';
+import { formatCcsdsEpoch } from './values.ts';
+
+export interface PlanOemOptions extends PlanExportOptions {
+  /** Time between ephemeris lines, s (> 0); each segment also holds its first and last epoch. */
+  stepS: number;
+  /** Axes of the written states. @defaultValue the initial state's frame */
+  frame?: InertialFrame;
+  /** Interpolation recommended in the metadata. @defaultValue { method: 'HERMITE', degree: 7 } */
+  interpolation?: { method: InterpolationMethod; degree: number };
+  /** Source of body positions; the built-in one when absent. */
+  ephemeris?: Ephemeris;
+  /** Write mapped covariance blocks when the problem has an initial covariance. @defaultValue true */
+  covariance?: boolean;
+  signal?: AbortSignal;
+  onProgress?: (fraction: number) => void;
+}
+
+/** Most lines one export may write (a guard against a step far too small for the span). */
+export const MAX_OEM_LINES = 200_000;
+
+function multiply(a: number[][], b: number[][]): number[][] {
+  return a.map((row) => b[0].map((_, j) => row.reduce((s, v, k) => s + v * b[k][j], 0)));
+}
+
+function transpose(a: number[][]): number[][] {
+  return a[0].map((_, j) => a.map((row) => row[j]));
+}
+
+/** Propagates the plan arc by arc and builds the OEM (throws InvalidInputError for an unconverged plan). */
+export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, options: PlanOemOptions): Promise<Oem> {
+  assertExportable(plan);
+  if (!(options.stepS > 0) || !Number.isFinite(options.stepS)) {
+    throw new InvalidInputError('stepS', `step ${options.stepS} s must be a finite number > 0`);
+  }
+  const s = problem.initialState;
+  const startTdbS = parseEpoch(s.epoch, undefined, 'initialState.epoch');
+  const endTdbS = parseEpoch(problem.endEpoch, undefined, 'endEpoch');
+  const lines = Math.abs(endTdbS - startTdbS) / options.stepS + plan.burns.length * 2 + 2;
+  if (lines > MAX_OEM_LINES) {
+    throw new InvalidInputError('stepS', `step ${options.stepS} s gives about ${Math.round(lines)} lines `
+      + `(limit ${MAX_OEM_LINES}); choose a larger step`);
+  }
+  const scale = options.timeSystem ?? 'TDB';
+  const frame = options.frame ?? s.frame;
+  const ephemeris = options.ephemeris ?? createBuiltinEphemeris();
+  const interpolation = options.interpolation ?? { method: 'HERMITE', degree: 7 };
+  const f = problem.forceModel;
+  const forces: ForceModelSpec = {
+    centralBody: f.centralBody,
+    perturbingBodies: f.perturbingBodies,
+    centralJ2: f.centralJ2,
+    ...(f.solarPressure && problem.spacecraft.solarPressure ? {
+      solarPressure: { ...problem.spacecraft.solarPressure, massKg: problem.spacecraft.massKg },
+    } : {}),
+  };
+  const withCovariance = (options.covariance ?? true) && s.covarianceKmKmS !== undefined;
+  let covariance = s.covarianceKmKmS && rotateInertialCovariance(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL');
+
+  let state: StateVector = {
+    epochTdbS: startTdbS, centre: s.centre, frame: s.frame, positionKm: [...s.positionKm], velocityKmS: [...s.velocityKmS],
+  };
+  const burns = [...plan.burns].sort((a, b) => a.epoch.tdbS - b.epoch.tdbS);
+  const arcEnds = [...burns.map((b) => b.epoch.tdbS), endTdbS];
+  const segments: OemSegment[] = [];
+  const toOutput = (x: StateVector): StateVector => stateToFrame(x.centre === s.centre ? x : changeCentre(x, s.centre, ephemeris), frame);
+  for (let arc = 0; arc < arcEnds.length; arc++) {
+    if (options.signal?.aborted) throw new CancelledError('OEM export cancelled');
+    const arcEnd = arcEnds[arc];
+    if (arcEnd > state.epochTdbS) {
+      const result = await propagateAsync({
+        initial: state, endEpochTdbS: arcEnd, forces, ephemeris, method: f.method,
+        relativeTolerance: f.relativeTolerance, outputStepS: options.stepS, withStm: withCovariance,
+        switching: { enabled: f.switching },
+      }, {
+        ...(options.signal ? { signal: options.signal } : {}),
+        onProgress: (x) => options.onProgress?.((arc + x) / arcEnds.length),
+      });
+      if (result.outcome === 'cancelled') throw new CancelledError('OEM export cancelled');
+      if (result.outcome !== 'finished') {
+        throw new InvalidInputError('plan', `propagation of arc ${arc + 1} ended '${result.outcome}': ${result.message ?? ''}`);
+      }
+      const samples = result.samples.map(toOutput);
+      const covariances: OemCovariance[] = [];
+      if (withCovariance && covariance && result.stm) {
+        const phi = Array.from({ length: 6 }, (_, i) => result.stm!.slice(6 * i, 6 * i + 6));
+        if (arc === 0) covariances.push(covarianceBlock(startTdbS, covariance, frame, scale, 'Initial-state covariance'));
+        covariance = multiply(multiply(phi, covariance), transpose(phi));
+        covariances.push(covarianceBlock(arcEnd, covariance, frame, scale,
+          'Initial-state covariance mapped linearly (STM); burn execution errors not included'));
+      }
+      segments.push(segment(plan, options, samples, covariances, arc, interpolation, frame, scale));
+      state = result.final;
+    }
+    const burn = burns[arc];
+    if (burn) {
+      // Burns are inertial J2000 equatorial; apply in those axes.
+      const eq = stateToFrame(state, 'J2000_EQUATORIAL');
+      const v = eq.velocityKmS;
+      const dv = burn.deltaVInertialKmS;
+      state = { ...eq, velocityKmS: [v[0] + dv[0], v[1] + dv[1], v[2] + dv[2]] };
+    }
+  }
+  return { header: planHeader(plan, options), segments };
+}
+
+function covarianceBlock(epochTdbS: number, matrix: number[][], frame: InertialFrame, scale: PlanOemOptions['timeSystem'],
+  comment: string): OemCovariance {
+  return {
+    comments: [comment], epoch: formatCcsdsEpoch(epochTdbS, scale ?? 'TDB'), epochTdbS,
+    covRefFrame: FRAME_NAME_OF_INERTIAL[frame], matrix: rotateInertialCovariance(matrix, 'J2000_EQUATORIAL', frame),
+  };
+}
+
+function segment(plan: ManeuverPlan, options: PlanOemOptions, samples: StateVector[], covariances: OemCovariance[],
+  arc: number, interpolation: { method: InterpolationMethod; degree: number }, frame: InertialFrame,
+  scale: PlanOemOptions['timeSystem']): OemSegment {
+  const ts = scale ?? 'TDB';
+  const written: OemState[] = samples.map((x) => ({
+    epoch: formatCcsdsEpoch(x.epochTdbS, ts), epochTdbS: x.epochTdbS,
+    positionKm: [...x.positionKm], velocityKmS: [...x.velocityKmS], line: 0,
+  }));
+  // Epochs are printed to the microsecond: a sample that would print like its successor is dropped (the
+  // arc's end state is always kept), so the file's epochs increase strictly.
+  const states = written.filter((x, i) => i === written.length - 1 || x.epoch !== written[i + 1].epoch);
+  // Never recommend more points than the segment holds.
+  const n = states.length;
+  const degree = interpolation.method === 'HERMITE' ? Math.min(interpolation.degree, 2 * n - 1)
+    : interpolation.method === 'LINEAR' ? 1 : Math.min(interpolation.degree, n - 1);
+  const centre = samples[0].centre;
+  const first = states[0];
+  const last = states[n - 1];
+  const burnBefore = arc > 0 ? plan.burns[arc - 1] : undefined;
+  return {
+    metadata: {
+      comments: [burnBefore ? `Arc ${arc + 1}: after ${burnBefore.label}` : `Arc 1: from the initial state`],
+      objectName: plan.spacecraftName,
+      objectId: options.objectId ?? 'UNKNOWN',
+      centerName: CENTRE_NAME_OF_BODY[centre],
+      centre,
+      refFrame: FRAME_NAME_OF_INERTIAL[frame],
+      frame,
+      timeSystem: ts,
+      startTime: first.epoch, startTdbS: first.epochTdbS,
+      stopTime: last.epoch, stopTdbS: last.epochTdbS,
+      ...(n > 1 ? { interpolation: interpolation.method, interpolationDegree: Math.max(1, degree) } : {}),
+    },
+    dataComments: [],
+    states,
+    covariances,
+  };
+}
