@@ -13,3 +13,10 @@ export { propagate, propagateAsync, propagationSteps, type StepWatcher, type Wat
 export type { PropagationDynamics } from './propagation-dynamics.ts';
 export { createCowellRhs, createCowellDynamics } from './cowell.ts';
 export { bPlanePartials, computeBPlane, referencePole, B_PLANE_PARTIAL_ROWS, type BPlane, type BPlanePartials, type BPlaneReference } from './bplane/index.ts';
+export {
+  keplerPropagate, keplerSolve, keplerStm, stateToConic, conicToState, stumpff,
+  type ConicElements, type KeplerSolution, type KeplerStmResult,
+} from './kepler/index.ts';
+export { laplaceSoiRadiusKm, soiRadiusKm, PRIMARY_OF, MEAN_SEMI_MAJOR_AXIS_KM } from './switching/index.ts';
+export { brentRoot, EVENT_TIME_TOLERANCE_S, type RootResult } from './events/index.ts';
+export { ENCKE_DEFAULTS } from './encke/index.ts';

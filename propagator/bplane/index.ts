@@ -1,5 +1,5 @@
 /** B-plane geometry and partials of hyperbolic approaches. */
 export { bPlanePartials, computeBPlane, B_PLANE_PARTIAL_ROWS, type BPlane, type BPlanePartials } from './b-plane.ts';
 export {
-  ECLIPTIC_POLE_J2000, OBLIQUITY_J2000_RAD, POLE_RA_DEC_DEG, referencePole, type BPlaneReference,
+  ECLIPTIC_POLE_J2000, POLE_RA_DEC_DEG, referencePole, type BPlaneReference,
 } from './reference-plane.ts';

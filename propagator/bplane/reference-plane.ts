@@ -3,15 +3,13 @@
  * All vectors J2000 equatorial (ICRF-aligned).
  */
 import { InvalidInputError } from '../errors.ts';
+import { OBLIQUITY_J2000_RAD } from '../frames/index.ts';
 import type { BodyName, Vec3 } from '../types.ts';
 
 /** 'ecliptic': the J2000 mean ecliptic; 'equator': the mean equator of the approached body at J2000.0. */
 export type BPlaneReference = 'ecliptic' | 'equator';
 
-/** Obliquity of the J2000 ecliptic, IAU 2006 precession (Capitaine et al. 2003): 84381.406″ (from memory). */
-export const OBLIQUITY_J2000_RAD = (84381.406 / 3600) * (Math.PI / 180);
-
-/** Ecliptic north pole in J2000 equatorial axes: (0, −sin ε, cos ε). */
+/** Ecliptic north pole in J2000 equatorial axes: (0, −sin ε, cos ε), ε the J2000 obliquity of frames/. */
 export const ECLIPTIC_POLE_J2000: Readonly<Vec3> = Object.freeze([
   0, -Math.sin(OBLIQUITY_J2000_RAD), Math.cos(OBLIQUITY_J2000_RAD),
 ]) as Readonly<Vec3>;
