@@ -4,6 +4,7 @@
  * too; a plain express Router can be mounted with `routes.router.use(...)`).
  */
 import type { AppDeps } from '../deps.ts';
+import { REVIEW_ROUTE_MODULES } from '../review/route-modules.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { jobEventRoutes } from './job-events.ts';
 import { jobRoutes } from './jobs.ts';
@@ -17,4 +18,5 @@ export const ROUTE_MODULES: RouteModule[] = [
   jobRoutes,
   jobEventRoutes,
   planRoutes,
+  ...REVIEW_ROUTE_MODULES,
 ];
