@@ -42,14 +42,25 @@ export function ellipseProbability(k: number): number {
   return -Math.expm1((-k * k) / 2);
 }
 
-/** How far a sample ellipse is from the linear one: largest relative semi-axis difference, and the
- * orientation difference in deg (folded to [0, 90]; meaningless for a near-circular ellipse, so null when
- * the linear axes differ by less than 10 %). */
-export function compareEllipses(linear: BPlaneEllipse, sample: BPlaneEllipse): { axisRatioError: number; orientationErrorDeg: number | null } {
+/**
+ * How far a sample ellipse is from the linear one: largest relative semi-axis difference, and the
+ * orientation difference in deg folded to [0, 90]. A near-circular ellipse has no meaningful orientation,
+ * so the difference is null when the linear axes differ by less than 10 %. With `samples` (N) given, also
+ * the standard error of a sample ellipse's orientation under the linear model, from the asymptotic
+ * variance of a principal axis, λ1·λ2/((N − 1)(λ1 − λ2)²) rad² (T. W. Anderson 1963, "Asymptotic theory
+ * for principal component analysis", Ann. Math. Statist. 34; from memory) — compare the difference with it.
+ */
+export function compareEllipses(linear: BPlaneEllipse, sample: BPlaneEllipse, samples?: number): {
+  axisRatioError: number; orientationErrorDeg: number | null; orientationStandardErrorDeg: number | null;
+} {
   const majorError = Math.abs(sample.semiMajorKm / linear.semiMajorKm - 1);
   const minorError = linear.semiMinorKm > 0 ? Math.abs(sample.semiMinorKm / linear.semiMinorKm - 1) : Number.POSITIVE_INFINITY;
   let angle = Math.abs(sample.orientationDeg - linear.orientationDeg) % 180;
   if (angle > 90) angle = 180 - angle;
   const elongated = linear.semiMinorKm < 0.9 * linear.semiMajorKm;
-  return { axisRatioError: Math.max(majorError, minorError), orientationErrorDeg: elongated ? angle : null };
+  const l1 = linear.semiMajorKm ** 2;
+  const l2 = linear.semiMinorKm ** 2;
+  const orientationStandardErrorDeg = samples !== undefined && samples > 1 && l1 > l2
+    ? (Math.sqrt((l1 * l2) / (samples - 1)) / (l1 - l2)) * (180 / Math.PI) : null;
+  return { axisRatioError: Math.max(majorError, minorError), orientationErrorDeg: elongated ? angle : null, orientationStandardErrorDeg };
 }

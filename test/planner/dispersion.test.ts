@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import {
-  bPlaneEllipse, createDispersionSampler, gatesCovarianceKm2S2, linearTargetCovariance, mergeSampleBatches,
+  bPlaneEllipse, compareEllipses, createDispersionSampler, gatesCovarianceKm2S2, linearTargetCovariance, mergeSampleBatches,
   runSampleRange, sampleCovariance, sampleMean, sampleRandom, type DrawnSample,
 } from '../../planner/dispersion/index.ts';
 import type { Vec3 } from '../../propagator/index.ts';
@@ -194,6 +194,29 @@ describe('seeded sampling', () => {
       const a = sampleRandom(5, 11);
       const b = sampleRandom(5, 11);
       expect([a.normal(), a.uniform(), a.normal()]).toEqual([b.normal(), b.uniform(), b.normal()]);
+    });
+  });
+});
+
+describe('compareEllipses', () => {
+  describe('when 400 seeded sample ellipses of N = 200 are drawn from a 3:2 linear ellipse', () => {
+    // The spread of the sample orientations should match the asymptotic standard error (Anderson 1963)
+    // within 15 % (the standard error of a standard deviation from 400 trials is ~3.5 %).
+    it('should predict the spread of the sample orientation', () => {
+      const linear = bPlaneEllipse([[9, 0], [0, 4]]);
+      const errors: number[] = [];
+      let predicted = 0;
+      for (let trial = 0; trial < 400; trial += 1) {
+        const rows = Array.from({ length: 200 }, (_, i) => {
+          const r = sampleRandom(1000 + trial, i);
+          return [3 * r.normal(), 2 * r.normal()];
+        });
+        const comparison = compareEllipses(linear, bPlaneEllipse(sampleCovariance(rows)), 200);
+        predicted = comparison.orientationStandardErrorDeg ?? Number.NaN;
+        errors.push(comparison.orientationErrorDeg ?? Number.NaN);
+      }
+      const rms = Math.sqrt(errors.reduce((acc, x) => acc + x * x, 0) / errors.length);
+      expect(Math.abs(rms / predicted - 1)).toBeLessThan(0.15);
     });
   });
 });
