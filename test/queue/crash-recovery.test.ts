@@ -1,0 +1,63 @@
+/**
+ * Nothing lost: (1) a worker process killed with SIGKILL in the middle of a job — another worker takes the
+ * job over after its lock expires (BullMQ stalled-job check) and the archive holds exactly one plan for it;
+ * (2) Redis stopped and restarted (append-only file on) while jobs wait — every job is still there and runs.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startService, waitForJob, type TestService } from '../harness/service.ts';
+import { reachableProblem, submission } from './fixtures.ts';
+
+let svc: TestService;
+
+beforeAll(async () => { svc = await startService(); });
+afterAll(async () => { await svc?.close(); });
+
+const FAST_STALL = { LOCK_DURATION_MS: '2000', STALLED_INTERVAL_MS: '1000', WORKER_CONCURRENCY: '1' };
+
+describe('worker crash', () => {
+  describe('when the worker running a job is killed with SIGKILL', () => {
+    it('should let another worker complete the job and store exactly one plan', async () => {
+      const first = await svc.startWorkerProcess(FAST_STALL);
+      const res = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(reachableProblem({ samples: 5_000, name: 'CRASHSAT' })) });
+      const jobId = res.body.jobId as string;
+      await waitForJob(svc, jobId, (s) => s.state === 'active' && s.progress !== null, 60_000);
+      await first.kill('SIGKILL');
+      expect(first.child.signalCode).toBe('SIGKILL');
+      const second = await svc.startWorkerProcess(FAST_STALL);
+      const end = await waitForJob(svc, jobId, (s) => s.state === 'completed' || s.state === 'failed', 90_000);
+      expect(end.state).toBe('completed');
+      expect(second.logs.some((l) => l.includes(jobId) && l.includes('"job completed"'))).toBe(true);
+      expect(first.logs.some((l) => l.includes(jobId) && l.includes('"job completed"'))).toBe(false);
+      const plans = (await svc.archive!.listPlans({ spacecraftName: 'CRASHSAT' })).filter((p) => p.jobId === jobId);
+      expect(plans).toHaveLength(1);
+      const history = await svc.archive!.history(plans[0]!.planId);
+      expect(history.filter((e) => e.kind === 'plan-proposed')).toHaveLength(1);
+      expect(end.result.planId).toBe(plans[0]!.planId);
+      await second.stop();
+    });
+  });
+});
+
+describe('Redis restart', () => {
+  describe('when Redis restarts while jobs wait (append-only file on)', () => {
+    it('should lose no job: all are still queued and then complete', async () => {
+      if (!svc.redis.restartable) return; // REDIS_URL given: the harness cannot restart someone else's Redis
+      const ids: string[] = [];
+      for (let i = 0; i < 4; i++) {
+        const res = await svc.request('POST', '/v1/jobs', {
+          token: svc.tokens.submitter,
+          body: submission(reachableProblem({ samples: 0, name: `RESTART-${i}` }), i === 3 ? { priority: 'urgent' } : {}),
+        });
+        ids.push(res.body.jobId);
+      }
+      await svc.redis.restart();
+      for (const id of ids) {
+        const s = await waitForJob(svc, id, (j) => j.state === 'waiting', 20_000);
+        expect(s.state).toBe('waiting');
+      }
+      const worker = await svc.startWorkerInProcess({ concurrency: 2 });
+      for (const id of ids) expect((await waitForJob(svc, id, (j) => j.state === 'completed', 60_000)).result.planStatus).toBe('converged');
+      await worker.close();
+    });
+  });
+});
