@@ -1,0 +1,61 @@
+/**
+ * Monte Carlo fan-out: a run at or above the fan-out threshold is split into `dispersion-samples` child jobs
+ * (BullMQ parent/child flow) that two workers share; the parent combines them. The planner's contract says
+ * sample i depends on (seed, i) only, so the combined dispersion must equal the single-process run exactly.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parseProblem, planManeuvers } from '../../planner/index.ts';
+import { sampleBatches } from '../../queue/index.ts';
+import { readEventStream, startService, waitForJob, type TestService } from '../harness/service.ts';
+import { reachableProblem, submission } from './fixtures.ts';
+
+let svc: TestService;
+const processedBy = new Map<string, string>();
+
+beforeAll(async () => {
+  svc = await startService();
+  for (let i = 0; i < 2; i++) {
+    const w = await svc.startWorkerInProcess({ concurrency: 1, fanOutMinSamples: 40, batchSize: 25 });
+    w.worker.on('completed', (job) => processedBy.set(String(job.id), w.name));
+  }
+});
+afterAll(async () => { await svc?.close(); });
+
+describe('sample batches', () => {
+  describe('when 110 samples are split by 25', () => {
+    it('should cover [0, 110) without gaps or overlaps', () => {
+      expect(sampleBatches(110, 25)).toEqual([
+        { firstIndex: 0, count: 25 }, { firstIndex: 25, count: 25 }, { firstIndex: 50, count: 25 },
+        { firstIndex: 75, count: 25 }, { firstIndex: 100, count: 10 },
+      ]);
+    });
+  });
+});
+
+describe('Monte Carlo fan-out', () => {
+  describe('when a job asks for more samples than the fan-out threshold', () => {
+    it('should run child jobs on the workers and combine them into the single-process result', async () => {
+      const problem = reachableProblem({ samples: 110, seed: 424242, name: 'FANOUTSAT' });
+      const res = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(problem) });
+      expect(res.status).toBe(202);
+      const jobId = res.body.jobId as string;
+      const stream = readEventStream(`${svc.url}/v1/jobs/${jobId}/events`, svc.tokens.submitter);
+      const end = await waitForJob(svc, jobId, (s) => s.state === 'completed' || s.state === 'failed', 90_000);
+      expect(end.state).toBe('completed');
+
+      const children = [...processedBy.keys()].filter((id) => id.startsWith(`${jobId}-mc-`)).sort();
+      expect(children).toHaveLength(5);
+
+      const fetched = await svc.request('GET', `/v1/plans/${end.result.planId}`, { token: svc.tokens.reviewer });
+      const local = await planManeuvers(parseProblem(problem), { monteCarlo: 'in-process' });
+      expect(fetched.body.plan.dispersion.monteCarlo.samples).toBe(110);
+      expect(fetched.body.plan.dispersion).toEqual(JSON.parse(JSON.stringify(local.dispersion)));
+      expect(fetched.body.plan.caveats).toEqual(JSON.parse(JSON.stringify(local.caveats)));
+
+      const events = (await stream).events;
+      expect(events.at(-1)?.event).toBe('end');
+      const dispersion = events.filter((e) => e.event === 'progress' && e.data.stage === 'dispersion' && e.data.samplesTotal === 110);
+      expect(dispersion.length).toBeGreaterThan(0);
+    });
+  });
+});
