@@ -3,14 +3,17 @@ import { InvalidInputError } from '../../propagator/index.ts';
 
 export type Matrix = number[][];
 
+/** rows × cols matrix of zeros (unitless container). */
 export function zeros(rows: number, cols: number): Matrix {
   return Array.from({ length: rows }, () => new Array<number>(cols).fill(0));
 }
 
+/** Aᵀ; units carried through. */
 export function transpose(a: Matrix): Matrix {
   return a[0].map((_, j) => a.map((row) => row[j]));
 }
 
+/** A·B (A is m×k, B is k×n); units multiply. */
 export function multiply(a: Matrix, b: Matrix): Matrix {
   const out = zeros(a.length, b[0].length);
   for (let i = 0; i < a.length; i += 1) {
@@ -23,6 +26,7 @@ export function multiply(a: Matrix, b: Matrix): Matrix {
   return out;
 }
 
+/** A + B, same shape and units. */
 export function add(a: Matrix, b: Matrix): Matrix {
   return a.map((row, i) => row.map((v, j) => v + b[i][j]));
 }
@@ -100,6 +104,7 @@ export function invert(a: Matrix, field = 'matrix'): Matrix {
 }
 
 /** Determinant by LU with partial pivoting. */
+/** det A of a square matrix (units to the power n). */
 export function determinant(a: Matrix): number {
   const n = a.length;
   const m = a.map((row) => [...row]);
@@ -118,6 +123,7 @@ export function determinant(a: Matrix): number {
   return det;
 }
 
+/** Sum of the diagonal of a square matrix. */
 export function trace(a: Matrix): number {
   return a.reduce((s, row, i) => s + row[i], 0);
 }

@@ -10,6 +10,10 @@ import { izzoTimeDerivatives, izzoTimeOfFlight } from './time-of-flight.ts';
 
 /** sin(transfer angle) below this is treated as a 0° or 180° transfer whose plane is undefined. */
 const MIN_SIN_TRANSFER_ANGLE = 1e-9;
+/** |T(x) − T| below this (relative to max(1, T)) is a root whatever the step size. */
+const RESIDUAL_TOLERANCE = 1e-15;
+/** Within this of x = ±1 the derivative formulas lose precision (0/0 at the parabola). */
+const NEAR_PARABOLA = 1e-7;
 
 const dot = (a: Vec3, b: Vec3): number => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
 const norm = (a: Vec3): number => Math.sqrt(dot(a, a));
@@ -119,8 +123,18 @@ export function solveLambert(
   let converged = false;
   while (iterations < maxIterations) {
     iterations += 1;
-    const tx = izzoTimeOfFlight(x, lambda);
-    const delta = tx - t;
+    let tx = izzoTimeOfFlight(x, lambda);
+    let delta = tx - t;
+    if (Math.abs(delta) <= RESIDUAL_TOLERANCE * Math.max(1, t)) {
+      converged = true; // already on the root (e.g. exactly parabolic, where the derivatives are 0/0)
+      break;
+    }
+    if (Math.abs(1 - x * x) < NEAR_PARABOLA) {
+      // The derivative formulas divide by 1 − x²: step off the parabola by a hair first.
+      x += x >= 1 ? NEAR_PARABOLA : -NEAR_PARABOLA;
+      tx = izzoTimeOfFlight(x, lambda);
+      delta = tx - t;
+    }
     const [d1, d2, d3] = izzoTimeDerivatives(x, tx, lambda);
     const step = (delta * (d1 * d1 - (delta * d2) / 2))
       / (d1 * (d1 * d1 - delta * d2) + (d3 * delta * delta) / 6);

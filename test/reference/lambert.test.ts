@@ -135,6 +135,30 @@ describe('solveLambert', () => {
   });
 });
 
+describe('solveLambert at the parabolic time of flight', () => {
+  // Euler's parabolic time of flight (Battin, An Introduction to the Mathematics and Methods of
+  // Astrodynamics, §4.2, from memory): √μ·t = [(r1 + r2 + c)^{3/2} − (r1 + r2 − c)^{3/2}]/6 for a transfer
+  // angle below 180°. At that time the Lambert conic is a parabola: zero specific energy.
+  const r1: Vec3 = [7000, -1200, 800];
+  const r2: Vec3 = [-3000, 9000, 2500];
+  const m = Math.hypot(...r1) + Math.hypot(...r2);
+  const c = Math.hypot(r2[0] - r1[0], r2[1] - r1[1], r2[2] - r1[2]);
+  const tofS = ((m + c) ** 1.5 - (m - c) ** 1.5) / (6 * Math.sqrt(MU_EARTH));
+
+  for (const factor of [1, 1 + 1e-9, 1 - 1e-9]) {
+    describe(`when the time is ${factor} × the parabolic time`, () => {
+      it('should converge to an orbit of (nearly) zero energy that lands on r2', () => {
+        const s = solveLambert(r1, r2, tofS * factor, MU_EARTH, { direction: 'prograde' });
+        expect(s.converged).toBe(true);
+        const energy = (s.v1KmS[0] ** 2 + s.v1KmS[1] ** 2 + s.v1KmS[2] ** 2) / 2 - MU_EARTH / Math.hypot(...r1);
+        expect(Math.abs(energy)).toBeLessThan(1e-6);
+        const end = twoBody(r1, s.v1KmS, tofS * factor, MU_EARTH);
+        expect(Math.hypot(end[0] - r2[0], end[1] - r2[1], end[2] - r2[2])).toBeLessThan(1e-5);
+      });
+    });
+  }
+});
+
 describe('solveLambert over random geometries', () => {
   describe('when 300 seeded random single-revolution problems are solved', () => {
     // Park–Miller minimal standard generator, so the sweep is the same on every run.
