@@ -68,6 +68,9 @@ export interface TargetResult {
   residual: number | null;
   tolerance: number;
   met: boolean;
+  /** For epoch components (closest-approach epoch): requested and achieved as epochs. */
+  requestedEpoch?: PlanEpoch;
+  achievedEpoch?: PlanEpoch | null;
 }
 
 export interface IterationRecord {
@@ -104,6 +107,8 @@ export interface Sensitivities {
   /** Largest relative difference between STM and finite-difference Jacobians at the solution (null when
    * only one was computed). */
   stmVersusFiniteDifference: number | null;
+  /** The central finite-difference Jacobian at the solution, when verified. */
+  finiteDifferenceJacobian?: number[][];
 }
 
 export interface CrossCheck {

@@ -57,7 +57,9 @@ function burnTable(plan: ManeuverPlan): string[] {
 
 function targetTable(plan: ManeuverPlan): string[] {
   const rows = plan.targets.map((t) => [
-    `${t.targetIndex}:${t.kind}`, `${t.component}${t.body ? ` @${t.body}` : ''}`, num(t.requested), num(t.achieved), num(t.residual),
+    `${t.targetIndex}:${t.kind}`, `${t.component}${t.body ? ` @${t.body}` : ''}`,
+    t.requestedEpoch ? t.requestedEpoch.tdb : num(t.requested),
+    t.achievedEpoch ? t.achievedEpoch.tdb : num(t.achieved), num(t.residual),
     `${num(t.tolerance)} ${t.unit}`, t.met ? 'yes' : 'NO',
   ]);
   return ['Targets (requested vs achieved):', ...table(['target', 'component', 'requested', 'achieved', 'residual', 'tolerance', 'met'], rows)];
@@ -68,7 +70,7 @@ function crossCheckTable(plan: ManeuverPlan): string[] {
   if (cc.differences.length === 0) return [];
   return [`Cross-check (${cc.primaryMethod} vs ${cc.method} at relative tolerance ${cc.relativeTolerance}):`,
     ...table(['component', 'plan', 'check', 'difference', 'allowed', 'ok'], cc.differences.map((d) => [
-      d.component, num(d.primary), num(d.check), num(d.difference), num(d.allowed), d.withinTolerance && d.metByCheck ? 'yes' : 'NO',
+      d.component, num(d.primary, 6), num(d.check, 6), num(d.difference), num(d.allowed), d.withinTolerance && d.metByCheck ? 'yes' : 'NO',
     ]))];
 }
 

@@ -7,7 +7,7 @@
  */
 import { CancelledError } from '../../propagator/index.ts';
 import type { Vec3 } from '../../propagator/index.ts';
-import { runCorrector } from '../corrector/differential-corrector.ts';
+import { finiteDifferenceJacobian, runCorrector } from '../corrector/differential-corrector.ts';
 import type { CorrectorResult } from '../corrector/differential-corrector.ts';
 import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from '../plan-types.ts';
 import { parseProblem } from '../problem-checks.ts';
@@ -31,6 +31,10 @@ export interface PlanOptions {
   /** 'in-process' (default) runs the Monte Carlo samples here; 'skip' leaves them to the caller (queue
    * fan-out through runDispersionSamples / summariseDispersion / attachMonteCarlo). */
   monteCarlo?: 'in-process' | 'skip';
+  /** Also form the central finite-difference Jacobian at the solution and record its largest relative
+   * difference from the STM one in sensitivities.stmVersusFiniteDifference (2n extra propagations).
+   * @defaultValue false */
+  verifyJacobian?: boolean;
 }
 
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -100,6 +104,21 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
     controls: ctx.layout.descriptors, components: ctx.components.slice(0, m).map((c) => c.component),
     jacobian: ok.jacobian.slice(0, m), source: 'stm', stmVersusFiniteDifference: null,
   } : null;
+  if (sensitivities && options.verifyJacobian && converged) {
+    const fd = await finiteDifferenceJacobian(async (x) => {
+      const ev = await evaluateTrajectory(ctx.evaluation, burnSettings(problem, ctx.epochs, ctx.layout, x), { ...primary, withStm: false });
+      if (!ev.ok) return { ok: false, reason: ev.reason };
+      count(ev);
+      return { ok: true, residuals: ev.values.slice(0, m) };
+    }, result.controls, ctx.layout.finiteDifferenceStep, undefined, true);
+    if (!('failed' in fd)) {
+      sensitivities.stmVersusFiniteDifference = Math.max(...sensitivities.jacobian.map((row, i) => {
+        const scale = Math.max(...fd.jacobian[i].map(Math.abs), 1e-300);
+        return Math.max(...row.map((v, j) => Math.abs(v - fd.jacobian[i][j]) / scale));
+      }));
+      sensitivities.finiteDifferenceJacobian = fd.jacobian;
+    }
+  }
   const lastIterateBurns: Vec3[] = ok ? ok.burns.map((b) => b.deltaVInertialKmS) : [];
 
   const plan: ManeuverPlan = {

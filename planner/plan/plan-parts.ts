@@ -57,11 +57,16 @@ export function targetResults(components: TargetComponent[], targetCount: number
   return components.slice(0, targetCount).map((c, i) => {
     const achieved = values[i];
     const residual = achieved === null ? null : achieved - c.requested;
-    return {
+    const result: TargetResult = {
       targetIndex: c.targetIndex, kind: c.kind, component: c.component, unit: c.unit, body: c.body,
       requested: c.requested, achieved, residual, tolerance: c.tolerance,
       met: residual !== null && Math.abs(residual) <= c.tolerance,
     };
+    if (c.quantity.q === 'ca-epoch') {
+      result.requestedEpoch = planEpoch(c.requested);
+      result.achievedEpoch = achieved === null ? null : planEpoch(achieved);
+    }
+    return result;
   });
 }
 
