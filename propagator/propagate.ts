@@ -139,6 +139,7 @@ export function* propagationSteps(
     relativeTolerance: checked.relativeTolerance,
     absoluteTolerance: checked.absoluteTolerance,
     errorComponents: dynamics.errorComponents,
+    initialStepS: dynamics.initialStepS,
   });
   const watchers = [impactWatcher(dynamics), ...extraWatchers];
   const events: EventRecord[] = [];

@@ -26,6 +26,9 @@ export interface PropagationDynamics {
   /** Encke: after an accepted step, restarts the reference conic when the deviation is past its
    * threshold, rewriting `y` in place; true when it did (the loop then resets the stepper with y). */
   maybeRectify?(epochTdbS: number, y: Float64Array): boolean;
+  /** First trial step, s, when the formulation knows a better one than the stepper's estimate (Encke's
+   * deviation starts at zero, where that estimate degenerates). */
+  readonly initialStepS?: number;
   /** Encke: reference-conic rectifications so far. */
   readonly rectifications?: number;
   /** Notes for the result's `warnings` (e.g. a fallback from Encke to Cowell). */

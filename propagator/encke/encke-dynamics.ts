@@ -20,7 +20,8 @@
  * from the current true state (δ = 0); the run counts each one.
  *
  * STM: Φ rides along in y[6..41] and obeys Φ' = A Φ with the full-state gradient of the force model at
- * the reconstructed true state (Φ is a property of the true trajectory, unaffected by rectification).
+ * the reconstructed true state (Φ is a property of the true trajectory, unaffected by rectification);
+ * Φ joins the error norm, since the deviation alone no longer limits the step.
  */
 import type { ForceModel } from '../forces/index.ts';
 import { battinF } from '../forces/index.ts';
@@ -61,8 +62,13 @@ export function degenerateReason(state: ArrayLike<number>, mu: number): string |
 export class EnckeDynamics {
   readonly forces: ForceModel;
   readonly withStm: boolean;
-  readonly errorComponents = 6;
+  /** With the STM, Φ enters the error norm too: a small deviation does not constrain the step, but Φ's
+   * own dynamics (the full gravity gradient) must be resolved. */
+  readonly errorComponents: number;
   readonly initialY: Float64Array;
+  /** First trial step: 1e-3 of the reference conic's time scale √(r³/μ) (δ = 0 at the start gives the
+   * stepper's own estimate nothing to work with). */
+  readonly initialStepS: number;
   /** Reference-conic restarts driven by the deviation threshold. */
   rectifications = 0;
   private readonly mu: number;
@@ -83,11 +89,13 @@ export class EnckeDynamics {
     tolerances: { relativeTolerance: number; absoluteTolerance: number }) {
     this.forces = forces;
     this.withStm = withStm;
+    this.errorComponents = withStm ? 42 : 6;
     this.mu = forces.centralGmKm3S2;
     const { relativeTolerance: rtol, absoluteTolerance: atol } = tolerances;
     this.lengthKm = (atol + rtol * Math.hypot(total0[0], total0[1], total0[2])) / atol;
     this.speedKmS = (atol + rtol * Math.hypot(total0[3], total0[4], total0[5])) / atol;
     this.setReference(epoch0, total0);
+    this.initialStepS = 1e-3 * Math.sqrt(Math.hypot(total0[0], total0[1], total0[2]) ** 3 / this.mu);
     this.initialY = new Float64Array(withStm ? 42 : 6);
     if (withStm) for (let i = 0; i < 6; i++) this.initialY[6 + 7 * i] = 1;
   }
