@@ -23,3 +23,4 @@ export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './worker-c
 export { createRedis } from './connection.ts';
 export { createLogger } from './logger.ts';
 export { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, cancelKey, type CancelRecord } from './cancellation.ts';
+export { startLocalRedis, INSTALL_REDIS_HINT, type LocalRedis } from './local-redis.ts';
