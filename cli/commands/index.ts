@@ -1,5 +1,10 @@
 /** The registry of `veer` subcommands. Add one line per command file. */
 import type { CliCommand } from '../command.ts';
 import { planCommand } from './plan.ts';
+import { exportCommand } from './export.ts';
+import { historyCommand } from './history.ts';
+import { reviewCommand } from './review.ts';
+import { tokensCommand } from './tokens.ts';
+import { verifyCommand } from './verify.ts';
 
-export const COMMANDS: CliCommand[] = [planCommand];
+export const COMMANDS: CliCommand[] = [planCommand, tokensCommand, reviewCommand, historyCommand, exportCommand, verifyCommand];

@@ -1,0 +1,66 @@
+/**
+ * `veer export <planId>`: fetch a plan bundle from the API and write it. Formats are a registry
+ * (`EXPORT_FORMATS`) so other formats can be added beside `json` without touching this command.
+ */
+import { writeFile } from 'node:fs/promises';
+import { parseArgs } from 'node:util';
+import type { CliCommand } from '../command.ts';
+import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, remoteFrom, UsageError, type Remote } from './review-http.ts';
+
+/** One export format: fetches what it needs and returns the text to write. */
+export interface ExportFormat {
+  summary: string;
+  /** File name suggested when --out is a directory-less default. */
+  defaultFileName(planId: string): string;
+  produce(remote: Remote, planId: string, options: { toHead: boolean }): Promise<string>;
+}
+
+/** Registered formats; add one entry per format (e.g. a CCSDS message writer). */
+export const EXPORT_FORMATS: Record<string, ExportFormat> = {
+  json: {
+    summary: 'the plan bundle: plan, archive entries, chain headers and hashing rules (check with veer verify --bundle)',
+    defaultFileName: (planId) => `${planId}-bundle.json`,
+    produce: async (remote, planId, { toHead }) => JSON.stringify(
+      await callApi(remote, 'GET', `/v1/plans/${encodeURIComponent(planId)}/export${toHead ? '?toHead=true' : ''}`), null, 2) + '\n',
+  },
+};
+
+const usage = (): string => `usage: veer export <planId> [--format NAME] [--out FILE | --stdout] [--to-head] [--url URL] [--token TOKEN]
+
+Formats:
+${Object.entries(EXPORT_FORMATS).map(([name, f]) => `  ${name.padEnd(8)} ${f.summary}`).join('\n')}
+
+  --out FILE   where to write (default: the format's file name in the current folder)
+  --stdout     write to stdout instead of a file
+  --to-head    carry chain headers up to the archive head (ties the plan to the current head hash)
+  --url URL / --token TOKEN   the API ($VEER_URL / $VEER_TOKEN); needs the reviewer or auditor role
+${PROPOSAL_NOTICE}`;
+
+export const exportCommand: CliCommand = {
+  name: 'export',
+  summary: 'Export a plan bundle (JSON) for audit or exchange',
+  get usage() { return usage(); },
+  async run(args) {
+    const { values, positionals } = parseArgs({
+      args, allowPositionals: true,
+      options: { url: REMOTE_OPTIONS.url, token: REMOTE_OPTIONS.token, format: { type: 'string', default: 'json' }, out: { type: 'string' },
+        stdout: { type: 'boolean', default: false }, 'to-head': { type: 'boolean', default: false } },
+    });
+    const planId = positionals[0];
+    if (!planId) throw new UsageError('planId', 'veer export needs a plan id');
+    const format = EXPORT_FORMATS[values.format ?? 'json'];
+    if (!format) throw new UsageError('--format', `unknown format ${values.format}; known: ${Object.keys(EXPORT_FORMATS).join(', ')}`);
+    try {
+      const text = await format.produce(remoteFrom(values), planId, { toHead: values['to-head'] ?? false });
+      if (values.stdout) { process.stdout.write(text); return 0; }
+      const file = values.out ?? format.defaultFileName(planId);
+      await writeFile(file, text, 'utf8');
+      process.stdout.write(`wrote ${file} (${Buffer.byteLength(text)} bytes)\n${PROPOSAL_NOTICE}\n`);
+      return 0;
+    } catch (error) {
+      if (!(error instanceof ApiCallError)) throw error;
+      process.stderr.write(`veer export: ${error.message}\n`);
+      return exitCodeFor(error);
+    }
+  },
+};

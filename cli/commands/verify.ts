@@ -1,0 +1,70 @@
+/**
+ * `veer verify`: check the archive's hash chain — through the API (auditor), directly on a local store
+ * (--data-dir / --database-url), or offline on an exported bundle (--bundle FILE).
+ */
+import { readFile } from 'node:fs/promises';
+import { parseArgs } from 'node:util';
+import { checkPlanBundle, openArchive, type PlanBundle, type VerifyReport } from '../../archive/index.ts';
+import type { CliCommand } from '../command.ts';
+import { ApiCallError, callApi, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+
+const USAGE = `usage: veer verify [--url URL] [--token TOKEN]          through the API (auditor role)
+       veer verify --data-dir DIR | --database-url URL   directly on a local store
+       veer verify --bundle FILE                         offline, on a bundle from veer export
+       [--json]
+
+Walks the whole chain (each entry's hash over its canonical content, each link to the previous entry, the
+recorded head) and names the first entry that does not match; also compares the plan-state table with what the
+entries say. Exit codes: 0 sound; 1 a mismatch was found (or the check failed); 2 bad usage.
+${REMOTE_USAGE}`;
+
+function reportText(r: VerifyReport): string {
+  const lines = [r.ok ? `archive sound: ${r.entriesChecked} entries, head ${r.head.sequence} ${r.head.hash}` : 'ARCHIVE CHECK FAILED'];
+  if (r.firstFailure) {
+    lines.push(`  first entry that does not match: ${r.firstFailure.sequence} (${r.firstFailure.reason}) — ${r.firstFailure.message}`,
+      `  entries 1..${r.lastGoodSequence} check out (last good hash ${r.lastGoodHash})`);
+  }
+  for (const m of r.projectionMismatches) lines.push(`  plan ${m.planId}: ${m.field} stored ${JSON.stringify(m.stored)} but the entries say ${JSON.stringify(m.derived)}`);
+  lines.push(`  checked in ${r.durationMs.toFixed(1)} ms`);
+  return lines.join('\n') + '\n';
+}
+
+export const verifyCommand: CliCommand = {
+  name: 'verify',
+  summary: 'Verify the archive hash chain (API, local store, or an exported bundle)',
+  usage: USAGE,
+  async run(args) {
+    const { values } = parseArgs({
+      args, allowPositionals: false,
+      options: { ...REMOTE_OPTIONS, 'data-dir': { type: 'string' }, 'database-url': { type: 'string' }, bundle: { type: 'string' } },
+    });
+    const modes = [values.bundle, values['data-dir'] ?? values['database-url']].filter((v) => v !== undefined).length;
+    if (modes > 1) throw new UsageError('--bundle', 'give either --bundle or a local store, not both');
+    if (values.bundle) {
+      let bundle: PlanBundle;
+      try { bundle = JSON.parse(await readFile(values.bundle, 'utf8')) as PlanBundle; } catch (error) {
+        throw new UsageError('--bundle', `cannot read ${values.bundle} as JSON: ${(error as Error).message}`);
+      }
+      const check = checkPlanBundle(bundle);
+      process.stdout.write(values.json ? JSON.stringify(check, null, 2) + '\n'
+        : check.ok ? `bundle sound: ${check.entriesChecked} entries, ${check.headersChecked} chain headers${check.reachesHead ? ', reaching the recorded head' : ''}\n`
+          : `BUNDLE CHECK FAILED at entry ${check.firstFailure?.sequence ?? '?'} (${check.firstFailure?.reason}): ${check.firstFailure?.message}\n`);
+      return check.ok ? 0 : 1;
+    }
+    let report: VerifyReport;
+    if (values['data-dir'] !== undefined || values['database-url'] !== undefined) {
+      const archive = await openArchive({ dataDir: values['data-dir'], databaseUrl: values['database-url'] ?? '' });
+      try { report = await archive.verify(); } finally { await archive.close(); }
+    } else {
+      try {
+        report = await callApi<VerifyReport>(remoteFrom(values), 'GET', '/v1/archive/verify');
+      } catch (error) {
+        if (!(error instanceof ApiCallError)) throw error;
+        process.stderr.write(`veer verify: ${error.message}\n`);
+        return exitCodeFor(error);
+      }
+    }
+    process.stdout.write(values.json ? JSON.stringify(report, null, 2) + '\n' : reportText(report));
+    return report.ok ? 0 : 1;
+  },
+};
