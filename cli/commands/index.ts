@@ -6,5 +6,6 @@ import { historyCommand } from './history.ts';
 import { reviewCommand } from './review.ts';
 import { tokensCommand } from './tokens.ts';
 import { verifyCommand } from './verify.ts';
+import { propagateCommand } from './propagate.ts';
 
-export const COMMANDS: CliCommand[] = [planCommand, tokensCommand, reviewCommand, historyCommand, exportCommand, verifyCommand];
+export const COMMANDS: CliCommand[] = [planCommand, propagateCommand, tokensCommand, reviewCommand, historyCommand, exportCommand, verifyCommand];

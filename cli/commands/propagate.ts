@@ -1,0 +1,109 @@
+/** `veer propagate <request.json> [--json]`: one propagation in-process; report or JSON on stdout. */
+import { readFile } from 'node:fs/promises';
+import {
+  BUILTIN_EPHEMERIS_SPAN, buildChebyshevEphemeris, createBuiltinEphemeris, InvalidInputError, PROPAGATION_DEFAULTS,
+  propagateAsync, type BodyName, type Ephemeris,
+} from '../../propagator/index.ts';
+import type { CliCommand } from '../command.ts';
+import { parsePropagateRequest, requestSpan, toPropagationRequest, type PropagateRequestFile } from '../propagate-request-schema.ts';
+import { formatPropagateReport, propagateResultJson, type PropagateRunInfo } from '../propagate-report.ts';
+
+const USAGE = `usage: veer propagate <request.json> [--json]
+
+Propagates an initial state (epoch, centre, frame, position, velocity) under a force model (central
+body, perturbing bodies in Battin's f(q) form, optional J2 and solar radiation pressure) over a span,
+with optional impulsive burns, output samples and the state transition matrix. The request file is
+described in README.md ("veer propagate"); see examples/propagate-two-body.json and
+examples/propagate-cruise.json. Progress goes to stderr.
+
+  --json   print the stable JSON contract (schema veer.propagate.result/1, see README) instead of the report
+
+Exit codes: 0 finished; 3 ended early (impact, step-size underflow, max steps, stopped by event,
+cancelled); 2 bad usage or invalid request (the field is named); 1 other failures.
+Results are predictions for study: any use in operations requires review by qualified flight-dynamics
+staff and independent verification under the mission's own procedures.`;
+
+/** Margin added around the span when building the Chebyshev cache, s. */
+const CACHE_MARGIN_S = 86400;
+
+/** The ephemeris a request asks for: the built-in series, or a Chebyshev cache of it over the span. */
+function ephemerisFor(file: PropagateRequestFile): Ephemeris {
+  const builtin = createBuiltinEphemeris();
+  const bodies = new Set<BodyName>([file.forces.centralBody, file.initial.centre, ...file.forces.perturbingBodies]);
+  if (file.forces.solarPressure !== undefined) bodies.add('sun');
+  if (file.ephemeris === 'builtin' || bodies.size === 1) return builtin;
+  const { startTdbS, endTdbS } = requestSpan(file);
+  return buildChebyshevEphemeris(builtin, {
+    bodies: [...bodies],
+    startTdbS: Math.max(BUILTIN_EPHEMERIS_SPAN.startTdbS, Math.min(startTdbS, endTdbS) - CACHE_MARGIN_S),
+    endTdbS: Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, Math.max(startTdbS, endTdbS) + CACHE_MARGIN_S),
+  });
+}
+
+async function readRequestFile(path: string): Promise<PropagateRequestFile> {
+  let text: string;
+  try {
+    text = await readFile(path, 'utf8');
+  } catch (error) {
+    throw new InvalidInputError('request', `cannot read '${path}': ${(error as Error).message}`);
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (error) {
+    throw new InvalidInputError('request', `'${path}' is not valid JSON: ${(error as Error).message}`);
+  }
+  return parsePropagateRequest(json);
+}
+
+export const propagateCommand: CliCommand = {
+  name: 'propagate',
+  summary: 'propagate a state under a force model (burns, samples, STM) and print the final state',
+  usage: USAGE,
+  async run(args: string[]): Promise<number> {
+    const json = args.includes('--json');
+    const unknown = args.find((a) => a.startsWith('-') && a !== '--json');
+    const files = args.filter((a) => !a.startsWith('-'));
+    if (unknown !== undefined || files.length !== 1) {
+      process.stderr.write(`veer propagate: ${unknown ? `unknown option '${unknown}'` : 'give exactly one request file'}\n\n${USAGE}\n`);
+      return 2;
+    }
+    const file = await readRequestFile(files[0]);
+    const ephemeris = ephemerisFor(file);
+    const request = toPropagationRequest(file, ephemeris);
+    const controller = new AbortController();
+    const onSigint = (): void => controller.abort();
+    process.once('SIGINT', onSigint);
+    const started = performance.now();
+    let lastPercent = -1;
+    try {
+      const result = await propagateAsync(request, {
+        signal: controller.signal,
+        onProgress: (fraction) => {
+          const percent = Math.floor(fraction * 100);
+          if (percent >= lastPercent + 10 || (percent === 100 && lastPercent !== 100)) {
+            process.stderr.write(`veer propagate: ${String(percent).padStart(3)}%\n`);
+            lastPercent = percent;
+          }
+        },
+      });
+      const info: PropagateRunInfo = {
+        requestFile: files[0],
+        method: request.method ?? PROPAGATION_DEFAULTS.method,
+        ephemerisName: ephemeris.name,
+        relativeTolerance: request.relativeTolerance ?? PROPAGATION_DEFAULTS.relativeTolerance,
+        absoluteTolerance: request.absoluteTolerance ?? PROPAGATION_DEFAULTS.absoluteTolerance,
+        centralBody: request.forces.centralBody,
+        perturbingBodies: [...request.forces.perturbingBodies],
+        wallTimeMs: performance.now() - started,
+      };
+      process.stdout.write(json
+        ? `${JSON.stringify(propagateResultJson(result, info), null, 2)}\n`
+        : `${formatPropagateReport(result, info, request.initial.epochTdbS)}\n`);
+      if (result.outcome !== 'finished') process.stderr.write(`veer propagate: ended early: ${result.outcome}${result.message ? ` — ${result.message}` : ''}\n`);
+      return result.outcome === 'finished' ? 0 : 3;
+    } finally {
+      process.removeListener('SIGINT', onSigint);
+    }
+  },
+};

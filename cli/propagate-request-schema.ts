@@ -1,0 +1,113 @@
+/**
+ * The request file of `veer propagate` (zod 4): one propagation of an initial state under a force model.
+ * Epochs are ISO-8601 text with the scale named ('2031-03-01T00:00:00 TDB', '...Z' for UTC) or a number
+ * of TDB seconds from J2000. Units are in the field names. Parsing turns zod issues and bad epochs into
+ * InvalidInputError naming the field path (e.g. `burns[1].epoch`).
+ */
+import { z } from 'zod';
+import {
+  BODY_NAMES, INERTIAL_FRAMES, InvalidInputError, parseEpoch,
+  type ImpulsiveBurn, type PropagationRequest, type Ephemeris, type Vec3,
+} from '../propagator/index.ts';
+
+const vec3 = z.tuple([z.number(), z.number(), z.number()]);
+const body = z.enum(BODY_NAMES);
+const epoch = z.union([
+  z.string().min(10).max(64).describe("ISO-8601 with scale: '2031-03-01T00:00:00 TDB' or '...Z' (UTC)"),
+  z.number().describe('TDB seconds from J2000'),
+]);
+
+export const propagateRequestSchema = z.object({
+  initial: z.object({
+    epoch,
+    centre: body,
+    frame: z.enum(INERTIAL_FRAMES).default('J2000_EQUATORIAL'),
+    positionKm: vec3,
+    velocityKmS: vec3,
+  }).strict(),
+  /** End of the span: an epoch, or a signed duration in seconds (negative = backward). Exactly one. */
+  endEpoch: epoch.optional(),
+  durationS: z.number().optional(),
+  forces: z.object({
+    centralBody: body,
+    perturbingBodies: z.array(body).default([]),
+    centralJ2: z.boolean().optional(),
+    solarPressure: z.object({
+      areaM2: z.number().positive(),
+      reflectivityCoefficient: z.number().min(1).max(2),
+      massKg: z.number().positive(),
+      shadow: z.enum(['none', 'cylindrical']).optional(),
+    }).strict().optional(),
+  }).strict(),
+  method: z.enum(['cowell', 'encke']).optional(),
+  relativeTolerance: z.number().min(1e-14).max(1e-3).optional(),
+  absoluteTolerance: z.number().positive().max(1).optional(),
+  maxSteps: z.number().int().positive().optional(),
+  burns: z.array(z.object({ epoch, deltaVKmS: vec3 }).strict()).default([]),
+  outputStepS: z.number().positive().optional(),
+  withStm: z.boolean().optional(),
+  /** 'chebyshev' (default): a Chebyshev cache of the built-in ephemeris over the span; 'builtin': the
+   * astronomy-engine series at every look-up (slower, same physics to ~cm). */
+  ephemeris: z.enum(['chebyshev', 'builtin']).default('chebyshev'),
+}).strict();
+
+export type PropagateRequestFile = z.infer<typeof propagateRequestSchema>;
+
+/** Dotted field path of a zod issue: ['burns', 1, 'epoch'] -> 'burns[1].epoch'. */
+function fieldPath(path: readonly PropertyKey[]): string {
+  return path.reduce<string>((acc, key) => (typeof key === 'number' ? `${acc}[${key}]` : acc === '' ? String(key) : `${acc}.${String(key)}`), '') || 'request';
+}
+
+function epochSeconds(value: string | number, field: string): number {
+  return typeof value === 'number' ? value : parseEpoch(value, undefined, field);
+}
+
+/** Validates parsed JSON against the schema; throws InvalidInputError naming the first bad field. */
+export function parsePropagateRequest(json: unknown): PropagateRequestFile {
+  const result = propagateRequestSchema.safeParse(json);
+  if (!result.success) {
+    const issue = result.error.issues[0];
+    const others = result.error.issues.length > 1 ? ` (and ${result.error.issues.length - 1} more issue(s))` : '';
+    throw new InvalidInputError(fieldPath(issue.path), `${issue.message}${others}`);
+  }
+  const file = result.data;
+  if ((file.endEpoch === undefined) === (file.durationS === undefined)) {
+    throw new InvalidInputError('endEpoch', 'give exactly one of endEpoch and durationS');
+  }
+  return file;
+}
+
+/** Start and end epochs of a request file, TDB s from J2000. */
+export function requestSpan(file: PropagateRequestFile): { startTdbS: number; endTdbS: number } {
+  const startTdbS = epochSeconds(file.initial.epoch, 'initial.epoch');
+  const endTdbS = file.endEpoch !== undefined ? epochSeconds(file.endEpoch, 'endEpoch') : startTdbS + (file.durationS ?? 0);
+  return { startTdbS, endTdbS };
+}
+
+/** The propagator's request for a parsed file and an ephemeris. */
+export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephemeris): PropagationRequest {
+  const { startTdbS, endTdbS } = requestSpan(file);
+  const burns: ImpulsiveBurn[] = file.burns.map((b, i) => ({
+    epochTdbS: epochSeconds(b.epoch, `burns[${i}].epoch`),
+    deltaVKmS: b.deltaVKmS as Vec3,
+  }));
+  return {
+    initial: {
+      epochTdbS: startTdbS,
+      centre: file.initial.centre,
+      frame: file.initial.frame,
+      positionKm: file.initial.positionKm as Vec3,
+      velocityKmS: file.initial.velocityKmS as Vec3,
+    },
+    endEpochTdbS: endTdbS,
+    forces: file.forces,
+    ephemeris,
+    method: file.method,
+    relativeTolerance: file.relativeTolerance,
+    absoluteTolerance: file.absoluteTolerance,
+    maxSteps: file.maxSteps,
+    burns,
+    outputStepS: file.outputStepS,
+    withStm: file.withStm,
+  };
+}
