@@ -9,6 +9,7 @@
  */
 import { InvalidInputError } from '../errors.ts';
 import type { BodyName } from '../types.ts';
+import { BODY_NAMES } from '../types.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
 import { assertBody, assertInSpan, assertValidSpan } from './ephemeris-checks.ts';
 import { chebyshevCoefficientsInto, chebyshevEvaluate, chebyshevNodes } from './chebyshev-fit.ts';
@@ -120,22 +121,38 @@ class ChebyshevEphemeris implements Ephemeris {
   readonly name: string;
   readonly span: TdbSpan;
   readonly bodies: readonly BodyName[];
-  private readonly origin: BodyName;
   private readonly n: number;
   private readonly series: Partial<Record<BodyName, BodySeries>>;
   private readonly tValues: Float64Array;
-  private readonly known: ReadonlySet<BodyName>;
+  // Flat per-body tables indexed by position in BODY_NAMES: the hot path reads typed arrays only.
+  private readonly present = new Uint8Array(BODY_NAMES.length);
+  private readonly parentIndex = new Int8Array(BODY_NAMES.length).fill(-1);
+  private readonly segmentS = new Float64Array(BODY_NAMES.length);
+  private readonly segmentCount = new Int32Array(BODY_NAMES.length);
+  private readonly coefs: Float64Array[] = [];
+  private readonly startTdbS: number;
+  private readonly endTdbS: number;
 
-  constructor(name: string, span: TdbSpan, bodies: readonly BodyName[], origin: BodyName, n: number,
+  constructor(name: string, span: TdbSpan, bodies: readonly BodyName[], n: number,
     series: Partial<Record<BodyName, BodySeries>>) {
     this.name = name;
     this.span = span;
+    this.startTdbS = span.startTdbS;
+    this.endTdbS = span.endTdbS;
     this.bodies = bodies;
-    this.origin = origin;
     this.n = n;
     this.series = series;
     this.tValues = new Float64Array(n);
-    this.known = new Set(bodies);
+    BODY_NAMES.forEach((body, i) => {
+      this.present[i] = bodies.includes(body) ? 1 : 0;
+      const s = series[body];
+      this.coefs.push(s ? s.coefs : new Float64Array(0));
+      if (s) {
+        this.parentIndex[i] = BODY_NAMES.indexOf(s.parent);
+        this.segmentS[i] = s.segmentS;
+        this.segmentCount[i] = s.segments;
+      }
+    });
   }
 
   fitReport(): ChebyshevFitReport[] {
@@ -145,45 +162,39 @@ class ChebyshevEphemeris implements Ephemeris {
     }));
   }
 
-  /** Adds (sign +1) or subtracts the state of `body` relative to the origin into out[offset..]. */
-  private accumulate(body: BodyName, epochTdbS: number, out: Float64Array, offset: number, sign: number,
-    components: number): void {
-    let b: BodyName = body;
-    while (b !== this.origin) {
-      this.accumulateOne(b, epochTdbS, out, offset, sign, components);
-      b = (this.series[b] as BodySeries).parent;
-    }
-  }
-
   private lookUp(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
     components: number): void {
-    if (!this.known.has(target)) assertBody(this.name, this.bodies, target, 'target');
-    if (!this.known.has(centre)) assertBody(this.name, this.bodies, centre, 'centre');
-    if (!(epochTdbS >= this.span.startTdbS && epochTdbS <= this.span.endTdbS)) {
-      assertInSpan(this.name, this.span, epochTdbS);
-    }
+    const ti = BODY_NAMES.indexOf(target);
+    const ci = BODY_NAMES.indexOf(centre);
+    if (ti < 0 || this.present[ti] === 0) assertBody(this.name, this.bodies, target, 'target');
+    if (ci < 0 || this.present[ci] === 0) assertBody(this.name, this.bodies, centre, 'centre');
+    if (!(epochTdbS >= this.startTdbS && epochTdbS <= this.endTdbS)) assertInSpan(this.name, this.span, epochTdbS);
     for (let c = 0; c < components; c++) out[offset + c] = 0;
-    if (target === centre) return;
+    if (ti === ci) return;
     // Direct series when one body is the other's parent (Moon–Earth): no large terms to cancel.
-    if (this.series[target]?.parent === centre) {
-      this.accumulateOne(target, epochTdbS, out, offset, 1, components);
-    } else if (this.series[centre]?.parent === target) {
-      this.accumulateOne(centre, epochTdbS, out, offset, -1, components);
+    if (this.parentIndex[ti] === ci) {
+      this.accumulateOne(ti, epochTdbS, out, offset, 1, components);
+    } else if (this.parentIndex[ci] === ti) {
+      this.accumulateOne(ci, epochTdbS, out, offset, -1, components);
     } else {
-      this.accumulate(target, epochTdbS, out, offset, 1, components);
-      this.accumulate(centre, epochTdbS, out, offset, -1, components);
+      for (let b = ti; this.parentIndex[b] >= 0; b = this.parentIndex[b]) {
+        this.accumulateOne(b, epochTdbS, out, offset, 1, components);
+      }
+      for (let b = ci; this.parentIndex[b] >= 0; b = this.parentIndex[b]) {
+        this.accumulateOne(b, epochTdbS, out, offset, -1, components);
+      }
     }
   }
 
-  /** Adds sign × (state of `body` relative to its parent) into out[offset..]. The Chebyshev polynomial
+  /** Adds sign × (state of body `b` relative to its parent) into out[offset..]. The Chebyshev polynomial
    * values are computed once per segment and shared by the components (cheaper than one Clenshaw each). */
-  private accumulateOne(body: BodyName, epochTdbS: number, out: Float64Array, offset: number, sign: number,
+  private accumulateOne(b: number, epochTdbS: number, out: Float64Array, offset: number, sign: number,
     components: number): void {
-    const s = this.series[body] as BodySeries;
     const n = this.n;
-    const u = (epochTdbS - this.span.startTdbS) / s.segmentS;
+    const u = (epochTdbS - this.startTdbS) / this.segmentS[b];
     let seg = Math.floor(u);
-    if (seg >= s.segments) seg = s.segments - 1;
+    const last = this.segmentCount[b] - 1;
+    if (seg > last) seg = last;
     if (seg < 0) seg = 0;
     const x = 2 * (u - seg) - 1;
     const t = this.tValues;
@@ -191,7 +202,7 @@ class ChebyshevEphemeris implements Ephemeris {
     t[1] = x;
     const x2 = 2 * x;
     for (let j = 2; j < n; j++) t[j] = x2 * t[j - 1] - t[j - 2];
-    const coefs = s.coefs;
+    const coefs = this.coefs[b];
     let base = seg * 6 * n;
     for (let c = 0; c < components; c++, base += n) {
       let sum = 0;
@@ -244,5 +255,5 @@ export function buildChebyshevEphemeris(source: Ephemeris, options: ChebyshevEph
     series[body] = fitBody(source, body, parent, span, n, toleranceKm, first);
   }
   const name = `chebyshev cache of ${source.name} over [${span.startTdbS}, ${span.endTdbS}] TDB s`;
-  return new ChebyshevEphemeris(name, Object.freeze(span), Object.freeze(bodies), origin, n, series);
+  return new ChebyshevEphemeris(name, Object.freeze(span), Object.freeze(bodies), n, series);
 }
