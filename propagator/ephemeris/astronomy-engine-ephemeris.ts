@@ -22,6 +22,9 @@
  * are documented and tested as a whole (the JPL approximate-elements table used in test/reference covers
  * 1800–2050). OutOfSpanError outside.
  *
+ * Smoothness: the package takes time as float64 days (~2e-7 s resolution), so positions are smooth only
+ * to ~1 cm; its lunar velocity is a central difference over ±0.864 s (GeoMoonState), good to ~3e-7 km/s.
+ *
  * Units: the package works in au and au/day with its own KM_PER_AU (149597870.69098932 km, ~9 m off the
  * IAU 2012 value); we convert with the package's own constant because its series are in its au.
  */
