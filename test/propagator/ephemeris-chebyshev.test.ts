@@ -49,6 +49,20 @@ describe('Chebyshev ephemeris cache', () => {
       for (const row of cache.fitReport()) expect(row.maxErrorKm).toBeLessThanOrEqual(5e-5);
     });
   });
+  describe('when built around the Earth instead of the Sun', () => {
+    it('should store the Sun and Moon geocentrically and still match the source within 1 m', () => {
+      const geo = buildChebyshevEphemeris(source, { bodies: ['sun', 'moon'], origin: 'earth', startTdbS: start, endTdbS: start + 20 * 86400 });
+      expect(geo.fitReport().map((r) => `${r.body}/${r.parent}`).sort()).toEqual(['moon/earth', 'sun/earth']);
+      const a = new Float64Array(6);
+      const b = new Float64Array(6);
+      for (let i = 0; i < 50; i++) {
+        const t = start + i * 34567.8;
+        geo.stateInto('moon', 'sun', t, a);
+        source.stateInto('moon', 'sun', t, b);
+        expect(Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2])).toBeLessThan(1e-3);
+      }
+    });
+  });
   describe('when asked for positions only', () => {
     it('should match the first three components of the full state exactly', () => {
       const s = new Float64Array(6);

@@ -121,6 +121,11 @@ describe('layerEphemerides', () => {
       builtin.stateInto('venus', 'earth', t0 + 5000, b);
       expect([...a]).toEqual([...b]);
     });
+    it('should refuse a table whose span does not overlap the fallback', () => {
+      const early = createTabulatedEphemeris({ name: 'early', target: 'moon', centre: 'earth', records: moonRecords
+        .map((r) => ({ ...r, epochTdbS: r.epochTdbS - 1e10 })) });
+      expect(() => layerEphemerides(early, builtin)).toThrow(/do not overlap/);
+    });
     it('should take the intersection of spans and refuse epochs outside it', () => {
       expect(layered.span).toEqual({ startTdbS: t0, endTdbS: t0 + 48 * 3600 });
       expect(() => layered.stateInto('venus', 'earth', t0 - 1, new Float64Array(6))).toThrow(OutOfSpanError);
