@@ -1,5 +1,6 @@
 /**
- * Lambert's problem, single revolution: the conic from r1 to r2 in a given time under a point mass.
+ * Lambert's problem: the conic from r1 to r2 in a given time under a point mass, with zero or more
+ * complete revolutions (two solutions, Izzo's left and right branches, for each revolution count > 0).
  * Method: D. Izzo (2015), "Revisiting Lambert's problem", Celestial Mechanics and Dynamical Astronomy
  * 121:1–15 — the x-variable formulation with Householder (third-order) iterations and Izzo's initial
  * guesses, velocity reconstruction from his eq. (31) (from memory).
@@ -33,6 +34,35 @@ function checkPositive(field: string, value: number): void {
   }
 }
 
+/**
+ * Minimum non-dimensional time for `revolutions` > 0 complete revolutions: Halley iterations on
+ * dT/dx = 0 from x = 0 (Izzo 2015, section 3).
+ */
+function minimumTime(lambda: number, revolutions: number): number {
+  let x = 0;
+  let t = izzoTimeOfFlight(0, lambda, revolutions);
+  for (let it = 0; it < 12; it += 1) {
+    const [d1, d2, d3] = izzoTimeDerivatives(x, t, lambda);
+    if (d1 === 0) break;
+    const next = x - (d1 * d2) / (d2 * d2 - (d1 * d3) / 2);
+    const change = Math.abs(next - x);
+    x = next;
+    t = izzoTimeOfFlight(x, lambda, revolutions);
+    if (change < 1e-13) break;
+  }
+  return t;
+}
+
+/** Izzo's initial guess for x with revolutions > 0, on the chosen branch (paper, eq. 30). */
+function multiRevolutionGuess(t: number, revolutions: number, branch: 'left' | 'right'): number {
+  if (branch === 'left') {
+    const k = Math.pow((revolutions * Math.PI + Math.PI) / (8 * t), 2 / 3);
+    return (k - 1) / (k + 1);
+  }
+  const k = Math.pow((8 * t) / (revolutions * Math.PI), 2 / 3);
+  return (k - 1) / (k + 1);
+}
+
 /** Izzo's initial guess for x, zero revolutions (paper, section 4). */
 function initialGuess(t: number, lambda: number): number {
   const t00 = Math.acos(lambda) + lambda * Math.sqrt(1 - lambda * lambda);
@@ -44,17 +74,19 @@ function initialGuess(t: number, lambda: number): number {
 }
 
 /**
- * Solves Lambert's problem for zero complete revolutions.
+ * Solves Lambert's problem with zero (default) or more complete revolutions.
  *
  * @param r1Km departure position, km, any inertial frame (same frame as r2Km).
  * @param r2Km arrival position, km, same frame.
  * @param timeOfFlightS transfer time, s, > 0.
  * @param muKm3S2 gravitational parameter of the attracting body, km^3/s^2, > 0.
- * @param options direction ('prograde' | 'retrograde' about `referenceNormal`, default +z), tolerance.
+ * @param options direction ('prograde' | 'retrograde' about `referenceNormal`, default +z), revolutions
+ *   and branch for multi-revolution transfers, tolerance.
  * @returns velocities at both ends (km/s, input frame), iteration count and a converged flag.
  * @throws InvalidInputError for non-finite or non-positive inputs, for a transfer angle within ~1e-9 rad
  *   of 0° or 180° (the transfer plane is undefined: split the arc or give an out-of-plane position), and
- *   for a transfer plane containing the reference normal (prograde/retrograde undefined).
+ *   for a transfer plane containing the reference normal (prograde/retrograde undefined), and for a time
+ *   of flight below the minimum for the requested revolutions (the message gives that minimum).
  */
 export function solveLambert(
   r1Km: Vec3, r2Km: Vec3, timeOfFlightS: number, muKm3S2: number, options: LambertOptions,
@@ -70,6 +102,14 @@ export function solveLambert(
   checkVector('options.referenceNormal', normal);
   const tolerance = options.tolerance ?? LAMBERT_DEFAULTS.tolerance;
   const maxIterations = options.maxIterations ?? LAMBERT_DEFAULTS.maxIterations;
+  const revolutions = options.revolutions ?? LAMBERT_DEFAULTS.revolutions;
+  if (!Number.isInteger(revolutions) || revolutions < 0 || revolutions > 100) {
+    throw new InvalidInputError('options.revolutions', `must be an integer in [0, 100], got ${revolutions}`);
+  }
+  const branch = options.branch ?? LAMBERT_DEFAULTS.branch;
+  if (branch !== 'left' && branch !== 'right') {
+    throw new InvalidInputError('options.branch', `must be 'left' or 'right', got ${String(branch)}`);
+  }
 
   const r1 = norm(r1Km);
   const r2 = norm(r2Km);
@@ -117,13 +157,24 @@ export function solveLambert(
     angle = 2 * Math.PI - angle;
   }
 
-  const t = Math.sqrt((2 * muKm3S2) / (s * s * s)) * timeOfFlightS;
-  let x = initialGuess(t, lambda);
+  const timeScale = Math.sqrt((2 * muKm3S2) / (s * s * s));
+  const t = timeScale * timeOfFlightS;
+  let x: number;
+  if (revolutions === 0) {
+    x = initialGuess(t, lambda);
+  } else {
+    const tMin = minimumTime(lambda, revolutions);
+    if (t < tMin) {
+      throw new InvalidInputError('timeOfFlightS', `${timeOfFlightS} s is below the minimum ${(tMin / timeScale).toFixed(3)} s `
+        + `for ${revolutions} complete revolution(s) on this geometry`, 'LAMBERT_NO_SOLUTION');
+    }
+    x = multiRevolutionGuess(t, revolutions, branch);
+  }
   let iterations = 0;
   let converged = false;
   while (iterations < maxIterations) {
     iterations += 1;
-    let tx = izzoTimeOfFlight(x, lambda);
+    let tx = izzoTimeOfFlight(x, lambda, revolutions);
     let delta = tx - t;
     if (Math.abs(delta) <= RESIDUAL_TOLERANCE * Math.max(1, t)) {
       converged = true; // already on the root (e.g. exactly parabolic, where the derivatives are 0/0)
@@ -132,7 +183,7 @@ export function solveLambert(
     if (Math.abs(1 - x * x) < NEAR_PARABOLA) {
       // The derivative formulas divide by 1 − x²: step off the parabola by a hair first.
       x += x >= 1 ? NEAR_PARABOLA : -NEAR_PARABOLA;
-      tx = izzoTimeOfFlight(x, lambda);
+      tx = izzoTimeOfFlight(x, lambda, revolutions);
       delta = tx - t;
     }
     const [d1, d2, d3] = izzoTimeDerivatives(x, tx, lambda);
@@ -141,6 +192,7 @@ export function solveLambert(
     let next = x - step;
     if (!Number.isFinite(next)) break;
     if (next <= -1) next = (x - 1) / 2; // stay inside the domain x > −1
+    if (revolutions > 0 && next >= 1) next = (x + 1) / 2; // multi-revolution conics are ellipses
     const change = Math.abs(next - x);
     x = next;
     if (change < tolerance || delta === 0) {
@@ -148,7 +200,7 @@ export function solveLambert(
       break;
     }
   }
-  const residual = Math.abs(izzoTimeOfFlight(x, lambda) - t);
+  const residual = Math.abs(izzoTimeOfFlight(x, lambda, revolutions) - t);
 
   // Velocity reconstruction, Izzo (2015) eq. (31).
   const gamma = Math.sqrt((muKm3S2 * s) / 2);
@@ -166,7 +218,7 @@ export function solveLambert(
     vr2 * ir2[0] + vt2 * it2[0], vr2 * ir2[1] + vt2 * it2[1], vr2 * ir2[2] + vt2 * it2[2]];
   converged = converged && v1KmS.every(Number.isFinite) && v2KmS.every(Number.isFinite);
   return {
-    v1KmS, v2KmS, iterations, converged, transferAngleRad: angle, x, residual,
+    v1KmS, v2KmS, iterations, converged, transferAngleRad: angle, x, revolutions, residual,
     method: 'izzo-2015-householder',
   };
 }

@@ -14,6 +14,11 @@ export interface LambertOptions {
   /** Unit-free direction defining "prograde", same inertial frame as r1 and r2.
    * @defaultValue [0, 0, 1] */
   referenceNormal?: Vec3;
+  /** Complete revolutions before arrival (integer ≥ 0). @defaultValue 0 */
+  revolutions?: number;
+  /** For revolutions > 0, which of the two solutions: Izzo's 'left' branch (x below the minimum-time
+   * point) or 'right' branch (x above it). Ignored for 0 revolutions. @defaultValue 'left' */
+  branch?: 'left' | 'right';
   /** Convergence tolerance on the Izzo variable x (dimensionless). @defaultValue 1e-12 */
   tolerance?: number;
   /** Householder iteration limit. @defaultValue 25 */
@@ -25,6 +30,8 @@ export const LAMBERT_DEFAULTS = Object.freeze({
   referenceNormal: [0, 0, 1] as Readonly<Vec3>,
   tolerance: 1e-12,
   maxIterations: 25,
+  revolutions: 0,
+  branch: 'left' as const,
 });
 
 /** Outcome of one Lambert solve. Not converging is data (converged: false), not an exception. */
@@ -40,6 +47,8 @@ export interface LambertSolution {
   transferAngleRad: number;
   /** Izzo's variable x at the solution (x < 1 ellipse, x = 1 parabola, x > 1 hyperbola). */
   x: number;
+  /** Complete revolutions of this solution. */
+  revolutions: number;
   /** |T(x) − T| at the solution in Izzo's non-dimensional time. */
   residual: number;
   /** Name of the published method used. */

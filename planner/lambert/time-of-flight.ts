@@ -1,5 +1,5 @@
 /**
- * Izzo's non-dimensional time of flight T(x; λ) and its first three derivatives, single revolution.
+ * Izzo's non-dimensional time of flight T(x; λ, M) and its first three derivatives.
  * Source: D. Izzo (2015), "Revisiting Lambert's problem", Celestial Mechanics and Dynamical Astronomy
  * 121:1–15, eqs. (18)–(22) and the Battin hypergeometric series near the parabola (from memory).
  * T = sqrt(2μ/s³)·Δt; x in (−1, ∞): x < 1 ellipse, x = 1 parabola, x > 1 hyperbola.
@@ -21,13 +21,13 @@ function hypergeometric3_1_52(z: number, tolerance = 1e-15): number {
 }
 
 /** Lagrange's form of the time of flight, used at moderate distance from the parabola. */
-function lagrangeTime(x: number, lambda: number): number {
+function lagrangeTime(x: number, lambda: number, revolutions: number): number {
   const a = 1 / (1 - x * x);
   if (a > 0) {
     const alpha = 2 * Math.acos(x);
     let beta = 2 * Math.asin(Math.sqrt(lambda * lambda / a));
     if (lambda < 0) beta = -beta;
-    return (a * Math.sqrt(a) * ((alpha - Math.sin(alpha)) - (beta - Math.sin(beta)))) / 2;
+    return (a * Math.sqrt(a) * ((alpha - Math.sin(alpha)) - (beta - Math.sin(beta)) + 2 * Math.PI * revolutions)) / 2;
   }
   const alpha = 2 * Math.acosh(x);
   let beta = 2 * Math.asinh(Math.sqrt(-lambda * lambda / a));
@@ -36,13 +36,14 @@ function lagrangeTime(x: number, lambda: number): number {
 }
 
 /**
- * Non-dimensional time of flight for Izzo's variable x and geometry parameter λ in [−1, 1], zero
- * complete revolutions. Blends three forms for accuracy: Battin's series within 0.01 of x = 1, Lagrange's
- * form within 0.2, Lancaster's elsewhere.
+ * Non-dimensional time of flight for Izzo's variable x and geometry parameter λ in [−1, 1], with
+ * `revolutions` complete revolutions (≥ 0; for revolutions > 0 only elliptic x in (−1, 1) is meaningful).
+ * Blends three forms for accuracy: Battin's series within 0.01 of x = 1, Lagrange's form within 0.2,
+ * Lancaster's elsewhere.
  */
-export function izzoTimeOfFlight(x: number, lambda: number): number {
+export function izzoTimeOfFlight(x: number, lambda: number, revolutions = 0): number {
   const distance = Math.abs(x - 1);
-  if (distance >= BATTIN_BAND && distance < LAGRANGE_BAND) return lagrangeTime(x, lambda);
+  if (distance >= BATTIN_BAND && distance < LAGRANGE_BAND) return lagrangeTime(x, lambda, revolutions);
   const k = lambda * lambda;
   const e = x * x - 1;
   const rho = Math.abs(e);
@@ -51,13 +52,13 @@ export function izzoTimeOfFlight(x: number, lambda: number): number {
     const eta = z - lambda * x;
     const s1 = 0.5 * (1 - lambda - x * eta);
     const q = (4 / 3) * hypergeometric3_1_52(s1);
-    return (eta * eta * eta * q + 4 * lambda * eta) / 2;
+    return (eta * eta * eta * q + 4 * lambda * eta) / 2 + (revolutions * Math.PI) / Math.pow(rho, 1.5);
   }
   const y = Math.sqrt(rho);
   const g = x * z - lambda * e;
   let d: number;
   if (e < 0) {
-    d = Math.acos(Math.max(-1, Math.min(1, g)));
+    d = revolutions * Math.PI + Math.acos(Math.max(-1, Math.min(1, g)));
   } else {
     const f = y * (z - lambda * x);
     d = Math.log(f + g);

@@ -159,6 +159,71 @@ describe('solveLambert at the parabolic time of flight', () => {
   }
 });
 
+describe('solveLambert with complete revolutions (Izzo 2015, multi-revolution branches)', () => {
+  const r1: Vec3 = [7000, -1200, 800];
+  const r2: Vec3 = [-3000, 9000, 2500];
+
+  for (const revolutions of [1, 2]) {
+    for (const branch of ['left', 'right'] as const) {
+      describe(`when ${revolutions} revolution(s) on the ${branch} branch are asked for`, () => {
+        it('should land on r2 under odex integration after the extra revolutions', () => {
+          const tofS = 40000;
+          const s = solveLambert(r1, r2, tofS, MU_EARTH, { direction: 'prograde', revolutions, branch });
+          expect(s.converged).toBe(true);
+          expect(s.revolutions).toBe(revolutions);
+          const end = twoBody(r1, s.v1KmS, tofS, MU_EARTH);
+          expect(Math.hypot(end[0] - r2[0], end[1] - r2[1], end[2] - r2[2])).toBeLessThan(1e-4);
+          // Period check: the conic completes `revolutions` full orbits plus the transfer arc.
+          const v2 = s.v1KmS[0] ** 2 + s.v1KmS[1] ** 2 + s.v1KmS[2] ** 2;
+          const a = 1 / (2 / Math.hypot(...r1) - v2 / MU_EARTH);
+          const period = 2 * Math.PI * Math.sqrt(a ** 3 / MU_EARTH);
+          expect(Math.floor(tofS / period)).toBe(revolutions);
+        });
+      });
+    }
+  }
+
+  describe('when the two branches are compared', () => {
+    it('should give two different conics', () => {
+      const left = solveLambert(r1, r2, 40000, MU_EARTH, { direction: 'prograde', revolutions: 1, branch: 'left' });
+      const right = solveLambert(r1, r2, 40000, MU_EARTH, { direction: 'prograde', revolutions: 1, branch: 'right' });
+      expect(Math.hypot(left.v1KmS[0] - right.v1KmS[0], left.v1KmS[1] - right.v1KmS[1], left.v1KmS[2] - right.v1KmS[2])).toBeGreaterThan(0.1);
+    });
+  });
+
+  describe('when the time is shorter than the minimum for the revolutions', () => {
+    it('should throw naming timeOfFlightS and the minimum', () => {
+      expect(() => solveLambert(r1, r2, 15000, MU_EARTH, { direction: 'prograde', revolutions: 2 }))
+        .toThrow(/^timeOfFlightS: 15000 s is below the minimum \d+\.\d+ s for 2 complete revolution/);
+    });
+  });
+
+  describe('when 200 seeded random multi-revolution problems are solved', () => {
+    it('should converge on both branches whenever the time allows, in at most 8 iterations', () => {
+      let seed = 777;
+      const uniform = (): number => { seed = (seed * 16807) % 2147483647; return seed / 2147483647; };
+      let solved = 0;
+      for (let k = 0; k < 200; k += 1) {
+        const a: Vec3 = [uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4];
+        const b: Vec3 = [uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4, uniform() * 2e4 - 1e4];
+        const tofS = 5000 + uniform() * 100000;
+        const revolutions = 1 + Math.floor(uniform() * 3);
+        for (const branch of ['left', 'right'] as const) {
+          try {
+            const s = solveLambert(a, b, tofS, MU_EARTH, { direction: 'prograde', revolutions, branch });
+            expect(s.converged).toBe(true);
+            expect(s.iterations).toBeLessThanOrEqual(8);
+            solved += 1;
+          } catch (error) {
+            expect(String(error)).toMatch(/below the minimum/);
+          }
+        }
+      }
+      expect(solved).toBeGreaterThan(100);
+    });
+  });
+});
+
 describe('solveLambert over random geometries', () => {
   describe('when 300 seeded random single-revolution problems are solved', () => {
     // Park–Miller minimal standard generator, so the sweep is the same on every run.
