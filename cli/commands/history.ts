@@ -19,6 +19,10 @@ function what(e: HistoryAnswer['entries'][number]): string {
   switch (e.kind) {
     case 'review': return `${String(p.decision)}${p.comment ? ` — "${String(p.comment)}"` : ''}; acknowledged ${(p.acknowledgedCaveatCodes as string[] | undefined)?.join(', ') || 'none'}`;
     case 'plan-superseded': return `superseded by ${String(p.supersededBy)}`;
+    case 'plan-proposed': {
+      const plan = p.plan as { status?: string; crossCheck?: { passed?: boolean } } | undefined;
+      return `${plan?.status ?? '?'}, cross-check ${plan?.crossCheck?.passed ? 'passed' : 'FAILED'}; submitted by ${String(p.submittedBy)}`;
+    }
     case 'job-submitted': return `problem ${String(p.problemHash).slice(0, 16)}…`;
     case 'job-failed': return `${String(p.errorName)}: ${String(p.message)}`;
     case 'job-cancelled': return String(p.reason);
@@ -39,7 +43,7 @@ export const historyCommand: CliCommand = {
       if (values.json) { process.stdout.write(JSON.stringify(answer, null, 2) + '\n'); return 0; }
       const p = answer.plan;
       const lines = [`plan ${p.planId} (${p.spacecraftName}) — ${p.state}${p.converged ? '' : ', not converged'}`,
-        ...answer.entries.map((e) => `${String(e.sequence).padStart(6)}  ${e.at}  ${e.actor.padEnd(16)} ${e.kind.padEnd(16)} ${e.hashMatches ? 'hash ok ' : 'HASH BAD'}  ${what(e)}`),
+        ...answer.entries.map((e) => `${String(e.sequence).padStart(6)}  ${e.at}  ${e.actor.padEnd(16)} ${e.kind.padEnd(16)} ${e.hashMatches ? 'hash ok' : 'HASH BAD'}  ${what(e)}`),
         '', PROPOSAL_NOTICE];
       process.stdout.write(lines.join('\n') + '\n');
       return answer.entries.every((e) => e.hashMatches) ? 0 : 1;
