@@ -1,0 +1,63 @@
+import { describe, expect, it } from 'vitest';
+import { changeCentre, laplaceSoiRadiusKm, propagate, type PropagationRequest } from '../../propagator/index.ts';
+import { flybyEphemeris, flybyStart, forcesAbout, PERIAPSIS_EPOCH } from './flyby-fixture.ts';
+
+const END = PERIAPSIS_EPOCH + 3 * 86400;
+const { helio, relMars } = flybyStart(2.5); // ~667 000 km from Mars: outside its sphere of influence
+const base = (extra: Partial<PropagationRequest>): PropagationRequest => ({
+  initial: helio, endEpochTdbS: END, forces: forcesAbout('sun'), ephemeris: flybyEphemeris,
+  relativeTolerance: 1e-12, absoluteTolerance: 1e-12, switching: { enabled: true }, ...extra,
+});
+
+describe('central-body switching', () => {
+  describe('when a heliocentric trajectory passes through the sphere of influence of Mars', () => {
+    const r = propagate(base({}));
+    it('should switch to Mars on entry and back to the Sun on exit, recording both', () => {
+      expect(r.outcome).toBe('finished');
+      expect(r.stats.switches.map((s) => `${s.from}->${s.to}`)).toEqual(['sun->mars', 'mars->sun']);
+      expect(r.final.centre).toBe('sun');
+      const kinds = r.events.map((e) => e.kind);
+      expect(kinds).toEqual(['soi-entry', 'soi-exit']);
+    });
+    it('should locate the crossings on the Laplace radius', () => {
+      const soi = laplaceSoiRadiusKm('mars');
+      for (const e of r.events) expect(Math.abs(e.distanceKm! - soi), e.kind).toBeLessThan(1e-6);
+      expect(r.stats.switches[0].epochTdbS).toBe(r.events[0].epochTdbS);
+    });
+  });
+
+  describe('when the caller sets the radius', () => {
+    it('should switch on that radius instead', () => {
+      const r = propagate(base({ switching: { enabled: true, radiusKm: { mars: 200_000 } } }));
+      expect(r.events.length).toBe(2);
+      for (const e of r.events) expect(Math.abs(e.distanceKm! - 200_000)).toBeLessThan(1e-6);
+    });
+  });
+
+  describe('when the run starts inside the sphere of influence', () => {
+    it('should switch at the start epoch', () => {
+      const inside = flybyStart(1.0).helio;
+      const r = propagate(base({ initial: inside }));
+      expect(r.stats.switches[0]).toEqual({ epochTdbS: inside.epochTdbS, from: 'sun', to: 'mars' });
+      expect(r.stats.switches.length).toBe(2);
+    });
+  });
+
+  describe('when the STM and a burn ride through the switches', () => {
+    it('should match the STM and burn sensitivity of a Mars-centred run', () => {
+      const burns = [{ epochTdbS: PERIAPSIS_EPOCH - 3600, deltaVKmS: [0.001, 0, -0.002] as [number, number, number] }];
+      const sw = propagate(base({ withStm: true, burns, endEpochTdbS: PERIAPSIS_EPOCH + 86400 }));
+      const mc = propagate(base({ withStm: true, burns, endEpochTdbS: PERIAPSIS_EPOCH + 86400, initial: relMars,
+        forces: forcesAbout('mars'), switching: undefined }));
+      expect(sw.stats.switches.length).toBe(1); // still inside at the end
+      const scale = Math.max(...mc.stm!.map(Math.abs));
+      for (let k = 0; k < 36; k++) expect(Math.abs(sw.stm![k] - mc.stm![k]) / scale, `Φ[${k}]`).toBeLessThan(1e-6);
+      const sScale = Math.max(...mc.burnSensitivities![0].map(Math.abs));
+      for (let k = 0; k < 18; k++) {
+        expect(Math.abs(sw.burnSensitivities![0][k] - mc.burnSensitivities![0][k]) / sScale).toBeLessThan(1e-6);
+      }
+      const d = changeCentre(sw.final, 'mars', flybyEphemeris);
+      expect(Math.hypot(...d.positionKm.map((x, i) => x - mc.final.positionKm[i]))).toBeLessThan(1e-4);
+    });
+  });
+});
