@@ -1,0 +1,165 @@
+/**
+ * npm run bench:planner — the planner's cost on the demo flyby (examples/flyby-demo.json), as ratios against
+ * a peer measured in the same run on the same machine. Writes bench/results/planner.md.
+ *
+ * 1. Retargeting: corrector iterations (target ≤ 6), wall time of the correction stage and of the whole
+ *    plan without Monte Carlo, and the correction's cost as a multiple of ONE state-only propagation over
+ *    the same span with the same force model and ephemeris cache (target ≤ 10×).
+ * 2. Monte Carlo: samples per second over the demo's 62-day span, in one process and in two processes
+ *    (one per core; target ≥ 50/s on 2 cores), and the linear-versus-Monte-Carlo agreement of the B-plane
+ *    dispersion.
+ * `tsx bench/planner.bench.ts --samples <first> <count>` is the child-process mode used for the 2-core run.
+ */
+import { spawn } from 'node:child_process';
+import { readFileSync, writeFileSync } from 'node:fs';
+import os from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { parseProblem, planManeuvers, runDispersionSamples, summariseDispersion, attachMonteCarlo } from '../planner/index.ts';
+import type { DispersionSample, ManeuverPlan, PlanningProblem } from '../planner/index.ts';
+import {
+  buildChebyshevEphemeris, createBuiltinEphemeris, parseEpoch, propagateAsync,
+} from '../propagator/index.ts';
+import type { BodyName } from '../propagator/index.ts';
+
+const here = fileURLToPath(import.meta.url);
+const demo = JSON.parse(readFileSync(new URL('../examples/flyby-demo.json', import.meta.url), 'utf8')) as Record<string, unknown>;
+const problem: PlanningProblem = parseProblem({ ...demo, dispersion: { samples: 0, seed: 20310 } });
+const MC_SEED = 20310;
+
+async function basePlan(): Promise<ManeuverPlan> {
+  return planManeuvers(problem, { monteCarlo: 'skip' });
+}
+
+// Child mode: run a sample range of the converged plan, print the samples as JSON.
+if (process.argv[2] === '--samples') {
+  const first = Number(process.argv[3]);
+  const count = Number(process.argv[4]);
+  const plan = await basePlan();
+  const t = performance.now();
+  const samples = await runDispersionSamples(problem, plan, { seed: MC_SEED, firstIndex: first, count });
+  process.stdout.write(JSON.stringify({ samples, ms: performance.now() - t }));
+  process.exit(0);
+}
+
+const lines: string[] = [];
+const log = (line = ''): void => {
+  lines.push(line);
+  console.log(line);
+};
+const median = (xs: number[]): number => xs.slice().sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+
+async function stateOnlyPropagationMs(): Promise<number> {
+  const fm = problem.forceModel;
+  const t0 = parseEpoch(problem.initialState.epoch);
+  const t1 = parseEpoch(problem.endEpoch);
+  const bodies: BodyName[] = [...new Set<BodyName>(['sun', fm.centralBody, ...fm.perturbingBodies, 'mars'])];
+  const eph = buildChebyshevEphemeris(createBuiltinEphemeris(), { bodies, startTdbS: t0 - 2 * 86400, endTdbS: t1 + 2 * 86400 });
+  const sp = problem.spacecraft.solarPressure;
+  const runs: number[] = [];
+  for (let i = 0; i < 5; i++) {
+    const t = performance.now();
+    await propagateAsync({
+      initial: { epochTdbS: t0, centre: problem.initialState.centre, frame: problem.initialState.frame, positionKm: problem.initialState.positionKm, velocityKmS: problem.initialState.velocityKmS },
+      endEpochTdbS: t1, ephemeris: eph, method: fm.method, relativeTolerance: fm.relativeTolerance,
+      forces: {
+        centralBody: fm.centralBody, perturbingBodies: fm.perturbingBodies, centralJ2: fm.centralJ2,
+        solarPressure: fm.solarPressure && sp ? { ...sp, massKg: problem.spacecraft.massKg } : undefined,
+      },
+    });
+    runs.push(performance.now() - t);
+  }
+  return median(runs);
+}
+
+async function retargeting(): Promise<void> {
+  const propMs = await stateOnlyPropagationMs();
+  const walls: number[] = [];
+  const correction: number[] = [];
+  let plan: ManeuverPlan | null = null;
+  for (let i = 0; i < 5; i++) {
+    let tCorrect = 0;
+    let tCross = 0;
+    const t = performance.now();
+    plan = await planManeuvers(problem, {
+      monteCarlo: 'skip',
+      onProgress: (p) => {
+        if (p.stage === 'correcting' && tCorrect === 0) tCorrect = performance.now();
+        if (p.stage === 'cross-checking' && tCross === 0) tCross = performance.now();
+      },
+    });
+    walls.push(performance.now() - t);
+    correction.push(tCross - tCorrect);
+  }
+  if (!plan) return;
+  const iterations = plan.iterations.filter((it) => it.jacobianSource !== 'none').length;
+  const ratio = median(correction) / propMs;
+  log('## Demo flyby retargeting');
+  log();
+  log('| quantity | value | target |');
+  log('|---|---|---|');
+  log(`| status | ${plan.status}, cross-check ${plan.crossCheck.passed ? 'passed' : 'FAILED'} | converged, passed |`);
+  log(`| corrector iterations (Newton steps) | ${iterations} | ≤ 6 |`);
+  log(`| one state-only propagation, 62 d (median of 5) | ${propMs.toFixed(0)} ms | peer |`);
+  log(`| correction stage incl. final STM evaluation (median of 5) | ${median(correction).toFixed(0)} ms | |`);
+  log(`| correction cost / one state-only propagation | ${ratio.toFixed(1)}× | ≤ 10× |`);
+  log(`| whole plan without Monte Carlo (setup, correction, cross-check, linear dispersion; median) | ${median(walls).toFixed(0)} ms | |`);
+  log(`| propagations in the plan (incl. cross-check) | ${plan.effort.propagations} | |`);
+  log(`| total Δv | ${plan.totalDeltaVMS.toFixed(4)} m/s | |`);
+  log();
+}
+
+function runChild(first: number, count: number): Promise<{ samples: DispersionSample[]; ms: number }> {
+  return new Promise((resolve, reject) => {
+    const child = spawn(process.execPath, ['--import', 'tsx', here, '--samples', String(first), String(count)], { stdio: ['ignore', 'pipe', 'inherit'] });
+    let out = '';
+    child.stdout.on('data', (d: Buffer) => { out += d.toString(); });
+    child.on('error', reject);
+    child.on('close', (code) => (code === 0 ? resolve(JSON.parse(out) as { samples: DispersionSample[]; ms: number }) : reject(new Error(`child exited ${code}`))));
+  });
+}
+
+async function monteCarlo(): Promise<void> {
+  const plan = await basePlan();
+  const n1 = 60;
+  const t = performance.now();
+  await runDispersionSamples(problem, plan, { seed: MC_SEED, firstIndex: 0, count: n1 });
+  const oneRate = n1 / ((performance.now() - t) / 1000);
+  const n = 200;
+  const t2 = performance.now();
+  const [a, b] = await Promise.all([runChild(0, n / 2), runChild(n / 2, n / 2)]);
+  const wall2 = performance.now() - t2;
+  // Sampling rate inside the children (excludes their start-up and the plan each one recomputes).
+  const twoRate = n / (Math.max(a.ms, b.ms) / 1000);
+  const samples = [...a.samples, ...b.samples];
+  const summary = summariseDispersion(problem, plan, samples);
+  const withMc = attachMonteCarlo(plan, summary);
+  const lin = plan.dispersion.linear?.total;
+  log('## Monte Carlo dispersion (62-day span, full non-linear propagation per sample)');
+  log();
+  log('| quantity | value | target |');
+  log('|---|---|---|');
+  log(`| samples/s, one process (${n1} samples) | ${oneRate.toFixed(1)} | |`);
+  log(`| samples/s, two processes (${n} samples, sampling time) | ${twoRate.toFixed(1)} | ≥ 50 on 2 cores |`);
+  log(`| wall time of the two-process run incl. start-up and re-planning | ${(wall2 / 1000).toFixed(1)} s | |`);
+  log();
+  log(`Linear vs Monte Carlo (${n} samples, seed ${MC_SEED}):`);
+  log();
+  log('| | linear (STM) | Monte Carlo |');
+  log('|---|---|---|');
+  log(`| B-plane 1σ semi-major, km | ${lin?.bPlane?.semiMajorKm.toFixed(2)} | ${summary.bPlane?.semiMajorKm.toFixed(2)} |`);
+  log(`| B-plane 1σ semi-minor, km | ${lin?.bPlane?.semiMinorKm.toFixed(2)} | ${summary.bPlane?.semiMinorKm.toFixed(2)} |`);
+  log(`| closest-approach time σ, s | ${lin?.closestApproachSigmaS?.toFixed(2)} | ${summary.closestApproachSigmaS?.toFixed(2)} |`);
+  log(`| impact probability | ${plan.dispersion.linear?.impactProbability?.toExponential(2)} | ${summary.impactProbability} (${summary.impacts}/${summary.samples}) |`);
+  log();
+  log(`Agreement: ${summary.linearAgreement?.passed ? 'passed' : 'FAILED'} — ${summary.linearAgreement?.message}; largest axis ratio error ${summary.linearAgreement?.axisRatioError?.toFixed(3)}.`);
+  log(`Caveats after attaching: ${withMc.caveats.map((c) => c.code).join(', ')}.`);
+  log();
+}
+
+log('# bench:planner results');
+log();
+log(`Machine: ${os.cpus()[0]?.model ?? 'unknown CPU'}, ${os.cpus().length} logical cores, ${Math.round(os.totalmem() / 2 ** 30)} GiB, Node ${process.version}, ${os.platform()} ${os.release()}. Run ${new Date().toISOString().slice(0, 10)} while other work shared the machine, so treat absolute times as indicative; ratios are measured in the same run.`);
+log();
+await retargeting();
+await monteCarlo();
+writeFileSync(new URL('./results/planner.md', import.meta.url), `${lines.join('\n')}\n`);
