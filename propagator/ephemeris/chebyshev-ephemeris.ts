@@ -202,13 +202,34 @@ class ChebyshevEphemeris implements Ephemeris {
     t[1] = x;
     const x2 = 2 * x;
     for (let j = 2; j < n; j++) t[j] = x2 * t[j - 1] - t[j - 2];
-    const coefs = this.coefs[b];
-    let base = seg * 6 * n;
-    for (let c = 0; c < components; c++, base += n) {
-      let sum = 0;
-      for (let j = n - 1; j >= 0; j--) sum += coefs[base + j] * t[j];
-      out[offset + c] += sign * sum;
+    const k = this.coefs[b];
+    const b0 = seg * 6 * n;
+    // Components summed side by side in one pass: independent sums pipeline better than six loops.
+    let s0 = 0;
+    let s1 = 0;
+    let s2 = 0;
+    for (let j = 0; j < n; j++) {
+      const tj = t[j];
+      s0 += k[b0 + j] * tj;
+      s1 += k[b0 + n + j] * tj;
+      s2 += k[b0 + 2 * n + j] * tj;
     }
+    out[offset] += sign * s0;
+    out[offset + 1] += sign * s1;
+    out[offset + 2] += sign * s2;
+    if (components === 3) return;
+    let s3 = 0;
+    let s4 = 0;
+    let s5 = 0;
+    for (let j = 0; j < n; j++) {
+      const tj = t[j];
+      s3 += k[b0 + 3 * n + j] * tj;
+      s4 += k[b0 + 4 * n + j] * tj;
+      s5 += k[b0 + 5 * n + j] * tj;
+    }
+    out[offset + 3] += sign * s3;
+    out[offset + 4] += sign * s4;
+    out[offset + 5] += sign * s5;
   }
 
   stateInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {
