@@ -6,6 +6,7 @@
 import type { AppDeps } from '../deps.ts';
 import { REVIEW_ROUTE_MODULES } from '../review/route-modules.ts';
 import type { ApiRoutes } from '../route-table.ts';
+import { ccsdsRoutes } from './ccsds.ts';
 import { jobEventRoutes } from './job-events.ts';
 import { jobRoutes } from './jobs.ts';
 import { planRoutes } from './plans.ts';
@@ -18,5 +19,6 @@ export const ROUTE_MODULES: RouteModule[] = [
   jobRoutes,
   jobEventRoutes,
   planRoutes,
+  ccsdsRoutes,
   ...REVIEW_ROUTE_MODULES,
 ];

@@ -1,0 +1,123 @@
+/**
+ * CCSDS Orbit Data Messages over HTTP: read an OPM into the problem's initial state, and export a plan
+ * as an OPM (initial state + maneuvers) or an OEM (predicted trajectory at a chosen step). The format
+ * work is in ccsds/; here only lookup, validation and the HTTP shape.
+ */
+import type { Request, Response } from 'express';
+import { z } from 'zod';
+import {
+  CcsdsFormatError, exportPlanAsCcsds, readOpmAsInitialState, SUPPORTED_TIME_SYSTEMS,
+} from '../../ccsds/index.ts';
+import { jobRequestSchema } from '../../queue/index.ts';
+import type { AppDeps } from '../deps.ts';
+import { sendError } from '../errors.ts';
+import type { ApiRoutes } from '../route-table.ts';
+import { planParamsSchema, REVIEW_NOTICE } from '../schemas.ts';
+import { validOf } from '../validate.ts';
+
+const READERS = ['submitter', 'reviewer', 'auditor'] as const;
+
+// The planner's types through ccsds/'s signature, so api/ does not import planner/.
+type PlanningProblem = Parameters<typeof exportPlanAsCcsds>[0];
+type ManeuverPlan = Parameters<typeof exportPlanAsCcsds>[1];
+
+const opmBodySchema = z.object({
+  /** The OPM text, KVN or XML. */
+  opm: z.string().min(20).max(200_000),
+}).strict();
+
+const exportParamsSchema = planParamsSchema.extend({ kind: z.enum(['opm', 'oem']) });
+const exportQuerySchema = z.object({
+  encoding: z.enum(['kvn', 'xml']).default('kvn'),
+  /** Seconds between OEM lines (required for oem). */
+  stepS: z.coerce.number().positive().max(1e7).optional(),
+  timeSystem: z.enum(SUPPORTED_TIME_SYSTEMS as ['UTC', 'TAI', 'TT', 'TDB']).default('TDB'),
+  maneuverFrame: z.enum(['RTN', 'TNW', 'inertial']).default('RTN'),
+  objectId: z.string().min(1).max(40).regex(/^[A-Za-z0-9 ._-]+$/).optional(),
+}).strict();
+
+/** Sends a format or input error as 400 with the keyword (and line) as the issue path. */
+function sendInputError(res: Response, error: unknown): boolean {
+  if (!(error instanceof Error) || (error.name !== 'InvalidInputError' && error.name !== 'OutOfSpanError')) return false;
+  const field = (error as { field?: string }).field ?? 'input';
+  const line = error instanceof CcsdsFormatError ? error.line : undefined;
+  sendError(res, 400, (error as { code?: string }).code ?? 'INVALID_INPUT', error.message,
+    [{ path: line ? `${field} (line ${line})` : field, message: error.message }]);
+  return true;
+}
+
+/** The problem a plan was made from: the archive's job-submitted entry, or the finished job's data. */
+async function problemOf(deps: AppDeps, planId: string): Promise<PlanningProblem | undefined> {
+  let raw: unknown;
+  if (deps.archive) {
+    const entries = await deps.archive.history(planId);
+    raw = entries.find((e) => e.kind === 'job-submitted')?.payload.problem;
+  } else {
+    raw = (await deps.queue.queue.getJob(planId))?.data.problem;
+  }
+  const parsed = jobRequestSchema.shape.problem.safeParse(raw);
+  return parsed.success ? parsed.data : undefined;
+}
+
+export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
+  routes.add({
+    method: 'post', path: '/v1/ccsds/opm/initial-state', tags: ['ccsds'], roles: ['submitter'],
+    summary: 'Read a CCSDS OPM (KVN or XML) into the problem\'s initialState',
+    description: 'Strict reading of CCSDS 502.0-B: required keywords, units, time systems UTC/TAI/TT/TDB, frames '
+      + 'EME2000/ICRF/GCRF/ECLIPJ2000, centres the propagator knows. A malformed file answers 400 naming the keyword and line.',
+    body: opmBodySchema,
+    responses: {
+      200: { description: 'The initial state (with covariance when the OPM has one), mass, notes' },
+      400: { description: 'Malformed or unsupported OPM (keyword and line in the issue path)' },
+    },
+  }, (_req: Request, res: Response) => {
+    const { opm } = validOf<unknown, unknown, z.infer<typeof opmBodySchema>>(res).body;
+    try {
+      const { initialState, massKg, notes } = readOpmAsInitialState(opm);
+      res.json({ initialState, ...(massKg !== undefined ? { massKg } : {}), notes });
+    } catch (error) {
+      if (!sendInputError(res, error)) throw error;
+    }
+  });
+
+  routes.add({
+    method: 'get', path: '/v1/plans/:planId/ccsds/:kind', tags: ['ccsds'], roles: [...READERS],
+    summary: 'Export a converged plan as a CCSDS OPM (maneuvers) or OEM (predicted trajectory)',
+    description: 'OPM: the initial state, covariance, mass and one maneuver block per burn. OEM: the trajectory propagated '
+      + 'with the plan\'s burns, one segment per arc, every `stepS` seconds. Both carry the review statement. '
+      + `${REVIEW_NOTICE}`,
+    params: exportParamsSchema,
+    query: exportQuerySchema,
+    responses: {
+      200: { description: 'The message text', contentType: 'text/plain' },
+      400: { description: 'Bad options, or a plan that did not converge' },
+      404: { description: 'No such plan, or its problem is not on record' },
+    },
+  }, async (req: Request, res: Response) => {
+    const { params, query } = validOf<z.infer<typeof exportParamsSchema>, z.infer<typeof exportQuerySchema>, unknown>(res);
+    const found = await deps.plans.get(params.planId);
+    if (!found) { sendError(res, 404, 'PLAN_NOT_FOUND', `no plan ${params.planId}`); return; }
+    const problem = await problemOf(deps, params.planId);
+    if (!problem) { sendError(res, 404, 'PROBLEM_NOT_FOUND', `the problem of plan ${params.planId} is not on record`); return; }
+    if (params.kind === 'oem' && query.stepS === undefined) {
+      sendError(res, 400, 'INVALID_INPUT', 'stepS: an OEM export needs the step between lines, s', [{ path: 'stepS', message: 'required for oem' }]);
+      return;
+    }
+    const controller = new AbortController();
+    req.on('close', () => { if (!res.writableEnded) controller.abort(); });
+    try {
+      const text = await exportPlanAsCcsds(problem, found.plan as unknown as ManeuverPlan, {
+        kind: params.kind, encoding: query.encoding, creationDateUtc: new Date().toISOString().slice(0, 19),
+        timeSystem: query.timeSystem, maneuverFrame: query.maneuverFrame, signal: controller.signal,
+        ...(query.stepS !== undefined ? { stepS: query.stepS } : {}),
+        ...(query.objectId ? { objectId: query.objectId } : {}),
+      });
+      const extension = query.encoding === 'xml' ? 'xml' : params.kind;
+      res.set('Content-Disposition', `attachment; filename="${params.planId}.${extension}"`);
+      res.type(query.encoding === 'xml' ? 'application/xml' : 'text/plain').send(text);
+    } catch (error) {
+      if (error instanceof Error && error.name === 'CancelledError') return;
+      if (!sendInputError(res, error)) throw error;
+    }
+  });
+}

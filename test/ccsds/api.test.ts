@@ -1,0 +1,78 @@
+/**
+ * The CCSDS endpoints over HTTP against the real service (real Redis from the test harness, SQLite archive
+ * in a temp folder): an OPM read into an initial state, and a planned job exported as OPM and OEM.
+ */
+import { readFileSync } from 'node:fs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { readOem, readOpm } from '../../ccsds/index.ts';
+import { startService, waitForJob, type TestService } from '../harness/service.ts';
+import { reachableProblem, submission } from '../queue/fixtures.ts';
+
+const opmText = readFileSync(new URL('../fixtures/ccsds/opm-earth-maneuvers.opm', import.meta.url), 'utf8');
+let svc: TestService;
+let planId: string;
+
+beforeAll(async () => {
+  svc = await startService();
+  await svc.startWorkerInProcess();
+  const submitted = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(reachableProblem({ name: 'CCSDS-SAT' })) });
+  const done = await waitForJob(svc, submitted.body.jobId, (s) => s.state === 'completed' || s.state === 'failed');
+  planId = done.result.planId;
+});
+afterAll(async () => { await svc?.close(); });
+
+describe('CCSDS endpoints', () => {
+  describe('when an OPM is posted for an initial state', () => {
+    it('should answer the planner initial state with the covariance in the state frame', async () => {
+      const r = await svc.request('POST', '/v1/ccsds/opm/initial-state', { token: svc.tokens.submitter, body: { opm: opmText } });
+      expect(r.status).toBe(200);
+      expect(r.body.initialState).toMatchObject({ epoch: '2025-03-02T00:00:00.000 UTC', centre: 'earth', frame: 'J2000_EQUATORIAL' });
+      expect(r.body.initialState.covarianceKmKmS).toHaveLength(6);
+      expect(r.body.massKg).toBe(2140.5);
+    });
+
+    it('should answer 400 naming the keyword and line of a malformed OPM', async () => {
+      const broken = opmText.replace('REF_FRAME = EME2000', 'REF_FRAME = TOD');
+      const line = broken.split('\n').findIndex((l) => l.startsWith('REF_FRAME')) + 1;
+      const r = await svc.request('POST', '/v1/ccsds/opm/initial-state', { token: svc.tokens.submitter, body: { opm: broken } });
+      expect(r.status).toBe(400);
+      expect(r.body.error.code).toBe('CCSDS_FORMAT');
+      expect(r.body.error.issues[0].path).toBe(`REF_FRAME (line ${line})`);
+    });
+
+    it('should refuse a caller without the submitter role', async () => {
+      const r = await svc.request('POST', '/v1/ccsds/opm/initial-state', { token: svc.tokens.auditor, body: { opm: opmText } });
+      expect(r.status).toBe(403);
+    });
+  });
+
+  describe('when a planned job is exported', () => {
+    it('should give an OPM with one maneuver per burn and the review statement', async () => {
+      const plan = (await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.reviewer })).body.plan;
+      const r = await svc.request('GET', `/v1/plans/${planId}/ccsds/opm`, { token: svc.tokens.reviewer });
+      expect(r.status).toBe(200);
+      expect(r.headers.get('content-type')).toMatch(/^text\/plain/);
+      const opm = readOpm(r.text);
+      expect(opm.maneuvers).toHaveLength(plan.burns.length);
+      expect(opm.maneuvers[0].epochIgnitionTdbS).toBeCloseTo(plan.burns[0].epoch.tdbS, 5);
+      expect(opm.header.comments.join(' ')).toMatch(/must be reviewed and approved by qualified flight-dynamics staff/);
+    });
+
+    it('should give an OEM (XML on request) with one segment per arc', async () => {
+      const plan = (await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.reviewer })).body.plan;
+      const r = await svc.request('GET', `/v1/plans/${planId}/ccsds/oem?stepS=300&encoding=xml`, { token: svc.tokens.auditor });
+      expect(r.status).toBe(200);
+      expect(r.headers.get('content-type')).toMatch(/^application\/xml/);
+      const oem = readOem(r.text);
+      expect(oem.segments).toHaveLength(plan.burns.length + 1);
+      expect(oem.segments[0].metadata.objectName).toBe('CCSDS-SAT');
+    });
+
+    it('should answer 400 when the OEM step is missing and 404 for an unknown plan', async () => {
+      const missing = await svc.request('GET', `/v1/plans/${planId}/ccsds/oem`, { token: svc.tokens.auditor });
+      expect(missing.status).toBe(400);
+      const unknown = await svc.request('GET', '/v1/plans/no-such-plan/ccsds/opm', { token: svc.tokens.auditor });
+      expect(unknown.status).toBe(404);
+    });
+  });
+});
