@@ -7,6 +7,7 @@
  *  - the group property Φ(t2, t0) = Φ(t2, t1) Φ(t1, t0).
  */
 import { describe, expect, it } from 'vitest';
+import { createBuiltinEphemeris, propagate, type Vec3 } from '../../propagator/index.ts';
 import { keplerPropagate, keplerStm } from '../../propagator/kepler/index.ts';
 
 const MU = 398600.4418;
@@ -76,4 +77,25 @@ describe('analytic two-body STM', () => {
       for (let k = 0; k < 36; k++) expect(Math.abs(composed[k] - whole.stm[k])).toBeLessThan(1e-11 * Math.max(1, Math.abs(whole.stm[k])));
     });
   });
+});
+
+// The issue asks for ~1e-6 relative; measured worst entries at rtol 1e-13: Cowell ≤ 1.1e-10, Encke ≤ 1.1e-8
+// (three revolutions of the e ≈ 0.6 ellipse, where Φ grows secularly).
+describe('integrated STM against the analytic two-body STM', () => {
+  const ephemeris = createBuiltinEphemeris();
+  for (const c of [cases[0], cases[1], cases[4]]) {
+    for (const method of ['cowell', 'encke'] as const) {
+      it(`should agree to 1e-7 of the largest entry for ${c.name} (${method})`, () => {
+        const r = propagate({
+          initial: { epochTdbS: 1e8, centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: c.x0.slice(0, 3) as Vec3,
+            velocityKmS: c.x0.slice(3) as Vec3 },
+          endEpochTdbS: 1e8 + c.dt, forces: { centralBody: 'earth', perturbingBodies: [], gmOverridesKm3S2: { earth: MU } },
+          ephemeris, method, withStm: true, relativeTolerance: 1e-13, absoluteTolerance: 1e-12,
+        });
+        const { stm } = keplerStm(c.x0.slice(0, 3), c.x0.slice(3), c.dt, MU);
+        const scale = Math.max(...stm.map(Math.abs));
+        for (let k = 0; k < 36; k++) expect(Math.abs(r.stm![k] - stm[k]) / scale, `Φ[${k}]`).toBeLessThan(1e-7);
+      });
+    }
+  }
 });

@@ -5,6 +5,7 @@
  * v = [3.689866, −1.916735, −6.112511] km/s. Values typed from memory; they reproduce to the printed digits.
  */
 import { describe, expect, it } from 'vitest';
+import { createBuiltinEphemeris, propagate, type Vec3 } from '../../propagator/index.ts';
 import { keplerPropagate } from '../../propagator/kepler/index.ts';
 
 const MU = 398600.4418;
@@ -34,4 +35,27 @@ describe('universal-variable Kepler solver against Vallado Example 2-4', () => {
       }
     });
   });
+});
+
+describe('Cowell and Encke against Vallado Example 2-4', () => {
+  for (const method of ['cowell', 'encke'] as const) {
+    describe(`when ${method} propagates the same 40 minutes with the example's μ`, () => {
+      const result = propagate({
+        initial: { epochTdbS: 0, centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: R0 as Vec3, velocityKmS: V0 as Vec3 },
+        endEpochTdbS: 2400, forces: { centralBody: 'earth', perturbingBodies: [], gmOverridesKm3S2: { earth: MU } },
+        ephemeris: createBuiltinEphemeris(), method, relativeTolerance: 1e-13, absoluteTolerance: 1e-12,
+      });
+      it('should reproduce the printed digits (0.1 m, 1 mm/s)', () => {
+        for (let i = 0; i < 3; i++) {
+          expect(Math.abs(result.final.positionKm[i] - R_PRINTED[i]), `r[${i}]`).toBeLessThan(1e-4);
+          expect(Math.abs(result.final.velocityKmS[i] - V_PRINTED[i]), `v[${i}]`).toBeLessThan(1e-6);
+        }
+      });
+      it('should agree with the Kepler solver to better than 1 cm', () => {
+        const k = keplerPropagate(R0, V0, 2400, MU);
+        const d = Math.hypot(...k.positionKm.map((x, i) => x - result.final.positionKm[i]));
+        expect(d).toBeLessThan(1e-5);
+      });
+    });
+  }
 });
