@@ -69,6 +69,24 @@ describe('planManeuvers', () => {
     });
   });
 
+  describe('when the targets are a periapsis altitude and inclination (closest approach to the central body)', () => {
+    it('should meet both with a minimum-norm solution and matching Jacobians', async () => {
+      const base = twoBodyProblem({ dispersion: { samples: 0, seed: 1 } });
+      const plan = await planManeuvers(parseProblem({
+        ...base,
+        targets: [
+          { kind: 'periapsis-altitude', body: 'earth', altitudeKm: 500, toleranceKm: 0.01 },
+          { kind: 'periapsis-inclination', body: 'earth', referencePlane: 'equator', inclinationDeg: 9, toleranceDeg: 0.001 },
+        ],
+      }), { verifyJacobian: true, monteCarlo: 'skip' });
+      expect(plan.status).toBe('converged');
+      expect(plan.convergence.leastSquares).toBe(false);
+      expect(plan.approaches[0].altitudeKm).toBeCloseTo(500, 1);
+      expect(plan.targets[1].achieved).toBeCloseTo(9, 2);
+      expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(1e-4);
+    });
+  });
+
   describe('when the target cannot be reached', () => {
     it('should resolve to a not-converged plan with no burns and a critical caveat', async () => {
       const base = twoBodyProblem();
