@@ -4,7 +4,8 @@
  * Source: IERS Bulletin C (the table of TAI − UTC steps is repeated in every issue), typed from memory.
  * The table is known valid to LEAP_TABLE_VALID_UNTIL_UTC: Bulletin C 70 (July 2025, from memory)
  * announced no leap second at the end of December 2025, so TAI − UTC = 37 s holds through
- * 2026-06-30T23:59:59 UTC. The next possible step is at the end of June 2026; its announcement is not
+ * 2026-06-30T23:59:59 UTC. (Bulletin C 68 of July 2024 — no leap second at the end of 2024 — is confirmed
+ * by a stored copy; C 69 and C 70 are from memory.) The next possible step is at the end of June 2026; its announcement is not
  * known here, so UTC epochs from 2026-06-30T23:59:60 on throw OutOfSpanError. Extend the table (and the
  * date) when a newer Bulletin C is at hand.
  */
