@@ -245,6 +245,8 @@ export interface ManeuverPlan {
     maxConditionNumber: number | null;
     /** When not converged: the controls of the last iterate (diagnostics only — never a plan to execute). */
     lastIterate: { controls: number[]; burnsInertialKmS: Vec3[] } | null;
+    /** Initial guesses replaced by Lambert transfers (burns with guessFromLambert). */
+    seeds: { burnIndex: number; deltaVInertialKmS: Vec3; message: string }[];
   };
   sensitivities: Sensitivities | null;
   /** Always present; `passed: false` with a message when it could not run (e.g. not converged). */

@@ -108,6 +108,13 @@ export function checkProblem(problem: PlanningProblem): ProblemEpochs {
       freeCount += 1;
     }
     freeCount += b.freeComponents.filter(Boolean).length;
+    if (b.guessFromLambert) {
+      const ok = problem.targets.some((tg, k) => (tg.kind === 'position' || tg.kind === 'state')
+        && tg.centre === fm.centralBody && (e.targetTdbS[k] as number) > t);
+      if (!ok) {
+        throw new InvalidInputError(`burns[${i}].guessFromLambert`, `needs a position or state target relative to the central body (${fm.centralBody}) after the burn`);
+      }
+    }
     if (b.boundsKmS) {
       for (let k = 0; k < 3; k++) {
         if (b.boundsKmS.lower[k] > b.boundsKmS.upper[k]) {

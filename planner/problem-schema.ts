@@ -78,6 +78,9 @@ const burnSchema = z.object({
   freeComponents: z.tuple([z.boolean(), z.boolean(), z.boolean()]).default([true, true, true]),
   /** Optional per-component bounds, km/s, in `frame`. */
   boundsKmS: z.object({ lower: vec3Schema, upper: vec3Schema }).strict().optional(),
+  /** Replace the free components' initial guess by a Lambert transfer (Izzo 2015, two-body about the
+   * central body) from the burn point to the first position or state target after it. */
+  guessFromLambert: z.boolean().default(false),
   /** When given, the burn epoch is also free within [earliest, latest]. */
   epochWindow: z.object({ earliest: epochTextSchema, latest: epochTextSchema }).strict().optional(),
 }).strict();

@@ -14,6 +14,7 @@ import { parseProblem } from '../problem-checks.ts';
 import { problemHash, targetSetKey } from '../problem-hash.ts';
 import type { PlanningProblem } from '../problem-schema.ts';
 import { burnSettings } from '../targeting/controls.ts';
+import { lambertSeeds } from '../targeting/lambert-seed.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import type { TrajectoryEvaluation } from '../targeting/evaluate-trajectory.ts';
 import { runCrossCheck } from './cross-check.ts';
@@ -61,11 +62,12 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   const primary = { method: fm.method, relativeTolerance: fm.relativeTolerance, signal } as const;
   const m = ctx.targetCount;
 
-  // 1. Differential correction.
+  // 1. Differential correction (from Lambert seeds where the problem asks).
+  const seeded = await lambertSeeds(problem, ctx.epochs, ctx.layout, ctx.evaluation, signal);
   const maxIter = problem.corrector.maxIterations;
   progress({ stage: 'correcting', fraction: 0.02, message: 'differential correction', iteration: 0 });
   const result: CorrectorResult = await runCorrector({
-    initial: ctx.layout.initial, tolerances: ctx.components.slice(0, m).map((c) => c.tolerance),
+    initial: seeded.initial, tolerances: ctx.components.slice(0, m).map((c) => c.tolerance),
     controlScales: ctx.layout.scales, maxStep: ctx.layout.maxStep, finiteDifferenceStep: ctx.layout.finiteDifferenceStep,
     lower: ctx.layout.lower, upper: ctx.layout.upper, maxIterations: maxIter,
     evaluate: async (x, withJacobian) => {
@@ -146,6 +148,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
       leastSquares: result.leastSquares,
       maxConditionNumber: conds.length ? Math.max(...conds) : null,
       lastIterate: converged && ok ? null : { controls: result.controls, burnsInertialKmS: lastIterateBurns },
+      seeds: seeded.seeds,
     },
     sensitivities,
     crossCheck: {

@@ -57,6 +57,17 @@ describe('planManeuvers', () => {
     });
   });
 
+  describe('when the burn asks for a Lambert seed', () => {
+    it('should start from the two-body transfer and need no Newton step on a two-body problem', async () => {
+      const base = twoBodyProblem({ dispersion: { samples: 0, seed: 1 } });
+      const plan = await planManeuvers(parseProblem({ ...base, burns: [{ ...base.burns[0], guessFromLambert: true }] }), { monteCarlo: 'skip' });
+      expect(plan.status).toBe('converged');
+      expect(plan.convergence.seeds).toHaveLength(1);
+      expect(plan.iterations).toHaveLength(1);
+      plan.burns[0].deltaVInertialKmS.forEach((v, k) => expect(Math.abs(v - TRUE_DELTA_V_KMS[k])).toBeLessThan(1e-7));
+    });
+  });
+
   describe('when the epoch of the burn is free too', () => {
     it('should match STM and finite-difference Jacobians including the epoch column', async () => {
       const base = twoBodyProblem();
