@@ -12,7 +12,7 @@ export { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
 export { propagate, propagateAsync, propagationSteps, type StepWatcher, type WatchStop } from './propagate.ts';
 export type { PropagationDynamics } from './propagation-dynamics.ts';
 export { createCowellRhs, createCowellDynamics } from './cowell.ts';
-export { bPlanePartials, computeBPlane, referencePole, B_PLANE_PARTIAL_ROWS, type BPlane, type BPlanePartials, type BPlaneReference } from './bplane/index.ts';
+export { bPlaneOfEncounter, bPlanePartials, computeBPlane, referencePole, B_PLANE_PARTIAL_ROWS, type BPlane, type BPlanePartials, type BPlaneReference } from './bplane/index.ts';
 export {
   keplerPropagate, keplerSolve, keplerStm, stateToConic, conicToState, stumpff,
   type ConicElements, type KeplerSolution, type KeplerStmResult,

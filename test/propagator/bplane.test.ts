@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { B_PLANE_PARTIAL_ROWS, bPlanePartials, computeBPlane, referencePole } from '../../propagator/bplane/index.ts';
+import {
+  B_PLANE_PARTIAL_ROWS, bPlaneOfEncounter, bPlanePartials, computeBPlane, referencePole,
+} from '../../propagator/bplane/index.ts';
 import { GM_KM3_S2 } from '../../propagator/constants.ts';
 import { InvalidInputError } from '../../propagator/errors.ts';
+import { createBuiltinEphemeris, propagate, type Vec3 } from '../../propagator/index.ts';
+import { flybyEphemeris, flybyStart, forcesAbout, PERIAPSIS_EPOCH, PERIAPSIS_RADIUS_KM } from './flyby-fixture.ts';
 
 const MU = GM_KM3_S2.earth;
 // An invented hyperbolic approach to Earth, 400 000 km out, v∞ ≈ 3.6 km/s.
@@ -55,3 +59,40 @@ describe('B-plane partials', () => {
     });
   });
 });
+
+describe('B-plane of an encounter found by a propagation', () => {
+  const { helio } = flybyStart(2.5);
+  const run = (initial = helio) => propagate({
+    initial, endEpochTdbS: PERIAPSIS_EPOCH + 86400, forces: forcesAbout('sun'), ephemeris: flybyEphemeris,
+    relativeTolerance: 1e-12, absoluteTolerance: 1e-12, switching: { enabled: true },
+    events: [{ kind: 'closest-approach', body: 'mars' }],
+  });
+  describe('when the trajectory flies by Mars on a hyperbola', () => {
+    it('should give the B-plane at the closest approach, with |B| matching r_p and v∞', () => {
+      const r = run();
+      const bp = bPlaneOfEncounter(r.events, 'mars', GM_KM3_S2.mars, 'equator');
+      const rp = bp.value.periapsisRadiusKm;
+      const vi = bp.value.vInfinityKmS;
+      // Curtis §8.9 aiming radius. The Sun's tide over the 2.5-day approach moves periapsis from the
+      // two-body construction's 3696 km by ~52 km (measured), hence the 100-km bound.
+      expect(bp.value.bMagnitudeKm).toBeCloseTo(rp * Math.sqrt(1 + (2 * GM_KM3_S2.mars) / (rp * vi * vi)), 6);
+      expect(Math.abs(bp.approach.distanceKm! - PERIAPSIS_RADIUS_KM)).toBeLessThan(100);
+      expect(Math.abs(bp.value.timeToPeriapsisS)).toBeLessThan(1e-3);
+    });
+  });
+  describe('when the body is never approached on a hyperbola', () => {
+    it('should throw naming the closest approach found', () => {
+      const bound = propagate(request0());
+      expect(() => bPlaneOfEncounter(bound.events, 'earth', MU)).toThrow(/never approached on a hyperbola: closest approach found at .* distance .* km/);
+      expect(() => bPlaneOfEncounter([], 'mars', GM_KM3_S2.mars)).toThrow(/no closest approach to mars/);
+    });
+  });
+});
+
+function request0() {
+  return {
+    initial: { epochTdbS: 0, centre: 'earth' as const, frame: 'J2000_EQUATORIAL' as const, positionKm: [7000, 0, 0] as Vec3, velocityKmS: [0, 7.9, 0.5] as Vec3 },
+    endEpochTdbS: 20000, forces: { centralBody: 'earth' as const, perturbingBodies: [] }, ephemeris: createBuiltinEphemeris(),
+    events: [{ kind: 'closest-approach' as const, body: 'earth' as const }],
+  };
+}
