@@ -8,6 +8,12 @@ import { table } from './text-table.ts';
 
 const RULE = '='.repeat(100);
 
+/** m/s with 4 decimals, without a '-0.0000'. */
+function ms(kmS: number): string {
+  const text = (kmS * 1000).toFixed(4);
+  return /^-0\.0+$/.test(text) ? text.slice(1) : text;
+}
+
 function num(x: number | null | undefined, digits = 3): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
   const a = Math.abs(x);
@@ -46,7 +52,7 @@ function burnTable(plan: ManeuverPlan): string[] {
   }
   const rows = plan.burns.map((b) => [
     b.label, b.epoch.utc ?? '(beyond leap table)', b.epoch.tdb, b.magnitudeMS.toFixed(4),
-    b.deltaVRtnKmS.map((v) => (v * 1000).toFixed(4)).join(' '), b.deltaVVnbKmS.map((v) => (v * 1000).toFixed(4)).join(' '),
+    b.deltaVRtnKmS.map(ms).join(' '), b.deltaVVnbKmS.map(ms).join(' '),
     b.propellantKg.toFixed(3), b.durationS.toFixed(1),
   ]);
   return ['Proposed burns (impulsive; Δv in m/s):',
@@ -86,7 +92,12 @@ function dispersionLines(plan: ManeuverPlan): string[] {
     const part = (name: string, p: typeof l.total | null): void => {
       if (!p) return;
       const e = p.bPlane;
-      out.push(`  linear ${name}: ${e ? `B-plane 1σ ${num(e.semiMajorKm)} x ${num(e.semiMinorKm)} km at ${num(e.orientationDeg, 2)}°` : ''}${p.closestApproachSigmaS !== null ? `, TCA σ ${num(p.closestApproachSigmaS)} s` : ''}; target σ ${p.targetSigmas.map((s) => num(s)).join(', ')}`);
+      const parts = [
+        ...(e ? [`B-plane 1σ ${num(e.semiMajorKm)} x ${num(e.semiMinorKm)} km at ${num(e.orientationDeg, 2)}°`] : []),
+        ...(p.closestApproachSigmaS !== null ? [`TCA σ ${num(p.closestApproachSigmaS)} s`] : []),
+        `target σ ${p.targetSigmas.map((s) => num(s)).join(', ')}`,
+      ];
+      out.push(`  linear ${name}: ${parts.join('; ')}`);
     };
     part('execution', l.execution);
     part('initial state', l.initialState);
