@@ -7,7 +7,7 @@
  */
 import { InvalidInputError } from '../errors.ts';
 import { calendarSecondsFromJ2000, civilFromDays, daysFromCivil, daysInMonth } from './calendar.ts';
-import { isLeapSecondDay, taiSecondsFromUtcCalendar, utcFromTaiS } from './leap-seconds.ts';
+import { isLeapSecondDay, taiMinusUtcOnUtcDayS, taiSecondsFromUtcCalendar, utcFromTaiS } from './leap-seconds.ts';
 import { tdbFromTai, tdbFromTt, ttFromTdb, TT_MINUS_TAI_S } from './tdb.ts';
 
 /** Time scales epochs can be written in. */
@@ -46,6 +46,8 @@ export function parseEpoch(text: string, defaultScale?: TimeScale, field = 'epoc
     throw new InvalidInputError(field, `second ${m[6]} outside 00-59 (60 only for a UTC leap second at 23:59)`);
   }
   if (whole === 60 && !isLeapSecondDay(daysFromCivil(year, month, day))) {
+    // The table cannot say whether its last day ends in a leap second: that is its span, not bad text.
+    taiMinusUtcOnUtcDayS(daysFromCivil(year, month, day) + 1, field);
     throw new InvalidInputError(field, `no leap second is known at the end of ${m[1]}-${m[2]}-${m[3]} UTC`);
   }
   // Whole seconds first, fraction last: keeps the float64 sum within one rounding of the text.

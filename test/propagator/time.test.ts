@@ -56,6 +56,10 @@ describe('parseEpoch', () => {
     it('should refuse 23:59:60 on a day without a leap second', () => {
       expect(() => parseEpoch('2017-12-31T23:59:60Z')).toThrow(/no leap second/);
     });
+    it('should call 23:59:60 on the table\'s last day out of span (the next Bulletin C is not known)', () => {
+      expect(() => parseEpoch('2026-06-30T23:59:60Z')).toThrow(OutOfSpanError);
+      expect(parseEpoch('2026-06-30T23:59:59.5Z')).toBeGreaterThan(parseEpoch('2026-06-30T23:59:59Z'));
+    });
   });
   describe('when the text is wrong', () => {
     const cases: Array<[string, RegExp]> = [
