@@ -68,6 +68,9 @@ export function formatPropagateReport(result: PropagationResult, info: Propagate
     lines.push(`event: ${e.kind}${e.body ? ` ${e.body}` : ''} at ${formatEpoch(e.epochTdbS, 'TDB', 6)}`
       + `${e.distanceKm !== undefined ? `, distance ${e.distanceKm.toFixed(3)} km` : ''}`);
   }
+  for (const sw of result.stats.switches) {
+    lines.push(`centre switch: ${sw.from} -> ${sw.to} at ${formatEpoch(sw.epochTdbS, 'TDB', 6)}`);
+  }
   for (const w of result.warnings) lines.push(`warning: ${w}`);
   if (result.stm) {
     lines.push('', 'state transition matrix d(final)/d(initial) (rows x,y,z,vx,vy,vz; km, km/s):');

@@ -7,7 +7,7 @@
 import { z } from 'zod';
 import {
   BODY_NAMES, INERTIAL_FRAMES, InvalidInputError, parseEpoch,
-  type ImpulsiveBurn, type PropagationRequest, type Ephemeris, type Vec3,
+  type EventSpec, type ImpulsiveBurn, type PropagationRequest, type Ephemeris, type Vec3,
 } from '../propagator/index.ts';
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()]);
@@ -15,6 +15,16 @@ const body = z.enum(BODY_NAMES);
 const epoch = z.union([
   z.string().min(10).max(64).describe("ISO-8601 with scale: '2031-03-01T00:00:00 TDB' or '...Z' (UTC)"),
   z.number().describe('TDB seconds from J2000'),
+]);
+
+const stop = z.boolean().optional();
+/** Events located on the dense output (propagator/events); `stop: true` ends the run there. */
+const eventSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('periapsis'), body, stop }).strict(),
+  z.object({ kind: z.literal('apoapsis'), body, stop }).strict(),
+  z.object({ kind: z.literal('closest-approach'), body, stop }).strict(),
+  z.object({ kind: z.literal('altitude'), body, altitudeKm: z.number(), stop }).strict(),
+  z.object({ kind: z.literal('epoch'), epoch, stop }).strict(),
 ]);
 
 export const propagateRequestSchema = z.object({
@@ -46,6 +56,12 @@ export const propagateRequestSchema = z.object({
   burns: z.array(z.object({ epoch, deltaVKmS: vec3 }).strict()).default([]),
   outputStepS: z.number().positive().optional(),
   withStm: z.boolean().optional(),
+  events: z.array(eventSchema).default([]),
+  /** Central-body switching at spheres of influence (Laplace radius unless overridden, km). */
+  switching: z.object({
+    enabled: z.boolean(),
+    radiusKm: z.partialRecord(body, z.number().positive()).optional(),
+  }).strict().optional(),
   /** 'chebyshev' (default): a Chebyshev cache of the built-in ephemeris over the span; 'builtin': the
    * astronomy-engine series at every look-up (slower, same physics to ~cm). */
   ephemeris: z.enum(['chebyshev', 'builtin']).default('chebyshev'),
@@ -109,5 +125,9 @@ export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephe
     burns,
     outputStepS: file.outputStepS,
     withStm: file.withStm,
+    events: file.events.map((e, i): EventSpec => (e.kind === 'epoch'
+      ? { kind: 'epoch', epochTdbS: epochSeconds(e.epoch, `events[${i}].epoch`), stop: e.stop }
+      : e)),
+    switching: file.switching,
   };
 }

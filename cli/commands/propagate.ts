@@ -31,6 +31,7 @@ function ephemerisFor(file: PropagateRequestFile): Ephemeris {
   const builtin = createBuiltinEphemeris();
   const bodies = new Set<BodyName>([file.forces.centralBody, file.initial.centre, ...file.forces.perturbingBodies]);
   if (file.forces.solarPressure !== undefined) bodies.add('sun');
+  for (const e of file.events) if (e.kind !== 'epoch') bodies.add(e.body);
   if (file.ephemeris === 'builtin' || bodies.size === 1) return builtin;
   const { startTdbS, endTdbS } = requestSpan(file);
   return buildChebyshevEphemeris(builtin, {
