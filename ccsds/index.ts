@@ -27,3 +27,4 @@ export {
 export { planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './plan-opm.ts';
 export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './plan-oem.ts';
 export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export-plan.ts';
+export { compareWithReference, type ReferenceComparison } from './compare-reference.ts';

@@ -6,6 +6,8 @@ import { CcsdsFormatError } from './errors.ts';
 import type { BlockName, CcsdsToken } from './tokens.ts';
 
 const BLOCKS: readonly BlockName[] = ['META_START', 'META_STOP', 'COVARIANCE_START', 'COVARIANCE_STOP'];
+/** Longest KVN line, in characters without the line end (502.0-B section 7, from memory). */
+export const MAX_LINE_CHARS = 254;
 /** Keywords are upper-case letters, digits and underscores, starting with a letter (502.0-B 7.4). */
 const KEYWORD_LINE = /^([A-Z][A-Z0-9_]*)\s*=\s*(.*)$/;
 /** A value with an optional trailing unit in square brackets. */
@@ -22,6 +24,10 @@ export function lexKvn(text: string): CcsdsToken[] {
     if (/[^\t\x20-\x7e]/.test(raw)) {
       throw new CcsdsFormatError('file', lineNo, 'contains a character outside printable ASCII '
         + '(502.0-B 7.2 allows ASCII only)');
+    }
+    if (raw.length > MAX_LINE_CHARS) {
+      throw new CcsdsFormatError('file', lineNo, `line of ${raw.length} characters; KVN lines hold at most `
+        + `${MAX_LINE_CHARS} (502.0-B section 7, from memory)`);
     }
     const line = raw.trim();
     if (line === '') continue;

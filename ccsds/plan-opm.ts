@@ -46,7 +46,7 @@ export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmH
       ...REVIEW_COMMENTS,
       `problem hash ${plan.problemHash}; software ${plan.softwareVersion}; status ${plan.status}; cross-check `
         + `${plan.crossCheck.passed ? 'passed' : 'NOT passed'}`,
-      ...critical.map((c) => `CRITICAL ${c.code}: ${c.text}`.slice(0, 250)),
+      ...critical.map((c) => `CRITICAL ${c.code}: ${c.text}`),
     ],
   };
 }

@@ -30,6 +30,23 @@ export function asciiText(text: string): string {
 /** Longest keyword written, for aligned `=` signs as in the standard's examples. */
 const KEYWORD_WIDTH = 20;
 
+/** Comment text per KVN line: well inside the 254-character line limit. */
+const COMMENT_WIDTH = 120;
+
+/** Splits text at spaces into pieces of at most `width` characters (a longer word is cut). */
+export function wrap(text: string, width: number): string[] {
+  const out: string[] = [];
+  let rest = text.trim();
+  while (rest.length > width) {
+    const cut = rest.lastIndexOf(' ', width);
+    const at = cut > 0 ? cut : width;
+    out.push(rest.slice(0, at).trimEnd());
+    rest = rest.slice(at).trimStart();
+  }
+  out.push(rest);
+  return out;
+}
+
 /** Renders items as KVN text (lines end in LF). */
 export function renderKvn(items: readonly Item[]): string {
   const lines: string[] = [];
@@ -38,7 +55,7 @@ export function renderKvn(items: readonly Item[]): string {
       case 'keyword':
         lines.push(`${item.keyword.padEnd(KEYWORD_WIDTH)} = ${asciiText(item.value)}${item.unit ? ` [${item.unit}]` : ''}`);
         break;
-      case 'comment': lines.push(`COMMENT ${asciiText(item.text)}`.trimEnd()); break;
+      case 'comment': for (const part of wrap(asciiText(item.text), COMMENT_WIDTH)) lines.push(`COMMENT ${part}`.trimEnd()); break;
       case 'open': case 'close': if (item.kvn) lines.push(item.kvn); break;
       case 'state': lines.push(item.fields.join(' ')); break;
       case 'covariance':

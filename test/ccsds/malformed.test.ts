@@ -162,6 +162,13 @@ describe('CCSDS readers on malformed input', () => {
     });
   });
 
+  describe('when a KVN line is longer than the standard allows', () => {
+    it('should name the line', () => {
+      const text = replaceLine(OPM, 'COMMENT State Vector', `COMMENT ${'x'.repeat(260)}`);
+      expect(failure(() => readOpm(text))).toMatchObject({ field: 'file', line: lineOf(OPM, 'COMMENT State Vector') });
+    });
+  });
+
   describe('when OEM epochs do not increase', () => {
     it('should name the line of the out-of-order epoch and the line it fails to follow', () => {
       const lines = OEM.split('\n');

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  exportPlanAsCcsds, planToOem, readOem, readOpm, REVIEW_COMMENTS,
+  compareWithReference, exportPlanAsCcsds, oemToTrajectory, planToOem, readOem, readOpm, REVIEW_COMMENTS,
 } from '../../ccsds/index.ts';
 import { problemSchema, type ManeuverPlan, type PlanningProblem } from '../../planner/index.ts';
 import {
@@ -187,6 +187,22 @@ describe('CCSDS export of a plan', () => {
           expect(Math.abs(mapped.matrix[i][j] - expected[i][j]) / scale, `[${i}][${j}]`).toBeLessThan(1e-6);
         }
       }
+    });
+
+    it('should serve as a reference trajectory that independent states can be compared with', async () => {
+      const reference = oemToTrajectory(await oemPromise);
+      const post = { r: PRE_BURN.r, v: PRE_BURN.v.map((x, i) => x + DV_INERTIAL[i]) };
+      const epochs = [START_TDB - 60, START_TDB + 301, BURN_TDB + 1234.5, parseEpoch(problem.endEpoch) - 7];
+      const states = epochs.map((t) => {
+        const k = t < BURN_TDB ? kepler(P0, V0, t - START_TDB) : kepler(post.r, post.v, t - BURN_TDB);
+        return { epochTdbS: t, centre: 'earth' as const, frame: 'J2000_EQUATORIAL' as const, positionKm: k.r, velocityKmS: k.v };
+      });
+      const same = compareWithReference(states, reference);
+      expect([same.compared, same.outsideSpan]).toEqual([3, 1]);
+      // Hermite degree 7 over 120 s lines of a 7000 km orbit: interpolation far below the 1 mm printing.
+      expect(same.maxPositionDifferenceKm!).toBeLessThan(1e-5);
+      const shifted = compareWithReference(states.map((x) => ({ ...x, positionKm: [x.positionKm[0] + 1, x.positionKm[1], x.positionKm[2]] as Vec3 })), reference);
+      expect(shifted.maxPositionDifferenceKm!).toBeCloseTo(1, 4);
     });
 
     it('should refuse a step that would write too many lines', async () => {

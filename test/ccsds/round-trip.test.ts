@@ -164,4 +164,16 @@ describe('CCSDS writers and readers', () => {
       });
     });
   }
+
+  describe('when a comment is long or not ASCII', () => {
+    it('should wrap it into KVN lines of at most 254 characters, spelling out common symbols', () => {
+      const opm = sampleOpm('TDB', 1e9);
+      opm.header.comments = [`Δv of 3 m/s — ${'word '.repeat(80)}end`];
+      const text = writeOpm(opm);
+      expect(Math.max(...text.split('\n').map((l) => l.length))).toBeLessThanOrEqual(254);
+      const back = readOpm(text);
+      expect(back.header.comments.length).toBeGreaterThan(1);
+      expect(back.header.comments.join(' ')).toBe(`Dv of 3 m/s - ${'word '.repeat(80)}end`);
+    });
+  });
 });
