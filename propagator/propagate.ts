@@ -103,6 +103,7 @@ function prepare(request: PropagationRequest): { checked: CheckedRequest; dynami
 function impactWatcher(dynamics: PropagationDynamics): StepWatcher {
   const watch = new ImpactWatch(dynamics);
   const cart = new Float64Array(6);
+  const bodyState = new Float64Array(6);
   const dense = new Float64Array(dynamics.initialY.length);
   return {
     afterStep(stepper, events) {
@@ -111,9 +112,15 @@ function impactWatcher(dynamics: PropagationDynamics): StepWatcher {
       if (stepper.hasDenseOutput) stepper.denseOutput(hit.epochTdbS, dense);
       else dense.set(stepper.y);
       dynamics.cartesianInto(hit.epochTdbS, dense, cart);
+      // EventRecord states are relative to the event's body.
+      const forces = dynamics.forces;
+      if (hit.body !== forces.centralBody) {
+        forces.ephemeris.stateInto(hit.body, forces.centralBody, hit.epochTdbS, bodyState, 0);
+        for (let i = 0; i < 6; i++) cart[i] -= bodyState[i];
+      }
       const event: EventRecord = {
         kind: 'impact', body: hit.body, epochTdbS: hit.epochTdbS, distanceKm: hit.distanceKm,
-        state: stateVector(hit.epochTdbS, dynamics.forces.centralBody, cart),
+        state: stateVector(hit.epochTdbS, hit.body, cart),
       };
       events.push(event);
       return {

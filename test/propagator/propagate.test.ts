@@ -124,6 +124,10 @@ describe('propagate', () => {
       expect(result.outcome).toBe('impact');
       expect(result.events[0].body).toBe('moon');
       expect(result.events[0].distanceKm).toBeCloseTo(RADIUS_KM.moon, 3);
+      // The event's state is relative to the Moon (contract), the final state to the central body.
+      expect(result.events[0].state.centre).toBe('moon');
+      expect(Math.hypot(...result.events[0].state.positionKm)).toBeCloseTo(RADIUS_KM.moon, 3);
+      expect(result.final.centre).toBe('earth');
     });
   });
 
