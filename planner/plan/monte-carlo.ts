@@ -15,6 +15,7 @@ import type { DispersionSample, ManeuverPlan, MonteCarloSummary } from '../plan-
 import type { PlanningProblem } from '../problem-schema.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
+import { evaluateComponent } from '../targeting/target-geometry.ts';
 import { planCaveats } from './plan-caveats.ts';
 import { planningContext } from './planning-context.ts';
 import type { PlanningContext } from './planning-context.ts';
@@ -62,8 +63,20 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
         achieved: ev.values.slice(0, ctx.targetCount),
       };
     }
+    // An impact still has a B-plane point (the asymptote pierces the plane inside the impact radius).
+    let bDotTKm: number | null = null;
+    let bDotRKm: number | null = null;
+    const rel = ev.impact?.stateRelBody;
+    if (idx && ev.impact?.body === idx.body && rel) {
+      try {
+        bDotTKm = evaluateComponent(ctx.components[idx.bDotT], rel, ev.impact.epochTdbS).value;
+        bDotRKm = evaluateComponent(ctx.components[idx.bDotR], rel, ev.impact.epochTdbS).value;
+      } catch {
+        // not hyperbolic about the body: no B-plane point
+      }
+    }
     return {
-      index: drawn.index, appliedDeltaVKmS: applied, bDotTKm: null, bDotRKm: null,
+      index: drawn.index, appliedDeltaVKmS: applied, bDotTKm, bDotRKm,
       closestApproachTdbS: ev.impact ? ev.impact.epochTdbS : null, closestApproachRadiusKm: null,
       impact: ev.impact !== null, achieved: ctx.components.slice(0, ctx.targetCount).map(() => null),
     };

@@ -80,7 +80,7 @@ export interface EvaluationFailure {
   ok: false;
   reason: string;
   /** The run ended on the surface of a body (for dispersion samples). */
-  impact: { body: BodyName | null; epochTdbS: number } | null;
+  impact: { body: BodyName | null; epochTdbS: number; stateRelBody: number[] | null } | null;
   burns: BurnRecord[];
 }
 
@@ -142,6 +142,14 @@ export async function evaluateTrajectory(
   let evaluations = 0;
 
   const fail = (reason: string, impact: EvaluationFailure['impact'] = null): EvaluationFailure => ({ ok: false, reason, impact, burns });
+  const impactOf = (res: PropagationResult): EvaluationFailure['impact'] => {
+    if (res.outcome !== 'impact') return null;
+    const ev = res.events.find((e) => e.kind === 'impact');
+    const body = ev?.body ?? null;
+    let rel: number[] | null = null;
+    if (ev && body) rel = ev.state.centre === body ? vec(ev.state) : vec(changeCentre(ev.state, body, ctx.ephemeris));
+    return { body, epochTdbS: res.final.epochTdbS, stateRelBody: rel };
+  };
   const run = async (endTdbS: number, events: EventSpec[]): Promise<PropagationResult> => {
     if (opts.signal?.aborted) throw new CancelledError();
     const result = await propagateAsync({
@@ -172,8 +180,7 @@ export async function evaluateTrajectory(
     if (s.epochTdbS > state.epochTdbS) {
       const res = await run(s.epochTdbS, []);
       if (res.outcome !== 'finished') {
-        const impactBody = res.events.find((e) => e.kind === 'impact')?.body ?? null;
-        return fail(`propagation to burn ${i + 1} ended '${res.outcome}': ${res.message ?? ''}`.trim(), res.outcome === 'impact' ? { body: impactBody, epochTdbS: res.final.epochTdbS } : null);
+        return fail(`propagation to burn ${i + 1} ended '${res.outcome}': ${res.message ?? ''}`.trim(), impactOf(res));
       }
       advance(res);
     }
@@ -223,9 +230,7 @@ export async function evaluateTrajectory(
         continue;
       }
       if (res.outcome !== 'finished') {
-        const impactEvent = res.events.find((e) => e.kind === 'impact');
-        return fail(`propagation ended '${res.outcome}' at TDB ${res.final.epochTdbS.toFixed(3)} s: ${res.message ?? ''}`.trim(),
-          res.outcome === 'impact' ? { body: impactEvent?.body ?? null, epochTdbS: res.final.epochTdbS } : null);
+        return fail(`propagation ended '${res.outcome}' at TDB ${res.final.epochTdbS.toFixed(3)} s: ${res.message ?? ''}`.trim(), impactOf(res));
       }
       advance(res);
     }
