@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import {
-  covarianceInStateFrame, readOem, readOpm, readOpmAsInitialState, vnbFromTnw,
+  covarianceInStateFrame, readOem, readOpm, readOpmAsInitialState, segmentInterpolation, vnbFromTnw,
 } from '../../ccsds/index.ts';
-import { parseEpoch, rtnMatrix } from '../../propagator/index.ts';
+import { eclipticFromEquatorialJ2000, parseEpoch, ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000, rtnMatrix } from '../../propagator/index.ts';
 
 // Fixtures: hand-written from memory in the layout of the CCSDS 502.0-B annex examples, invented content
 // (see test/fixtures/ccsds/README.md).
@@ -155,3 +155,66 @@ describe('OEM reader', () => {
     });
   });
 });
+
+describe('OPM reader, version 3.0 and frame details', () => {
+  // Written from memory in the 502.0-B-3 layout: CLASSIFICATION before CREATION_DATE, MESSAGE_ID after ORIGINATOR.
+  const v3 = [
+    'CCSDS_OPM_VERS = 3.0',
+    'COMMENT version 3 header',
+    'CLASSIFICATION = unclassified demo',
+    'CREATION_DATE = 2030-02-01T00:00:00Z',
+    'ORIGINATOR = VEER-DEMO',
+    'MESSAGE_ID = DEMO-0001',
+    'OBJECT_NAME = FINCH',
+    'OBJECT_ID = UNKNOWN',
+    'CENTER_NAME = SUN',
+    'REF_FRAME = ECLIPJ2000',
+    'TIME_SYSTEM = TT',
+    'EPOCH = 2030-02-02T00:00:00',
+    'X = 1.4e8 [km]', 'Y = 2.0e7 [km]', 'Z = 1.0e5 [km]',
+    'X_DOT = -4.1 [km/s]', 'Y_DOT = 29.0 [km/s]', 'Z_DOT = 0.01 [km/s]',
+    'COV_REF_FRAME = EME2000',
+    ...['1e2', '0', '1e2', '0', '0', '1e2', '0', '0', '0', '1e-6', '0', '0', '0', '0', '1e-6', '0', '0', '0', '0', '0', '1e-6']
+      .map((v, i) => `${['CX_X', 'CY_X', 'CY_Y', 'CZ_X', 'CZ_Y', 'CZ_Z', 'CX_DOT_X', 'CX_DOT_Y', 'CX_DOT_Z', 'CX_DOT_X_DOT',
+        'CY_DOT_X', 'CY_DOT_Y', 'CY_DOT_Z', 'CY_DOT_X_DOT', 'CY_DOT_Y_DOT', 'CZ_DOT_X', 'CZ_DOT_Y', 'CZ_DOT_Z',
+        'CZ_DOT_X_DOT', 'CZ_DOT_Y_DOT', 'CZ_DOT_Z_DOT'][i]} = ${v}`),
+  ].join('\n');
+
+  describe('when the header has the 3.0 keywords and the state is ecliptic', () => {
+    const read = readOpmAsInitialState(v3);
+
+    it('should read CLASSIFICATION and MESSAGE_ID and map ECLIPJ2000 to the J2000 ecliptic', () => {
+      expect(read.opm.header).toMatchObject({ version: '3.0', classification: 'unclassified demo', messageId: 'DEMO-0001' });
+      expect(read.initialState).toMatchObject({ frame: 'J2000_ECLIPTIC', centre: 'sun', epoch: '2030-02-02T00:00:00 TT' });
+    });
+
+    it('should rotate an EME2000 covariance into the ecliptic state frame', () => {
+      const c = read.initialState.covarianceKmKmS!;
+      // The diagonal equatorial covariance is isotropic per block, so any rotation leaves it unchanged.
+      expect(c[0][0]).toBeCloseTo(100, 10);
+      expect(c[1][2]).toBeCloseTo(0, 10);
+      // A rotation matrix row is a unit vector (IAU 2006 obliquity, from the propagator's frames).
+      const r = ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000;
+      expect(Math.hypot(r[3], r[4], r[5])).toBeCloseTo(1, 15);
+    });
+
+    it('should refuse the 3.0 keywords in a 2.0 message', () => {
+      expect(() => readOpm(v3.replace('CCSDS_OPM_VERS = 3.0', 'CCSDS_OPM_VERS = 2.0'))).toThrow(/line 3: OPM: required keyword CREATION_DATE missing; found keyword CLASSIFICATION/);
+    });
+  });
+
+  describe('when an OEM names Hermite with an even degree', () => {
+    it('should raise it to the next odd degree so no fewer conditions are matched', () => {
+      const oem = readOem(fixture('oem-mars-two-segments.oem').replace('INTERPOLATION_DEGREE = 5', 'INTERPOLATION_DEGREE = 4'));
+      expect(segmentInterpolation(oem.segments[0])).toEqual({ interpolation: 'hermite', degree: 5 });
+      expect(segmentInterpolation(oem.segments[1])).toEqual({ interpolation: 'lagrange', degree: 7 });
+    });
+  });
+
+  it('should agree with the propagator on the ecliptic rotation used for ECLIPJ2000 files', () => {
+    const v = eclipticFromEquatorialJ2000([0, 0, 1]);
+    // The equatorial pole seen from the ecliptic is tilted by the obliquity, about 23.44 deg (IAU 2006: 84381.406").
+    expect(Math.acos(v[2]) * 180 / Math.PI).toBeCloseTo(84381.406 / 3600, 9);
+  });
+});
+
