@@ -46,8 +46,12 @@ export async function runCrossCheck(ctx: PlanningContext, settings: BurnSetting[
     };
   });
   const bad = differences.filter((d) => !d.withinTolerance || !d.metByCheck);
-  const passed = bad.length === 0;
-  const message = passed
+  // A check that silently ran the plan's own method would not be independent.
+  const fallback = ev.warnings.filter((w) => /fell back/i.test(w));
+  const passed = bad.length === 0 && fallback.length === 0;
+  const message = fallback.length > 0
+    ? `not independent: ${fallback.join('; ')}`
+    : passed
     ? `${method} at relative tolerance ${relativeTolerance} agrees on every target within ${fraction} × its tolerance and meets every target`
     : `${method} at relative tolerance ${relativeTolerance} disagrees: ${bad.map((d) => `${d.component} differs by ${d.difference?.toPrecision(3)} (allowed ${d.allowed.toPrecision(3)})${d.metByCheck ? '' : ', target not met'}`).join('; ')}`;
   return { check: { ...base, passed, message, differences }, propagations: ev.propagations, evaluations: ev.evaluations };

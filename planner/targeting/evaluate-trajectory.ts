@@ -74,6 +74,8 @@ export interface TrajectoryEvaluation {
   final: StateVector;
   propagations: number;
   evaluations: number;
+  /** Warnings of the propagations (e.g. a method fallback), deduplicated. */
+  warnings: string[];
 }
 
 export interface EvaluationFailure {
@@ -140,6 +142,7 @@ export async function evaluateTrajectory(
   const samples: StateVector[] = [];
   let propagations = 0;
   let evaluations = 0;
+  const warnings = new Set<string>();
 
   const fail = (reason: string, impact: EvaluationFailure['impact'] = null): EvaluationFailure => ({ ok: false, reason, impact, burns });
   const impactOf = (res: PropagationResult): EvaluationFailure['impact'] => {
@@ -160,6 +163,7 @@ export async function evaluateTrajectory(
     }, { signal: opts.signal });
     propagations += 1;
     evaluations += result.stats.evaluations;
+    result.warnings.forEach((w) => warnings.add(w));
     if (result.outcome === 'cancelled') throw new CancelledError();
     if (opts.outputStepS) samples.push(...result.samples);
     return result;
@@ -268,6 +272,6 @@ export async function evaluateTrajectory(
   }
   return {
     ok: true, values, jacobian, initialStateJacobian, burnJacobians, burns, approaches, samples, final: state,
-    propagations, evaluations,
+    propagations, evaluations, warnings: [...warnings],
   };
 }
