@@ -132,6 +132,10 @@ class ChebyshevEphemeris implements Ephemeris {
   private readonly coefs: Float64Array[] = [];
   private readonly startTdbS: number;
   private readonly endTdbS: number;
+  // Last evaluation per body (state relative to its parent) and the epoch and components it holds.
+  private readonly memo = new Float64Array(6 * BODY_NAMES.length);
+  private readonly memoEpoch = new Float64Array(BODY_NAMES.length).fill(Number.NaN);
+  private readonly memoComponents = new Int8Array(BODY_NAMES.length);
 
   constructor(name: string, span: TdbSpan, bodies: readonly BodyName[], n: number,
     series: Partial<Record<BodyName, BodySeries>>) {
@@ -186,10 +190,25 @@ class ChebyshevEphemeris implements Ephemeris {
     }
   }
 
-  /** Adds sign × (state of body `b` relative to its parent) into out[offset..]. The Chebyshev polynomial
-   * values are computed once per segment and shared by the components (cheaper than one Clenshaw each). */
+  /** Adds sign × (state of body `b` relative to its parent) into out[offset..]. The last evaluation of
+   * each body is remembered: a force model asks for every perturber relative to the same centre at one
+   * epoch, so the centre's series is evaluated once per epoch rather than once per perturber. */
   private accumulateOne(b: number, epochTdbS: number, out: Float64Array, offset: number, sign: number,
     components: number): void {
+    const m = this.memo;
+    const mb = 6 * b;
+    if (this.memoEpoch[b] !== epochTdbS || this.memoComponents[b] < components) {
+      this.evaluate(b, epochTdbS, components, m, mb);
+      this.memoEpoch[b] = epochTdbS;
+      this.memoComponents[b] = components;
+    }
+    for (let c = 0; c < components; c++) out[offset + c] += sign * m[mb + c];
+  }
+
+  /** Writes the state (components 3 or 6) of body `b` relative to its parent into out[offset..]. Chebyshev
+   * polynomial values are computed once and shared; components are summed side by side in one pass
+   * (independent sums pipeline better than one loop per component). */
+  private evaluate(b: number, epochTdbS: number, components: number, out: Float64Array, offset: number): void {
     const n = this.n;
     const u = (epochTdbS - this.startTdbS) / this.segmentS[b];
     let seg = Math.floor(u);
@@ -204,7 +223,6 @@ class ChebyshevEphemeris implements Ephemeris {
     for (let j = 2; j < n; j++) t[j] = x2 * t[j - 1] - t[j - 2];
     const k = this.coefs[b];
     const b0 = seg * 6 * n;
-    // Components summed side by side in one pass: independent sums pipeline better than six loops.
     let s0 = 0;
     let s1 = 0;
     let s2 = 0;
@@ -214,9 +232,9 @@ class ChebyshevEphemeris implements Ephemeris {
       s1 += k[b0 + n + j] * tj;
       s2 += k[b0 + 2 * n + j] * tj;
     }
-    out[offset] += sign * s0;
-    out[offset + 1] += sign * s1;
-    out[offset + 2] += sign * s2;
+    out[offset] = s0;
+    out[offset + 1] = s1;
+    out[offset + 2] = s2;
     if (components === 3) return;
     let s3 = 0;
     let s4 = 0;
@@ -227,9 +245,9 @@ class ChebyshevEphemeris implements Ephemeris {
       s4 += k[b0 + 4 * n + j] * tj;
       s5 += k[b0 + 5 * n + j] * tj;
     }
-    out[offset + 3] += sign * s3;
-    out[offset + 4] += sign * s4;
-    out[offset + 5] += sign * s5;
+    out[offset + 3] = s3;
+    out[offset + 4] = s4;
+    out[offset + 5] = s5;
   }
 
   stateInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {

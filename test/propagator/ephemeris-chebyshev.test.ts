@@ -63,6 +63,27 @@ describe('Chebyshev ephemeris cache', () => {
       }
     });
   });
+  describe('when consecutive calls share an epoch (the remembered last evaluation per body)', () => {
+    it('should return exactly what a fresh cache returns, in any order of positions and states', () => {
+      const fresh = () => buildChebyshevEphemeris(source, { bodies: BODY_NAMES, startTdbS: start, endTdbS: start + 5 * 86400 });
+      const reused = fresh();
+      const a = new Float64Array(6);
+      const b = new Float64Array(6);
+      const calls: Array<[BodyName, BodyName, number, boolean]> = [
+        ['mars', 'earth', start + 500, true], ['venus', 'earth', start + 500, false], ['mars', 'earth', start + 500, false],
+        ['earth', 'mars', start + 500, false], ['moon', 'sun', start + 500, true], ['moon', 'sun', start + 501, false],
+        ['sun', 'moon', start + 501, true],
+      ];
+      for (const [target, centre, t, position] of calls) {
+        a.fill(0);
+        b.fill(0);
+        if (position) reused.positionInto(target, centre, t, a); else reused.stateInto(target, centre, t, a);
+        const f = fresh();
+        if (position) f.positionInto(target, centre, t, b); else f.stateInto(target, centre, t, b);
+        expect([...a]).toEqual([...b]);
+      }
+    });
+  });
   describe('when asked for positions only', () => {
     it('should match the first three components of the full state exactly', () => {
       const s = new Float64Array(6);
