@@ -15,6 +15,11 @@ export interface XmlElement {
   line: number;
 }
 
+/** XML white space: space, tab, CR, LF. */
+function isSpace(code: number): boolean {
+  return code === 32 || code === 10 || code === 9 || code === 13;
+}
+
 const ENTITIES: Readonly<Record<string, string>> = { lt: '<', gt: '>', amp: '&', quot: '"', apos: "'" };
 const NAME = /[A-Za-z_][\w.:-]*/y;
 
@@ -36,16 +41,16 @@ export function parseXml(text: string): XmlElement {
   const fail = (at: number, message: string): never => {
     throw new CcsdsFormatError('xml', lineAt(at), message);
   };
-  const decode = (raw: string, at: number): string => raw.replace(/&(#x[0-9a-fA-F]+|#\d+|\w+);?/g, (m, body: string) => {
+  const decode = (raw: string, at: number): string => (raw.indexOf('&') < 0 ? raw : raw.replace(/&(#x[0-9a-fA-F]+|#\d+|\w+);?/g, (m, body: string) => {
     if (!m.endsWith(';')) fail(at, `'&' must start an entity such as &amp;`);
     if (body.startsWith('#x')) return String.fromCodePoint(parseInt(body.slice(2), 16));
     if (body.startsWith('#')) return String.fromCodePoint(parseInt(body.slice(1), 10));
     const value = ENTITIES[body];
     return value ?? fail(at, `unknown entity &${body};`);
-  });
+  }));
   const skipMisc = (): void => {
     for (;;) {
-      while (pos < text.length && /\s/.test(text[pos])) pos++;
+      while (pos < text.length && isSpace(text.charCodeAt(pos))) pos++;
       if (text.startsWith('<!--', pos)) {
         const end = text.indexOf('-->', pos + 4);
         if (end < 0) fail(pos, 'unterminated comment');
@@ -78,15 +83,15 @@ export function parseXml(text: string): XmlElement {
     const qualified = readName();
     const element: XmlElement = { name: localName(qualified), attributes: {}, children: [], text: '', line: lineAt(start) };
     for (;;) {
-      while (/\s/.test(text[pos] ?? '')) pos++;
+      while (isSpace(text.charCodeAt(pos))) pos++;
       if (text.startsWith('/>', pos)) { pos += 2; return element; }
       if (text[pos] === '>') { pos++; break; }
       if (pos >= text.length) fail(start, `unterminated start tag <${qualified}>`);
       const attr = readName();
-      while (/\s/.test(text[pos] ?? '')) pos++;
+      while (isSpace(text.charCodeAt(pos))) pos++;
       if (text[pos] !== '=') fail(pos, `attribute ${attr} has no value`);
       pos++;
-      while (/\s/.test(text[pos] ?? '')) pos++;
+      while (isSpace(text.charCodeAt(pos))) pos++;
       const quote = text[pos];
       if (quote !== '"' && quote !== "'") fail(pos, `attribute ${attr} value must be quoted`);
       const end = text.indexOf(quote, pos + 1);
@@ -104,7 +109,7 @@ export function parseXml(text: string): XmlElement {
         pos += 2;
         const closing = readName();
         if (closing !== qualified) fail(pos, `</${closing}> closes <${qualified}> opened on line ${element.line}`);
-        while (/\s/.test(text[pos] ?? '')) pos++;
+        while (isSpace(text.charCodeAt(pos))) pos++;
         if (text[pos] !== '>') fail(pos, `malformed end tag </${closing}>`);
         pos++;
         break;
