@@ -11,6 +11,7 @@ import type { AppDeps } from './deps.ts';
 import { errorHandler, notFound, sendError } from './errors.ts';
 import { ApiRoutes } from './route-table.ts';
 import { ROUTE_MODULES } from './routes/index.ts';
+import { consoleRouter } from '../console/index.ts';
 
 function requestLog(deps: AppDeps): RequestHandler {
   return (req, res, next) => {
@@ -53,6 +54,7 @@ export function createApp(deps: AppDeps): Express {
   const routes = new ApiRoutes();
   for (const mount of ROUTE_MODULES) mount(routes, deps);
   app.use(routes.router);
+  app.use(consoleRouter()); // the browser console (console/dist) and GET /console/session
   app.use(notFound);
   app.use(errorHandler(deps.logger));
   return app;

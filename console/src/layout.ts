@@ -1,0 +1,34 @@
+/** The frame around every screen: top bar, navigation, the standing review notice, and the main region. */
+import { h } from './dom.ts';
+import { hasRole, type Session } from './session.ts';
+
+/** Shown on every screen (the API's REVIEW_NOTICE says the same). */
+export const PROPOSAL_NOTICE = 'Plans shown here are PROPOSALS only. Each must be reviewed and approved by qualified flight-dynamics '
+  + 'staff and verified independently, following the mission\'s own procedures, before anything is commanded.';
+
+interface NavItem { hash: string; label: string; roles: string[] }
+const NAV: NavItem[] = [
+  { hash: '#/submit', label: 'New job', roles: ['submitter'] },
+  { hash: '#/jobs', label: 'Jobs', roles: ['submitter', 'reviewer', 'auditor'] },
+  { hash: '#/plans', label: 'Plans', roles: ['submitter', 'reviewer', 'auditor'] },
+];
+
+export function renderFrame(session: Session | null, currentHash: string, onSignOut: () => void, content: Node): HTMLElement {
+  const nav = session ? h('nav', { 'aria-label': 'Screens' },
+    h('ul', {}, NAV.filter((n) => hasRole(session, ...n.roles)).map((n) => {
+      const current = currentHash === n.hash || currentHash.startsWith(`${n.hash}/`);
+      return h('li', {}, h('a', { href: n.hash, ...(current ? { 'aria-current': 'page' } : {}) }, n.label));
+    }))) : null;
+  const who = session ? h('div', { class: 'who' },
+    h('span', { class: 'who-name', 'data-testid': 'identity' }, session.name),
+    h('span', { class: 'who-roles' }, session.roles.join(' · ')),
+    h('button', { type: 'button', class: 'quiet', onclick: onSignOut }, 'Sign out')) : null;
+  return h('div', { class: 'frame' },
+    h('a', { class: 'skip', href: '#main' }, 'Skip to content'),
+    h('header', { class: 'topbar' },
+      h('div', { class: 'brand' }, h('span', { class: 'brand-mark', 'aria-hidden': 'true' }, '⟁'), h('span', {}, 'veer'), h('span', { class: 'brand-sub' }, 'manoeuvre proposals')),
+      nav, who),
+    h('p', { class: 'notice', role: 'note', 'data-testid': 'proposal-notice' }, h('strong', {}, 'Proposal only. '), PROPOSAL_NOTICE.replace(/^Plans shown here are PROPOSALS only\. /, '')),
+    h('main', { id: 'main', tabindex: '-1' }, content),
+    h('footer', { class: 'footer' }, PROPOSAL_NOTICE));
+}

@@ -1,0 +1,119 @@
+/**
+ * Trajectory figure: the plan's down-sampled path (central-body-relative, J2000 ecliptic, km) projected onto
+ * the ecliptic (X–Y) or a side plane (X–Z, Y–Z), with the start, each burn, each closest approach and the
+ * end marked (positions at those epochs by cubic Hermite interpolation of the tabulated states), and a scale bar.
+ */
+import { h, svg, uid } from '../dom.ts';
+import { fixed } from '../format.ts';
+import type { ManeuverPlan, TrajectoryPoint } from '../plan-types.ts';
+import { View, clipTo, niceStep } from './svg-kit.ts';
+
+export const PROJECTIONS = {
+  'ecliptic (X–Y)': [0, 1],
+  'side (X–Z)': [0, 2],
+  'side (Y–Z)': [1, 2],
+} as const;
+export type Projection = keyof typeof PROJECTIONS;
+const AXIS_NAMES = ['X', 'Y', 'Z'];
+const W = 720;
+const H = 440;
+const KM_PER_AU = 149_597_870.7; // IAU 2012 Resolution B2 (from memory)
+
+/** Position at `tdbS` by cubic Hermite interpolation between the bracketing states; null outside the table. */
+export function positionAt(points: TrajectoryPoint[], tdbS: number): [number, number, number] | null {
+  if (points.length === 0 || tdbS < points[0].tdbS || tdbS > points[points.length - 1].tdbS) return null;
+  let i = 0;
+  while (i < points.length - 2 && points[i + 1].tdbS < tdbS) i += 1;
+  const a = points[i]; const b = points[Math.min(i + 1, points.length - 1)];
+  const dt = b.tdbS - a.tdbS;
+  if (dt <= 0) return [...a.positionKm];
+  const s = (tdbS - a.tdbS) / dt;
+  const h00 = 2 * s ** 3 - 3 * s ** 2 + 1; const h10 = s ** 3 - 2 * s ** 2 + s;
+  const h01 = -2 * s ** 3 + 3 * s ** 2; const h11 = s ** 3 - s ** 2;
+  return [0, 1, 2].map((k) => h00 * a.positionKm[k] + h10 * dt * a.velocityKmS[k] + h01 * b.positionKm[k] + h11 * dt * b.velocityKmS[k]) as [number, number, number];
+}
+
+function scaleLabel(km: number): string {
+  const au = km / KM_PER_AU;
+  return km >= 1e6 ? `${fixed(km / 1e6, km >= 1e7 ? 0 : 1)} million km (${fixed(au, au < 0.1 ? 3 : 2)} au)` : `${fixed(km, 0)} km`;
+}
+
+interface Mark { kind: 'start' | 'burn' | 'approach' | 'end'; label: string; at: [number, number, number] }
+
+function drawMark(view: View, m: Mark, u: number, v: number): SVGGElement {
+  const x = view.px(m.at[u]); const y = view.py(m.at[v]);
+  const g = svg('g', { class: `mk-${m.kind}` });
+  if (m.kind === 'burn') g.append(svg('path', { d: `M${x} ${y - 9} L${x + 8} ${y + 6} L${x - 8} ${y + 6} Z` }));
+  else if (m.kind === 'approach') g.append(svg('path', { d: `M${x} ${y - 8} L${x + 8} ${y} L${x} ${y + 8} L${x - 8} ${y} Z` }));
+  else if (m.kind === 'start') g.append(svg('rect', { x: x - 5, y: y - 5, width: 10, height: 10 }));
+  else g.append(svg('circle', { cx: x, cy: y, r: 5 }));
+  g.append(svg('text', { x: x + 11, y: y - 8, class: 'mk-label' }, m.label));
+  return g;
+}
+
+/** The figure for one projection. */
+export function trajectorySvg(plan: ManeuverPlan, projection: Projection): SVGSVGElement {
+  const [u, v] = PROJECTIONS[projection];
+  const pts = plan.trajectory;
+  const titleId = uid('ttitle');
+  const clip = uid('tclip');
+  const xs = pts.map((p) => p.positionKm[u]).concat(0);
+  const ys = pts.map((p) => p.positionKm[v]).concat(0);
+  const minX = Math.min(...xs); const maxX = Math.max(...xs); const minY = Math.min(...ys); const maxY = Math.max(...ys);
+  const margin = { left: 16, right: 16, top: 16, bottom: 46 };
+  const plotW = W - margin.left - margin.right; const plotH = H - margin.top - margin.bottom;
+  const spanKm = Math.max((maxX - minX) / plotW, (maxY - minY) / plotH) * Math.min(plotW, plotH) / 2 * 1.1 || 1;
+  const view = new View(W, H, margin, [(minX + maxX) / 2, (minY + maxY) / 2], spanKm);
+  const marks: Mark[] = [];
+  if (pts.length) marks.push({ kind: 'start', label: 'start', at: pts[0].positionKm });
+  for (const b of plan.burns) {
+    const at = positionAt(pts, b.epoch.tdbS);
+    if (at) marks.push({ kind: 'burn', label: b.label, at });
+  }
+  for (const a of plan.approaches) {
+    const at = positionAt(pts, a.epoch.tdbS);
+    if (at) marks.push({ kind: 'approach', label: `closest approach ${a.body}`, at });
+  }
+  if (pts.length > 1) marks.push({ kind: 'end', label: 'end', at: pts[pts.length - 1].positionKm });
+  const path = pts.map((p, i) => `${i ? 'L' : 'M'}${view.px(p.positionKm[u]).toFixed(1)} ${view.py(p.positionKm[v]).toFixed(1)}`).join(' ');
+  const bar = niceStep((view.x1 - view.x0) / 5);
+  const barPx = bar * view.scale;
+  const centre = plan.forceModel.centralBody;
+  return svg('svg', { viewBox: `0 0 ${W} ${H}`, class: 'plot', role: 'img', 'aria-labelledby': titleId },
+    svg('title', { id: titleId }, `Trajectory of ${plan.spacecraftName} relative to ${centre}, projected on the ${projection} plane, with burns and closest approaches marked`),
+    svg('defs', {}, clipTo(view, clip)),
+    svg('rect', { x: view.left, y: view.top, width: view.right - view.left, height: view.bottom - view.top, class: 'frame' }),
+    svg('g', { 'clip-path': `url(#${clip})` },
+      svg('circle', { cx: view.px(0), cy: view.py(0), r: 6, class: 'central-body' }),
+      svg('text', { x: view.px(0) + 9, y: view.py(0) + 14, class: 'mk-label' }, centre),
+      svg('path', { d: path, class: 'traj' }),
+      marks.map((m) => drawMark(view, m, u, v))),
+    // Axis directions (from the lower-left corner) and the scale bar (lower right).
+    svg('g', { class: 'axes-key' },
+      svg('line', { x1: view.left + 14, y1: view.bottom - 14, x2: view.left + 54, y2: view.bottom - 14 }),
+      svg('line', { x1: view.left + 14, y1: view.bottom - 14, x2: view.left + 14, y2: view.bottom - 54 }),
+      svg('text', { x: view.left + 58, y: view.bottom - 10 }, `+${AXIS_NAMES[u]}`),
+      svg('text', { x: view.left + 8, y: view.bottom - 58 }, `+${AXIS_NAMES[v]}`)),
+    svg('g', { class: 'scale-bar', 'data-testid': 'scale-bar' },
+      svg('line', { x1: view.right - barPx - 10, x2: view.right - 10, y1: H - 22, y2: H - 22 }),
+      svg('line', { x1: view.right - barPx - 10, x2: view.right - barPx - 10, y1: H - 27, y2: H - 17 }),
+      svg('line', { x1: view.right - 10, x2: view.right - 10, y1: H - 27, y2: H - 17 }),
+      svg('text', { x: view.right - 10 - barPx / 2, y: H - 6, 'text-anchor': 'middle' }, scaleLabel(bar))));
+}
+
+/** The figure with its projection chooser and a legend listing every marker with its epoch. */
+export function trajectoryFigure(plan: ManeuverPlan): HTMLElement {
+  const selectId = uid('proj');
+  const select = h('select', { id: selectId }, Object.keys(PROJECTIONS).map((p) => h('option', { value: p }, p)));
+  const holder = h('div', { class: 'plot-holder' }, trajectorySvg(plan, 'ecliptic (X–Y)'));
+  select.addEventListener('change', () => holder.replaceChildren(trajectorySvg(plan, select.value as Projection)));
+  const legend = h('ul', { class: 'legend' },
+    h('li', {}, h('span', { class: 'sw sw-start', 'aria-hidden': 'true' }), `Start ${plan.createdFrom.initialEpoch.tdb}`),
+    plan.burns.map((b) => h('li', {}, h('span', { class: 'sw sw-burn', 'aria-hidden': 'true' }), `${b.label} ${b.epoch.tdb} (${fixed(b.magnitudeMS, 3)} m/s)`)),
+    plan.approaches.map((a) => h('li', {}, h('span', { class: 'sw sw-approach', 'aria-hidden': 'true' }), `Closest approach to ${a.body} ${a.epoch.tdb}: ${fixed(a.altitudeKm, 1)} km altitude`)),
+    h('li', {}, h('span', { class: 'sw sw-end', 'aria-hidden': 'true' }), `End ${plan.createdFrom.endEpoch.tdb}`));
+  return h('figure', { class: 'figure', 'data-testid': 'trajectory-plot' },
+    h('figcaption', {}, h('strong', {}, 'Trajectory'), ` relative to ${plan.forceModel.centralBody}, J2000 ecliptic axes (X toward the vernal equinox), km.`),
+    h('div', { class: 'field inline' }, h('label', { for: selectId }, 'Projection'), select),
+    holder, legend);
+}

@@ -1,0 +1,34 @@
+/**
+ * Real headless Chromium for the console tests: Debian's /usr/bin/chromium (or CHROMIUM_PATH) driven by
+ * playwright-core with a fresh profile folder; no browser is ever downloaded.
+ */
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { chromium, type BrowserContext } from 'playwright-core';
+
+export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+
+export interface TestBrowser { context: BrowserContext; close(): Promise<void> }
+
+export async function launchChromium(viewport = { width: 1280, height: 800 }): Promise<TestBrowser> {
+  if (!existsSync(CHROMIUM_PATH)) throw new Error(`no Chromium at ${CHROMIUM_PATH}: install Debian's chromium package or set CHROMIUM_PATH`);
+  const profile = mkdtempSync(join(tmpdir(), 'veer-chromium-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: CHROMIUM_PATH,
+    headless: true,
+    viewport,
+    acceptDownloads: true,
+    args: [
+      '--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync',
+    ],
+  });
+  return {
+    context,
+    async close() {
+      await context.close();
+      rmSync(profile, { recursive: true, force: true });
+    },
+  };
+}

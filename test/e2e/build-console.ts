@@ -1,0 +1,11 @@
+/** Builds the console with Vite (the same command as `npm run console:build`) before the browser tests. */
+import { spawnSync } from 'node:child_process';
+import { resolve } from 'node:path';
+
+const ROOT = resolve(import.meta.dirname, '../..');
+
+export function buildConsole(): void {
+  const vite = resolve(ROOT, 'node_modules/vite/bin/vite.js');
+  const run = spawnSync(process.execPath, [vite, 'build', '--config', 'console/vite.config.ts'], { cwd: ROOT, encoding: 'utf8' });
+  if (run.status !== 0) throw new Error(`console build failed (exit ${run.status}):\n${run.stdout}\n${run.stderr}`);
+}

@@ -1,0 +1,221 @@
+/**
+ * The ops console end to end in real headless Chromium against the real API, an in-process worker (planner
+ * threads) and a real Redis: sign in, check a problem in the browser, submit the demo flyby, follow its
+ * progress to 100 %, review the plan (two-person rule, caveat checklist gating Approve), approve as a second
+ * reviewer, and see the history verified. Screenshots go to test-artifacts/console/ (not committed).
+ *
+ * What the browser shows is checked against independent sources: the plan and history the API returns
+ * (fetched here over HTTP), the planner's problemHash of examples/flyby-demo.json computed in this process,
+ * and the archive's own hash check (`hashMatches`).
+ */
+import { mkdirSync, readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parseProblem, problemHash } from '../../planner/index.ts';
+import { startService, type TestService } from '../harness/service.ts';
+import { launchChromium, type TestBrowser } from './browser.ts';
+import { buildConsole } from './build-console.ts';
+
+const ROOT = resolve(import.meta.dirname, '../..');
+const DEMO = resolve(ROOT, 'examples/flyby-demo.json');
+const SHOTS = resolve(ROOT, 'test-artifacts/console');
+
+let svc: TestService;
+let browser: TestBrowser;
+let submitterPage: Page;
+let reviewerPage: Page;
+let samToken: string;
+let planId = '';
+
+async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({ path: resolve(SHOTS, `${name}.png`), fullPage: false });
+}
+
+async function signIn(page: Page, token: string): Promise<void> {
+  await page.goto(`${svc.url}/console/`);
+  await page.getByLabel('Access token').fill(token);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/#\/jobs$/);
+}
+
+beforeAll(async () => {
+  mkdirSync(SHOTS, { recursive: true });
+  buildConsole();
+  svc = await startService();
+  await svc.startWorkerInProcess({ concurrency: 1 });
+  // A person who both submits and reviews: the two-person rule, not a missing role, must block their approval.
+  samToken = (await svc.tokenStore.add('sam', ['submitter', 'reviewer'])).token;
+  browser = await launchChromium();
+  submitterPage = await browser.context.newPage();
+  reviewerPage = await browser.context.newPage();
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await svc?.close();
+});
+
+describe('ops console', () => {
+  describe('when signing in', () => {
+    it('should refuse an unknown token and accept a valid one, naming the identity and roles', async () => {
+      const page = submitterPage;
+      await page.goto(`${svc.url}/console/`);
+      await expect.poll(() => page.getByTestId('proposal-notice').textContent()).toMatch(/qualified flight-dynamics staff/);
+      await page.getByLabel('Access token').fill('veer_not-a-real-token');
+      await page.getByRole('button', { name: 'Sign in' }).click();
+      await expect.poll(() => page.locator('#token-error').textContent()).toMatch(/unknown or has been revoked/);
+      expect(await page.locator('#token').getAttribute('aria-invalid')).toBe('true');
+      await shot(page, '01-sign-in');
+      await signIn(page, samToken);
+      expect(await page.getByTestId('identity').textContent()).toBe('sam');
+      expect(await page.locator('.who-roles').textContent()).toBe('submitter · reviewer');
+    });
+  });
+
+  describe('when a problem is checked in the browser', () => {
+    it('should list schema issues of a pasted file by field path', async () => {
+      const page = submitterPage;
+      await page.getByRole('link', { name: 'New job' }).click();
+      const broken = JSON.parse(readFileSync(DEMO, 'utf8')) as { burns: Record<string, unknown>[] };
+      delete broken.burns[0].epoch;
+      await page.getByLabel('Problem (JSON text)').fill(JSON.stringify(broken));
+      await page.getByLabel('Reason for this job').fill('console test: retarget after the latest orbit determination');
+      await page.getByRole('button', { name: 'Check and submit' }).click();
+      await expect.poll(() => page.locator('#problem-text-error').textContent()).toContain('burns[0].epoch');
+      expect(await page.locator('#problem-text').getAttribute('aria-invalid')).toBe('true');
+    });
+
+    it('should show a bad form value beside its field, and submit the corrected form as exactly the demo problem', async () => {
+      const page = submitterPage;
+      await page.locator('#problem-file').setInputFiles(DEMO);
+      await expect.poll(() => page.locator('#problem-text').inputValue()).toContain('Saltmarsh');
+      await page.getByRole('button', { name: 'Open this file in the form' }).click();
+      const mass = page.getByLabel('Wet mass (kg)');
+      expect(await mass.inputValue()).toBe('612');
+      await mass.fill('-5');
+      await page.getByRole('button', { name: 'Check and submit' }).click();
+      await expect.poll(() => page.locator('#pf-spacecraft-massKg-error').textContent()).toMatch(/>0|positive|too small/i);
+      expect(await mass.getAttribute('aria-invalid')).toBe('true');
+      expect(await page.locator('.error-summary').textContent()).toContain('spacecraft.massKg');
+      await shot(page, '02-submit-form-error');
+      await mass.fill('612');
+      await page.getByRole('button', { name: 'Check and submit' }).click();
+      await page.waitForURL(/#\/jobs\/[^/]+$/);
+      const jobId = decodeURIComponent(page.url().split('#/jobs/')[1]);
+      const status = await svc.request('GET', `/v1/jobs/${jobId}`, { token: svc.tokens.auditor });
+      expect(status.body.submittedBy).toBe('sam');
+      // The form kept what it does not show (covariance, solar pressure, limits): same canonical problem hash.
+      const expected = problemHash(parseProblem(JSON.parse(readFileSync(DEMO, 'utf8'))));
+      expect(status.body.problemHash).toBe(expected);
+    });
+  });
+
+  describe('when the job runs', () => {
+    it('should follow the event stream to 100 % and offer the proposed plan', async () => {
+      const page = submitterPage;
+      const bar = page.getByTestId('job-progress');
+      await expect.poll(() => page.getByTestId('job-progress-text').textContent(), { timeout: 60_000, interval: 200 }).toBe('100 %');
+      expect(await bar.getAttribute('aria-valuenow')).toBe('100');
+      expect(await page.getByTestId('job-state').textContent()).toBe('finished');
+      await shot(page, '03-jobs-complete');
+      const link = page.getByTestId('open-plan');
+      planId = decodeURIComponent(((await link.getAttribute('href')) ?? '').replace('#/plans/', ''));
+      const plan = await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.auditor });
+      expect(plan.status).toBe(200);
+      expect(plan.body.plan.problemHash).toBe(problemHash(parseProblem(JSON.parse(readFileSync(DEMO, 'utf8')))));
+      await link.click();
+      await page.waitForURL(new RegExp(`#/plans/${planId}$`));
+    });
+  });
+
+  describe('when the submitter opens the plan', () => {
+    it('should show the plan data and plots, state the two-person rule, and keep Approve disabled even with every caveat ticked', async () => {
+      const page = submitterPage;
+      const api = (await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.auditor })).body.plan;
+      await page.getByTestId('burn-table').waitFor();
+      const burnText = await page.getByTestId('burn-table').textContent();
+      expect(burnText).toContain(api.burns[0].label);
+      expect(burnText).toContain(api.burns[0].magnitudeMS.toFixed(3));
+      const targetText = await page.getByTestId('target-table').textContent();
+      expect(targetText).toContain('B·T');
+      expect(targetText).toContain('✓ met');
+      const bPlane = page.getByTestId('b-plane-plot');
+      expect(await bPlane.textContent()).toContain('reference plane: ecliptic');
+      expect(await bPlane.locator('ellipse').count()).toBe(4); // 1σ and 3σ in each of the two panels
+      expect(await bPlane.locator('.impact-circle').count()).toBe(2);
+      expect(await page.getByTestId('trajectory-plot').locator('.mk-burn').count()).toBe(api.burns.length);
+      expect(await page.getByTestId('scale-bar').textContent()).toMatch(/million km/);
+      expect(await page.getByTestId('cross-check').textContent()).toContain(api.crossCheck.passed ? 'passed' : 'failed');
+      expect(await page.getByTestId('two-person').textContent()).toContain('you submitted this job; another reviewer must approve');
+      const boxes = page.getByTestId('caveat-check');
+      expect(await boxes.count()).toBe(api.caveats.length);
+      await shot(page, '04-plan-review-submitter');
+      for (let i = 0; i < api.caveats.length; i += 1) await boxes.nth(i).check();
+      expect(await page.getByTestId('approve').isDisabled()).toBe(true);
+      expect(await page.getByTestId('approve-why').textContent()).toContain('another reviewer must approve');
+      await page.getByTestId('b-plane-plot').scrollIntoViewIfNeeded();
+      await shot(page, '05-plan-review-plots');
+    });
+  });
+
+  describe('when a second reviewer reviews the plan', () => {
+    it('should enable Approve only after the last caveat is ticked, and record the approval', async () => {
+      const page = reviewerPage;
+      await signIn(page, svc.tokens.reviewer);
+      await page.goto(`${svc.url}/console/#/plans/${planId}`);
+      await page.getByTestId('approve').waitFor();
+      expect(await page.getByTestId('two-person').count()).toBe(0);
+      const boxes = page.getByTestId('caveat-check');
+      const n = await boxes.count();
+      expect(n).toBeGreaterThan(0);
+      for (let i = 0; i < n; i += 1) {
+        expect(await page.getByTestId('approve').isDisabled()).toBe(true);
+        await boxes.nth(i).check();
+      }
+      expect(await page.getByTestId('approve').isEnabled()).toBe(true);
+      // Unticking one disables it again.
+      await boxes.nth(n - 1).uncheck();
+      expect(await page.getByTestId('approve').isDisabled()).toBe(true);
+      await boxes.nth(n - 1).check();
+      await page.getByLabel('Comment').fill('Burn and B-plane aim point checked against the mission team’s own solution.');
+      await shot(page, '06-plan-review-reviewer-ready');
+      await page.getByTestId('approve').click();
+      await page.waitForURL(new RegExp(`#/plans/${planId}/history$`));
+      const history = await svc.request('GET', `/v1/plans/${planId}/history`, { token: svc.tokens.auditor });
+      expect(history.body.plan.state).toBe('approved');
+      expect(history.body.plan.decidedBy).toBe('rita');
+    });
+  });
+
+  describe('when the history is opened', () => {
+    it('should show every entry verified and download the export bundle', async () => {
+      const page = reviewerPage;
+      const history = (await svc.request('GET', `/v1/plans/${planId}/history`, { token: svc.tokens.auditor })).body;
+      await page.getByTestId('history-verified').waitFor();
+      const verified = await page.getByTestId('history-verified').textContent();
+      expect(verified).toMatch(/^Verified\./);
+      expect(verified).toContain(`this browser re-hashed ${history.entries.length} of ${history.entries.length} as matching`);
+      expect(await page.getByTestId('history-table').locator('tbody tr').count()).toBe(history.entries.length);
+      expect(await page.getByTestId('plan-state').first().textContent()).toBe('approved');
+      const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('export').click()]);
+      const bundle = JSON.parse(readFileSync(await download.path(), 'utf8')) as Record<string, unknown>;
+      expect(download.suggestedFilename()).toBe(`${planId}-bundle.json`);
+      expect(JSON.stringify(bundle)).toContain(planId);
+      await shot(page, '07-history');
+    });
+  });
+
+  describe('when the screen is 1920×1080', () => {
+    it('should lay the plan review out beside the decision panel', async () => {
+      const page = reviewerPage;
+      await page.setViewportSize({ width: 1920, height: 1080 });
+      await page.goto(`${svc.url}/console/#/plans/${planId}`);
+      await page.getByTestId('decided').waitFor();
+      const main = await page.locator('.review-main').boundingBox();
+      const side = await page.locator('.review-side').boundingBox();
+      expect(main && side && side.x > main.x + main.width - 1).toBe(true);
+      await shot(page, '08-plan-review-1920');
+    });
+  });
+});
