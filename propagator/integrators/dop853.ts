@@ -75,7 +75,7 @@ export class Dop853Stepper {
     this.counts.evaluations += 1;
     this.hNext = options.initialStepS !== undefined
       ? direction * Math.min(Math.abs(options.initialStepS), this.maxStep)
-      : this.initialStep();
+      : this.initialStep(options.endTime === undefined ? Infinity : Math.abs(options.endTime - t0));
   }
 
   /** Current time (end of the last accepted step). */
@@ -314,7 +314,9 @@ export class Dop853Stepper {
   }
 
   /** Hairer's starting-step estimate (HINIT in DOP853), order 8. */
-  private initialStep(): number {
+  private initialStep(spanLimit: number): number {
+    const limit = Math.min(this.maxStep, spanLimit);
+    if (!(limit > 0)) return this.direction * 1e-6;
     const n = this.dimension;
     const m = this.errorComponents;
     const y = this.yNow;
@@ -327,7 +329,7 @@ export class Dop853Stepper {
       dny += (y[i] / sk) ** 2;
     }
     let h = dnf <= 1e-10 || dny <= 1e-10 ? 1e-6 : Math.sqrt(dny / dnf) * 0.01;
-    h = Math.min(h, this.maxStep);
+    h = Math.min(h, limit);
     const yt = this.yTmp;
     const f1 = this.k[2];
     for (let i = 0; i < n; i++) yt[i] = y[i] + this.direction * h * f[i];
@@ -341,7 +343,7 @@ export class Dop853Stepper {
     der2 = Math.sqrt(der2) / h;
     const der12 = Math.max(Math.abs(der2), Math.sqrt(dnf));
     const h1 = der12 <= 1e-15 ? Math.max(1e-6, h * 1e-3) : (0.01 / der12) ** (1 / 8);
-    return this.direction * Math.min(100 * h, h1, this.maxStep);
+    return this.direction * Math.min(100 * h, h1, limit);
   }
 }
 

@@ -27,7 +27,7 @@ export interface DriveResult {
 export function integrateDop853(
   rhs: RhsFunction, t0: number, y0: ArrayLike<number>, tEnd: number, options: Dop853Options & DriveOptions,
 ): DriveResult {
-  const stepper = new Dop853Stepper(rhs, t0, y0, tEnd >= t0 ? 1 : -1, options);
+  const stepper = new Dop853Stepper(rhs, t0, y0, tEnd >= t0 ? 1 : -1, { endTime: tEnd, ...options });
   return driveTo(stepper, tEnd, options);
 }
 

@@ -33,6 +33,9 @@ export interface Dop853Options {
   initialStepS?: number;
   /** Largest step magnitude, s. @defaultValue Infinity */
   maxStepS?: number;
+  /** Where the run is heading (same time units). Bounds the starting-step estimate, whose trial
+   * evaluation would otherwise land beyond it (Hairer's HINIT uses |xend - x| the same way). */
+  endTime?: number;
   /** Only the first `errorComponents` entries of the state enter the error norm (e.g. 6 when the STM
    * rides along). @defaultValue the whole state */
   errorComponents?: number;

@@ -1,9 +1,11 @@
 /**
  * A tiny analytic ephemeris for tests: the Sun fixed at the origin and each listed body on a circular
  * orbit in the J2000 equatorial x-y plane (radius km, period s, phase at t = 0). Exact by construction,
- * so force and propagation tests do not depend on any real ephemeris.
+ * so force and propagation tests do not depend on any real ephemeris. Like every source it refuses
+ * epochs outside its span (OutOfSpanError).
  */
 import type { Ephemeris } from '../../propagator/ephemeris/ephemeris.ts';
+import { assertInSpan } from '../../propagator/ephemeris/index.ts';
 import type { BodyName } from '../../propagator/types.ts';
 
 export interface CircularBody {
@@ -32,11 +34,13 @@ export function circularEphemeris(orbits: CircularBody[], span = { startTdbS: -1
     span,
     bodies: ['sun', ...orbits.map((o) => o.body)],
     stateInto(target, centre, t, out, offset = 0) {
+      assertInSpan('circular test ephemeris', span, t);
       for (let i = 0; i < 6; i++) out[offset + i] = 0;
       into(target, t, 1, out, offset, true);
       into(centre, t, -1, out, offset, true);
     },
     positionInto(target, centre, t, out, offset = 0) {
+      assertInSpan('circular test ephemeris', span, t);
       for (let i = 0; i < 3; i++) out[offset + i] = 0;
       into(target, t, 1, out, offset, false);
       into(centre, t, -1, out, offset, false);

@@ -168,6 +168,18 @@ describe('propagate', () => {
     });
   });
 
+  describe('when the span ends at the edge of the ephemeris span', () => {
+    it('should not evaluate the forces beyond it (the starting-step trial is bounded by the span)', () => {
+      // Default tolerances put Hairer's starting-step trial evaluation ~0.37 s ahead on this state.
+      const tight = circularEphemeris([{ body: 'earth', radiusKm: AU, periodS: YEAR }], { startTdbS: T0, endTdbS: T0 + 0.1 });
+      const result = propagate({
+        initial: { epochTdbS: T0, centre: 'sun', frame: 'J2000_EQUATORIAL', positionKm: [1.2 * AU, 0, 0], velocityKmS: [0, 27, 0] },
+        endEpochTdbS: T0 + 0.1, forces: { centralBody: 'sun', perturbingBodies: ['earth'] }, ephemeris: tight,
+      });
+      expect(result.outcome).toBe('finished');
+    });
+  });
+
   describe('when the request is invalid', () => {
     const cases: [string, Partial<PropagationRequest>, RegExp][] = [
       ['non-finite position', { initial: { ...request().initial, positionKm: [Number.NaN, 0, 0] } }, /initial\.positionKm\[0\]/],
