@@ -1,7 +1,7 @@
 /**
  * Child process for the concurrency tests (real processes, real database):
  *  - `append <location> <processIndex> <count>`: records `count` jobs (submission + plan each); plans share a few
- *    target-set keys across processes so supersession races too. Prints the plan ids as one JSON line.
+ *    target-set keys across processes so supersession races too. Prints `{planIds, startedAt, endedAt}` (ms since 1970) as one JSON line.
  *  - `review <location> <planId> <reviewer> <startAtMs>`: waits until the given wall-clock time (so the processes
  *    start together), records an approval, prints `{"ok":true}` or `{"error":"<name>"}`.
  * Usage: node --import tsx archive-child.ts <mode> ...
@@ -15,6 +15,7 @@ try {
   if (mode === 'append') {
     const [indexText, countText] = rest;
     const planIds: string[] = [];
+    const startedAt = Date.now();
     for (let i = 0; i < Number(countText); i += 1) {
       const jobId = `job-p${indexText}-${i}`;
       await archive.recordJobSubmitted({ jobId, actor: `submitter-${indexText}`, problem: { ...PROBLEM, i } });
@@ -22,7 +23,7 @@ try {
         plan: makePlan({ targetSetKey: `key-${i % 3}` }) });
       planIds.push(result.planId);
     }
-    process.stdout.write(JSON.stringify(planIds) + '\n');
+    process.stdout.write(JSON.stringify({ planIds, startedAt, endedAt: Date.now() }) + '\n');
   } else if (mode === 'review') {
     const [planId, reviewer, startAt] = rest;
     await new Promise((r) => setTimeout(r, Math.max(0, Number(startAt) - Date.now())));

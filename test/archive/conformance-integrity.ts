@@ -104,7 +104,7 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
         const perProcess = 12;
         const outputs = await Promise.all([0, 1, 2, 3].map((i) =>
           run(process.execPath, ['--import', 'tsx', CHILD, 'append', handle.location, String(i), String(perProcess)], { timeout: 60_000 })));
-        const planIds = outputs.flatMap((o) => JSON.parse(o.stdout.trim()) as string[]);
+        const planIds = outputs.flatMap((o) => (JSON.parse(o.stdout.trim()) as { planIds: string[] }).planIds);
         expect(new Set(planIds).size).toBe(4 * perProcess);
         const report = await archive.verify();
         expect(report.firstFailure).toBeNull();

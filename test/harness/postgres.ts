@@ -83,7 +83,12 @@ async function startContainer(): Promise<TestPostgres | null> {
   }
 }
 
-async function startProcess(): Promise<TestPostgres> {
+export interface StartPostgresOptions {
+  /** Keep fsync on (benchmarks); tests turn it off for speed. @defaultValue false */
+  durable?: boolean;
+}
+
+async function startProcess(options: StartPostgresOptions): Promise<TestPostgres> {
   const bin = postgresBinDir();
   if (!bin) throw new Error('PostgreSQL binaries not found: install Debian\'s postgresql package, or set PG_BIN or DATABASE_URL');
   const asRoot = process.getuid?.() === 0;
@@ -98,8 +103,8 @@ async function startProcess(): Promise<TestPostgres> {
     asRoot ? run('runuser', ['-u', 'postgres', '--', join(bin, cmd), ...args]) : run(join(bin, cmd), args);
   const port = await freePort();
   await exec('initdb', ['-D', data, '-U', 'veer', '-A', 'trust', '--no-sync', '-E', 'UTF8', '--locale=C']);
-  const options = `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=off -c max_connections=60`;
-  await exec('pg_ctl', ['-D', data, '-o', options, '-l', join(dir, 'server.log'), '-w', '-t', '60', 'start']);
+  const serverOptions = `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=${options.durable ? 'on' : 'off'} -c max_connections=60`;
+  await exec('pg_ctl', ['-D', data, '-o', serverOptions, '-l', join(dir, 'server.log'), '-w', '-t', '60', 'start']);
   const url = `postgres://veer@127.0.0.1:${port}/postgres`;
   return {
     url,
@@ -113,8 +118,8 @@ async function startProcess(): Promise<TestPostgres> {
 }
 
 /** Starts (or connects to) a PostgreSQL server for a test file. */
-export async function startPostgres(): Promise<TestPostgres> {
+export async function startPostgres(options: StartPostgresOptions = {}): Promise<TestPostgres> {
   const envUrl = process.env.DATABASE_URL;
   if (envUrl) return { url: envUrl, kind: 'env', freshDatabase: makeFresh(envUrl), stop: async () => undefined };
-  return (await startContainer()) ?? startProcess();
+  return (await startContainer()) ?? startProcess(options);
 }
