@@ -41,6 +41,10 @@ function positiveFinite(value: unknown, field: string): number {
 
 /** Checks the spec and resolves constants; throws InvalidInputError naming the field (`forces.*`). */
 export function checkForceModel(spec: ForceModelSpec, ephemeris: Ephemeris): CheckedForceModel {
+  if (spec === null || typeof spec !== 'object') throw new InvalidInputError('forces', 'must be a force model object');
+  if (ephemeris === null || typeof ephemeris !== 'object' || !Array.isArray(ephemeris.bodies)) {
+    throw new InvalidInputError('ephemeris', 'must be an Ephemeris (see propagator/ephemeris/ephemeris.ts)');
+  }
   const overrides = spec.gmOverridesKm3S2 ?? {};
   for (const [name, gm] of Object.entries(overrides)) {
     checkBody(name, `forces.gmOverridesKm3S2.${name}`, ephemeris);

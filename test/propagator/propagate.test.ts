@@ -189,6 +189,8 @@ describe('propagate', () => {
       ['unknown centre', { initial: { ...request().initial, centre: 'vulcan' as never } }, /initial\.centre/],
       ['start inside the Earth', { initial: { ...request().initial, positionKm: [100, 0, 0] } }, /inside earth/],
       ['negative output step', { outputStepS: -1 }, /outputStepS/],
+      ['a missing force model', { forces: undefined as never }, /^forces/],
+      ['a missing ephemeris', { ephemeris: undefined as never }, /^ephemeris/],
     ];
     for (const [name, overrides, pattern] of cases) {
       it(`should reject ${name} with InvalidInputError naming the field`, () => {
