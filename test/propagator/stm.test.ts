@@ -17,10 +17,10 @@ const DURATION = 30000;
 const x0 = [8000, 1500, 2000, -1.2, 6.4, 2.1];
 const perturbed: ForceModelSpec = { centralBody: 'earth', perturbingBodies: ['sun', 'moon'], centralJ2: true };
 
-function run(state: number[], forces: ForceModelSpec, burns: ImpulsiveBurn[] = [], tolerance = 1e-13) {
+function run(state: number[], forces: ForceModelSpec, burns: ImpulsiveBurn[] = [], tolerance = 1e-13, duration = DURATION) {
   const request: PropagationRequest = {
     initial: { epochTdbS: T0, centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: state.slice(0, 3) as Vec3, velocityKmS: state.slice(3) as Vec3 },
-    endEpochTdbS: T0 + DURATION, forces, ephemeris, burns, withStm: true,
+    endEpochTdbS: T0 + duration, forces, ephemeris, burns, withStm: true,
     relativeTolerance: tolerance, absoluteTolerance: tolerance,
   };
   const result = propagate(request);
@@ -109,17 +109,20 @@ describe('state transition matrix (variational equations)', () => {
       const stm = run(x0, perturbed, burns).stm!;
       expect(blockRelativeError(stm, finiteDifferenceStm(perturbed, burns))).toBeLessThan(1e-6);
     });
-    it('should give d(final)/d(Δv) matching finite differences in Δv', () => {
-      const sensitivity = run(x0, perturbed, burns).burnSensitivities![0];
+    for (const [label, duration, burnList] of [
+      ['forward', DURATION, burns],
+      ['backward', -DURATION, [{ ...burns[0], epochTdbS: T0 - 11000 }]],
+    ] as const) it(`should give d(final)/d(Δv) matching finite differences in Δv (${label})`, () => {
+      const sensitivity = run(x0, perturbed, [...burnList], 1e-13, duration).burnSensitivities![0];
       const fd = new Array<number>(18).fill(0);
       for (let j = 0; j < 3; j++) {
         const h = 1e-4;
-        const dvPlus = [...burns[0].deltaVKmS] as Vec3;
-        const dvMinus = [...burns[0].deltaVKmS] as Vec3;
+        const dvPlus = [...burnList[0].deltaVKmS] as Vec3;
+        const dvMinus = [...burnList[0].deltaVKmS] as Vec3;
         dvPlus[j] += h;
         dvMinus[j] -= h;
-        const fp = finalOf(run(x0, perturbed, [{ ...burns[0], deltaVKmS: dvPlus }]));
-        const fm = finalOf(run(x0, perturbed, [{ ...burns[0], deltaVKmS: dvMinus }]));
+        const fp = finalOf(run(x0, perturbed, [{ ...burnList[0], deltaVKmS: dvPlus }], 1e-13, duration));
+        const fm = finalOf(run(x0, perturbed, [{ ...burnList[0], deltaVKmS: dvMinus }], 1e-13, duration));
         for (let i = 0; i < 6; i++) fd[3 * i + j] = (fp[i] - fm[i]) / (2 * h);
       }
       expect(blockRelativeError(sensitivity, fd, 3)).toBeLessThan(1e-6);
