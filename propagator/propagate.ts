@@ -147,6 +147,7 @@ export function* propagationSteps(
     absoluteTolerance: checked.absoluteTolerance,
     errorComponents: dynamics.errorComponents,
     initialStepS: dynamics.initialStepS,
+    maxStepS: dynamics.maxStepS,
     endTime: end,
   });
   const watchers = [impactWatcher(dynamics), ...extraWatchers];

@@ -29,6 +29,9 @@ export interface PropagationDynamics {
   /** First trial step, s, when the formulation knows a better one than the stepper's estimate (Encke's
    * deviation starts at zero, where that estimate degenerates). */
   readonly initialStepS?: number;
+  /** Largest step, s, when the formulation needs one (Encke with the STM: Φ follows the full gravity
+   * gradient, which the small deviation's error estimate does not see). */
+  readonly maxStepS?: number;
   /** Encke: reference-conic rectifications so far. */
   readonly rectifications?: number;
   /** Notes for the result's `warnings` (e.g. a fallback from Encke to Cowell). */

@@ -19,9 +19,15 @@
  * Rectification: when |δr|/|ρ| exceeds ENCKE_DEFAULTS.rectificationRatio the reference conic is restarted
  * from the current true state (δ = 0); the run counts each one.
  *
+ * Clock: inside the right-hand side the reference conic is advanced by τ, an extra component of the
+ * integration vector with τ' = 1 (last entry), not by the epoch label t − t_ref. Near t ~ 1e9 s the stepper's epoch labels carry a
+ * rounding of up to 6e-8 s per step that the integrated interval does not; evaluating the conic at the
+ * label made δ and Φ inconsistent with ρ (Φ errors of 1e-6 measured at t = 8e8 s against 4e-10 at 1e5 s).
+ *
  * STM: Φ rides along in y[6..41] and obeys Φ' = A Φ with the full-state gradient of the force model at
- * the reconstructed true state (Φ is a property of the true trajectory, unaffected by rectification);
- * Φ joins the error norm, since the deviation alone no longer limits the step.
+ * the reconstructed true state (Φ is a property of the true trajectory, unaffected by rectification).
+ * A small deviation lets Encke take steps far longer than Φ's dynamics (the full gravity gradient) allow,
+ * so with the STM the step is capped by stmStepLimit.
  */
 import type { ForceModel } from '../forces/index.ts';
 import { battinF } from '../forces/index.ts';
@@ -58,13 +64,30 @@ export function degenerateReason(state: ArrayLike<number>, mu: number): string |
   return null;
 }
 
+/**
+ * Step cap for Encke with the STM, s: 2·rtol^(1/8)·√(r_p³/μ), with r_p the periapsis radius of the
+ * starting conic — about the step an 8th-order method needs to follow Kepler motion to rtol at its
+ * fastest point (our rule, close to the step DOP853 Cowell takes at rtol 1e-12 on a circular orbit, ~0.07/n).
+ */
+export function stmStepLimit(total: ArrayLike<number>, mu: number, rtol: number): number {
+  const [x, y, z, vx, vy, vz] = [total[0], total[1], total[2], total[3], total[4], total[5]];
+  const r = Math.hypot(x, y, z);
+  const h2 = (y * vz - z * vy) ** 2 + (z * vx - x * vz) ** 2 + (x * vy - y * vx) ** 2;
+  const rv = x * vx + y * vy + z * vz;
+  const c = vx * vx + vy * vy + vz * vz - mu / r;
+  const e = Math.hypot(c * x - rv * vx, c * y - rv * vy, c * z - rv * vz) / mu;
+  const rp = Math.min(r, h2 / mu / (1 + e));
+  return 2 * rtol ** 0.125 * Math.sqrt(rp ** 3 / mu);
+}
+
 /** Encke formulation over one force model (one central body); shaped as PropagationDynamics. */
 export class EnckeDynamics {
   readonly forces: ForceModel;
   readonly withStm: boolean;
-  /** With the STM, Φ enters the error norm too: a small deviation does not constrain the step, but Φ's
-   * own dynamics (the full gravity gradient) must be resolved. */
-  readonly errorComponents: number;
+  /** The deviation only (Φ stays out of the error norm, as in Cowell's variational equations). */
+  readonly errorComponents = 6;
+  /** With the STM only: see stmStepLimit. */
+  readonly maxStepS: number | undefined;
   readonly initialY: Float64Array;
   /** First trial step: 1e-3 of the reference conic's time scale √(r³/μ) (δ = 0 at the start gives the
    * stepper's own estimate nothing to work with). */
@@ -74,14 +97,17 @@ export class EnckeDynamics {
   private readonly mu: number;
   private readonly lengthKm: number;
   private readonly speedKmS: number;
-  private refEpoch = 0;
+  /** Index of Encke's own clock τ (time since the reference epoch) in the integration vector. */
+  private readonly clock: number;
   private refState = new Float64Array(6);
+  private refEpoch: number;
   private readonly acc = new Float64Array(3);
   private readonly grad = new Float64Array(9);
   private readonly total = new Float64Array(6);
   private readonly scratch = new Float64Array(6);
 
   /**
+   * @param epoch0 start epoch, TDB s from J2000
    * @param total0 true state at epoch0 (km, km/s, J2000 equatorial, from the force model's centre)
    * @param tolerances the run's relative and absolute tolerances (they set the deviation's scaling)
    */
@@ -89,32 +115,35 @@ export class EnckeDynamics {
     tolerances: { relativeTolerance: number; absoluteTolerance: number }) {
     this.forces = forces;
     this.withStm = withStm;
-    this.errorComponents = withStm ? 42 : 6;
     this.mu = forces.centralGmKm3S2;
     const { relativeTolerance: rtol, absoluteTolerance: atol } = tolerances;
     this.lengthKm = (atol + rtol * Math.hypot(total0[0], total0[1], total0[2])) / atol;
     this.speedKmS = (atol + rtol * Math.hypot(total0[3], total0[4], total0[5])) / atol;
-    this.setReference(epoch0, total0);
+    this.maxStepS = withStm ? stmStepLimit(total0, this.mu, rtol) : undefined;
+    this.refEpoch = epoch0;
+    this.setReference(total0);
     this.initialStepS = 1e-3 * Math.sqrt(Math.hypot(total0[0], total0[1], total0[2]) ** 3 / this.mu);
-    this.initialY = new Float64Array(withStm ? 42 : 6);
+    this.clock = withStm ? 42 : 6;
+    this.initialY = new Float64Array(this.clock + 1);
     if (withStm) for (let i = 0; i < 6; i++) this.initialY[6 + 7 * i] = 1;
   }
 
-  /** Restarts the reference conic at the true state `total` (δ = 0 from here). */
-  private setReference(epoch: number, total: ArrayLike<number>): void {
-    this.refEpoch = epoch;
+  /** Restarts the reference conic at the true state `total` (δ = 0 and τ = 0 from here). */
+  private setReference(total: ArrayLike<number>): void {
     this.refState = Float64Array.from({ length: 6 }, (_, i) => total[i]);
   }
 
-  private reference(epoch: number): { r: number[]; v: number[] } {
-    const s = keplerSolve(this.refState.subarray(0, 3), this.refState.subarray(3, 6), epoch - this.refEpoch, this.mu);
+  /** Reference conic after τ seconds (τ from the integration vector, not from the epoch label). */
+  private reference(tau: number): { r: number[]; v: number[] } {
+    const s = keplerSolve(this.refState.subarray(0, 3), this.refState.subarray(3, 6), tau, this.mu);
     return { r: s.positionKm, v: s.velocityKmS };
   }
 
   readonly rhs = (t: number, y: Float64Array, dydt: Float64Array): void => {
     const L = this.lengthKm;
     const V = this.speedKmS;
-    const { r: rho } = this.reference(t);
+    const { r: rho } = this.reference(y[this.clock]);
+    dydt[this.clock] = 1;
     const d0 = y[0] * L;
     const d1 = y[1] * L;
     const d2 = y[2] * L;
@@ -147,7 +176,10 @@ export class EnckeDynamics {
 
   /** True state (km, km/s, from the centre) at `epochTdbS` for integration vector y into out[0..5]. */
   cartesianInto(epochTdbS: number, y: Float64Array, out: Float64Array): void {
-    const { r, v } = this.reference(epochTdbS);
+    // Output at the epoch label (so an unperturbed run reproduces the Kepler solution at that epoch); the
+    // dynamics use τ. The two differ by the stepper's accumulated label rounding (~1e-7 s), which only
+    // shifts the small deviation δ.
+    const { r, v } = this.reference(epochTdbS - this.refEpoch);
     for (let i = 0; i < 3; i++) {
       out[i] = r[i] + y[i] * this.lengthKm;
       out[3 + i] = v[i] + y[3 + i] * this.speedKmS;
@@ -155,8 +187,8 @@ export class EnckeDynamics {
   }
 
   /** |δr| / |ρ| for integration vector y at `epochTdbS`. */
-  deviationRatio(epochTdbS: number, y: Float64Array): number {
-    const { r } = this.reference(epochTdbS);
+  deviationRatio(_epochTdbS: number, y: Float64Array): number {
+    const { r } = this.reference(y[this.clock]);
     return (Math.hypot(y[0], y[1], y[2]) * this.lengthKm) / Math.hypot(r[0], r[1], r[2]);
   }
 
@@ -172,9 +204,16 @@ export class EnckeDynamics {
   }
 
   private restartAt(epochTdbS: number, y: Float64Array): void {
-    this.cartesianInto(epochTdbS, y, this.scratch);
-    this.setReference(epochTdbS, this.scratch);
+    // The new conic starts from the state the dynamics have reached (τ-consistent), labelled epochTdbS.
+    const { r, v } = this.reference(y[this.clock]);
+    for (let i = 0; i < 3; i++) {
+      this.scratch[i] = r[i] + y[i] * this.lengthKm;
+      this.scratch[3 + i] = v[i] + y[3 + i] * this.speedKmS;
+    }
+    this.refEpoch = epochTdbS;
+    this.setReference(this.scratch);
     for (let i = 0; i < 6; i++) y[i] = 0;
+    y[this.clock] = 0;
   }
 
   /** Adds Δv (km/s, J2000 equatorial, signed for the direction of time) at `epochTdbS`; the reference
