@@ -62,3 +62,16 @@ export function stumpff(psi: number): StumpffValues {
   const c5 = (1 / 6 - c3) / psi;
   return { c2, c3, c4, c5 };
 }
+
+/** c2 and c3 only (the Kepler iteration needs no more), same method and range as {@link stumpff}. */
+export function stumpff23(psi: number): { c2: number; c3: number } {
+  if (Math.abs(psi) <= SERIES_LIMIT) return { c2: stumpffSeries(2, psi), c3: stumpffSeries(3, psi) };
+  if (psi > 0) {
+    const x = Math.sqrt(psi);
+    const s = Math.sin(x / 2);
+    return { c2: (2 * s * s) / psi, c3: (x - Math.sin(x)) / (psi * x) };
+  }
+  const x = Math.sqrt(-psi);
+  const s = Math.sinh(x / 2);
+  return { c2: (-2 * s * s) / psi, c3: (Math.sinh(x) - x) / (-psi * x) };
+}

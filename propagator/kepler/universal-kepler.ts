@@ -10,7 +10,7 @@
  */
 import { InvalidInputError } from '../errors.ts';
 import type { Vec3 } from '../types.ts';
-import { stumpff } from './stumpff.ts';
+import { stumpff23 } from './stumpff.ts';
 
 /** The solved universal variable and the Lagrange coefficients of one Kepler step. */
 export interface KeplerSolution {
@@ -44,7 +44,7 @@ function checkVec(name: string, v: ArrayLike<number>): void {
 /** Universal functions U0..U3 at χ for α (Battin 1999 §4.5): U_n = χ^n c_n(αχ²). */
 function timeEquation(chi: number, alpha: number, r0: number, sigma0: number) {
   const psi = alpha * chi * chi;
-  const { c2, c3 } = stumpff(psi);
+  const { c2, c3 } = stumpff23(psi);
   const u2 = chi * chi * c2;
   const u3 = chi * chi * chi * c3;
   const u1 = chi * (1 - psi * c3);
