@@ -105,7 +105,7 @@ function machine(): string {
 log('# Propagator benchmark (npm run bench:propagator)');
 log();
 log(`Machine: ${machine()}. The machine is shared with other work, so times are CPU time of this process`);
-log('(user + system; less disturbed by other processes than wall time), best of 10 batches of 20 runs after a');
+log('(user + system; less disturbed by other processes than wall time), best of 20 batches of 20 runs after a');
 log('warm-up (single runs for the slow built-in and simulator cases). Ratios compare runs of the same process.');
 log();
 log('Case: one year heliocentric, invented spacecraft (a = 1.3 au, e = 0.2, i = 3°) from 2031-03-01 TDB; Sun');
@@ -120,7 +120,7 @@ const build = { ms: performance.now() - buildStarted };
 const rec = recording(builtin);
 const withBuiltin = timed(1, () => propagate(request(rec.ephemeris)));
 const lookups = rec.epochs.slice(0, rec.epochs.length / 2); // one run's look-ups (warm-up + 1 run recorded)
-const REPEAT = 10; // short runs: best of 10 batches of BATCH calls
+const REPEAT = 20; // short runs: best of 20 batches of BATCH calls
 const BATCH = 20;
 const withCache = timed(REPEAT, () => propagate(request(cache)), BATCH);
 const builtinLookupMs = lookupTime(builtin, lookups);

@@ -35,7 +35,7 @@ export class ImpactWatch {
     let yy = this.cart[1];
     let z = this.cart[2];
     if (b >= 0) {
-      forces.ephemeris.positionInto(forces.perturbingBodies[b], forces.centralBody, epochTdbS, this.bodyPos, 0);
+      forces.bodyPositionInto(b, epochTdbS, this.bodyPos);
       x -= this.bodyPos[0];
       yy -= this.bodyPos[1];
       z -= this.bodyPos[2];

@@ -55,6 +55,18 @@ export class ForceModel {
     this.lastEpoch = epochTdbS;
   }
 
+  /** Position (km, from the central body) of perturbing body `index` at `epochTdbS` into out[0..2],
+   * reusing the last evaluation's look-up when the epoch matches (e.g. at the end of an accepted step). */
+  bodyPositionInto(index: number, epochTdbS: number, out: Float64Array): void {
+    if (epochTdbS === this.lastEpoch) {
+      out[0] = this.bodyPositionsKm[3 * index];
+      out[1] = this.bodyPositionsKm[3 * index + 1];
+      out[2] = this.bodyPositionsKm[3 * index + 2];
+      return;
+    }
+    this.ephemeris.positionInto(this.perturbingBodies[index], this.centralBody, epochTdbS, out, 0);
+  }
+
   /**
    * Acceleration at `epochTdbS` (TDB s from J2000) for the spacecraft at position state[0..2] (km,
    * J2000 equatorial, from the central body) into acc[0..2] (km/s^2); the 3x3 row-major ∂a/∂r into
