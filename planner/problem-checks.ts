@@ -4,7 +4,7 @@
  */
 import type { z } from 'zod';
 import {
-  InvalidInputError, parseEpoch, RADIUS_KM, J2_EARTH,
+  BUILTIN_EPHEMERIS_SPAN, InvalidInputError, OutOfSpanError, formatEpoch, parseEpoch, RADIUS_KM, J2_EARTH,
 } from '../propagator/index.ts';
 import type { BodyName } from '../propagator/index.ts';
 import { problemSchema } from './problem-schema.ts';
@@ -65,6 +65,7 @@ export function checkProblem(problem: PlanningProblem): ProblemEpochs {
   if (e.endTdbS <= e.initialTdbS) {
     throw new InvalidInputError('endEpoch', 'the end of the span must come after initialState.epoch');
   }
+  checkInsideEphemerisSpan(e);
   fm.perturbingBodies.forEach((b, i) => {
     if (b === fm.centralBody) {
       throw new InvalidInputError(`forceModel.perturbingBodies[${i}]`, `'${b}' is already the central body`);
@@ -187,4 +188,14 @@ export function parseProblem(input: unknown): PlanningProblem {
   if (!parsed.success) throw fromZodError(parsed.error);
   checkProblem(parsed.data);
   return parsed.data;
+}
+
+/** The planner runs on the built-in ephemeris: both ends of the span must lie inside it (never clipped). */
+function checkInsideEphemerisSpan(e: ProblemEpochs): void {
+  const { startTdbS, endTdbS } = BUILTIN_EPHEMERIS_SPAN;
+  const span = `[${formatEpoch(startTdbS, 'TDB', 0)}, ${formatEpoch(endTdbS, 'TDB', 0)}]`;
+  if (e.initialTdbS < startTdbS || e.initialTdbS > endTdbS) {
+    throw new OutOfSpanError('initialState.epoch', `outside the built-in ephemeris span ${span}`);
+  }
+  if (e.endTdbS > endTdbS) throw new OutOfSpanError('endEpoch', `after the end of the built-in ephemeris span ${span}`);
 }

@@ -14,7 +14,7 @@ const SECONDS_PER_JULIAN_CENTURY = 36525 * 86400;
 /**
  * TDB − TT in seconds at a TT epoch (s from J2000 TT): the truncated Fairhead & Bretagnon (1990)
  * series as printed in USNO Circular 179 (Kaplan 2005), eq. 2.6 (coefficients typed from memory, then
- * checked against several public transcriptions of eq. 2.6), with
+ * checked against several public copies of eq. 2.6), with
  * T in Julian centuries of TT from J2000. Geocentric (no topocentric terms). Stated accuracy about
  * 10 µs over 1600–2200; |TDB − TT| < 1.7 ms always. Periodic, so valid for any finite epoch, but only
  * meaningful over a few centuries either side of 2000.

@@ -52,6 +52,13 @@ describe('problem schema', () => {
     it('should reject a target after the end of the span', () => {
       expect(fieldOf({ ...p, targets: [{ ...target, epoch: '2026-01-02T00:00:00 TDB' }] })).toBe('targets[0].epoch');
     });
+    it('should name the end of a span that runs past the built-in ephemeris, never clip it', () => {
+      // The built-in ephemeris stops at 2200-01-01 TDB (propagator/ephemeris): a later end is refused.
+      const beyond = { ...p, endEpoch: '2250-01-01T00:00:00 TDB' };
+      expect(() => parseProblem(beyond)).toThrow(expect.objectContaining({ name: 'OutOfSpanError', field: 'endEpoch' }));
+      const early = { ...p, initialState: { ...p.initialState, epoch: '1700-01-01T00:00:00 TDB' } };
+      expect(() => parseProblem(early)).toThrow(expect.objectContaining({ name: 'OutOfSpanError', field: 'initialState.epoch' }));
+    });
     it('should reject a burn outside the span', () => {
       expect(fieldOf({ ...p, burns: [{ ...p.burns[0], epoch: '2025-12-31T00:00:00 TDB' }] })).toBe('burns[0].epoch');
     });

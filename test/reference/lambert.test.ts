@@ -56,23 +56,9 @@ describe('solveLambert', () => {
     });
   });
 
-  describe('when given Vallado, Fundamentals of Astrodynamics and Applications, Example 7-5', () => {
-    // Source: D. A. Vallado, Fundamentals of Astrodynamics and Applications, Example 7-5 (from memory):
-    // r0 = 15945.34 î km, r = 12214.83899 î + 10249.46731 ĵ km, Δt = 76.0 min, short way,
-    // v0 = 2.058913 î + 2.915965 ĵ km/s, v = -3.451565 î + 0.910315 ĵ km/s. With μ = 398600.4418 our
-    // solution differs by up to 1.1e-6 km/s (one unit in the sixth decimal) in the ĵ components; the limit
-    // is one unit in the last printed digit plus half a unit of rounding (1.5e-6 km/s), not half a unit.
-    const solution = solveLambert([15945.34, 0, 0], [12214.83899, 10249.46731, 0], 76 * 60, 398600.4418,
-      { direction: 'prograde' });
-
-    it('should match the printed velocities to one unit in the sixth decimal', () => {
-      expect(solution.converged).toBe(true);
-      const printedV1 = [2.058913, 2.915965, 0];
-      const printedV2 = [-3.451565, 0.910315, 0];
-      printedV1.forEach((value, i) => expect(Math.abs(solution.v1KmS[i] - value)).toBeLessThanOrEqual(1.5e-6));
-      printedV2.forEach((value, i) => expect(Math.abs(solution.v2KmS[i] - value)).toBeLessThanOrEqual(1.5e-6));
-    });
-  });
+  // Vallado, Fundamentals of Astrodynamics and Applications, Example 7-5 was tried with values typed from
+  // memory; they did not reproduce to half a unit of the last printed digit, so the case is left out
+  // rather than widened (see the project's rule on from-memory values).
 
   describe('when its velocity is propagated by an independent two-body integration (odex)', () => {
     const r1: Vec3 = [7000, -1200, 800];

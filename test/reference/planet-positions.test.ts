@@ -2,7 +2,7 @@
  * astronomy-engine planet positions (through veer's built-in ephemeris) against the JPL table
  * "Keplerian Elements for Approximate Positions of the Major Planets", E. M. Standish (JPL Solar System
  * Dynamics), Table 1 (valid 1800 AD – 2050 AD) and its table of approximate errors for that span.
- * Elements and rates were typed from memory, then checked against a public transcription of Table 1
+ * Elements and rates were typed from memory, then checked against a public copy of Table 1
  * (this caught one slip: Neptune's node rate is −0.00508664 °/cy). The error bounds (1800–2050 columns:
  * "RA", "Dec", r) were typed from memory and match the stored JPL page ssd.jpl.nasa.gov/?planet_pos; the
  * newer JPL page describes them as errors in heliocentric longitude, latitude and distance, which is how
