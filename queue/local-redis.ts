@@ -41,7 +41,9 @@ export async function startLocalRedis(dir: string): Promise<LocalRedis> {
   const port = await freePort();
   const child: ChildProcess = spawn('redis-server', [
     '--port', String(port), '--bind', '127.0.0.1', '--dir', dir, '--appendonly', 'yes', '--save', '', '--loglevel', 'warning',
-  ], { stdio: ['ignore', 'ignore', 'inherit'] });
+  ], { stdio: ['ignore', 'ignore', 'pipe'] });
+  // Forwarded rather than inherited, so the server does not hold our stderr open after we exit.
+  child.stderr?.on('data', (d: Buffer) => process.stderr.write(d));
   const failed = new Promise<never>((_, reject) => {
     child.once('error', (e: NodeJS.ErrnoException) => reject(new Error(e.code === 'ENOENT' ? INSTALL_REDIS_HINT : `redis-server: ${e.message}`)));
     child.once('exit', (code) => reject(new Error(`redis-server exited with code ${code}`)));

@@ -31,7 +31,7 @@ export type SubmitOutcome =
   | { outcome: 'conflict'; jobId: string };
 
 export type CancelOutcome =
-  | { outcome: 'cancelled'; jobId: string }
+  | { outcome: 'cancelled'; jobId: string; removed: Pick<RetargetJobData, 'problem' | 'problemHash' | 'reason' | 'submittedBy'> }
   | { outcome: 'cancelling'; jobId: string }
   | { outcome: 'already-finished'; jobId: string; state: JobState }
   | { outcome: 'not-found'; jobId: string };
@@ -180,7 +180,8 @@ export class RetargetQueue {
       await requestCancel(this.redis, this.prefix, jobId, record, this.retentionS);
       try {
         await job.remove();
-        return { outcome: 'cancelled', jobId };
+        const { problem, problemHash: hash, reason: why, submittedBy } = job.data;
+        return { outcome: 'cancelled', jobId, removed: { problem, problemHash: hash, reason: why, submittedBy } };
       } catch {
         // It became active meanwhile (a locked job cannot be removed): the worker sees the marker.
         delete record.removedWhileWaiting;

@@ -55,12 +55,8 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
       sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
       return;
     }
-    if (outcome.outcome === 'created' && deps.archive) {
-      // The worker records it too (idempotent by job id); recording here also covers jobs cancelled before they run.
-      await deps.archive.recordJobSubmitted({
-        jobId: outcome.jobId, actor: identity.name, problem: request.problem, reason: request.reason,
-      }).catch((err: unknown) => deps.logger.error({ err, jobId: outcome.jobId }, 'archive: job-submitted not recorded'));
-    }
+    // No archive write here: better-sqlite3 writes are synchronous and would stall every request; the worker
+    // records the submission when it starts the job (idempotent by job id), the cancel route when it never runs.
     const body = {
       jobId: outcome.jobId, outcome: outcome.outcome,
       statusUrl: `/v1/jobs/${outcome.jobId}`, eventsUrl: `/v1/jobs/${outcome.jobId}/events`,
@@ -118,7 +114,13 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
       return;
     }
     if (outcome.outcome === 'cancelled' && deps.archive) {
-      await deps.archive.recordJobCancelled({ jobId: params.jobId, actor: identity.name, reason: body.reason })
+      // The job never ran, so no worker recorded it: record its submission and its cancellation here.
+      const archive = deps.archive;
+      const { removed } = outcome;
+      await archive.recordJobSubmitted({
+        jobId: params.jobId, actor: removed.submittedBy, problem: removed.problem, problemHash: removed.problemHash, reason: removed.reason,
+      })
+        .then(() => archive.recordJobCancelled({ jobId: params.jobId, actor: identity.name, reason: body.reason }))
         .catch((err: unknown) => deps.logger.error({ err, jobId: params.jobId }, 'archive: job-cancelled not recorded'));
     }
     const after = await deps.queue.status(params.jobId);

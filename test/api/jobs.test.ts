@@ -29,8 +29,6 @@ describe('job submission', () => {
         id: res.body.jobId, state: 'waiting', submittedBy: 'alice', priority: 'routine', spacecraftName: 'TESTSAT-1',
       }));
       expect(status.body.problemHash).toMatch(/^[0-9a-f]{64}$/);
-      const archived = await svc.archive!.getJob(res.body.jobId);
-      expect(archived?.state).toBe('submitted');
     });
   });
 });

@@ -1,0 +1,180 @@
+/**
+ * Service benchmarks (npm run bench:service; writes bench/results/service.md):
+ *  1. submission latency over HTTP at 50 concurrent clients (autocannon), target p99 < 50 ms; peer in the same
+ *     run: GET /health at the same concurrency (ratios are what compare across machines);
+ *  2. queue overhead per job for a trivial problem: end-to-end time through API-less queue + worker + archive,
+ *     minus the planner's own time for the same problem in-process, target < 20 ms;
+ *  3. throughput (jobs/s) with 1, 2 and 4 worker processes draining the same batch of jobs.
+ * Uses REDIS_URL when set, else a private redis-server in a temp folder.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import os from 'node:os';
+import { join, resolve } from 'node:path';
+import { pino } from 'pino';
+import { loadApiConfig, startApiServer } from '../api/index.ts';
+import { openTokenStore } from '../api/auth/index.ts';
+import { parseProblem, planManeuvers } from '../planner/index.ts';
+import { JobEventHub, RetargetQueue, jobRequestSchema, startLocalRedis, type LocalRedis } from '../queue/index.ts';
+import { reachableProblem } from '../test/queue/fixtures.ts';
+
+interface CannonResult { latency: { p50: number; p99: number; average: number; max: number }; requests: { average: number }; non2xx: number; errors: number; statusCodeStats?: Record<string, { count: number }> }
+type Cannon = (opts: Record<string, unknown>) => Promise<CannonResult>;
+const autocannon = createRequire(import.meta.url)('autocannon') as Cannon;
+
+const ROOT = resolve(import.meta.dirname, '..');
+const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 8);
+const quiet = pino({ level: 'silent' });
+
+let local: LocalRedis | null = null;
+
+async function main(): Promise<void> {
+  const dir = mkdtempSync(join(os.tmpdir(), 'veer-bench-'));
+  const redisUrl = process.env.REDIS_URL ?? (local = await startLocalRedis(join(dir, 'redis'))).url;
+  const prefix = `bench${Date.now().toString(36)}`;
+  const tokens = await openTokenStore({ dataDir: dir });
+  const { token } = await tokens.add('bench', ['submitter']);
+  const config = loadApiConfig({
+    REDIS_URL: redisUrl, QUEUE_PREFIX: prefix, PORT: '0', HOST: '127.0.0.1', DATA_DIR: dir, PLAN_SINK: 'archive',
+    RATE_LIMIT_MAX: '1000000', LOG_LEVEL: 'silent',
+  });
+  const api = await startApiServer(config, quiet, { tokens });
+  const lines: string[] = [];
+  const say = (s: string): void => { lines.push(s); process.stdout.write(`${s}\n`); };
+
+  // 1. Submission latency (no worker running: measures the door and the enqueue only).
+  const trivial = reachableProblem({ samples: 0, name: 'BENCHSAT' });
+  const body = JSON.stringify({ problem: trivial, reason: 'benchmark submission' });
+  const headers = { authorization: `Bearer ${token}`, 'content-type': 'application/json' };
+  await autocannon({ url: `${api.url}/health`, connections: 10, duration: 1 });
+  const health = await autocannon({ url: `${api.url}/health`, connections: 50, duration: DURATION_S, headers });
+  const submit = await autocannon({ url: `${api.url}/v1/jobs`, method: 'POST', connections: 50, duration: DURATION_S, headers, body });
+  say('## Submission latency, 50 concurrent clients');
+  say('');
+  say('| request | p50 ms | p99 ms | mean ms | req/s | non-2xx |');
+  say('|---|---|---|---|---|---|');
+  for (const [name, r] of [['GET /health (peer)', health], ['POST /v1/jobs', submit]] as const) {
+    say(`| ${name} | ${r.latency.p50} | ${r.latency.p99} | ${r.latency.average.toFixed(2)} | ${r.requests.average.toFixed(0)} | ${r.non2xx} |`);
+  }
+  say('');
+  say(`Submission p99 ${submit.latency.p99} ms (target < 50 ms): ${submit.latency.p99 < 50 ? 'met' : 'NOT met'}; `
+    + `p50 ratio submit/health = ${(submit.latency.p50 / Math.max(health.latency.p50, 0.5)).toFixed(1)}.`);
+  await api.deps.queue.queue.obliterate({ force: true });
+
+  // 2. Queue overhead per trivial job: sequential jobs through queue + worker process + archive.
+  const parsed = parseProblem(trivial);
+  for (let i = 0; i < 3; i++) await planManeuvers(parsed, { monteCarlo: 'skip' });
+  const inProcess: number[] = [];
+  for (let i = 0; i < 15; i++) {
+    const t0 = performance.now();
+    await planManeuvers(parsed, { monteCarlo: 'in-process' });
+    inProcess.push(performance.now() - t0);
+  }
+  const queue = new RetargetQueue({ redisUrl, prefix });
+  const events = new JobEventHub(redisUrl, prefix);
+  await events.ready();
+  const request = jobRequestSchema.parse({ problem: trivial, reason: 'benchmark overhead' });
+  const runOne = async (): Promise<number> => {
+    const t0 = performance.now();
+    let jobId = '';
+    const finished = new Promise<void>((res) => {
+      const off = events.subscribe('*', (e) => { if (e.jobId === jobId && (e.type === 'completed' || e.type === 'failed')) { off(); res(); } });
+    });
+    jobId = (await queue.submit(request, 'bench')).jobId;
+    await finished;
+    return performance.now() - t0;
+  };
+  const workers1 = await startWorkers(1, redisUrl, prefix, dir);
+  for (let i = 0; i < 3; i++) await runOne();
+  const viaQueue: number[] = [];
+  for (let i = 0; i < 15; i++) viaQueue.push(await runOne());
+  await stopWorkers(workers1);
+  const workersNoArchive = await startWorkers(1, redisUrl, prefix, dir, { PLAN_SINK: 'job-result' });
+  for (let i = 0; i < 3; i++) await runOne();
+  const viaQueueNoArchive: number[] = [];
+  for (let i = 0; i < 15; i++) viaQueueNoArchive.push(await runOne());
+  await stopWorkers(workersNoArchive);
+  const med = (a: number[]): number => [...a].sort((x, y) => x - y)[Math.floor(a.length / 2)]!;
+  const overhead = med(viaQueue) - med(inProcess);
+  say('');
+  say('## Queue overhead per trivial job (Monte Carlo off)');
+  say('');
+  say(`| path | median ms |`);
+  say('|---|---|');
+  say(`| planner in-process (peer) | ${med(inProcess).toFixed(1)} |`);
+  say(`| submit → worker thread → archive → completed event | ${med(viaQueue).toFixed(1)} |`);
+  say(`| overhead | ${overhead.toFixed(1)} |`);
+  say(`| same with PLAN_SINK=job-result (no SQLite archive writes) | ${med(viaQueueNoArchive).toFixed(1)} |`);
+  say(`| overhead without archive writes | ${(med(viaQueueNoArchive) - med(inProcess)).toFixed(1)} |`);
+  say('');
+  say(`Overhead ${overhead.toFixed(1)} ms (target < 20 ms): ${overhead < 20 ? 'met' : 'NOT met'}.`);
+
+  // 3. Throughput with 1, 2, 4 worker processes draining 40 jobs (200 Monte Carlo samples each).
+  say('');
+  say('## Throughput, 40 jobs of 200 Monte Carlo samples each');
+  say('');
+  say('| workers | seconds | jobs/s | speed-up vs 1 |');
+  say('|---|---|---|---|');
+  const work = jobRequestSchema.parse({ problem: reachableProblem({ samples: 200, name: 'THRUSAT' }), reason: 'benchmark throughput' });
+  let base = 0;
+  for (const n of [1, 2, 4]) {
+    const ws = await startWorkers(n, redisUrl, prefix, dir);
+    let done = 0;
+    const all = new Set<string>();
+    const finished = new Promise<void>((res) => {
+      const off = events.subscribe('*', (e) => {
+        if ((e.type === 'completed' || e.type === 'failed') && all.has(e.jobId) && ++done === 40) { off(); res(); }
+      });
+    });
+    const t0 = performance.now();
+    for (let i = 0; i < 40; i++) all.add((await queue.submit(work, 'bench')).jobId);
+    await finished;
+    const s = (performance.now() - t0) / 1000;
+    if (n === 1) base = s;
+    say(`| ${n} | ${s.toFixed(2)} | ${(40 / s).toFixed(2)} | ${(base / s).toFixed(2)} |`);
+    await stopWorkers(ws);
+  }
+
+  const cpu = os.cpus()[0]?.model ?? 'unknown CPU';
+  const header = [
+    '# Service benchmark (npm run bench:service)',
+    '',
+    `Machine: ${cpu}, ${os.cpus().length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB RAM, ${os.platform()} ${os.release()}, `
+      + `Node ${process.version}, Redis ${process.env.REDIS_URL ? 'from REDIS_URL' : 'private redis-server (append-only file on)'}, `
+      + 'archive SQLite in a temp folder. Run at ' + new Date().toISOString() + '. Shared machine: other work may have been running.',
+    '',
+  ];
+  mkdirSync(join(ROOT, 'bench/results'), { recursive: true });
+  writeFileSync(join(ROOT, 'bench/results/service.md'), `${[...header, ...lines].join('\n')}\n`);
+  await events.close();
+  await queue.close();
+  await api.close();
+  await tokens.close();
+  await local?.stop();
+  rmSync(dir, { recursive: true, force: true });
+}
+
+async function startWorkers(n: number, redisUrl: string, prefix: string, dataDir: string, extraEnv: Record<string, string> = {}): Promise<ChildProcess[]> {
+  const out: ChildProcess[] = [];
+  await Promise.all(Array.from({ length: n }, () => new Promise<void>((res, rej) => {
+    const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'queue/worker-main.ts')], {
+      cwd: ROOT, stdio: ['ignore', 'pipe', 'inherit'],
+      env: { ...process.env, REDIS_URL: redisUrl, QUEUE_PREFIX: prefix, DATA_DIR: dataDir, WORKER_CONCURRENCY: '1', LOG_LEVEL: 'info', ...extraEnv },
+    });
+    out.push(child);
+    child.stdout?.on('data', (d: Buffer) => { if (d.toString().includes('"worker ready"')) res(); });
+    child.once('exit', (code) => rej(new Error(`worker exited ${code}`)));
+  })));
+  return out;
+}
+
+async function stopWorkers(children: ChildProcess[]): Promise<void> {
+  await Promise.all(children.map((c) => new Promise<void>((res) => { c.removeAllListeners('exit'); c.once('exit', () => res()); c.kill('SIGTERM'); })));
+}
+
+main().catch(async (e: unknown) => {
+  process.stderr.write(`bench:service failed: ${e instanceof Error ? e.stack : String(e)}\n`);
+  await local?.stop();
+  process.exit(1);
+});
