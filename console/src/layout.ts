@@ -1,9 +1,9 @@
 /** The frame around every screen: top bar, navigation, the standing review notice, and the main region. */
-import { h } from './dom.ts';
+import { h, svg } from './dom.ts';
 import { hasRole, type Session } from './session.ts';
 
 /** Shown on every screen (the API's REVIEW_NOTICE says the same). */
-export const PROPOSAL_NOTICE = 'Plans shown here are PROPOSALS only. Each must be reviewed and approved by qualified flight-dynamics '
+export const PROPOSAL_NOTICE = 'Plans shown here are PROPOSALS only. Every plan must be reviewed and approved by qualified flight-dynamics '
   + 'staff and verified independently, following the mission\'s own procedures, before anything is commanded.';
 
 interface NavItem { hash: string; label: string; roles: string[] }
@@ -26,7 +26,7 @@ export function renderFrame(session: Session | null, currentHash: string, onSign
   return h('div', { class: 'frame' },
     h('a', { class: 'skip', href: '#main' }, 'Skip to content'),
     h('header', { class: 'topbar' },
-      h('div', { class: 'brand' }, h('span', { class: 'brand-mark', 'aria-hidden': 'true' }, '⟁'), h('span', {}, 'veer'), h('span', { class: 'brand-sub' }, 'manoeuvre proposals')),
+      h('div', { class: 'brand' }, svg('svg', { class: 'brand-mark', viewBox: '0 0 24 24', 'aria-hidden': 'true' }, svg('path', { d: 'M3 20 C 9 15, 11 8, 21 4' }), svg('circle', { cx: 12, cy: 13, r: 3 })), h('span', {}, 'veer'), h('span', { class: 'brand-sub' }, 'manoeuvre proposals')),
       nav, who),
     h('p', { class: 'notice', role: 'note', 'data-testid': 'proposal-notice' }, h('strong', {}, 'Proposal only. '), PROPOSAL_NOTICE.replace(/^Plans shown here are PROPOSALS only\. /, '')),
     h('main', { id: 'main', tabindex: '-1' }, content),

@@ -47,7 +47,10 @@ function drawMark(view: View, m: Mark, u: number, v: number): SVGGElement {
   else if (m.kind === 'approach') g.append(svg('path', { d: `M${x} ${y - 8} L${x + 8} ${y} L${x} ${y + 8} L${x - 8} ${y} Z` }));
   else if (m.kind === 'start') g.append(svg('rect', { x: x - 5, y: y - 5, width: 10, height: 10 }));
   else g.append(svg('circle', { cx: x, cy: y, r: 5 }));
-  g.append(svg('text', { x: x + 11, y: y - 8, class: 'mk-label' }, m.label));
+  // Labels sit on different sides per kind so markers close together (approach and end) stay readable.
+  const place = { start: [-10, 18, 'end'], burn: [11, -9, 'start'], approach: [-12, -10, 'end'], end: [10, 18, 'start'] } as const;
+  const [dx, dy, anchor] = place[m.kind];
+  g.append(svg('text', { x: x + dx, y: y + dy, 'text-anchor': anchor, class: 'mk-label' }, m.label));
   return g;
 }
 

@@ -70,6 +70,7 @@ export const jobsScreen: ScreenFactory = (ctx) => {
     const outcome = h('div', { class: 'outcome', 'aria-live': 'polite' });
     const cancel = h('button', { type: 'button', class: 'danger', hidden: true }, 'Cancel this job');
     let status: JobStatus | null = null;
+    let shown = 0;
 
     const apply = (s: JobStatus): void => {
       status = s;
@@ -85,7 +86,8 @@ export const jobsScreen: ScreenFactory = (ctx) => {
       cancel.hidden = final || !mayCancel;
       cancel.disabled = s.cancelRequested;
       if (s.cancelRequested && !final) cancel.textContent = 'Cancellation requested…';
-      if (s.progress) applyProgress(s.progress);
+      // A status snapshot may carry older progress than the last progress event: never step the bar back for it.
+      if (s.progress && s.progress.fraction >= shown) applyProgress(s.progress);
       if (s.state === 'completed') {
         bar.set(1);
         stage.textContent = 'Done: the proposed plan is ready for review.';
@@ -108,6 +110,7 @@ export const jobsScreen: ScreenFactory = (ctx) => {
     };
     const applyProgress = (p: JobProgress): void => {
       if (status && FINAL_JOB_STATES.has(status.state)) return;
+      shown = p.fraction;
       bar.set(p.fraction);
       const extra = p.samplesTotal ? ` — samples ${p.samplesDone ?? 0} of ${p.samplesTotal}` : p.iteration !== undefined ? ` — iteration ${p.iteration}` : '';
       stage.textContent = `${p.stage}: ${p.message}${extra}`;

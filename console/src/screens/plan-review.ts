@@ -68,7 +68,7 @@ function targetTable(plan: ManeuverPlan): HTMLElement {
       h('td', { class: 'num' }, targetValue(t, 'achieved')),
       h('td', { class: 'num' }, t.residual === null ? '—' : `${sig(t.residual, 3)} ${t.unit}`),
       h('td', { class: 'num' }, `${sig(t.tolerance, 3)} ${t.unit}`),
-      h('td', {}, t.met ? h('span', { class: 'ok' }, '✓ met') : h('span', { class: 'bad' }, '✗ not met'))))));
+      h('td', { class: 'nowrap' }, t.met ? h('span', { class: 'ok' }, '✓ met') : h('span', { class: 'bad' }, '✗ not met'))))));
 }
 
 function crossCheckSection(plan: ManeuverPlan): HTMLElement {
@@ -126,7 +126,7 @@ export const planReviewScreen: ScreenFactory = (ctx) => {
               h('dt', {}, 'Proposed'), h('dd', {}, isoShort(summary.proposedAt)),
               h('dt', {}, 'Corrector'), h('dd', {}, converged ? `converged in ${plan.iterations.length} iterations` : h('span', { class: 'bad' }, `not converged — ${plan.convergence.message}`)),
               h('dt', {}, 'Force model'), h('dd', {}, plan.forceModel.summary),
-              h('dt', {}, 'Software'), h('dd', {}, `veer ${plan.softwareVersion}`),
+              h('dt', {}, 'Software'), h('dd', {}, plan.softwareVersion),
               h('dt', {}, 'Problem hash'), h('dd', { class: 'mono small' }, plan.problemHash.slice(0, 16), '…')),
             h('p', {}, h('a', { href: `#/plans/${encodeURIComponent(planId)}/history` }, 'History and export of this plan'))),
           converged ? null : h('p', { class: 'card bad-card', role: 'alert' }, 'This plan did not converge. It is shown for diagnosis only and can never be approved.'),

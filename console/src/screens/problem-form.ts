@@ -70,7 +70,15 @@ export function createProblemForm(): ProblemForm {
     const eeToggle = h('input', { type: 'checkbox', id: 'pf-ee-on', ...(ee ? { checked: true } : {}) });
     const caToggle = h('input', { type: 'checkbox', id: 'pf-ca-on', ...(ca || targets.length === 0 ? { checked: true } : {}) });
 
+    const kept = [
+      p.title !== undefined ? 'title' : '', sc.solarPressure ? 'spacecraft.solarPressure' : '', st.covarianceKmKmS ? 'initialState.covarianceKmKmS' : '',
+      fm.solarPressure ? 'forceModel.solarPressure' : '', fm.centralJ2 ? 'forceModel.centralJ2' : '', fm.relativeTolerance !== undefined ? 'forceModel.relativeTolerance' : '',
+      fm.switching ? 'forceModel.switching' : '', p.limits ? 'limits' : '', p.corrector ? 'corrector' : '',
+      burns.some((b) => b.freeComponents || b.boundsKmS || b.epochWindow) ? 'burn free components, bounds and epoch windows' : '',
+      targets.length > (ca ? 2 : 1) ? 'NOTE: only the B-plane and closest-approach targets are kept' : '',
+    ].filter(Boolean);
     replaceChildren(node,
+      kept.length ? h('p', { class: 'kept', 'data-testid': 'kept-from-file' }, 'Also taken unchanged from the file (not shown in the form): ', kept.join(', '), '.') : null,
       h('div', { class: 'form-grid' },
         fields.group('spacecraft', 'Spacecraft',
           h('div', { class: 'row' },

@@ -20,8 +20,16 @@ export function reviewPanel({ session, summary, caveats, onDecided }: ReviewPane
   const isSubmitter = summary.submittedBy === session.name;
   const proposed = summary.state === 'proposed';
   const approvable = summary.converged && summary.crossCheckPassed;
+  if (!proposed) {
+    // Decided (or superseded): the caveats stay readable; there is nothing left to tick or click.
+    return h('section', { class: 'card review-panel', 'aria-labelledby': 'review-heading' },
+      h('h2', { id: 'review-heading' }, 'Caveats of this plan'),
+      h('ul', { class: 'caveats-read' }, caveats.map((c) => h('li', { class: `caveat-read sev-${c.severity}` },
+        h('span', { class: `badge sev-${c.severity}` }, c.severity), ' ', h('code', {}, c.code), h('span', { class: 'caveat-text' }, c.text)))),
+      h('p', { class: 'why' }, `This plan is ${summary.state}; decisions are final.`));
+  }
 
-  const boxes = caveats.map((c) => h('input', { type: 'checkbox', id: `caveat-${c.code}`, value: c.code, 'data-testid': 'caveat-check', ...(proposed ? {} : { disabled: true }) }));
+  const boxes = caveats.map((c) => h('input', { type: 'checkbox', id: `caveat-${c.code}`, value: c.code, 'data-testid': 'caveat-check', }));
   const checklist = h('fieldset', { class: 'caveats' },
     h('legend', {}, `Caveats — tick each one you have read and accept (${caveats.length})`),
     h('ul', {}, caveats.map((c, i) => h('li', { class: `caveat sev-${c.severity}` },

@@ -106,12 +106,12 @@ export const submitScreen: ScreenFactory = (ctx) => {
     h('fieldset', { class: 'mode' }, h('legend', {}, 'State the problem as'),
       h('label', { for: 'mode-file', class: 'check' }, modeFile, ' a problem file'),
       h('label', { for: 'mode-form', class: 'check' }, modeForm, ' the form (one or two burns, flyby targets)')),
+    summary,
     filePanel, formPanel,
     h('div', { class: 'row' },
       h('div', { class: 'field wide' }, h('label', { for: 'reason' }, 'Reason for this job'), reason,
         h('p', { id: 'reason-help', class: 'help' }, 'Kept with the plan for the reviewers, e.g. "retarget after the latest orbit determination".'), reasonError),
       h('div', { class: 'field' }, h('label', { for: 'priority' }, 'Priority'), priority)),
-    summary,
     h('div', { class: 'actions' }, submit));
 
   el.addEventListener('submit', (event) => {
