@@ -20,7 +20,7 @@ export interface TestPostgres {
   /** URL of the server's maintenance database (`postgres`). */
   url: string;
   kind: 'env' | 'container' | 'process';
-  /** Creates an empty database and resolves to its URL (isolates tests from one another). */
+  /** Creates an empty schema (in a test database of this server) and resolves to a URL that uses it. */
   freshDatabase(): Promise<string>;
   stop(): Promise<void>;
 }
@@ -45,9 +45,15 @@ function withDatabase(url: string, database: string): string {
 }
 
 let counter = 0;
+/**
+ * Each call gives a new, empty schema in one shared test database, named in the URL's `options`
+ * (`-c search_path=<schema>`), so every unqualified table, function and trigger lands there. A schema costs a few
+ * milliseconds where CREATE DATABASE costs ~0.4 s.
+ */
 function makeFresh(url: string): () => Promise<string> {
-  return async () => {
-    const name = `veer_t${process.pid}_${Date.now().toString(36)}_${(counter += 1)}`;
+  let shared: Promise<string> | undefined;
+  const sharedDatabase = async (): Promise<string> => {
+    const name = `veer_tests_${process.pid}`;
     const client = new pg.Client({ connectionString: url });
     await client.connect();
     try {
@@ -56,6 +62,21 @@ function makeFresh(url: string): () => Promise<string> {
       await client.end();
     }
     return withDatabase(url, name);
+  };
+  return async () => {
+    shared ??= sharedDatabase();
+    const base = await shared;
+    const schema = `t${Date.now().toString(36)}_${(counter += 1)}`;
+    const client = new pg.Client({ connectionString: base });
+    await client.connect();
+    try {
+      await client.query(`CREATE SCHEMA ${schema}`);
+    } finally {
+      await client.end();
+    }
+    const u = new URL(base);
+    u.searchParams.set('options', `-c search_path=${schema}`);
+    return u.toString();
   };
 }
 
