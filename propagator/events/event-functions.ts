@@ -55,6 +55,9 @@ function distanceMinus(ephemeris: Ephemeris, body: BodyName, centre: BodyName, r
 export interface EventSetup {
   ephemeris: Ephemeris;
   centre: BodyName;
+  /** +1 forward, −1 backward: a distance minimum shows as − → + of (r·v) in time order, so as + → − when
+   * integrating backward; sphere-of-influence crossings keep the integration order (entering is entering). */
+  integrationDirection: 1 | -1;
   /** Bodies whose surface ends the run (centre and perturbing bodies). */
   impactBodies: readonly BodyName[];
   /** soi-entry candidates and their radii (km). */
@@ -66,16 +69,18 @@ export interface EventSetup {
 /** Event functions for one segment of a run (one integration centre). */
 export function buildEvents(specs: readonly EventSpec[], setup: EventSetup): ActiveEvent[] {
   const { ephemeris, centre } = setup;
+  const dir = setup.integrationDirection;
   const events: ActiveEvent[] = [];
   for (const spec of specs) {
     const stop = spec.stop === true;
     switch (spec.kind) {
       case 'periapsis':
       case 'closest-approach':
-        events.push({ kind: spec.kind, body: spec.body, terminal: stop, direction: 1, g: radialRate(ephemeris, spec.body, centre) });
+        events.push({ kind: spec.kind, body: spec.body, terminal: stop, direction: dir, g: radialRate(ephemeris, spec.body, centre) });
         break;
       case 'apoapsis':
-        events.push({ kind: 'apoapsis', body: spec.body, terminal: stop, direction: -1, g: radialRate(ephemeris, spec.body, centre) });
+        events.push({ kind: 'apoapsis', body: spec.body, terminal: stop, direction: dir === 1 ? -1 : 1,
+          g: radialRate(ephemeris, spec.body, centre) });
         break;
       case 'altitude':
         events.push({ kind: 'altitude', body: spec.body, terminal: stop, direction: 0,

@@ -6,7 +6,7 @@
  */
 import type { Ephemeris } from '../ephemeris/ephemeris.ts';
 import type { EventRecord, PropagationOutcome } from '../propagation-types.ts';
-import type { BodyName } from '../types.ts';
+import type { BodyName, StateVector } from '../types.ts';
 import { brentRoot } from './brent-root.ts';
 import { type ActiveEvent, crossed } from './event-functions.ts';
 
@@ -34,9 +34,19 @@ export interface EventStop {
   event?: EventRecord;
 }
 
+/** Output samples on a grid that outlives the segment: origin + direction·k·stepS, before endTdbS. */
+export interface SampleGrid {
+  originTdbS: number;
+  endTdbS: number;
+  stepS: number;
+}
+
 export class EventWatcher {
   /** Set when the run stopped for a sphere-of-influence crossing: the centre to switch to. */
   switchTo: { body: BodyName; epochTdbS: number } | null = null;
+  /** States on the sample grid inside this segment (relative to the segment's centre). */
+  readonly samples: StateVector[] = [];
+  private nextSample = -1;
   private readonly previous: number[] = [];
   private started = false;
   private readonly buf: Float64Array;
@@ -44,7 +54,8 @@ export class EventWatcher {
   private readonly bodyBuf = new Float64Array(6);
 
   constructor(private readonly events: ActiveEvent[], private readonly dynamics: CartesianSource,
-    private readonly ephemeris: Ephemeris, private readonly direction: 1 | -1) {
+    private readonly ephemeris: Ephemeris, private readonly direction: 1 | -1,
+    private readonly grid?: SampleGrid) {
     this.buf = new Float64Array(dynamics.initialY.length);
   }
 
@@ -74,6 +85,14 @@ export class EventWatcher {
       hits.push({ epoch: root.x, index: i });
     });
     hits.sort((a, b) => (a.epoch - b.epoch) * this.direction);
+    const stop = this.firstStop(stepper, hits, out);
+    this.sample(stepper, t0, stop?.epochTdbS ?? t1);
+    if (stop === null) after.forEach((v, i) => { this.previous[i] = v; });
+    return stop;
+  }
+
+  /** Records the located events in order up to the first that ends the segment, and returns that one. */
+  private firstStop(stepper: DenseStepper, hits: { epoch: number; index: number }[], out: EventRecord[]): EventStop | null {
     for (const hit of hits) {
       const e = this.events[hit.index];
       const record = this.record(stepper, e, hit.epoch);
@@ -89,8 +108,24 @@ export class EventWatcher {
           message: `stopped by ${e.kind}${e.body ? ` (${e.body})` : ''} at ${hit.epoch} TDB s` };
       }
     }
-    after.forEach((v, i) => { this.previous[i] = v; });
     return null;
+  }
+
+  /** Emits grid samples in (t0, limit] of this step. */
+  private sample(stepper: DenseStepper, t0: number, limit: number): void {
+    const g = this.grid;
+    if (g === undefined) return;
+    const dir = this.direction;
+    if (this.nextSample < 0) this.nextSample = Math.floor(((t0 - g.originTdbS) * dir) / g.stepS) + 1;
+    for (;;) {
+      const epoch = g.originTdbS + dir * this.nextSample * g.stepS;
+      if ((epoch - limit) * dir > 0 || (g.endTdbS - epoch) * dir <= 1e-6) return;
+      if ((epoch - t0) * dir > 0) {
+        const x = Array.from(this.stateAt(stepper, epoch));
+        this.samples.push(this.vector(epoch, this.dynamics.forces.centralBody, x));
+      }
+      this.nextSample += 1;
+    }
   }
 
   private record(stepper: DenseStepper, e: ActiveEvent, epoch: number): EventRecord {

@@ -8,7 +8,7 @@
  */
 import { InvalidInputError } from '../errors.ts';
 import { buildEvents, EventWatcher, type CartesianSource, type DenseStepper, type EventStop } from '../events/index.ts';
-import { changeCentre } from '../frames/index.ts';
+import { changeCentre, stateToFrame } from '../frames/index.ts';
 import type {
   EventRecord, PropagationOptions, PropagationRequest, PropagationResult,
 } from '../propagation-types.ts';
@@ -83,7 +83,8 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
   let rectifications = 0;
   let stm: number[] | undefined;
   const sens: (number[] | undefined)[] = burns.map(() => undefined);
-  let state: StateVector = changeCentre(request.initial, request.forces.centralBody, request.ephemeris);
+  const initial = changeCentre(stateToFrame(request.initial, 'J2000_EQUATORIAL'), request.forces.centralBody, request.ephemeris);
+  let state: StateVector = initial;
   let centre = request.forces.centralBody;
   let last: PropagationResult | null = null;
   const samples: StateVector[] = [];
@@ -101,7 +102,7 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
     const segStart = state.epochTdbS;
     const segBurns = burns.filter((b) => (b.epochTdbS - segStart) * direction > 0 && (b.epochTdbS - end) * direction <= 0);
     const segRequest: PropagationRequest = {
-      ...request, initial: state, events: [], switching: undefined, burns: segBurns,
+      ...request, initial: state, events: [], switching: undefined, burns: segBurns, outputStepS: undefined,
       forces: { ...request.forces, centralBody: centre, perturbingBodies: bodies.filter((b) => b !== centre),
         centralJ2: centre === j2Body },
       maxSteps: Math.max(1, maxSteps - counts.steps),
@@ -112,9 +113,12 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
         if (dynamics === undefined) throw new InvalidInputError('events', 'the propagation loop gave no dynamics to the event watcher');
         if (watcher === null) {
           const active = buildEvents(request.events ?? [], {
-            ephemeris: request.ephemeris, centre, impactBodies: [], soiEntries: cand.entries, soiExit: cand.exit,
+            ephemeris: request.ephemeris, centre, integrationDirection: direction, impactBodies: [],
+            soiEntries: cand.entries, soiExit: cand.exit,
           });
-          watcher = new EventWatcher(active, dynamics, request.ephemeris, direction);
+          const grid = request.outputStepS === undefined ? undefined
+            : { originTdbS: start, endTdbS: end, stepS: request.outputStepS };
+          watcher = new EventWatcher(active, dynamics, request.ephemeris, direction, grid);
         }
         return watcher.afterStep(stepper, out);
       },
@@ -133,7 +137,7 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
     for (const k of Object.keys(counts) as (keyof typeof counts)[]) counts[k] += result.stats[k];
     rectifications += result.stats.rectifications;
     const tEnd = result.final.epochTdbS;
-    samples.push(...result.samples.filter((s) => samples.length === 0 || (s.epochTdbS - samples[samples.length - 1].epochTdbS) * direction > 0));
+    if (watcher !== null) samples.push(...(watcher as EventWatcher).samples.filter((s) => (s.epochTdbS - tEnd) * direction <= 0));
     if (result.stm !== undefined) {
       // Earlier burns' sensitivities pass through this segment's Φ; this segment's burns start here.
       sens.forEach((s, k) => { if (s !== undefined) sens[k] = mul63(result.stm!, s); });
@@ -152,9 +156,13 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
   if (last === null) throw new InvalidInputError('switching', 'no segment was run');
   const finishedBySwitch = last.outcome === 'stopped-by-event' && switches.length > 0
     && switches[switches.length - 1].epochTdbS === last.final.epochTdbS;
+  const final = finishedBySwitch ? state : last.final;
+  // Samples: the start, the grid (from each segment's watcher, centre of that segment), the end.
+  const allSamples = request.outputStepS === undefined ? []
+    : [initial, ...samples, final];
   const result: PropagationResult = {
     outcome: finishedBySwitch ? 'finished' : last.outcome, message: finishedBySwitch ? undefined : last.message,
-    final: finishedBySwitch ? state : last.final, samples, events, warnings,
+    final, samples: allSamples, events, warnings,
     stats: { ...counts, rectifications, switches },
   };
   if (stm !== undefined) {

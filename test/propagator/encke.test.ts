@@ -44,6 +44,16 @@ describe("Encke's method", () => {
     });
   });
 
+  describe('when propagating backward in time', () => {
+    it('should agree with backward Cowell', () => {
+      const forces = { centralBody: 'earth' as const, perturbingBodies: ['moon' as const, 'sun' as const], centralJ2: true };
+      const c = propagate(request({ forces, endEpochTdbS: T0 - 43200, relativeTolerance: 1e-13, absoluteTolerance: 1e-12 }));
+      const e = propagate(request({ forces, endEpochTdbS: T0 - 43200, method: 'encke' }));
+      expect(e.outcome).toBe('finished');
+      expect(dist(e.final.positionKm, c.final.positionKm)).toBeLessThan(1e-3);
+    });
+  });
+
   describe('when a burn happens during the run', () => {
     it('should agree with Cowell through the burn', () => {
       const burns = [{ epochTdbS: T0 + 3000, deltaVKmS: [0.05, -0.02, 0.01] as [number, number, number] }];

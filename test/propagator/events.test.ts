@@ -73,6 +73,22 @@ describe('events on the dense output', () => {
     });
   });
 
+  describe('when propagating backward in time', () => {
+    it('should find the same periapsis and apoapsis epochs', () => {
+      const end = T0 + 2 * PERIOD;
+      const fwd = propagate(request({}));
+      const back = propagate(request({ initial: fwd.final, endEpochTdbS: T0,
+        events: [{ kind: 'periapsis', body: 'earth' }, { kind: 'apoapsis', body: 'earth' }] }));
+      const peri = back.events.filter((e) => e.kind === 'periapsis').map((e) => e.epochTdbS).sort((a, b) => a - b);
+      const apo = back.events.filter((e) => e.kind === 'apoapsis').map((e) => e.epochTdbS).sort((a, b) => a - b);
+      expect(peri.length).toBe(2);
+      expect(apo.length).toBe(2);
+      peri.forEach((t, k) => expect(Math.abs(t - (T0 + TO_PERIAPSIS + k * PERIOD))).toBeLessThan(1e-6));
+      apo.forEach((t, k) => expect(Math.abs(t - (T0 + TO_APOAPSIS + k * PERIOD))).toBeLessThan(1e-6));
+      expect(fwd.final.epochTdbS).toBe(end);
+    });
+  });
+
   describe('when an event asks to stop', () => {
     it('should end the run there with outcome stopped-by-event', () => {
       const r = propagate(request({ events: [{ kind: 'apoapsis', body: 'earth', stop: true }] }));

@@ -61,3 +61,41 @@ describe('central-body switching', () => {
     });
   });
 });
+
+describe('central-body switching with output samples', () => {
+  describe('when outputStepS is set', () => {
+    it('should keep one grid from the start across the switches, each sample relative to its centre', () => {
+      const step = 6 * 3600;
+      const r = propagate(base({ outputStepS: step }));
+      const epochs = r.samples.map((s) => s.epochTdbS);
+      expect(epochs[0]).toBe(helio.epochTdbS);
+      expect(epochs[epochs.length - 1]).toBe(END);
+      for (const t of epochs.slice(1, -1)) expect(((t - helio.epochTdbS) / step) % 1).toBeCloseTo(0, 9);
+      expect(epochs.length).toBe(Math.ceil((END - helio.epochTdbS) / step) + 1);
+      const centres = new Set(r.samples.map((s) => s.centre));
+      expect([...centres].sort()).toEqual(['mars', 'sun']);
+      // A sample on the grid equals the final state of a run ending there.
+      const k = 10;
+      const at = helio.epochTdbS + k * step;
+      const direct = propagate(base({ endEpochTdbS: at }));
+      const d = r.samples[k].centre === direct.final.centre ? r.samples[k]
+        : changeCentre(r.samples[k], direct.final.centre, flybyEphemeris);
+      expect(Math.hypot(...d.positionKm.map((x, i) => x - direct.final.positionKm[i]))).toBeLessThan(1e-5);
+    });
+  });
+});
+
+describe('events and switching backward in time', () => {
+  describe('when the flyby is propagated from after to before periapsis', () => {
+    it('should find the same closest approach and switch in reverse order', () => {
+      const fwd = propagate(base({ events: [{ kind: 'closest-approach', body: 'mars' }] }));
+      const back = propagate(base({ initial: fwd.final, endEpochTdbS: helio.epochTdbS,
+        events: [{ kind: 'closest-approach', body: 'mars' }] }));
+      const ca = (r: typeof fwd) => r.events.find((e) => e.kind === 'closest-approach')!;
+      expect(Math.abs(ca(back).epochTdbS - ca(fwd).epochTdbS)).toBeLessThan(1e-3);
+      expect(Math.abs(ca(back).distanceKm! - ca(fwd).distanceKm!)).toBeLessThan(1e-3);
+      expect(back.stats.switches.map((s) => `${s.from}->${s.to}`)).toEqual(['sun->mars', 'mars->sun']);
+      expect(Math.hypot(...back.final.positionKm.map((x, i) => x - helio.positionKm[i]))).toBeLessThan(1e-2);
+    });
+  });
+});
