@@ -3,12 +3,29 @@
  * `npm run console:build`. The planner's problem schema is bundled from its module file so the browser
  * validates with the same zod definition as the API.
  */
+import { builtinModules } from 'node:module';
 import { fileURLToPath } from 'node:url';
-import { defineConfig } from 'vite';
+import { defineConfig, type Plugin } from 'vite';
 
 const here = fileURLToPath(new URL('.', import.meta.url));
 
+/** Fails the build when browser code reaches a Node built-in (Vite would otherwise only warn and stub it). */
+function noNodeBuiltins(): Plugin {
+  const builtins = new Set(builtinModules);
+  return {
+    name: 'veer-no-node-builtins',
+    enforce: 'pre',
+    resolveId(id, importer) {
+      if (id.startsWith('node:') || builtins.has(id)) {
+        this.error(`browser bundle imports the Node module "${id}" (from ${importer ?? '?'}); import a module file that does not need it`);
+      }
+      return null;
+    },
+  };
+}
+
 export default defineConfig({
+  plugins: [noNodeBuiltins()],
   root: here,
   base: '/console/',
   publicDir: false,
