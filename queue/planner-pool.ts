@@ -46,6 +46,18 @@ export class PlannerPool {
     }
   }
 
+  /**
+   * Starts every thread and waits until each has loaded the planner, so the first jobs do not pay for
+   * thread start-up and a planner that cannot load fails the worker at start rather than its jobs.
+   */
+  async warm(): Promise<void> {
+    while (this.slots.length < this.options.size) {
+      const slot = this.spawn();
+      slot.busy = false;
+    }
+    await Promise.all(this.slots.map((s) => s.ready));
+  }
+
   /** Terminates every thread. */
   async close(): Promise<void> {
     this.closed = true;

@@ -51,6 +51,7 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
   const connection = createRedis(opts.redisUrl, { name });
   const subscriber = createRedis(opts.redisUrl);
   const pool = new PlannerPool({ size: concurrency });
+  await pool.warm();
   const queue = new Queue(RETARGET_QUEUE, { connection, prefix: opts.prefix });
   const running = new Map<string, { parentId: string | null; cancel: (by: string) => void }>();
 
