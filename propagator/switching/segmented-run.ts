@@ -157,12 +157,16 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
   const finishedBySwitch = last.outcome === 'stopped-by-event' && switches.length > 0
     && switches[switches.length - 1].epochTdbS === last.final.epochTdbS;
   const final = finishedBySwitch ? state : last.final;
+  // Time order (the watchers of one step report separately), nothing past the end reached (an impact can
+  // end a step in which a later event was located).
+  const ordered = events.filter((e) => (e.epochTdbS - final.epochTdbS) * direction <= 0)
+    .sort((x, y) => (x.epochTdbS - y.epochTdbS) * direction);
   // Samples: the start, the grid (from each segment's watcher, centre of that segment), the end.
   const allSamples = request.outputStepS === undefined ? []
     : [initial, ...samples, final];
   const result: PropagationResult = {
     outcome: finishedBySwitch ? 'finished' : last.outcome, message: finishedBySwitch ? undefined : last.message,
-    final, samples: allSamples, events, warnings,
+    final, samples: allSamples, events: ordered, warnings,
     stats: { ...counts, rectifications, switches },
   };
   if (stm !== undefined) {

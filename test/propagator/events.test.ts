@@ -98,6 +98,24 @@ describe('events on the dense output', () => {
     });
   });
 
+  describe('when the trajectory reaches the surface during a run with events', () => {
+    it('should end with outcome impact and record it after the earlier events', () => {
+      // Periapsis 1000 km below the surface: an altitude crossing at 500 km, then the impact.
+      const rp = 6378.1366 - 1000;
+      const a = 9000;
+      const e = 1 - rp / a;
+      const s = conicToState({ semiLatusRectumKm: a * (1 - e * e), semiMajorAxisKm: a, eccentricity: e,
+        inclinationRad: 0.4, raanRad: 0, argPeriapsisRad: 0, trueAnomalyRad: -2.0 }, MU);
+      const r = propagate(request({
+        initial: { epochTdbS: T0, centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: s.positionKm, velocityKmS: s.velocityKmS },
+        events: [{ kind: 'altitude', body: 'earth', altitudeKm: 500 }],
+      }));
+      expect(r.outcome).toBe('impact');
+      expect(r.events.map((ev) => ev.kind)).toEqual(['altitude', 'impact']);
+      expect(Math.abs(r.events[1].distanceKm! - RADIUS_KM.earth)).toBeLessThan(1e-3);
+    });
+  });
+
   describe('when an event is a given epoch', () => {
     it('should record the state at that epoch (against the Kepler solver)', () => {
       const at = T0 + 1234.5;
