@@ -70,7 +70,7 @@ describe('dispersion linearity caveat on a real plan', () => {
       const agreement = plan.dispersion.monteCarlo?.linearAgreement;
       expect(agreement?.passed).toBe(false);
       expect(agreement?.covariancePValue).toBeLessThan(1e-6);
-      // The slow tail stretches B·T: sample σ of |B| direction clearly above the linear σ.
+      // The slow tail stretches B along T: the sample major axis is well beyond the linear one.
       const linear = plan.dispersion.linear?.total.bPlane;
       const sample = plan.dispersion.monteCarlo?.bPlane;
       expect(sample && linear ? sample.semiMajorKm / linear.semiMajorKm : 0).toBeGreaterThan(1.3);
