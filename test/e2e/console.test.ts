@@ -16,6 +16,7 @@ import { parseProblem, problemHash } from '../../planner/index.ts';
 import { startService, type TestService } from '../harness/service.ts';
 import { launchChromium, type TestBrowser } from './browser.ts';
 import { buildConsole } from './build-console.ts';
+import { contrastRatio, contrastSamples, horizontalOverflow } from './page-checks.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 const DEMO = resolve(ROOT, 'examples/flyby-demo.json');
@@ -28,7 +29,9 @@ let reviewerPage: Page;
 let samToken: string;
 let planId = '';
 
+/** Saves a screenshot, after checking the screen does not scroll sideways at this viewport. */
 async function shot(page: Page, name: string): Promise<void> {
+  expect(await horizontalOverflow(page), `${name} scrolls sideways`).toBe(0);
   await page.screenshot({ path: resolve(SHOTS, `${name}.png`), fullPage: false });
 }
 
@@ -180,7 +183,13 @@ describe('ops console', () => {
   describe('when a second reviewer reviews the plan', () => {
     it('should enable Approve only after the last caveat is ticked, and record the approval', async () => {
       const page = reviewerPage;
-      await signIn(page, svc.tokens.reviewer);
+      // Keyboard only: Tab to the token field, type, Enter.
+      await page.goto(`${svc.url}/console/`);
+      for (let i = 0; i < 6 && await page.evaluate(() => document.activeElement?.id) !== 'token'; i += 1) await page.keyboard.press('Tab');
+      expect(await page.evaluate(() => document.activeElement?.id)).toBe('token');
+      await page.keyboard.type(svc.tokens.reviewer);
+      await page.keyboard.press('Enter');
+      await page.waitForURL(/#\/jobs$/);
       await page.goto(`${svc.url}/console/#/plans/${planId}`);
       await page.getByTestId('approve').waitFor();
       expect(await page.getByTestId('two-person').count()).toBe(0);
@@ -189,7 +198,9 @@ describe('ops console', () => {
       expect(n).toBeGreaterThan(0);
       for (let i = 0; i < n; i += 1) {
         expect(await page.getByTestId('approve').isDisabled()).toBe(true);
-        await boxes.nth(i).check();
+        await boxes.nth(i).focus();
+        await page.keyboard.press('Space');
+        expect(await boxes.nth(i).isChecked()).toBe(true);
       }
       expect(await page.getByTestId('approve').isEnabled()).toBe(true);
       // Unticking one disables it again.
@@ -197,6 +208,13 @@ describe('ops console', () => {
       expect(await page.getByTestId('approve').isDisabled()).toBe(true);
       await boxes.nth(n - 1).check();
       await page.getByLabel('Comment').fill('Burn and B-plane aim point checked against the mission team’s own solution.');
+      // Text contrast of the main kinds of text on this screen: at least 4.5:1 (WCAG 2.2 SC 1.4.3, level AA).
+      const samples = await contrastSamples(page, [
+        '.notice', '.topbar nav a', '.who-roles', 'h1', '.help', 'table.data caption', 'table.data thead th', '.small', 'dl.meta dt',
+        '.badge.sev-critical', '.badge.sev-warning', '.badge.sev-info', '.badge.plan-proposed', 'button.primary', '.legend li', '.footer', '.ok',
+      ]);
+      for (const s of samples) expect(s.ratio, `${s.selector} “${s.text}” ${JSON.stringify(s)}`).toBeGreaterThanOrEqual(4.5);
+      expect(contrastRatio([0, 0, 0], [255, 255, 255])).toBeCloseTo(21, 6); // the formula's end point (WCAG 2.2)
       await shot(page, '06-plan-review-reviewer-ready');
       await page.getByTestId('approve').click();
       await page.waitForURL(new RegExp(`#/plans/${planId}/history$`));
@@ -221,6 +239,17 @@ describe('ops console', () => {
       expect(download.suggestedFilename()).toBe(`${planId}-bundle.json`);
       expect(JSON.stringify(bundle)).toContain(planId);
       await shot(page, '07-history');
+    });
+
+    it('should let an auditor verify the whole archive chain', async () => {
+      const page = await browser.context.newPage();
+      await signIn(page, svc.tokens.auditor);
+      await page.goto(`${svc.url}/console/#/plans/${planId}/history`);
+      await page.getByRole('button', { name: 'Verify the whole archive chain' }).click();
+      const report = (await svc.request('GET', '/v1/archive/verify', { token: svc.tokens.auditor })).body;
+      expect(report.ok).toBe(true);
+      await expect.poll(() => page.getByText(/Whole chain verified/).textContent()).toContain(`${report.entriesChecked} entries`);
+      await page.close();
     });
   });
 
