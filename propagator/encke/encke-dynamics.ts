@@ -19,10 +19,11 @@
  * Rectification: when |δr|/|ρ| exceeds ENCKE_DEFAULTS.rectificationRatio the reference conic is restarted
  * from the current true state (δ = 0); the run counts each one.
  *
- * Clock: inside the right-hand side the reference conic is advanced by τ, an extra component of the
- * integration vector with τ' = 1 (last entry), not by the epoch label t − t_ref. Near t ~ 1e9 s the stepper's epoch labels carry a
- * rounding of up to 6e-8 s per step that the integrated interval does not; evaluating the conic at the
- * label made δ and Φ inconsistent with ρ (Φ errors of 1e-6 measured at t = 8e8 s against 4e-10 at 1e5 s).
+ * Clock: inside the right-hand side (and at rectification) the reference conic is advanced by τ, an extra
+ * component of the integration vector with τ' = 1 (last entry), not by the epoch label t − t_ref. Near
+ * t ~ 1e9 s the stepper's epoch labels carry a rounding of up to 6e-8 s per step that the integrated
+ * interval does not; evaluating the conic at the label made δ and Φ inconsistent with ρ (Φ errors of 1e-6
+ * measured at t = 8e8 s against 4e-10 at 1e5 s). The Cartesian read-out uses the label.
  *
  * STM: Φ rides along in y[6..41] and obeys Φ' = A Φ with the full-state gradient of the force model at
  * the reconstructed true state (Φ is a property of the true trajectory, unaffected by rectification).
@@ -34,8 +35,8 @@ import { battinF } from '../forces/index.ts';
 import { keplerSolve } from '../kepler/universal-kepler.ts';
 
 export const ENCKE_DEFAULTS = Object.freeze({
-  /** Rectify when |δr|/|ρ| exceeds this (dimensionless). Common practice: 1e-2 (Battin §8.4 suggests
-   * rectifying "when the deviation becomes large"; the value is ours). */
+  /** Rectify when |δr|/|ρ| exceeds this (dimensionless). Battin §8.4 rectifies once the deviation grows
+   * large; the value 1e-2 is ours (common practice). */
   rectificationRatio: 1e-2,
   /** Degenerate reference conic guard: |1 − e| below this is treated as parabolic. */
   parabolicGuard: 1e-6,
