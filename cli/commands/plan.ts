@@ -1,5 +1,7 @@
 /** `veer plan <problem.json> [--json] [--out FILE]`: the whole planning job in-process, no server. */
-import { readFile, writeFile } from 'node:fs/promises';
+import { constants } from 'node:fs';
+import { access, readFile, stat, writeFile } from 'node:fs/promises';
+import { dirname, resolve } from 'node:path';
 import { InvalidInputError } from '../../propagator/index.ts';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
 import type { ManeuverPlan, PlanProgress } from '../../planner/index.ts';
@@ -13,7 +15,7 @@ independent cross-check (the other propagation method at a tighter tolerance), l
 dispersion, caveats. Progress goes to stderr; the readable report to stdout.
 
   --json       print the plan as JSON on stdout instead of the report
-  --out FILE   also write the plan as JSON to FILE
+  --out FILE   also write the plan as JSON to FILE (checked for writability before planning)
 
 Exit codes: 0 converged and cross-check passed; 3 not converged or cross-check failed;
 2 bad usage or invalid problem (the field is named); 1 other failures.
@@ -61,6 +63,24 @@ export async function readProblemFile(path: string): Promise<ReturnType<typeof p
   return parseProblem(json);
 }
 
+/**
+ * Refuses an --out path that cannot be written, before any computation (the job may take minutes): the
+ * folder must exist and be writable, and an existing entry must be a writable file. Leaves no file behind.
+ */
+export async function checkOutputPath(path: string): Promise<void> {
+  const full = resolve(path);
+  const existing = await stat(full).catch(() => null);
+  if (existing?.isDirectory()) throw new InvalidInputError('--out', `'${path}' is a directory, not a file`);
+  try {
+    if (existing) await access(full, constants.W_OK);
+    else await access(dirname(full), constants.W_OK | constants.X_OK);
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code ?? 'error';
+    const why = code === 'ENOENT' ? `folder '${dirname(full)}' does not exist` : `not writable (${code})`;
+    throw new InvalidInputError('--out', `cannot write the plan to '${path}': ${why}`);
+  }
+}
+
 /** Exit code of a finished plan: 0 only when converged and cross-checked. */
 export function planExitCode(plan: ManeuverPlan): number {
   return plan.status === 'converged' && plan.crossCheck.passed ? 0 : 3;
@@ -93,6 +113,7 @@ export const planCommand: CliCommand = {
       return 2;
     }
     const problem = await readProblemFile(files[0]);
+    if (out) await checkOutputPath(out);
     const bar = progressWriter();
     const controller = new AbortController();
     const onSigint = (): void => controller.abort();
@@ -105,8 +126,19 @@ export const planCommand: CliCommand = {
       process.removeListener('SIGINT', onSigint);
     }
     const text = `${JSON.stringify(plan, null, 2)}\n`;
-    if (out) await writeFile(out, text, 'utf8');
+    let writeFailure: string | null = null;
+    if (out) {
+      try {
+        await writeFile(out, text, 'utf8');
+      } catch (error) {
+        writeFailure = (error as Error).message;
+      }
+    }
     process.stdout.write(json ? text : `${formatPlanReport(plan)}\n`);
+    if (writeFailure !== null) {
+      process.stderr.write(`veer plan: --out: could not write the plan to '${out}' after planning: ${writeFailure}\n`);
+      return 1;
+    }
     const code = planExitCode(plan);
     if (code !== 0) {
       process.stderr.write(plan.status !== 'converged'

@@ -79,6 +79,24 @@ describe('veer plan', () => {
       expect(r.code).toBe(2);
       expect(r.stderr).toContain('not valid JSON');
     });
+    it('should exit 2 naming --out before planning when the output folder does not exist', async () => {
+      const missing = join(dir, 'no-such-folder', 'plan.json');
+      const r = await run(['plan', file('out-missing.json', twoBodyProblem({ dispersion: { samples: 0, seed: 1 } })), '--out', missing]);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toContain('--out');
+      expect(r.stderr).toContain('does not exist');
+      expect(r.stderr).not.toContain('ENOENT');
+      // Refused before any computation: no progress line, no report.
+      expect(r.stderr).not.toContain('correcting');
+      expect(r.stdout).toBe('');
+    });
+    it('should exit 2 naming --out when the output path is a directory', async () => {
+      const r = await run(['plan', file('out-dir.json', twoBodyProblem({ dispersion: { samples: 0, seed: 1 } })), '--out', dir]);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toContain('--out');
+      expect(r.stderr).toContain('is a directory');
+      expect(r.stdout).toBe('');
+    });
     it('should exit 2 without a problem file', async () => {
       expect((await run(['plan'])).code).toBe(2);
     });
