@@ -207,6 +207,7 @@ describe('ops console', () => {
       await boxes.nth(n - 1).uncheck();
       expect(await page.getByTestId('approve').isDisabled()).toBe(true);
       await boxes.nth(n - 1).check();
+      expect(await page.getByTestId('reject').isDisabled()).toBe(true); // a rejection needs a comment
       await page.getByLabel('Comment').fill('Burn and B-plane aim point checked against the mission team’s own solution.');
       // Text contrast of the main kinds of text on this screen: at least 4.5:1 (WCAG 2.2 SC 1.4.3, level AA).
       const samples = await contrastSamples(page, [
@@ -215,6 +216,7 @@ describe('ops console', () => {
       ]);
       for (const s of samples) expect(s.ratio, `${s.selector} “${s.text}” ${JSON.stringify(s)}`).toBeGreaterThanOrEqual(4.5);
       expect(contrastRatio([0, 0, 0], [255, 255, 255])).toBeCloseTo(21, 6); // the formula's end point (WCAG 2.2)
+      expect(await page.getByTestId('reject').isEnabled()).toBe(true);
       await shot(page, '06-plan-review-reviewer-ready');
       await page.getByTestId('approve').click();
       await page.waitForURL(new RegExp(`#/plans/${planId}/history$`));
@@ -250,6 +252,30 @@ describe('ops console', () => {
       expect(report.ok).toBe(true);
       await expect.poll(() => page.getByText(/Whole chain verified/).textContent()).toContain(`${report.entriesChecked} entries`);
       await page.close();
+    });
+  });
+
+  describe('when a running job is cancelled from the console', () => {
+    it('should stop it and show it cancelled, and list the plans', async () => {
+      const page = submitterPage;
+      // The demo with many more Monte Carlo samples: long enough to be caught running.
+      const problem = JSON.parse(readFileSync(DEMO, 'utf8')) as { dispersion: { samples: number } };
+      problem.dispersion.samples = 50_000;
+      const res = await svc.request('POST', '/v1/jobs', { token: samToken, body: { problem, reason: 'console test: long run to cancel' } });
+      expect(res.status).toBe(202);
+      await page.goto(`${svc.url}/console/#/jobs/${res.body.jobId}`);
+      await expect.poll(() => page.getByTestId('job-state').textContent(), { timeout: 30_000 }).toMatch(/queued|running/);
+      page.once('dialog', (d) => { void d.accept(); });
+      await page.getByRole('button', { name: 'Cancel this job' }).click();
+      await expect.poll(() => page.getByTestId('job-state').textContent(), { timeout: 30_000 }).toBe('cancelled');
+      expect((await svc.request('GET', `/v1/jobs/${res.body.jobId}`, { token: svc.tokens.auditor })).body.state).toBe('cancelled');
+      expect(await page.getByRole('button', { name: 'Cancel this job' }).isHidden()).toBe(true);
+      await shot(page, '09-jobs-cancelled');
+      await page.getByRole('link', { name: 'Plans' }).click();
+      await page.getByRole('link', { name: 'Saltmarsh' }).first().waitFor();
+      expect(await page.locator('table.data tbody tr').count()).toBe(1); // the cancelled job made no plan
+      expect(await page.getByTestId('plan-state').first().textContent()).toBe('approved');
+      await shot(page, '10-plans');
     });
   });
 
