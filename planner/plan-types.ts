@@ -180,6 +180,9 @@ export interface MonteCarloSummary {
   /** Linear vs sample covariance: largest relative difference of the ellipse axes. */
   linearAgreement: {
     axisRatioError: number | null; orientationErrorDeg: number | null; passed: boolean;
+    /** Standard error (deg) of a sample ellipse's orientation under the linear model at this sample count;
+     * large when the axes are nearly equal. Absent in plans made before it was recorded. */
+    orientationStandardErrorDeg?: number | null;
     /** Significance of the statistical tests (mean and covariance) of the samples against the linear model. */
     limit: number; meanPValue: number | null; covariancePValue: number | null; message: string;
   } | null;

@@ -3,7 +3,7 @@
  * closest approaches, dispersion, iterations. A plan that did not converge shows NO burn table — only
  * the last iterate, marked as diagnostics.
  */
-import type { ManeuverPlan } from '../../planner/index.ts';
+import type { BPlaneEllipse, ManeuverPlan } from '../../planner/index.ts';
 import { table } from './text-table.ts';
 
 const RULE = '='.repeat(100);
@@ -80,6 +80,26 @@ function crossCheckTable(plan: ManeuverPlan): string[] {
     ]))];
 }
 
+/** Below this major/minor axis ratio the ellipse is nearly round and its orientation means little. */
+const ROUND_AXIS_RATIO = 1.2;
+
+/** "B-plane 1σ a x b km at θ°", with a note when the axes are nearly equal. */
+function ellipseText(e: BPlaneEllipse, orientationStandardErrorDeg?: number | null): string {
+  const se = orientationStandardErrorDeg !== undefined && orientationStandardErrorDeg !== null && Number.isFinite(orientationStandardErrorDeg)
+    ? ` ± ${num(orientationStandardErrorDeg, 1)}° (standard error of a sample orientation)` : '';
+  const round = e.semiMinorKm === 0 || e.semiMajorKm / e.semiMinorKm >= ROUND_AXIS_RATIO ? ''
+    : ` (axes within ${Math.round((ROUND_AXIS_RATIO - 1) * 100)} %: orientation poorly determined)`;
+  return `B-plane 1σ ${num(e.semiMajorKm)} x ${num(e.semiMinorKm)} km at ${num(e.orientationDeg, 2)}°${se}${round}`;
+}
+
+/** Per-target σ with each component's name and unit. */
+function sigmaList(plan: ManeuverPlan, sigmas: readonly (number | null)[]): string {
+  return sigmas.map((s, i) => {
+    const t = plan.targets[i];
+    return t ? `${t.component} ${num(s)} ${t.unit}` : num(s);
+  }).join(', ');
+}
+
 function dispersionLines(plan: ManeuverPlan): string[] {
   const d = plan.dispersion;
   const out = ['Dispersion:'];
@@ -93,9 +113,9 @@ function dispersionLines(plan: ManeuverPlan): string[] {
       if (!p) return;
       const e = p.bPlane;
       const parts = [
-        ...(e ? [`B-plane 1σ ${num(e.semiMajorKm)} x ${num(e.semiMinorKm)} km at ${num(e.orientationDeg, 2)}°`] : []),
+        ...(e ? [ellipseText(e)] : []),
         ...(p.closestApproachSigmaS !== null ? [`TCA σ ${num(p.closestApproachSigmaS)} s`] : []),
-        `target σ ${p.targetSigmas.map((s) => num(s)).join(', ')}`,
+        `target σ ${sigmaList(plan, p.targetSigmas)}`,
       ];
       out.push(`  linear ${name}: ${parts.join('; ')}`);
     };
@@ -108,8 +128,8 @@ function dispersionLines(plan: ManeuverPlan): string[] {
   const mc = d.monteCarlo;
   if (mc) {
     out.push(`  Monte Carlo: ${mc.samples} samples (seed ${mc.seed}), ${mc.impacts} impacts → P = ${mc.impactProbability.toExponential(3)} (95 % ${mc.impactProbabilityInterval.lower95.toExponential(2)}–${mc.impactProbabilityInterval.upper95.toExponential(2)})${mc.failedSamples ? `, ${mc.failedSamples} failed` : ''}`);
-    if (mc.bPlane) out.push(`  Monte Carlo B-plane 1σ ${num(mc.bPlane.semiMajorKm)} x ${num(mc.bPlane.semiMinorKm)} km at ${num(mc.bPlane.orientationDeg, 2)}°${mc.closestApproachSigmaS !== null ? `, TCA σ ${num(mc.closestApproachSigmaS)} s` : ''}`);
-    out.push(`  Monte Carlo target σ ${mc.targetSigmas.map((s) => num(s)).join(', ')}`);
+    if (mc.bPlane) out.push(`  Monte Carlo ${ellipseText(mc.bPlane, mc.linearAgreement?.orientationStandardErrorDeg)}${mc.closestApproachSigmaS !== null ? `, TCA σ ${num(mc.closestApproachSigmaS)} s` : ''}`);
+    out.push(`  Monte Carlo target σ ${sigmaList(plan, mc.targetSigmas)}`);
     if (mc.linearAgreement) out.push(`  linear vs Monte Carlo: ${mc.linearAgreement.passed ? 'agree' : 'DISAGREE'} — ${mc.linearAgreement.message}`);
   }
   for (const n of d.notes) out.push(`  note: ${n}`);

@@ -114,10 +114,11 @@ export function summariseDispersion(problem: PlanningProblem, plan: ManeuverPlan
     const nominal = plan.bPlane && plan.bPlane.achievedBDotTKm !== null && plan.bPlane.achievedBDotRKm !== null
       ? [plan.bPlane.achievedBDotTKm, plan.bPlane.achievedBDotRKm] : null;
     if (lin && nominal && lin.semiMinorKm > 0 && bRows.length >= 4) {
-      const cmp = compareEllipses(lin, ellipse);
+      const cmp = compareEllipses(lin, ellipse, bRows.length);
       const check = checkLinearity(bRows, nominal, lin.covarianceKm2);
       linearAgreement = {
-        axisRatioError: cmp.axisRatioError, orientationErrorDeg: cmp.orientationErrorDeg, passed: check.passed,
+        axisRatioError: cmp.axisRatioError, orientationErrorDeg: cmp.orientationErrorDeg,
+        orientationStandardErrorDeg: cmp.orientationStandardErrorDeg, passed: check.passed,
         limit: LINEARITY_CHECK_DEFAULTS.significance, meanPValue: check.meanPValue, covariancePValue: check.covariancePValue,
         message: check.message,
       };

@@ -18,6 +18,7 @@
  * p-values 0.06 … 0.88. The assertions below use seed 11 and demand the covariance p-value below 1e-6.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
+import { formatPlanReport } from '../../cli/report/plan-report.ts';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
 import type { ExecutionErrors, ManeuverPlan, PlanningProblemInput } from '../../planner/index.ts';
 import { formatEpoch, GM_KM3_S2, parseEpoch } from '../../propagator/index.ts';
@@ -82,6 +83,10 @@ describe('dispersion linearity caveat on a real plan', () => {
       expect(c?.text).toContain('Trust the Monte Carlo figures');
       expect(c?.text).toContain('300 Monte Carlo samples');
     });
+
+    it('should not call the elongated ellipse poorly oriented in the report', () => {
+      expect(formatPlanReport(plan)).not.toContain('orientation poorly determined');
+    });
   });
 
   describe('when the same approach has small execution errors (0.1 %, 1 mm/s, 0.05°)', () => {
@@ -104,6 +109,18 @@ describe('dispersion linearity caveat on a real plan', () => {
       if (!linear || !sample) return;
       expect(Math.abs(sample.semiMajorKm / linear.semiMajorKm - 1)).toBeLessThan(4 / Math.sqrt(2 * 299));
       expect(Math.abs(sample.semiMinorKm / linear.semiMinorKm - 1)).toBeLessThan(4 / Math.sqrt(2 * 299));
+    });
+
+    it('should report the nearly round ellipse as having a poorly determined orientation', () => {
+      // Linear axes ≈ 1212 × 1179 km: λ1·λ2/((N − 1)(λ1 − λ2)²) gives a standard error of about 60°
+      // (Anderson 1963, from memory; formula in planner/dispersion/ellipse.ts).
+      const linear = plan.dispersion.linear?.total.bPlane;
+      expect(linear ? linear.semiMajorKm / linear.semiMinorKm : 0).toBeLessThan(1.2);
+      expect(plan.dispersion.monteCarlo?.linearAgreement?.orientationStandardErrorDeg).toBeGreaterThan(20);
+      const report = formatPlanReport(plan);
+      expect(report).toContain('orientation poorly determined');
+      expect(report).toMatch(/± \d+\.\d° \(standard error of a sample orientation\)/);
+      expect(report).toMatch(/target σ B·T [\d.]+ km, B·R [\d.]+ km/);
     });
   });
 });
