@@ -80,6 +80,19 @@ describe("Encke's method", () => {
     });
   });
 
+  describe('when the STM is requested with a burn', () => {
+    it('should give the burn sensitivity d(final)/d(Δv) of Cowell', () => {
+      const burns = [{ epochTdbS: T0 + 3000, deltaVKmS: [0.05, -0.02, 0.01] as [number, number, number] }];
+      const forces = { centralBody: 'earth' as const, perturbingBodies: ['moon' as const] };
+      const end = T0 + 20000;
+      const c = propagate(request({ forces, burns, withStm: true, endEpochTdbS: end, relativeTolerance: 1e-13, absoluteTolerance: 1e-12 }));
+      const e = propagate(request({ forces, burns, withStm: true, endEpochTdbS: end, method: 'encke' }));
+      const sc = c.burnSensitivities![0];
+      const scale = Math.max(...sc.map(Math.abs));
+      for (let k = 0; k < 18; k++) expect(Math.abs(e.burnSensitivities![0][k] - sc[k]) / scale, `S[${k}]`).toBeLessThan(1e-6);
+    });
+  });
+
   describe('when the reference orbit is degenerate', () => {
     it('should fall back to Cowell for a near-parabolic start and say so in warnings', () => {
       const vEsc = Math.sqrt((2 * MU) / Math.hypot(...R0));
