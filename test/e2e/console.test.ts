@@ -28,6 +28,14 @@ let submitterPage: Page;
 let reviewerPage: Page;
 let samToken: string;
 let planId = '';
+/** Script errors and console errors (CSP refusals included) from every page; failed-resource lines excluded. */
+const pageErrors: string[] = [];
+
+function watchErrors(page: Page): Page {
+  page.on('pageerror', (e) => pageErrors.push(`pageerror: ${e.message}`));
+  page.on('console', (m) => { if (m.type() === 'error' && !/Failed to load resource/.test(m.text())) pageErrors.push(`console: ${m.text()}`); });
+  return page;
+}
 
 /** Saves a screenshot, after checking the screen does not scroll sideways at this viewport. */
 async function shot(page: Page, name: string): Promise<void> {
@@ -50,8 +58,8 @@ beforeAll(async () => {
   // A person who both submits and reviews: the two-person rule, not a missing role, must block their approval.
   samToken = (await svc.tokenStore.add('sam', ['submitter', 'reviewer'])).token;
   browser = await launchChromium();
-  submitterPage = await browser.context.newPage();
-  reviewerPage = await browser.context.newPage();
+  submitterPage = watchErrors(await browser.context.newPage());
+  reviewerPage = watchErrors(await browser.context.newPage());
 });
 
 afterAll(async () => {
@@ -95,6 +103,7 @@ describe('ops console', () => {
       await page.getByRole('button', { name: 'Check and submit' }).click();
       await expect.poll(() => page.locator('#problem-text-error').textContent()).toContain('burns[0].epoch');
       expect(await page.locator('#problem-text').getAttribute('aria-invalid')).toBe('true');
+      await shot(page, '02-submit-file-errors');
     });
 
     it('should show a bad form value beside its field, and submit the corrected form as exactly the demo problem', async () => {
@@ -110,7 +119,7 @@ describe('ops console', () => {
       await expect.poll(() => page.locator('#pf-spacecraft-massKg-error').textContent()).toMatch(/>0|positive|too small/i);
       expect(await mass.getAttribute('aria-invalid')).toBe('true');
       expect(await page.locator('.error-summary').textContent()).toContain('spacecraft.massKg');
-      await shot(page, '02-submit-form-error');
+      await shot(page, '03-submit-form-error');
       await mass.fill('612');
       await page.getByRole('button', { name: 'Check and submit' }).click();
       await page.waitForURL(/#\/jobs\/[^/]+$/);
@@ -137,7 +146,7 @@ describe('ops console', () => {
       expect(seen.some((v) => v > 0 && v < 100)).toBe(true);
       expect(seen.every((v, i) => i === 0 || v >= seen[i - 1])).toBe(true);
       expect(await page.getByTestId('job-state').textContent()).toBe('finished');
-      await shot(page, '03-jobs-complete');
+      await shot(page, '04-jobs-complete');
       const link = page.getByTestId('open-plan');
       planId = decodeURIComponent(((await link.getAttribute('href')) ?? '').replace('#/plans/', ''));
       const plan = await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.auditor });
@@ -169,14 +178,14 @@ describe('ops console', () => {
       expect(await page.getByTestId('two-person').textContent()).toContain('you submitted this job; another reviewer must approve');
       const boxes = page.getByTestId('caveat-check');
       expect(await boxes.count()).toBe(api.caveats.length);
-      await shot(page, '04-plan-review-submitter');
+      await shot(page, '05-plan-review-submitter');
       for (let i = 0; i < api.caveats.length; i += 1) await boxes.nth(i).check();
       expect(await page.getByTestId('approve').isDisabled()).toBe(true);
       expect(await page.getByTestId('approve-why').textContent()).toContain('another reviewer must approve');
       await page.getByTestId('b-plane-plot').scrollIntoViewIfNeeded();
-      await shot(page, '05-plan-review-b-plane');
+      await shot(page, '06-plan-review-b-plane');
       await page.getByTestId('trajectory-plot').scrollIntoViewIfNeeded();
-      await shot(page, '05-plan-review-trajectory');
+      await shot(page, '07-plan-review-trajectory');
     });
   });
 
@@ -217,7 +226,7 @@ describe('ops console', () => {
       for (const s of samples) expect(s.ratio, `${s.selector} “${s.text}” ${JSON.stringify(s)}`).toBeGreaterThanOrEqual(4.5);
       expect(contrastRatio([0, 0, 0], [255, 255, 255])).toBeCloseTo(21, 6); // the formula's end point (WCAG 2.2)
       expect(await page.getByTestId('reject').isEnabled()).toBe(true);
-      await shot(page, '06-plan-review-reviewer-ready');
+      await shot(page, '08-plan-review-reviewer-ready');
       await page.getByTestId('approve').click();
       await page.waitForURL(new RegExp(`#/plans/${planId}/history$`));
       const history = await svc.request('GET', `/v1/plans/${planId}/history`, { token: svc.tokens.auditor });
@@ -240,11 +249,11 @@ describe('ops console', () => {
       const bundle = JSON.parse(readFileSync(await download.path(), 'utf8')) as Record<string, unknown>;
       expect(download.suggestedFilename()).toBe(`${planId}-bundle.json`);
       expect(JSON.stringify(bundle)).toContain(planId);
-      await shot(page, '07-history');
+      await shot(page, '09-history');
     });
 
     it('should let an auditor verify the whole archive chain', async () => {
-      const page = await browser.context.newPage();
+      const page = watchErrors(await browser.context.newPage());
       await signIn(page, svc.tokens.auditor);
       await page.goto(`${svc.url}/console/#/plans/${planId}/history`);
       await page.getByRole('button', { name: 'Verify the whole archive chain' }).click();
@@ -270,12 +279,12 @@ describe('ops console', () => {
       await expect.poll(() => page.getByTestId('job-state').textContent(), { timeout: 30_000 }).toBe('cancelled');
       expect((await svc.request('GET', `/v1/jobs/${res.body.jobId}`, { token: svc.tokens.auditor })).body.state).toBe('cancelled');
       expect(await page.getByRole('button', { name: 'Cancel this job' }).isHidden()).toBe(true);
-      await shot(page, '09-jobs-cancelled');
+      await shot(page, '10-jobs-cancelled');
       await page.getByRole('link', { name: 'Plans' }).click();
       await page.getByRole('link', { name: 'Saltmarsh' }).first().waitFor();
       expect(await page.locator('table.data tbody tr').count()).toBe(1); // the cancelled job made no plan
       expect(await page.getByTestId('plan-state').first().textContent()).toBe('approved');
-      await shot(page, '10-plans');
+      await shot(page, '11-plans');
     });
   });
 
@@ -288,7 +297,13 @@ describe('ops console', () => {
       const main = await page.locator('.review-main').boundingBox();
       const side = await page.locator('.review-side').boundingBox();
       expect(main && side && side.x > main.x + main.width - 1).toBe(true);
-      await shot(page, '08-plan-review-1920');
+      await shot(page, '12-plan-review-1920');
+    });
+  });
+
+  describe('when the whole session is over', () => {
+    it('should have raised no script errors or content-security-policy refusals', () => {
+      expect(pageErrors).toEqual([]);
     });
   });
 });
