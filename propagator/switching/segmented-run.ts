@@ -7,6 +7,7 @@
  * J2 applies only while the originally requested central body is the centre.
  */
 import { InvalidInputError } from '../errors.ts';
+import { PROPAGATION_DEFAULTS } from '../propagation-defaults.ts';
 import { buildEvents, EventWatcher, type CartesianSource, type DenseStepper, type EventStop } from '../events/index.ts';
 import { changeCentre, stateToFrame } from '../frames/index.ts';
 import type {
@@ -75,7 +76,7 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
   const bodies: BodyName[] = [request.forces.centralBody, ...request.forces.perturbingBodies];
   const j2Body = request.forces.centralJ2 === true ? request.forces.centralBody : null;
   const burns = (request.burns ?? []).map((b, i) => ({ ...b, index: i }));
-  const maxSteps = request.maxSteps ?? 1_000_000;
+  const maxSteps = request.maxSteps ?? PROPAGATION_DEFAULTS.maxSteps;
   const events: EventRecord[] = [];
   const warnings: string[] = [];
   const switches: PropagationResult['stats']['switches'] = [];

@@ -99,3 +99,25 @@ describe('events and switching backward in time', () => {
     });
   });
 });
+
+describe('central-body switching with progress and cancellation', () => {
+  describe('when progress is reported', () => {
+    it('should rise monotonically over the whole span and end at 1', () => {
+      const seen: number[] = [];
+      const r = propagate(base({}), { onProgress: (f) => seen.push(f) });
+      expect(r.outcome).toBe('finished');
+      expect(seen.length).toBeGreaterThan(1); // propagate() reports every 64 steps, then 1 at the end
+      for (let i = 1; i < seen.length; i++) expect(seen[i]).toBeGreaterThanOrEqual(seen[i - 1]);
+      expect(seen[seen.length - 1]).toBe(1);
+    });
+  });
+  describe('when the signal fires', () => {
+    it('should stop with outcome cancelled', () => {
+      const controller = new AbortController();
+      controller.abort();
+      const r = propagate(base({}), { signal: controller.signal });
+      expect(r.outcome).toBe('cancelled');
+      expect(r.stats.switches.length).toBe(0);
+    });
+  });
+});
