@@ -24,7 +24,8 @@ export function renderFrame(session: Session | null, currentHash: string, onSign
     h('span', { class: 'who-roles' }, session.roles.join(' · ')),
     h('button', { type: 'button', class: 'quiet', onclick: onSignOut }, 'Sign out')) : null;
   return h('div', { class: 'frame' },
-    h('a', { class: 'skip', href: '#main' }, 'Skip to content'),
+    // Hash routes own location.hash, so the skip link moves focus itself instead of navigating to #main.
+    h('a', { class: 'skip', href: '#main', onclick: (e: Event) => { e.preventDefault(); document.getElementById('main')?.focus(); } }, 'Skip to content'),
     h('header', { class: 'topbar' },
       h('div', { class: 'brand' }, svg('svg', { class: 'brand-mark', viewBox: '0 0 24 24', 'aria-hidden': 'true' }, svg('path', { d: 'M3 20 C 9 15, 11 8, 21 4' }), svg('circle', { cx: 12, cy: 13, r: 3 })), h('span', {}, 'veer'), h('span', { class: 'brand-sub' }, 'manoeuvre proposals')),
       nav, who),
