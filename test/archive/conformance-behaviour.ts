@@ -61,6 +61,18 @@ export function describeArchiveBehaviour(factory: StoreFactory): void {
       });
     });
 
+    describe('when a plan lacks what the review rules need', () => {
+      it('should refuse it, naming the field, and append nothing', async () => {
+        const bad = (patch: Record<string, unknown>) => archive.recordPlanProposed({ jobId: 'j1', actor: 'w', submittedBy: 'ann',
+          plan: { ...makePlan(), ...patch } as ReturnType<typeof makePlan> });
+        await expect(bad({ caveats: [] })).rejects.toThrow(/^plan\.caveats:/);
+        await expect(bad({ status: 'done' })).rejects.toThrow(/^plan\.status:/);
+        await expect(bad({ crossCheck: {} })).rejects.toThrow(/^plan\.crossCheck\.passed:/);
+        await expect(bad({ caveats: [{ code: '', severity: 'info', text: 'x' }] })).rejects.toThrow(/^plan\.caveats\[0\]\.code:/);
+        expect((await archive.head()).sequence).toBe(0);
+      });
+    });
+
     describe('when the same job is recorded twice', () => {
       it('should store its plan exactly once and return the first plan id', async () => {
         const planId = await propose('j1');
