@@ -35,6 +35,7 @@ describe('planManeuvers', () => {
       expect(b.durationS).toBeCloseTo((b.propellantKg * 220 * 9.80665) / 22, 6);
     });
     it('should agree between the STM and finite-difference Jacobians', () => {
+      // Observed 6.1e-5 (2026-12, 1 mm/s central differences: step noise); limit about 1.6× that.
       expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(1e-4);
     });
     it('should report progress through every stage, ending at 1', () => {
@@ -75,8 +76,10 @@ describe('planManeuvers', () => {
       const plan = await planManeuvers(parseProblem({ ...base, burns: [burn], dispersion: { samples: 0, seed: 1 } }), { verifyJacobian: true, monteCarlo: 'skip' });
       expect(plan.status).toBe('converged');
       expect(plan.sensitivities?.controls.map((c) => c.kind)).toEqual(['dv0', 'dv1', 'dv2', 'epoch']);
-      // Minimum-norm steps (4 controls, 3 targets); the epoch column holds the RTN-frame turn only to first order.
-      expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(1e-2);
+      // Minimum-norm steps (4 controls, 3 targets). Observed 1.4e-4 (2026-12) with the 1 mm/s and 0.5 s steps;
+      // it scales as 1/step (2.5e-5 at 10×, 1.0e-3 at 0.1× the steps), so it is finite-difference noise from
+      // the adaptive integrator, not an STM error. Limit about 3.5× the observed value.
+      expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(5e-4);
     });
   });
 
@@ -94,7 +97,8 @@ describe('planManeuvers', () => {
       expect(plan.convergence.leastSquares).toBe(false);
       expect(plan.approaches[0].altitudeKm).toBeCloseTo(500, 1);
       expect(plan.targets[1].achieved).toBeCloseTo(9, 2);
-      expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(1e-4);
+      // Observed 5.9e-7 (2026-12, 1 mm/s central differences: step noise); limit 5× that.
+      expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(3e-6);
     });
   });
 

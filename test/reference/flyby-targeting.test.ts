@@ -110,8 +110,12 @@ describe('demo flyby retargeting (examples/flyby-demo.json)', () => {
       expect(plan.status).toBe('converged');
       expect(plan.crossCheck.passed).toBe(true);
       expect(plan.targets.every((t) => t.met)).toBe(true);
-      // Central differences (1 mm/s steps) against the STM chain: a few parts in 1e4 of each row's scale.
-      expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(2e-3);
+      // Central differences (1 mm/s steps) against the STM chain, relative to each row's largest entry.
+      // Observed 3.5e-5 (2026-12), the same with 0.1, 1 and 10 mm/s steps and at tolerance 1e-12, so it is
+      // not step noise: the STM chain leaves out the change of the solar-pressure acceleration through the
+      // propellant mass the burn uses (∂m/∂Δv); with solar pressure off the difference falls to 1.4e-6 and
+      // then scales as 1/step (finite-difference noise). Limit about 3× the observed value.
+      expect(plan.sensitivities?.stmVersusFiniteDifference).toBeLessThan(1e-4);
     });
   });
 
