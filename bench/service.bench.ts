@@ -62,39 +62,46 @@ async function main(): Promise<void> {
     + `p50 ratio submit/health = ${(submit.latency.p50 / Math.max(health.latency.p50, 0.5)).toFixed(1)}.`);
   await api.deps.queue.queue.obliterate({ force: true });
 
-  // 2. Queue overhead per trivial job: sequential jobs through queue + worker process + archive.
+  // 2. Queue overhead per trivial job: sequential jobs through queue + worker process (+ archive), interleaved
+  //    with in-process planner runs so that all three paths see the same machine load.
   const parsed = parseProblem(trivial);
-  for (let i = 0; i < 3; i++) await planManeuvers(parsed, { monteCarlo: 'skip' });
-  const inProcess: number[] = [];
-  for (let i = 0; i < 15; i++) {
-    const t0 = performance.now();
-    await planManeuvers(parsed, { monteCarlo: 'in-process' });
-    inProcess.push(performance.now() - t0);
-  }
+  const request = jobRequestSchema.parse({ problem: trivial, reason: 'benchmark overhead' });
   const queue = new RetargetQueue({ redisUrl, prefix });
   const events = new JobEventHub(redisUrl, prefix);
+  const prefixNoArchive = `${prefix}n`;
+  const queueNoArchive = new RetargetQueue({ redisUrl, prefix: prefixNoArchive });
+  const eventsNoArchive = new JobEventHub(redisUrl, prefixNoArchive);
   await events.ready();
-  const request = jobRequestSchema.parse({ problem: trivial, reason: 'benchmark overhead' });
-  const runOne = async (): Promise<number> => {
+  await eventsNoArchive.ready();
+  const runOne = async (q: RetargetQueue, ev: JobEventHub): Promise<number> => {
     const t0 = performance.now();
     let jobId = '';
     const finished = new Promise<void>((res) => {
-      const off = events.subscribe('*', (e) => { if (e.jobId === jobId && (e.type === 'completed' || e.type === 'failed')) { off(); res(); } });
+      const off = ev.subscribe('*', (e) => { if (e.jobId === jobId && (e.type === 'completed' || e.type === 'failed')) { off(); res(); } });
     });
-    jobId = (await queue.submit(request, 'bench')).jobId;
+    jobId = (await q.submit(request, 'bench')).jobId;
     await finished;
     return performance.now() - t0;
   };
-  const workers1 = await startWorkers(1, redisUrl, prefix, dir);
-  for (let i = 0; i < 3; i++) await runOne();
+  const runLocal = async (): Promise<number> => {
+    const t0 = performance.now();
+    await planManeuvers(parsed, { monteCarlo: 'in-process' });
+    return performance.now() - t0;
+  };
+  const workersA = await startWorkers(1, redisUrl, prefix, dir);
+  const workersB = await startWorkers(1, redisUrl, prefixNoArchive, dir, { PLAN_SINK: 'job-result' });
+  for (let i = 0; i < 3; i++) { await runLocal(); await runOne(queue, events); await runOne(queueNoArchive, eventsNoArchive); }
+  const inProcess: number[] = [];
   const viaQueue: number[] = [];
-  for (let i = 0; i < 15; i++) viaQueue.push(await runOne());
-  await stopWorkers(workers1);
-  const workersNoArchive = await startWorkers(1, redisUrl, prefix, dir, { PLAN_SINK: 'job-result' });
-  for (let i = 0; i < 3; i++) await runOne();
   const viaQueueNoArchive: number[] = [];
-  for (let i = 0; i < 15; i++) viaQueueNoArchive.push(await runOne());
-  await stopWorkers(workersNoArchive);
+  for (let i = 0; i < 30; i++) {
+    inProcess.push(await runLocal());
+    viaQueue.push(await runOne(queue, events));
+    viaQueueNoArchive.push(await runOne(queueNoArchive, eventsNoArchive));
+  }
+  await stopWorkers([...workersA, ...workersB]);
+  await eventsNoArchive.close();
+  await queueNoArchive.close();
   const med = (a: number[]): number => [...a].sort((x, y) => x - y)[Math.floor(a.length / 2)]!;
   const overhead = med(viaQueue) - med(inProcess);
   say('');

@@ -146,14 +146,22 @@ export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobD
     if (control.signal.aborted) throw new Error('stopped before start');
     const problem = job.data.problem;
     if (job.data.step === 'plan') {
-      await deps.sink.recordSubmitted({
-        jobId, actor: job.data.submittedBy, problem, problemHash: job.data.problemHash, reason: job.data.reason,
-      });
       const fanOut = problem.dispersion.samples >= deps.fanOutMinSamples && problem.executionErrors !== undefined;
-      const plan = await deps.pool.run(
+      const planning = deps.pool.run(
         { kind: 'plan', problem, monteCarlo: fanOut ? 'skip' : 'in-process' },
         { signal: control.signal, onProgress: report },
       );
+      planning.catch(() => undefined); // handled below; avoids an unhandled rejection while the archive write runs
+      // Recorded while the planner thread already works (the archive write blocks this loop for a few ms).
+      try {
+        await deps.sink.recordSubmitted({
+          jobId, actor: job.data.submittedBy, problem, problemHash: job.data.problemHash, reason: job.data.reason,
+        });
+      } catch (error) {
+        await planning.catch(() => undefined);
+        throw error; // transient (archive unavailable): retried
+      }
+      const plan = await planning;
       if (!fanOut || plan.status !== 'converged') return await finishPlan(deps, job, plan);
       await job.updateData({ ...job.data, step: 'await-samples', nominalPlan: plan });
     }
