@@ -3,8 +3,8 @@
  * a peer measured in the same run on the same machine. Writes bench/results/planner.md.
  *
  * 1. Retargeting: corrector iterations (target ≤ 6), wall time of the correction stage and of the whole
- *    plan without Monte Carlo, and the correction's cost as a multiple of ONE state-only propagation over
- *    the same span with the same force model and ephemeris cache (target ≤ 10×).
+ *    plan without Monte Carlo, each as a multiple of ONE state-only propagation over the same span with the
+ *    same force model and ephemeris cache; the ≤ 10× target applies to the correction stage (retargeting).
  * 2. Monte Carlo: samples per second over the demo's 62-day span, in one process and in two processes
  *    (one per core; target ≥ 50/s on 2 cores), and the linear-versus-Monte-Carlo agreement of the B-plane
  *    dispersion.
@@ -93,6 +93,8 @@ async function retargeting(): Promise<void> {
   if (!plan) return;
   const iterations = plan.iterations.filter((it) => it.jacobianSource !== 'none').length;
   const ratio = median(correction) / propMs;
+  const wholeRatio = median(walls) / propMs;
+  const verdict = (r: number): string => (r <= 10 ? 'meets' : 'does not meet');
   log('## Demo flyby retargeting');
   log();
   log('| quantity | value | target |');
@@ -103,8 +105,16 @@ async function retargeting(): Promise<void> {
   log(`| correction stage incl. final STM evaluation (median of 5) | ${median(correction).toFixed(0)} ms | |`);
   log(`| correction cost / one state-only propagation | ${ratio.toFixed(1)}× | ≤ 10× |`);
   log(`| whole plan without Monte Carlo (setup, correction, cross-check, linear dispersion; median) | ${median(walls).toFixed(0)} ms | |`);
+  log(`| whole plan without Monte Carlo / one state-only propagation | ${wholeRatio.toFixed(1)}× | (none: the ≤ 10× target is for retargeting) |`);
   log(`| propagations in the plan (incl. cross-check) | ${plan.effort.propagations} | |`);
   log(`| total Δv | ${plan.totalDeltaVMS.toFixed(4)} m/s | |`);
+  log();
+  log(`The issue's ≤ 10× target is for retargeting, measured here as the correction stage (from the first corrector `
+    + `step to the solution evaluated with its STM): ${ratio.toFixed(1)}×, which ${verdict(ratio)} it. The whole plan without `
+    + `Monte Carlo costs ${wholeRatio.toFixed(1)}× one propagation (${verdict(wholeRatio)} 10×): on top of the correction it `
+    + 'validates the problem, builds the ephemeris cache, re-propagates the solution with the other method at a tighter '
+    + 'tolerance (the independent cross-check) and maps the linear dispersion. The peer propagation reuses an ephemeris '
+    + 'cache built before it is timed.');
   log();
 }
 
