@@ -118,6 +118,9 @@ export class Dop853Stepper {
         this.denseValid = false;
         return 'accepted';
       }
+      // Make the step exactly representable at this epoch, so t + h is the interval actually integrated
+      // (at t ~ 1e9 s an unrounded h drifts from the stepped time by up to an ulp of t per step).
+      if (!landing) h = (this.tNow + h) - this.tNow;
       if (Math.abs(h) <= roundOff || h === 0 || !Number.isFinite(h)) {
         this.diagnostic = `step size ${h} s fell below round-off at t = ${this.tNow} s after `
           + `${this.counts.rejectedSteps} rejections (rtol ${this.rtol}, atol ${this.atol})`;
@@ -328,7 +331,9 @@ export class Dop853Stepper {
       dnf += (f[i] / sk) ** 2;
       dny += (y[i] / sk) ** 2;
     }
-    let h = dnf <= 1e-10 || dny <= 1e-10 ? 1e-6 : Math.sqrt(dny / dnf) * 0.01;
+    // Hairer's 1e-6 fallback is below the round-off of t far from J2000; keep it above 100 ulp of t.
+    const smallest = Math.max(1e-6, 100 * UNIT_ROUNDOFF * Math.abs(this.tNow));
+    let h = dnf <= 1e-10 || dny <= 1e-10 ? smallest : Math.sqrt(dny / dnf) * 0.01;
     h = Math.min(h, limit);
     const yt = this.yTmp;
     const f1 = this.k[2];
@@ -342,7 +347,7 @@ export class Dop853Stepper {
     }
     der2 = Math.sqrt(der2) / h;
     const der12 = Math.max(Math.abs(der2), Math.sqrt(dnf));
-    const h1 = der12 <= 1e-15 ? Math.max(1e-6, h * 1e-3) : (0.01 / der12) ** (1 / 8);
+    const h1 = der12 <= 1e-15 ? Math.max(smallest, h * 1e-3) : (0.01 / der12) ** (1 / 8);
     return this.direction * Math.min(100 * h, h1, limit);
   }
 }
