@@ -13,7 +13,8 @@ import { resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseProblem, problemHash } from '../../planner/index.ts';
-import { startService, type TestService } from '../harness/service.ts';
+import { startService, waitForJob, type TestService } from '../harness/service.ts';
+import { reachableProblem, submission } from '../queue/fixtures.ts';
 import { launchChromium, type TestBrowser } from './browser.ts';
 import { buildConsole } from './build-console.ts';
 import { contrastRatio, contrastSamples, horizontalOverflow } from './page-checks.ts';
@@ -285,6 +286,26 @@ describe('ops console', () => {
       expect(await page.locator('table.data tbody tr').count()).toBe(1); // the cancelled job made no plan
       expect(await page.getByTestId('plan-state').first().textContent()).toBe('approved');
       await shot(page, '11-plans');
+    });
+  });
+
+  describe('when a plan did not converge', () => {
+    it('should say so plainly and never offer Approve, whatever is ticked', async () => {
+      // The service tests' fast Earth problem with an unreachable target and three iterations (test/api/plan-flow.test.ts).
+      const problem = reachableProblem({ samples: 0, name: 'NOCONV-1' });
+      problem.targets[0].positionKm = [-6000, 3600, 0];
+      problem.corrector = { maxIterations: 3 };
+      const res = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(problem) });
+      const done = await waitForJob(svc, res.body.jobId, (st) => st.state === 'completed', 60_000);
+      expect(done.result.planStatus).toBe('not-converged');
+      const page = reviewerPage;
+      await page.goto(`${svc.url}/console/#/plans/${done.result.planId}`);
+      await page.getByTestId('approve').waitFor();
+      expect(await page.getByRole('alert').filter({ hasText: 'did not converge' }).count()).toBe(1);
+      const boxes = page.getByTestId('caveat-check');
+      for (let i = 0; i < await boxes.count(); i += 1) await boxes.nth(i).check();
+      expect(await page.getByTestId('approve').isDisabled()).toBe(true);
+      expect(await page.getByTestId('approve-why').textContent()).toContain('can never be approved');
     });
   });
 
