@@ -121,7 +121,18 @@ describe('ops console', () => {
       expect(await mass.getAttribute('aria-invalid')).toBe('true');
       expect(await page.locator('.error-summary').textContent()).toContain('spacecraft.massKg');
       await shot(page, '03-submit-form-error');
+      // A second burn appears with its own fields; its missing epoch is reported beside that field.
+      await page.getByLabel('Number of burns').selectOption('2');
+      await page.locator('#pf-burns-1-frame').selectOption('VNB');
+      expect(await page.locator('#pf-burns-1-deltaVGuessKmS legend').textContent()).toBe('First guess of Δv (km/s)');
+      expect(await page.locator('#pf-burns-1-deltaVGuessKmS label').allTextContents()).toEqual(['V', 'N', 'B']);
       await mass.fill('612');
+      await page.getByRole('button', { name: 'Check and submit' }).click();
+      await expect.poll(() => page.locator('#pf-burns-1-epoch-error').textContent()).not.toBe('');
+      expect(await page.locator('#pf-burns-1-epoch').getAttribute('aria-invalid')).toBe('true');
+      expect(await page.locator('#pf-spacecraft-massKg-error').textContent()).toBe('');
+      await page.getByLabel('Number of burns').selectOption('1');
+      expect(await page.locator('#pf-burns-0-label').inputValue()).toBe('TCM-1'); // redrawing kept what burn 1 says
       await page.getByRole('button', { name: 'Check and submit' }).click();
       await page.waitForURL(/#\/jobs\/[^/]+$/);
       const jobId = decodeURIComponent(page.url().split('#/jobs/')[1]);
