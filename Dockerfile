@@ -1,27 +1,25 @@
 # veer service image: one image, two commands (API: `npm run api`; worker: `npm run worker`).
-# TypeScript runs through tsx (the project's runtime for .ts sources), so there is no build step.
-FROM node:20-bookworm-slim
+# TypeScript runs through tsx (the project's runtime for .ts sources), so only the browser console is built.
 
+# Stage 1: build the browser console (vite is a dev dependency).
+FROM node:20-bookworm-slim AS console-build
+WORKDIR /app
+RUN apt-get update -q && apt-get install -y -q --no-install-recommends python3 make g++ && rm -rf /var/lib/apt/lists/*
+COPY package.json package-lock.json ./
+RUN npm ci
+COPY . .
+RUN npm run console:build
+
+# Stage 2: runtime with production dependencies only (tsx is one of them).
+FROM node:20-bookworm-slim
 WORKDIR /app
 ENV NODE_ENV=production
-
-# better-sqlite3 ships prebuilt binaries for this platform; build tools only as a fallback.
-RUN apt-get update -q \
- && apt-get install -y -q --no-install-recommends python3 make g++ \
- && rm -rf /var/lib/apt/lists/*
-
+# better-sqlite3 ships prebuilt binaries for this platform; the build tools are the fallback.
+RUN apt-get update -q && apt-get install -y -q --no-install-recommends python3 make g++ && rm -rf /var/lib/apt/lists/*
 COPY package.json package-lock.json ./
-# Dev dependencies are skipped: tsx is a runtime dependency.
 RUN npm ci --omit=dev && npm cache clean --force
-
-COPY propagator ./propagator
-COPY planner ./planner
-COPY archive ./archive
-COPY queue ./queue
-COPY api ./api
-COPY ccsds ./ccsds
-COPY examples ./examples
-COPY tsconfig.json ./
+COPY . .
+COPY --from=console-build /app/console/dist ./console/dist
 
 RUN mkdir -p /data && chown node:node /data
 USER node
