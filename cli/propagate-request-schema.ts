@@ -7,7 +7,7 @@
 import { z } from 'zod';
 import {
   BODY_NAMES, INERTIAL_FRAMES, InvalidInputError, parseEpoch,
-  type EventSpec, type ImpulsiveBurn, type PropagationRequest, type Ephemeris, type Vec3,
+  type EventSpec, type VelocityImpulse, type PropagationRequest, type Ephemeris, type Vec3,
 } from '../propagator/index.ts';
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()]);
@@ -103,7 +103,7 @@ export function requestSpan(file: PropagateRequestFile): { startTdbS: number; en
 /** The propagator's request for a parsed file and an ephemeris. */
 export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephemeris): PropagationRequest {
   const { startTdbS, endTdbS } = requestSpan(file);
-  const burns: ImpulsiveBurn[] = file.burns.map((b, i) => ({
+  const burns: VelocityImpulse[] = file.burns.map((b, i) => ({
     epochTdbS: epochSeconds(b.epoch, `burns[${i}].epoch`),
     deltaVKmS: b.deltaVKmS as Vec3,
   }));

@@ -4,11 +4,11 @@
  */
 import { InvalidInputError, OutOfSpanError } from './errors.ts';
 import { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
-import type { ImpulsiveBurn, PropagationMethod, PropagationRequest } from './propagation-types.ts';
+import type { VelocityImpulse, PropagationMethod, PropagationRequest } from './propagation-types.ts';
 import { BODY_NAMES, INERTIAL_FRAMES } from './types.ts';
 
 /** A burn in the order the run meets it, with its index in the request. */
-export interface OrderedBurn extends ImpulsiveBurn {
+export interface OrderedBurn extends VelocityImpulse {
   requestIndex: number;
 }
 
@@ -84,7 +84,7 @@ export function checkRequest(request: PropagationRequest): CheckedRequest {
   };
 }
 
-function checkBurns(burns: ImpulsiveBurn[], start: number, end: number, direction: 1 | -1): OrderedBurn[] {
+function checkBurns(burns: VelocityImpulse[], start: number, end: number, direction: 1 | -1): OrderedBurn[] {
   if (!Array.isArray(burns)) throw new InvalidInputError('burns', 'must be an array');
   const lo = Math.min(start, end);
   const hi = Math.max(start, end);

@@ -31,7 +31,7 @@ export interface ForceModelSpec {
 }
 
 /** An impulsive Δv applied at an epoch; the integrator stops exactly there. */
-export interface ImpulsiveBurn {
+export interface VelocityImpulse {
   epochTdbS: number;
   /** Δv in km/s, J2000 equatorial. */
   deltaVKmS: Vec3;
@@ -77,7 +77,7 @@ export interface PropagationRequest {
   relativeTolerance?: number;
   absoluteTolerance?: number;
   maxSteps?: number;
-  burns?: ImpulsiveBurn[];
+  burns?: VelocityImpulse[];
   /** When set, the result holds states every outputStepS seconds (plus start and end). */
   outputStepS?: number;
   /** Integrate the 6x6 state transition matrix alongside the state. */

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { propagate } from '../../propagator/propagate.ts';
 import { keplerStm } from '../../propagator/kepler/index.ts';
 import { GM_KM3_S2 } from '../../propagator/constants.ts';
-import type { ForceModelSpec, ImpulsiveBurn, PropagationRequest } from '../../propagator/propagation-types.ts';
+import type { ForceModelSpec, VelocityImpulse, PropagationRequest } from '../../propagator/propagation-types.ts';
 import type { Vec3 } from '../../propagator/types.ts';
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 
@@ -17,7 +17,7 @@ const DURATION = 30000;
 const x0 = [8000, 1500, 2000, -1.2, 6.4, 2.1];
 const perturbed: ForceModelSpec = { centralBody: 'earth', perturbingBodies: ['sun', 'moon'], centralJ2: true };
 
-function run(state: number[], forces: ForceModelSpec, burns: ImpulsiveBurn[] = [], tolerance = 1e-13, duration = DURATION) {
+function run(state: number[], forces: ForceModelSpec, burns: VelocityImpulse[] = [], tolerance = 1e-13, duration = DURATION) {
   const request: PropagationRequest = {
     initial: { epochTdbS: T0, centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: state.slice(0, 3) as Vec3, velocityKmS: state.slice(3) as Vec3 },
     endEpochTdbS: T0 + duration, forces, ephemeris, burns, withStm: true,
@@ -32,7 +32,7 @@ const finalOf = (r: ReturnType<typeof run>): number[] => [...r.final.positionKm,
 /** Central differences of the final state w.r.t. the initial state (steps 0.1 km, 1e-4 km/s: large enough that
  * integration noise (~1e-9 km) divided by the step stays below 1e-7, small enough that the truncation
  * error (step/|r|)^2 ~ 1e-10 is negligible). */
-function finiteDifferenceStm(forces: ForceModelSpec, burns: ImpulsiveBurn[] = []): number[] {
+function finiteDifferenceStm(forces: ForceModelSpec, burns: VelocityImpulse[] = []): number[] {
   const stm = new Array<number>(36).fill(0);
   for (let j = 0; j < 6; j++) {
     const h = j < 3 ? 1e-1 : 1e-4;
@@ -104,7 +104,7 @@ describe('state transition matrix (variational equations)', () => {
   });
 
   describe('when an impulsive burn lies inside the span', () => {
-    const burns: ImpulsiveBurn[] = [{ epochTdbS: T0 + 11000, deltaVKmS: [0.02, -0.01, 0.005] }];
+    const burns: VelocityImpulse[] = [{ epochTdbS: T0 + 11000, deltaVKmS: [0.02, -0.01, 0.005] }];
     it('should carry the STM through the burn (finite differences)', () => {
       const stm = run(x0, perturbed, burns).stm!;
       expect(blockRelativeError(stm, finiteDifferenceStm(perturbed, burns))).toBeLessThan(1e-6);
