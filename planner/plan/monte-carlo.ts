@@ -138,11 +138,18 @@ export function summariseDispersion(problem: PlanningProblem, plan: ManeuverPlan
   };
 }
 
+const NO_LINEARITY_CHECK = 'no linearity check of the linear dispersion against the samples';
+
 /** A copy of the plan with the Monte Carlo summary attached and its caveats recomputed. */
 export function attachMonteCarlo(plan: ManeuverPlan, summary: MonteCarloSummary): ManeuverPlan {
+  const notes = plan.dispersion.notes.filter((s) => !s.startsWith('Monte Carlo') && !s.startsWith(NO_LINEARITY_CHECK));
+  // The χ² linearity check runs on the B-plane only; say so rather than let its absence read as a pass.
+  if (summary.samples > 0 && !summary.linearAgreement) {
+    notes.push(`${NO_LINEARITY_CHECK}: it covers a B-plane target only; compare the linear and Monte Carlo target σ yourself`);
+  }
   const next: ManeuverPlan = {
     ...plan,
-    dispersion: { ...plan.dispersion, monteCarlo: summary, notes: plan.dispersion.notes.filter((s) => !s.startsWith('Monte Carlo')) },
+    dispersion: { ...plan.dispersion, monteCarlo: summary, notes },
     bPlane: plan.bPlane ? { ...plan.bPlane, samples: summary.bPlanePoints } : null,
   };
   next.caveats = planCaveats(next);

@@ -100,6 +100,7 @@ describe('dispersion linearity caveat on a real plan', () => {
       const agreement = plan.dispersion.monteCarlo?.linearAgreement;
       expect(agreement?.passed, agreement?.message).toBe(true);
       expect(codes(plan)).not.toContain('DISPERSION_LINEARITY_CHECK_FAILED');
+      expect(plan.dispersion.notes.some((n) => n.startsWith('no linearity check'))).toBe(false);
     });
 
     it('should match the linear ellipse axes within 4 standard errors of a sample σ (4/sqrt(2·299) ≈ 16 %)', () => {

@@ -58,6 +58,14 @@ describe('plan caveats', () => {
       expect(attached.caveats.map((c) => c.code)).toEqual(expect.arrayContaining(['IMPACT_PROBABILITY_ABOVE_LIMIT', 'DISPERSION_LINEARITY_CHECK_FAILED']));
       expect(attached.caveats.map((c) => c.code)).not.toContain('MONTE_CARLO_NOT_RUN');
     });
+    it('should note that no linearity check ran when the plan has no B-plane target', () => {
+      const attached = attachMonteCarlo(plan, summary({}));
+      const notes = attached.dispersion.notes.filter((n) => n.startsWith('no linearity check'));
+      expect(notes).toHaveLength(1);
+      expect(notes[0]).toContain('B-plane target only');
+      // Attaching again (a later fan-out) keeps one such note.
+      expect(attachMonteCarlo(attached, summary({})).dispersion.notes.filter((n) => n.startsWith('no linearity check'))).toHaveLength(1);
+    });
     it('should drop the not-run note once samples exist', () => {
       expect(codes(plan)).toContain('MONTE_CARLO_NOT_RUN');
       expect(attachMonteCarlo(plan, summary({})).caveats.map((c) => c.code)).not.toContain('MONTE_CARLO_NOT_RUN');
