@@ -196,24 +196,39 @@ export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobD
   }
 }
 
-/** Processes a `dispersion-samples` child job: one batch of Monte Carlo samples. */
+/**
+ * Processes a `dispersion-samples` child job: one batch of Monte Carlo samples. A batch that ends for good
+ * (cancelled, or failed for the last time) fails its parent (failParentOnFailure), so the parent's end is
+ * recorded here.
+ */
 export async function processSamples(deps: ProcessorDeps, job: Job<SampleBatchData>, bullSignal?: AbortSignal): Promise<SampleBatchResult> {
   const { parentId } = job.data;
   const control = runControl(deps, String(job.id), parentId, bullSignal);
   try {
     const cancel = await readCancel(deps.redis, deps.prefix, parentId);
-    if (cancel) {
-      control.cancel(cancel.by);
-      await deps.sink.recordCancelled({ jobId: parentId, actor: cancel.by, reason: cancel.reason });
-      throw new Error('parent cancelled');
-    }
+    if (cancel) control.cancel(cancel.by);
+    if (control.signal.aborted) throw new Error('parent cancelled before this batch started');
     const samples = await deps.pool.run({
       kind: 'samples', problem: job.data.problem, plan: job.data.plan, seed: job.data.seed,
       firstIndex: job.data.firstIndex, count: job.data.count,
     }, { signal: control.signal });
     return { firstIndex: job.data.firstIndex, samples };
   } catch (error) {
-    throw classify(error, control.stopReason(), deps);
+    const outcome = classify(error, control.stopReason(), deps);
+    const last = outcome instanceof UnrecoverableError || job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
+    if (last) {
+      try {
+        if (control.stopReason()?.kind === 'cancel') {
+          const cancel = await readCancel(deps.redis, deps.prefix, parentId);
+          await deps.sink.recordCancelled({ jobId: parentId, actor: cancel?.by ?? deps.actor, reason: cancel?.reason ?? outcome.message });
+        } else {
+          await deps.sink.recordFailed({ jobId: parentId, actor: deps.actor, errorName: 'SampleBatchFailed', message: `batch ${job.id}: ${outcome.message}` });
+        }
+      } catch (e) {
+        deps.logger.error({ err: e, jobId: parentId }, 'could not record the parent job\'s end in the plan sink');
+      }
+    }
+    throw outcome;
   } finally {
     control.dispose();
   }

@@ -58,4 +58,19 @@ describe('Monte Carlo fan-out', () => {
       expect(dispersion.length).toBeGreaterThan(0);
     });
   });
+
+  describe('when the job is cancelled while its sample batches run', () => {
+    it('should end cancelled and record the cancellation in the archive', async () => {
+      const problem = reachableProblem({ samples: 3_000, seed: 5, name: 'FANCANCEL' });
+      const res = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(problem) });
+      const jobId = res.body.jobId as string;
+      await waitForJob(svc, jobId, (s) => s.state === 'waiting-children', 60_000);
+      const cancel = await svc.request('POST', `/v1/jobs/${jobId}/cancel`, { token: svc.tokens.submitter, body: { reason: 'test' } });
+      expect(cancel.status).toBe(202);
+      const end = await waitForJob(svc, jobId, (s) => ['cancelled', 'completed', 'failed'].includes(s.state), 60_000);
+      expect(end.state).toBe('cancelled');
+      expect(end.error.name).toBe('CancelledError');
+      expect((await svc.archive!.getJob(jobId))?.state).toBe('cancelled');
+    });
+  });
 });
