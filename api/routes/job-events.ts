@@ -70,7 +70,7 @@ export function jobEventRoutes(routes: ApiRoutes, deps: AppDeps): void {
     }));
     const heartbeat = setInterval(() => { if (!closed) res.write(': keep-alive\n\n'); }, deps.limits.sseHeartbeatMs);
     cleanups.push(() => clearInterval(heartbeat));
-    req.on('close', close);
+    res.on('close', close);
     // The job may have moved on between the first read and the subscription.
     await refresh();
   });
