@@ -2,18 +2,24 @@
  * npm run bench:propagator — speed and accuracy of the propagator core, as ratios against peers measured
  * in the same run on the same machine. Writes bench/results/propagator.md.
  *
+ * How times are taken (bench/bench-stats.ts, shared with bench/ephemeris.bench.ts): CPU time of this
+ * process, contenders alternated within each round, median and min–max over rounds; ratios are taken
+ * round by round. The look-up target compares the two sources on the exact look-ups one propagation makes,
+ * through the same call the force model makes (planBodyPositions(...).positionsInto once per epoch).
+ *
  * Case: one year heliocentric (an invented spacecraft, a = 1.3 au, e = 0.2, i = 3°, from 2031-03-01 TDB),
  * Sun central, Mercury..Neptune and the Moon perturbing, DOP853 at rtol = atol = 1e-12.
  */
-import { execSync } from 'node:child_process';
-import { readFileSync, writeFileSync } from 'node:fs';
+import { writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import * as Astronomy from 'astronomy-engine';
 import {
   buildChebyshevEphemeris, createBuiltinEphemeris, createCowellRhs, ForceModel, GM_KM3_S2, integrateDop853, parseEpoch,
-  propagate, ttFromTdb, type BodyName, type Ephemeris, type PropagationRequest, type PropagationResult,
+  planBodyPositions, propagate, ttFromTdb, type BodyName, type BodyPositionsPlan, type Ephemeris, type PropagationRequest,
+  type PropagationResult,
 } from '../propagator/index.ts';
 import { conicToState } from '../propagator/kepler/index.ts';
+import { alternate, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
 
 interface OdexSolver {
   absoluteTolerance: number;
@@ -41,28 +47,8 @@ const log = (line = ''): void => {
   console.log(line);
 };
 const distance = (a: ArrayLike<number>, b: ArrayLike<number>): number => Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
-
-/**
- * Wall time of one call, ms: the best of `runs` batches (after one warm-up batch), each batch timing
- * `batch` calls and dividing — short runs (~1 ms) need batches to rise above timer and scheduler noise.
- */
-function timed<T>(runs: number, fn: () => T, batch = 1): { ms: number; value: T } {
-  let value = fn();
-  for (let k = 1; k < batch; k++) value = fn();
-  let best = Infinity;
-  for (let i = 0; i < runs; i++) {
-    const t = cpuMs();
-    for (let k = 0; k < batch; k++) value = fn();
-    best = Math.min(best, (cpuMs() - t) / batch);
-  }
-  return { ms: best, value };
-}
-
-/** CPU time of this process (user + system), ms: less disturbed than wall time on a shared machine. */
-function cpuMs(): number {
-  const usage = process.cpuUsage();
-  return (usage.user + usage.system) / 1000;
-}
+const ROUNDS = 15;
+let speedRatio: Spread | null = null;
 
 function request(ephemeris: Ephemeris, extra: Partial<PropagationRequest> = {}): PropagationRequest {
   return {
@@ -72,41 +58,54 @@ function request(ephemeris: Ephemeris, extra: Partial<PropagationRequest> = {}):
   };
 }
 
-/** Wraps an ephemeris to record the epochs of its position look-ups (bench only; allocates). */
-function recording(source: Ephemeris): { ephemeris: Ephemeris; epochs: number[] } {
+/** Wraps a source to record what a propagation asks of it: the epochs of its batch look-ups (one per
+ * force-model epoch) and any other single look-ups (bench only; allocates). */
+function recording(source: Ephemeris): { ephemeris: Ephemeris; epochs: number[]; singles: { count: number } } {
   const epochs: number[] = [];
+  const singles = { count: 0 };
   return {
-    epochs,
+    epochs, singles,
     ephemeris: {
       name: source.name, span: source.span, bodies: source.bodies,
-      stateInto: (t, c, e, o, off) => source.stateInto(t, c, e, o, off),
+      stateInto: (t, c, e, o, off) => {
+        singles.count += 1;
+        source.stateInto(t, c, e, o, off);
+      },
       positionInto: (t, c, e, o, off) => {
-        epochs.push(e);
+        singles.count += 1;
         source.positionInto(t, c, e, o, off);
+      },
+      planPositions: (targets, centre): BodyPositionsPlan => {
+        const plan = planBodyPositions(source, targets, centre);
+        return { targets, centre, positionsInto: (e, o, off) => {
+          epochs.push(e);
+          plan.positionsInto(e, o, off);
+        } };
       },
     },
   };
 }
 
-/** Time to replay a list of look-ups (body, epoch) against a source, ms (best of 5). */
-function lookupTime(source: Ephemeris, epochs: number[]): number {
-  const out = new Float64Array(3);
-  return timed(5, () => {
-    for (let i = 0; i < epochs.length; i++) source.positionInto(PERTURBERS[i % PERTURBERS.length], 'sun', epochs[i], out, 0);
-  }).ms;
-}
-
-function machine(): string {
-  const cpu = readFileSync('/proc/cpuinfo', 'utf8').split('\n').find((l) => l.startsWith('model name'))?.split(':')[1]?.trim() ?? 'unknown';
-  const cores = execSync('nproc').toString().trim();
-  return `${cpu}; nproc ${cores}; node ${process.version}; ${new Date().toISOString().slice(0, 10)}`;
-}
+const out27 = new Float64Array(3 * PERTURBERS.length);
+/** The force model's look-ups replayed: one batch call per recorded epoch. */
+const replayBatch = (plan: BodyPositionsPlan, epochs: readonly number[]) => (): void => {
+  for (let i = 0; i < epochs.length; i++) plan.positionsInto(epochs[i], out27, 0);
+};
+/** The same look-ups one body at a time (the call pattern before the batch plan existed). */
+const replayPerBody = (source: Ephemeris, epochs: readonly number[]) => (): void => {
+  for (let i = 0; i < epochs.length; i++) {
+    for (let p = 0; p < PERTURBERS.length; p++) source.positionInto(PERTURBERS[p], 'sun', epochs[i], out27, 3 * p);
+  }
+};
 
 log('# Propagator benchmark (npm run bench:propagator)');
 log();
-log(`Machine: ${machine()}. The machine is shared with other work, so times are CPU time of this process`);
-log('(user + system; less disturbed by other processes than wall time), best of 20 batches of 20 runs after a');
-log('warm-up (single runs for the slow built-in and simulator cases). Ratios compare runs of the same process.');
+log(`Machine: ${machineLine()}. Shared with other work.`);
+log();
+log('Times are CPU time of this process (user + system), not wall time. Contenders run in alternation inside each');
+log(`round (${ROUNDS} rounds after a warm-up round, unless a table says otherwise), so both sides of a ratio see the same load;`);
+log('tables give the median with the min–max over rounds in brackets, and ratios are taken round by round. Timing');
+log('code: bench/bench-stats.ts (shared with bench/ephemeris.bench.ts).');
 log();
 log('Case: one year heliocentric, invented spacecraft (a = 1.3 au, e = 0.2, i = 3°) from 2031-03-01 TDB; Sun');
 log('central; Mercury..Neptune and the Moon as third bodies in f(q) form; Cowell, DOP853, rtol = atol = 1e-12.');
@@ -114,30 +113,55 @@ log();
 
 // 1. Built-in ephemeris versus the Chebyshev cache.
 const builtin = createBuiltinEphemeris();
-const buildStarted = performance.now();
+const buildStarted = cpuMs();
 const cache = buildChebyshevEphemeris(builtin, { bodies: ['sun', ...PERTURBERS], startTdbS: T0 - 86400, endTdbS: T1 + 86400 });
-const build = { ms: performance.now() - buildStarted };
+const buildMs = cpuMs() - buildStarted;
 const rec = recording(builtin);
-const withBuiltin = timed(1, () => propagate(request(rec.ephemeris)));
-const lookups = rec.epochs.slice(0, rec.epochs.length / 2); // one run's look-ups (warm-up + 1 run recorded)
-const REPEAT = 20; // short runs: best of 20 batches of BATCH calls
-const BATCH = 20;
-const withCache = timed(REPEAT, () => propagate(request(cache)), BATCH);
-const builtinLookupMs = lookupTime(builtin, lookups);
-const cacheLookupMs = lookupTime(cache, lookups);
-const cacheError = distance(withCache.value.final.positionKm, withBuiltin.value.final.positionKm);
+const builtinResult = propagate(request(rec.ephemeris));
+const epochs = [...rec.epochs];
+const singleLookUps = rec.singles.count;
+const cacheResult = propagate(request(cache));
+const [builtinRunMs, cacheRunMs] = alternate([
+  { fn: () => propagate(request(builtin)), repeat: 1 }, { fn: () => propagate(request(cache)), repeat: 10 },
+], 7);
+const builtinPlan = planBodyPositions(builtin, PERTURBERS, 'sun');
+const cachePlan = planBodyPositions(cache, PERTURBERS, 'sun');
+const [builtinLookUpMs, cacheLookUpMs, builtinPerBodyMs, cachePerBodyMs] = alternate([
+  { fn: replayBatch(builtinPlan, epochs), repeat: 1 }, { fn: replayBatch(cachePlan, epochs), repeat: 20 },
+  { fn: replayPerBody(builtin, epochs), repeat: 1 }, { fn: replayPerBody(cache, epochs), repeat: 20 },
+], ROUNDS);
+const lookUpRatio = spreadOf(ratios(builtinLookUpMs, cacheLookUpMs));
+const perBodyRatio = spreadOf(ratios(builtinPerBodyMs, cachePerBodyMs));
+const lookUps = epochs.length * PERTURBERS.length;
+const nsPerLookUp = (ms: readonly number[]): Spread => spreadOf(ms.map((m) => (m * 1e6) / lookUps));
+const cacheNs = nsPerLookUp(cacheLookUpMs);
+// Share of a run spent in look-ups: ratio of medians (the two were timed in different rounds).
+const cacheShare = (100 * spreadOf(cacheLookUpMs).median) / spreadOf(cacheRunMs).median;
+const builtinShare = (100 * spreadOf(builtinLookUpMs).median) / spreadOf(builtinRunMs).median;
+const cacheError = distance(cacheResult.final.positionKm, builtinResult.final.positionKm);
+const stat = (r: PropagationResult): string => `${r.stats.steps} (${r.stats.rejectedSteps}) | ${r.stats.evaluations}`;
 log('## Ephemeris: built-in astronomy-engine series versus Chebyshev cache');
 log();
-log('| run | CPU time ms | steps (rejected) | evaluations | look-ups | time in look-ups ms |');
-log('|---|---|---|---|---|---|');
-const stat = (r: PropagationResult): string => `${r.stats.steps} (${r.stats.rejectedSteps}) | ${r.stats.evaluations}`;
-log(`| built-in | ${withBuiltin.ms.toFixed(1)} | ${stat(withBuiltin.value)} | ${lookups.length} | ${builtinLookupMs.toFixed(1)} |`);
-log(`| Chebyshev cache | ${withCache.ms.toFixed(1)} | ${stat(withCache.value)} | ${lookups.length} | ${cacheLookupMs.toFixed(2)} |`);
+log(`What is measured: the look-ups of one propagation of the case — ${epochs.length} force-model epochs × ${PERTURBERS.length}`);
+log(`perturbers = ${lookUps} positions relative to the Sun, recorded from a run on the built-in source (plus ${singleLookUps}`);
+log('single look-ups outside the force model, not counted) — replayed in the recorded order through the call the force');
+log('model makes, `planBodyPositions(source, perturbers, \'sun\').positionsInto(epoch)`, once per epoch, for each source.');
+log('The built-in source has no batch call, so its plan makes one `positionInto` per body (planBodyPositions\' fallback);');
+log('the cache evaluates each series once per epoch with a shared Chebyshev basis per segment grid.');
 log();
-const lookupRatio = builtinLookupMs / cacheLookupMs;
-log(`Look-up time ratio built-in / cache: **${lookupRatio.toFixed(0)}×** (target ≥ 50×: ${lookupRatio >= 50 ? 'met' : 'NOT met'}); `
-  + `${((cacheLookupMs / lookups.length) * 1e6).toFixed(0)} ns per cached look-up. Building the cache took `
-  + `${build.ms.toFixed(0)} ms. Final positions differ by ${(cacheError * 1000).toFixed(2)} m.`);
+log('| run | CPU time per propagation ms | steps (rejected) | evaluations | look-up CPU time ms | ns per look-up | look-ups as share of run (ratio of medians) |');
+log('|---|---|---|---|---|---|---|');
+log(`| built-in | ${formatSpread(spreadOf(builtinRunMs))} | ${stat(builtinResult)} | ${formatSpread(spreadOf(builtinLookUpMs))} | `
+  + `${formatSpread(nsPerLookUp(builtinLookUpMs), 0)} | ${builtinShare.toFixed(0)} % |`);
+log(`| Chebyshev cache | ${formatSpread(spreadOf(cacheRunMs), 2)} | ${stat(cacheResult)} | ${formatSpread(spreadOf(cacheLookUpMs), 3)} | `
+  + `${formatSpread(cacheNs, 0)} | ${cacheShare.toFixed(0)} % |`);
+log();
+log(`**Look-up time ratio built-in / cache: ${formatSpread(lookUpRatio, 0)}×** (median over ${lookUpRatio.rounds} rounds, min–max in`);
+log(`brackets; target ≥ 50×: ${lookUpRatio.median >= 50 ? 'met' : '**NOT met**'}${lookUpRatio.median >= 50 && lookUpRatio.min < 50 ? ' at the median, not in every round' : ''}).`);
+log(`Same look-ups made one body at a time (\`positionInto\` per perturber, the pattern before the batch call): ratio`);
+log(`${formatSpread(perBodyRatio, 0)}×, ${formatSpread(nsPerLookUp(cachePerBodyMs), 0)} ns per cached look-up.`);
+log(`Building the cache took ${buildMs.toFixed(0)} ms CPU (first build in the process, JIT warm-up included). Final positions`);
+log(`with the cache and with the built-in source differ by ${(cacheError * 1000).toFixed(3)} m.`);
 log();
 
 // 2. odex (Hairer & Wanner's GBS extrapolation code, npm port) on the same equations at equal accuracy.
@@ -160,29 +184,40 @@ const runOdex = (tol: number) => {
 const runVeer = (tol: number) => integrateDop853(rhs, T0, x0, T1, { relativeTolerance: tol, absoluteTolerance: tol });
 const reference = runVeer(1e-14).y;
 const referenceOdex = runOdex(1e-14).y;
-const veerRun = timed(REPEAT, () => runVeer(TOL), BATCH);
-const veerError = distance(veerRun.value.y, reference);
+const veerValue = runVeer(TOL);
+const veerError = distance(veerValue.y, reference);
+const ODEX_TOLS = [1e-10, 3e-11, 1e-11, 3e-12, 1e-12, 3e-13, 1e-13, 3e-14];
+const odexValues = ODEX_TOLS.map((tol) => runOdex(tol));
+const odexErrors = odexValues.map((v) => distance(v.y, reference));
+const odexTimes = alternate(ODEX_TOLS.map((tol) => ({ fn: () => runOdex(tol), repeat: 5 })), 5);
+const matchedIndex = odexErrors.findIndex((e) => e <= veerError);
 log('## DOP853 (veer) versus odex on the same equations');
 log();
 log(`Reference: veer at 1e-14 (odex at 1e-14 agrees with it to ${(distance(reference, referenceOdex) * 1000).toFixed(3)} m). `
-  + 'Both integrate the same right-hand side (Chebyshev cache); odex gets a wrapper that returns a new array, as its API requires.');
+  + 'Both integrate the same right-hand side (Chebyshev cache, batch look-up); odex gets a wrapper that returns a new array, as its API requires.');
 log();
-log('| integrator | tolerance | final position error m | steps | evaluations | CPU time ms |');
+log('| integrator | tolerance | final position error m | steps | evaluations | CPU time ms (5 rounds × 5 runs) |');
 log('|---|---|---|---|---|---|');
-log(`| veer DOP853 | 1e-12 | ${(veerError * 1000).toFixed(3)} | ${veerRun.value.counts.steps} | ${veerRun.value.counts.evaluations} | ${veerRun.ms.toFixed(2)} |`);
-let matched: { tol: number; ms: number; error: number } | null = null;
-for (const tol of [1e-10, 3e-11, 1e-11, 3e-12, 1e-12, 3e-13, 1e-13, 3e-14]) {
-  const run = timed(REPEAT, () => runOdex(tol), BATCH);
-  const error = distance(run.value.y, reference);
-  log(`| odex | ${tol} | ${(error * 1000).toFixed(3)} | ${run.value.nStep} | ${run.value.nEval} | ${run.ms.toFixed(2)} |`);
-  if (matched === null && error <= veerError) matched = { tol, ms: run.ms, error };
+ODEX_TOLS.forEach((tol, i) => {
+  log(`| odex | ${tol} | ${(odexErrors[i] * 1000).toFixed(3)} | ${odexValues[i].nStep} | ${odexValues[i].nEval} | ${formatSpread(spreadOf(odexTimes[i]), 2)} |`);
+});
+if (matchedIndex < 0) {
+  log();
+  log('odex did not reach veer\'s accuracy at any tolerance tried: no speed ratio at equal accuracy.');
+} else {
+  const matchedTol = ODEX_TOLS[matchedIndex];
+  const [veerMs, odexMs] = alternate([{ fn: () => runVeer(TOL), repeat: 10 }, { fn: () => runOdex(matchedTol), repeat: 10 }], ROUNDS);
+  const speed = spreadOf(ratios(odexMs, veerMs));
+  speedRatio = speed;
+  log(`| veer DOP853 | 1e-12 | ${(veerError * 1000).toFixed(3)} | ${veerValue.counts.steps} | ${veerValue.counts.evaluations} | ${formatSpread(spreadOf(veerMs), 2)} |`);
+  log(`| odex (matched, timed in alternation with veer) | ${matchedTol} | ${(odexErrors[matchedIndex] * 1000).toFixed(3)} | `
+    + `${odexValues[matchedIndex].nStep} | ${odexValues[matchedIndex].nEval} | ${formatSpread(spreadOf(odexMs), 2)} |`);
+  log();
+  log(`Equal accuracy: the loosest odex tolerance whose final error is at most veer's (odex at ${matchedTol}: `
+    + `${(odexErrors[matchedIndex] * 1000).toFixed(3)} m vs veer ${(veerError * 1000).toFixed(3)} m; odex's error is not monotonic in its`);
+  log(`tolerance on this case). **veer is ${formatSpread(speed, 2)}× faster** (median over ${speed.rounds} alternated rounds of 10 runs each;`);
+  log(`target ≥ 2×: ${speed.median >= 2 ? 'met' : '**NOT met**'}${speed.median >= 2 && speed.min < 2 ? ' at the median, not in every round' : ''}).`);
 }
-log();
-log(matched === null
-  ? 'odex did not reach veer\'s accuracy at any tolerance tried.'
-  : `At equal or better final accuracy (odex at ${matched.tol}: ${(matched.error * 1000).toFixed(3)} m vs veer ${(veerError * 1000).toFixed(3)} m), `
-    + `veer is **${(matched.ms / veerRun.ms).toFixed(1)}×** faster (target ≥ 2×: ${matched.ms / veerRun.ms >= 2 ? 'met' : 'NOT met'}). `
-    + 'odex\'s error is not monotonic in its tolerance on this case, so the first tolerance reaching veer\'s error is used.');
 log();
 
 // 3. astronomy-engine GravitySimulator on the same case with its own physics (no separate Moon).
@@ -194,7 +229,9 @@ const simBodies = PERTURBERS.filter((b) => b !== 'moon');
 const gm: Partial<Record<BodyName, number>> = {};
 for (const b of ['sun', ...simBodies]) gm[b as BodyName] = toKm3S2(Astronomy.MassProduct(source[b]));
 gm.earth = toKm3S2(Astronomy.MassProduct(Astronomy.Body.Earth) + Astronomy.MassProduct(Astronomy.Body.Moon));
-const simPhysics = timed(REPEAT, () => propagate(request(cache, { forces: { centralBody: 'sun', perturbingBodies: simBodies, gmOverridesKm3S2: gm } })), BATCH);
+const simRequest = request(cache, { forces: { centralBody: 'sun', perturbingBodies: simBodies, gmOverridesKm3S2: gm } });
+const simPhysicsValue = propagate(simRequest);
+const simPhysicsMs = spreadOf(alternate([{ fn: () => propagate(simRequest), repeat: 10 }], ROUNDS)[0]);
 const simulate = (steps: number): number[] => {
   const tt0 = ttFromTdb(T0) / 86400;
   const time0 = Astronomy.AstroTime.FromTerrestrialTime(tt0);
@@ -212,16 +249,18 @@ log('this comparison (its GM values, no Moon, Chebyshev cache). The simulator is
 log();
 log('| run | distance to veer after one year km | CPU time ms |');
 log('|---|---|---|');
-log(`| veer (same physics) | 0 | ${simPhysics.ms.toFixed(1)} |`);
+log(`| veer (same physics; median and spread over ${ROUNDS} rounds) | 0 | ${formatSpread(simPhysicsMs, 2)} |`);
 const simRuns: number[][] = [];
 for (const steps of [365, 1461, 5844]) {
-  const run = timed(1, () => simulate(steps));
-  simRuns.push(run.value);
-  log(`| GravitySimulator, step ${(365.25 / steps).toFixed(4)} d | ${distance(run.value, simPhysics.value.final.positionKm).toFixed(1)} | ${run.ms.toFixed(1)} |`);
+  const t = cpuMs();
+  const value = simulate(steps);
+  const ms = cpuMs() - t;
+  simRuns.push(value);
+  log(`| GravitySimulator, step ${(365.25 / steps).toFixed(4)} d (one run) | ${distance(value, simPhysicsValue.final.positionKm).toFixed(1)} | ${ms.toFixed(1)} |`);
 }
 // Second order, step ratio 4: Richardson p + (p - p_coarse)/15 removes the simulator's leading step error.
 const richardson = simRuns[2].map((v, i) => v + (v - simRuns[1][i]) / 15);
-log(`| GravitySimulator, Richardson of the two finest | ${distance(richardson, simPhysics.value.final.positionKm).toFixed(1)} | — |`);
+log(`| GravitySimulator, Richardson of the two finest | ${distance(richardson, simPhysicsValue.final.positionKm).toFixed(1)} | — |`);
 log();
 log('The simulator converges towards veer as its step shrinks (second order: about 16x less error per 4x');
 log('smaller step); the extrapolated value shows what is left once its step error is removed: the simulator');
@@ -230,23 +269,27 @@ log('test/reference/gravity-simulator-peer.test.ts, where this is measured for a
 log();
 
 // 4. State + STM versus state only.
-const stateOnly = timed(REPEAT, () => propagate(request(cache)), BATCH);
-const withStm = timed(REPEAT, () => propagate(request(cache, { withStm: true })), BATCH);
+const stateOnlyValue = propagate(request(cache));
+const withStmValue = propagate(request(cache, { withStm: true }));
+const [stateOnlyMs, withStmMs] = alternate([
+  { fn: () => propagate(request(cache)), repeat: 10 }, { fn: () => propagate(request(cache, { withStm: true })), repeat: 10 },
+], ROUNDS);
+const stmRatio = spreadOf(ratios(withStmMs, stateOnlyMs));
 log('## State + STM versus state only (Chebyshev cache)');
 log();
 log(`| run | CPU time ms | steps | evaluations |`);
 log('|---|---|---|---|');
-log(`| state only | ${stateOnly.ms.toFixed(2)} | ${stateOnly.value.stats.steps} | ${stateOnly.value.stats.evaluations} |`);
-log(`| state + STM | ${withStm.ms.toFixed(2)} | ${withStm.value.stats.steps} | ${withStm.value.stats.evaluations} |`);
+log(`| state only | ${formatSpread(spreadOf(stateOnlyMs), 2)} | ${stateOnlyValue.stats.steps} | ${stateOnlyValue.stats.evaluations} |`);
+log(`| state + STM | ${formatSpread(spreadOf(withStmMs), 2)} | ${withStmValue.stats.steps} | ${withStmValue.stats.evaluations} |`);
 log();
-log(`Ratio: **${(withStm.ms / stateOnly.ms).toFixed(2)}×** (target ≤ 3×: ${withStm.ms / stateOnly.ms <= 3 ? 'met' : 'NOT met'}). The STM rides on the state's step control (error norm on the 6 state components).`);
+log(`Ratio: **${formatSpread(stmRatio, 2)}×** (target ≤ 3×: ${stmRatio.median <= 3 ? 'met' : '**NOT met**'}). The STM rides on the state's step control (error norm on the 6 state components).`);
 log();
 
 // 5. Energy drift of 100 revolutions, two-body.
 log('## Energy drift, 100 revolutions two-body (Earth, a = 12000 km), tolerance 1e-12');
 log();
-log('| eccentricity | relative energy drift | steps | CPU time ms |');
-log('|---|---|---|---|');
+log('| eccentricity | relative energy drift | steps | CPU time ms (median of 5) | target < 1e-10 |');
+log('|---|---|---|---|---|');
 const mu = GM_KM3_S2.earth;
 for (const e of [0.1, 0.4]) {
   const a = 12000;
@@ -255,12 +298,32 @@ for (const e of [0.1, 0.4]) {
   const period = 2 * Math.PI * Math.sqrt(a ** 3 / mu);
   const y0 = [rp, 0, 0, 0, vp * 0.8, vp * 0.6];
   const twoBody = createCowellRhs(new ForceModel({ centralBody: 'earth', perturbingBodies: [] }, builtin), false);
-  const run = timed(3, () => integrateDop853(twoBody, 0, y0, 100 * period, { relativeTolerance: TOL, absoluteTolerance: TOL }));
+  const run = () => integrateDop853(twoBody, 0, y0, 100 * period, { relativeTolerance: TOL, absoluteTolerance: TOL });
+  const value = run();
+  const ms = spreadOf(alternate([{ fn: run, repeat: 1 }], 5)[0]);
   const energy = (y: ArrayLike<number>): number => Math.hypot(y[3], y[4], y[5]) ** 2 / 2 - mu / Math.hypot(y[0], y[1], y[2]);
-  const drift = Math.abs((energy(run.value.y) - energy(y0)) / energy(y0));
-  log(`| ${e} | ${drift.toExponential(2)} | ${run.value.counts.steps} | ${run.ms.toFixed(1)} |`);
+  const drift = Math.abs((energy(value.y) - energy(y0)) / energy(y0));
+  log(`| ${e} | ${drift.toExponential(2)} | ${value.counts.steps} | ${ms.median.toFixed(1)} | ${drift < 1e-10 ? 'met' : '**NOT met**'} |`);
 }
 log();
-log('Target: < 1e-10. Met at e = 0.1; at e = 0.4 the drift is tolerance-proportional and needs 1e-13 to meet it.');
+log('Where the drift misses the target it is tolerance-proportional (the integrator\'s local error), not a defect of the');
+log('force model; a tighter tolerance meets it at proportionally more steps.');
+log();
 
-writeFileSync(new URL('./results/propagator.md', import.meta.url), `${lines.join('\n')}\n`);
+// Run history: the headline ratios of this and earlier runs (kept from the previous results file).
+const resultsFile = new URL('./results/propagator.md', import.meta.url);
+const HISTORY = '## Run history';
+const speedText = speedRatio === null ? 'n/a' : formatSpread(speedRatio, 2);
+const history = historyRows(resultsFile, HISTORY,
+  `| ${new Date().toISOString().slice(0, 16)}Z | ${machineLine().split('; ').find((p) => p.startsWith('load')) ?? ''} | `
+  + `${formatSpread(lookUpRatio, 0)} | ${formatSpread(cacheNs, 0)} | ${speedText} |`);
+log(HISTORY);
+log();
+log('Headline figures of this run and the previous ones (medians, min–max over rounds in brackets), to show how much');
+log('they move between runs on this shared machine.');
+log();
+log('| run (UTC) | load | look-up ratio built-in / cache (target ≥ 50×) | ns per cached look-up | veer / odex speed (target ≥ 2×) |');
+log('|---|---|---|---|---|');
+for (const row of history) log(row);
+
+writeFileSync(resultsFile, `${lines.join('\n')}\n`);

@@ -10,9 +10,15 @@
 import { InvalidInputError } from '../errors.ts';
 import type { BodyName } from '../types.ts';
 import { BODY_NAMES } from '../types.ts';
-import type { Ephemeris, TdbSpan } from './ephemeris.ts';
+import type { BodyPositionsPlan, Ephemeris, TdbSpan } from './ephemeris.ts';
 import { assertBody, assertInSpan, assertValidSpan } from './ephemeris-checks.ts';
-import { chebyshevCoefficientsInto, chebyshevEvaluate, chebyshevNodes } from './chebyshev-fit.ts';
+import { chebyshevCoefficientsInto, chebyshevEvaluate, chebyshevNodes, truncatedLength } from './chebyshev-fit.ts';
+import { ChebyshevPositionsPlan, type ChebyshevTables } from './chebyshev-positions-plan.ts';
+
+/** Index in BODY_NAMES by name (a keyed load instead of a string search per look-up); no prototype, so a
+ * name like 'toString' finds nothing. */
+const BODY_INDEX: Readonly<Record<string, number | undefined>> = Object.freeze(
+  Object.assign(Object.create(null) as Record<string, number>, Object.fromEntries(BODY_NAMES.map((b, i) => [b, i]))));
 
 /** Options of {@link buildChebyshevEphemeris}. */
 export interface ChebyshevEphemerisOptions {
@@ -49,6 +55,9 @@ const INITIAL_SEGMENT_S: Readonly<Record<BodyName, number>> = Object.freeze({
 });
 /** Fewer than this many halvings and the source is not smooth enough to cache. */
 const MAX_HALVINGS = 12;
+/** Share of the tolerance that dropping negligible trailing position coefficients may use (the rest is
+ * left for the fit error itself); the measured error after dropping is what fitReport() gives. */
+const TRUNCATION_SHARE = 0.25;
 
 /** The fitted series of one body relative to its parent. */
 interface BodySeries {
@@ -57,6 +66,8 @@ interface BodySeries {
   segments: number;
   /** [segment][component 0..5][coefficient] — x, y, z, vx, vy, vz. */
   coefs: Float64Array;
+  /** Position series use only the first `positionTerms` coefficients (the rest are zero). */
+  positionTerms: number;
   /** Largest position / velocity difference from the source seen at the check points. */
   maxErrorKm: number;
   maxErrorKmS: number;
@@ -81,11 +92,13 @@ function fitBody(
   const samples = new Float64Array(6 * n);
   const column = new Float64Array(n);
   const probe = new Float64Array(6);
+  const checkX = [-1, -0.97, -0.5 * (nodes[n - 1] + nodes[n - 2]), 0.013, 0.5 * (nodes[0] + nodes[1]), 1];
   let segmentS = Math.min(firstSegmentS, length);
   for (let attempt = 0; attempt <= MAX_HALVINGS; attempt++) {
     const segments = Math.max(1, Math.ceil(length / segmentS - 1e-9));
     const step = length / segments;
     const coefs = new Float64Array(segments * 6 * n);
+    const probes = new Float64Array(segments * checkX.length * 3);
     let maxErrorKm = 0;
     let maxErrorKmS = 0;
     let failed = false;
@@ -97,8 +110,10 @@ function fitBody(
         chebyshevCoefficientsInto(column, n, coefs, (s * 6 + c) * n);
       }
       // Check between nodes, where the interpolation error peaks, and at both ends.
-      for (const x of [-1, -0.97, -0.5 * (nodes[n - 1] + nodes[n - 2]), 0.013, 0.5 * (nodes[0] + nodes[1]), 1]) {
+      for (let i = 0; i < checkX.length; i++) {
+        const x = checkX[i];
         source.stateInto(body, parent, a + (x + 1) * 0.5 * step, probe, 0);
+        probes.set(probe.subarray(0, 3), (s * checkX.length + i) * 3);
         let dp = 0;
         let dv = 0;
         for (let c = 0; c < 3; c++) {
@@ -110,11 +125,47 @@ function fitBody(
       }
       if (maxErrorKm > toleranceKm) failed = true;
     }
-    if (!failed) return { parent, segmentS: step, segments, coefs, maxErrorKm, maxErrorKmS };
+    if (!failed) {
+      const positionTerms = dropNegligibleTerms(coefs, segments, n, Math.min(TRUNCATION_SHARE * toleranceKm, toleranceKm - maxErrorKm));
+      // Measure again at the same check points with the shortened series (no new source calls).
+      let truncatedErrorKm = 0;
+      for (let seg = 0; seg < segments; seg++) {
+        for (let i = 0; i < checkX.length; i++) {
+          for (let c = 0; c < 3; c++) {
+            const v = chebyshevEvaluate(coefs, (seg * 6 + c) * n, positionTerms, checkX[i]);
+            truncatedErrorKm = Math.max(truncatedErrorKm, Math.abs(v - probes[(seg * checkX.length + i) * 3 + c]));
+          }
+        }
+      }
+      return { parent, segmentS: step, segments, coefs, positionTerms, maxErrorKm: truncatedErrorKm, maxErrorKmS };
+    }
     segmentS = step / 2;
   }
   throw new InvalidInputError('toleranceKm', `cannot fit ${body} relative to ${parent} from ${source.name} `
     + `within ${toleranceKm} km with ${n} coefficients (source not smooth enough or tolerance too tight)`);
+}
+
+/** Zeroes trailing position coefficients whose sum of magnitudes stays within `budgetKm` in every segment
+ * (they are at the source's noise level); returns how many position terms remain. */
+function dropNegligibleTerms(coefs: Float64Array, segments: number, n: number, budgetKm: number): number {
+  const offsets: number[] = [];
+  for (let s = 0; s < segments; s++) for (let c = 0; c < 3; c++) offsets.push((s * 6 + c) * n);
+  const m = budgetKm > 0 ? truncatedLength(coefs, offsets, n, budgetKm) : n;
+  for (const o of offsets) coefs.fill(0, o + m, o + n);
+  return m;
+}
+
+/** A body's position coefficients as [segment][j < positionTerms][x, y, z]: read front to back by the
+ * batch look-up. */
+function positionsBySegment(s: BodySeries, n: number): Float64Array {
+  const m = s.positionTerms;
+  const out = new Float64Array(s.segments * m * 3);
+  for (let seg = 0; seg < s.segments; seg++) {
+    for (let j = 0; j < m; j++) {
+      for (let c = 0; c < 3; c++) out[(seg * m + j) * 3 + c] = s.coefs[(seg * 6 + c) * n + j];
+    }
+  }
+  return out;
 }
 
 class ChebyshevEphemeris implements Ephemeris {
@@ -129,7 +180,10 @@ class ChebyshevEphemeris implements Ephemeris {
   private readonly parentIndex = new Int8Array(BODY_NAMES.length).fill(-1);
   private readonly segmentS = new Float64Array(BODY_NAMES.length);
   private readonly segmentCount = new Int32Array(BODY_NAMES.length);
+  private readonly positionTerms = new Int32Array(BODY_NAMES.length);
   private readonly coefs: Float64Array[] = [];
+  /** Position coefficients re-laid [segment][j][x, y, z] for the batch look-up (ChebyshevPositionsPlan). */
+  private readonly positionCoefs: Float64Array[] = [];
   private readonly startTdbS: number;
   private readonly endTdbS: number;
   // Last evaluation per body (state relative to its parent) and the epoch and components it holds.
@@ -151,12 +205,24 @@ class ChebyshevEphemeris implements Ephemeris {
       this.present[i] = bodies.includes(body) ? 1 : 0;
       const s = series[body];
       this.coefs.push(s ? s.coefs : new Float64Array(0));
+      this.positionCoefs.push(s ? positionsBySegment(s, n) : new Float64Array(0));
       if (s) {
         this.parentIndex[i] = BODY_NAMES.indexOf(s.parent);
         this.segmentS[i] = s.segmentS;
         this.segmentCount[i] = s.segments;
+        this.positionTerms[i] = s.positionTerms;
       }
     });
+  }
+
+  /** Batch look-up of `targets` relative to `centre` (see ChebyshevPositionsPlan); bodies checked now. */
+  planPositions(targets: readonly BodyName[], centre: BodyName): BodyPositionsPlan {
+    const tables: ChebyshevTables = {
+      name: this.name, span: this.span, bodies: this.bodies, n: this.n, parentIndex: this.parentIndex,
+      segmentS: this.segmentS, segmentCount: this.segmentCount, positionTerms: this.positionTerms,
+      positionCoefs: this.positionCoefs,
+    };
+    return new ChebyshevPositionsPlan(tables, targets, centre);
   }
 
   fitReport(): ChebyshevFitReport[] {
@@ -168,8 +234,8 @@ class ChebyshevEphemeris implements Ephemeris {
 
   private lookUp(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
     components: number): void {
-    const ti = BODY_NAMES.indexOf(target);
-    const ci = BODY_NAMES.indexOf(centre);
+    const ti = BODY_INDEX[target] ?? -1;
+    const ci = BODY_INDEX[centre] ?? -1;
     if (ti < 0 || this.present[ti] === 0) assertBody(this.name, this.bodies, target, 'target');
     if (ci < 0 || this.present[ci] === 0) assertBody(this.name, this.bodies, centre, 'centre');
     if (!(epochTdbS >= this.startTdbS && epochTdbS <= this.endTdbS)) assertInSpan(this.name, this.span, epochTdbS);
@@ -226,7 +292,8 @@ class ChebyshevEphemeris implements Ephemeris {
     let s0 = 0;
     let s1 = 0;
     let s2 = 0;
-    for (let j = 0; j < n; j++) {
+    const m = this.positionTerms[b];
+    for (let j = 0; j < m; j++) {
       const tj = t[j];
       s0 += k[b0 + j] * tj;
       s1 += k[b0 + n + j] * tj;

@@ -35,3 +35,22 @@ export function chebyshevEvaluate(coefs: Float64Array, offset: number, n: number
   }
   return coefs[offset] + x * b1 - b2;
 }
+
+/**
+ * Smallest m in [1, n] such that, in every block of n coefficients at `offsets`, dropping c_m..c_{n-1}
+ * changes the series by at most `budget` anywhere on [-1, 1] (|T_j| ≤ 1, so Σ|c_j| over the dropped
+ * terms bounds the change). Units are those of the coefficients.
+ */
+export function truncatedLength(coefs: Float64Array, offsets: ArrayLike<number>, n: number, budget: number): number {
+  let m = 1;
+  for (let i = 0; i < offsets.length; i++) {
+    let tail = 0;
+    let keep = n;
+    while (keep > m && tail + Math.abs(coefs[offsets[i] + keep - 1]) <= budget) {
+      tail += Math.abs(coefs[offsets[i] + keep - 1]);
+      keep--;
+    }
+    m = keep;
+  }
+  return m;
+}

@@ -1,5 +1,6 @@
 /** Ephemeris sources behind one interface: built-in (astronomy-engine), Chebyshev cache, tabulated, layered. */
-export type { Ephemeris, TdbSpan } from './ephemeris.ts';
+export type { BodyPositionsPlan, Ephemeris, TdbSpan } from './ephemeris.ts';
+export { planBodyPositions } from './body-positions-plan.ts';
 export { createBuiltinEphemeris, BUILTIN_EPHEMERIS_SPAN } from './astronomy-engine-ephemeris.ts';
 export { buildChebyshevEphemeris, CHEBYSHEV_DEFAULTS } from './chebyshev-ephemeris.ts';
 export type { ChebyshevEphemerisOptions, ChebyshevEphemerisCache, ChebyshevFitReport } from './chebyshev-ephemeris.ts';

@@ -3,7 +3,8 @@
  * acceleration (km/s^2, J2000 equatorial, relative to the central body) and, on request, its analytic
  * gradient ∂a/∂r (1/s^2; ∂a/∂v = 0 for every force here). No allocation per evaluation.
  */
-import type { Ephemeris } from '../ephemeris/ephemeris.ts';
+import type { BodyPositionsPlan, Ephemeris } from '../ephemeris/ephemeris.ts';
+import { planBodyPositions } from '../ephemeris/body-positions-plan.ts';
 import type { ForceModelSpec } from '../propagation-types.ts';
 import type { BodyName } from '../types.ts';
 import { checkForceModel, type CheckedForceModel } from './force-model-checks.ts';
@@ -26,6 +27,10 @@ export class ForceModel {
   evaluations = 0;
   private readonly config: CheckedForceModel;
   private readonly sunPosition = new Float64Array(3);
+  /** All perturbers relative to the central body in one call per epoch; the Sun alone when SRP needs it
+   * and it is not a perturber. */
+  private readonly bodyPlan: BodyPositionsPlan;
+  private readonly sunPlan: BodyPositionsPlan | null;
   private lastEpoch = Number.NaN;
 
   /** Validates the spec (InvalidInputError naming the field) and prepares buffers. */
@@ -39,32 +44,28 @@ export class ForceModel {
     this.perturbingGmKm3S2 = Float64Array.from(this.config.perturbingGm);
     this.perturbingRadiiKm = Float64Array.from(this.config.perturbingRadiiKm);
     this.bodyPositionsKm = new Float64Array(3 * this.perturbingBodies.length);
+    this.bodyPlan = planBodyPositions(ephemeris, this.perturbingBodies, this.centralBody);
+    const srp = this.config.solarPressure;
+    this.sunPlan = srp !== null && srp.sunIndex < 0 && this.centralBody !== 'sun'
+      ? planBodyPositions(ephemeris, ['sun'], this.centralBody) : null;
   }
 
   /** Looks up the perturbing bodies' positions at `epochTdbS` (cached for repeated calls at one epoch). */
   updateBodies(epochTdbS: number): void {
     if (epochTdbS === this.lastEpoch) return;
-    const bodies = this.perturbingBodies;
-    for (let b = 0; b < bodies.length; b++) {
-      this.ephemeris.positionInto(bodies[b], this.centralBody, epochTdbS, this.bodyPositionsKm, 3 * b);
-    }
-    const srp = this.config.solarPressure;
-    if (srp !== null && srp.sunIndex < 0 && this.centralBody !== 'sun') {
-      this.ephemeris.positionInto('sun', this.centralBody, epochTdbS, this.sunPosition, 0);
-    }
+    if (this.perturbingBodies.length > 0) this.bodyPlan.positionsInto(epochTdbS, this.bodyPositionsKm, 0);
+    if (this.sunPlan !== null) this.sunPlan.positionsInto(epochTdbS, this.sunPosition, 0);
     this.lastEpoch = epochTdbS;
   }
 
-  /** Position (km, from the central body) of perturbing body `index` at `epochTdbS` into out[0..2],
-   * reusing the last evaluation's look-up when the epoch matches (e.g. at the end of an accepted step). */
+  /** Position (km, from the central body) of perturbing body `index` at `epochTdbS` into out[0..2]. Reuses
+   * the last evaluation's look-up when the epoch matches (e.g. at the end of an accepted step); otherwise
+   * looks up all perturbers at once, since callers (the impact check) go through every body in turn. */
   bodyPositionInto(index: number, epochTdbS: number, out: Float64Array): void {
-    if (epochTdbS === this.lastEpoch) {
-      out[0] = this.bodyPositionsKm[3 * index];
-      out[1] = this.bodyPositionsKm[3 * index + 1];
-      out[2] = this.bodyPositionsKm[3 * index + 2];
-      return;
-    }
-    this.ephemeris.positionInto(this.perturbingBodies[index], this.centralBody, epochTdbS, out, 0);
+    this.updateBodies(epochTdbS);
+    out[0] = this.bodyPositionsKm[3 * index];
+    out[1] = this.bodyPositionsKm[3 * index + 1];
+    out[2] = this.bodyPositionsKm[3 * index + 2];
   }
 
   /**

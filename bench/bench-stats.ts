@@ -1,0 +1,90 @@
+/**
+ * Timing helpers shared by bench/propagator.bench.ts and bench/ephemeris.bench.ts, so both measure the
+ * same way: CPU time of this process (process.cpuUsage, user + system — a shared, loaded machine
+ * disturbs it less than wall time), peers timed in alternation within each round (both see the same
+ * load), and the median with the spread over rounds reported, never the best run alone.
+ */
+import { execSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
+import os from 'node:os';
+
+/** CPU time of this process (user + system), ms. */
+export function cpuMs(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1000;
+}
+
+/** Median and spread of a sample. */
+export interface Spread {
+  median: number;
+  min: number;
+  max: number;
+  rounds: number;
+}
+
+export function spreadOf(values: readonly number[]): Spread {
+  const s = [...values].sort((a, b) => a - b);
+  const mid = s.length >> 1;
+  const median = s.length % 2 === 1 ? s[mid] : (s[mid - 1] + s[mid]) / 2;
+  return { median, min: s[0], max: s[s.length - 1], rounds: s.length };
+}
+
+/** "12.3 (10.1–15.0)": median with min–max over rounds. */
+export function formatSpread(s: Spread, digits = 1): string {
+  return `${s.median.toFixed(digits)} (${s.min.toFixed(digits)}–${s.max.toFixed(digits)})`;
+}
+
+/** CPU ms of one call of `fn`, averaged over `repeat` calls (short calls need repeats to rise above the
+ * timer's resolution). */
+export function cpuMsPerCall(fn: () => unknown, repeat = 1): number {
+  const t = cpuMs();
+  for (let k = 0; k < repeat; k++) fn();
+  return (cpuMs() - t) / repeat;
+}
+
+/**
+ * Times several contenders in alternation: each round runs every contender once (`repeat[i]` calls
+ * each), after one warm-up round. Returns per-contender CPU ms per call for every round, so ratios can be
+ * taken round by round (same load for both sides of a ratio).
+ */
+export function alternate(contenders: ReadonlyArray<{ fn: () => unknown; repeat: number }>, rounds: number): number[][] {
+  for (const c of contenders) cpuMsPerCall(c.fn, c.repeat);
+  const out: number[][] = contenders.map(() => []);
+  for (let r = 0; r < rounds; r++) {
+    contenders.forEach((c, i) => out[i].push(cpuMsPerCall(c.fn, c.repeat)));
+  }
+  return out;
+}
+
+/** Per-round ratios a[i] / b[i]. */
+export function ratios(a: readonly number[], b: readonly number[]): number[] {
+  return a.map((x, i) => x / b[i]);
+}
+
+/** CPU model, nproc, Node version, load average and date: the machine line of every results file. */
+export function machineLine(): string {
+  const cpu = readFileSync('/proc/cpuinfo', 'utf8').split('\n').find((l) => l.startsWith('model name'))?.split(':')[1]?.trim()
+    ?? os.cpus()[0]?.model ?? 'unknown CPU';
+  const cores = execSync('nproc').toString().trim();
+  const load = os.loadavg().map((l) => l.toFixed(1)).join(', ');
+  return `${cpu}; nproc ${cores}; node ${process.version}; load average at start ${load}; ${new Date().toISOString().slice(0, 16)}Z`;
+}
+
+/**
+ * Keeps a run-history table across runs: returns the previous rows found under `heading` in `file`
+ * (at most `keep - 1`) followed by `row`, so each results file shows how the figures move between runs.
+ */
+export function historyRows(file: URL, heading: string, row: string, keep = 10): string[] {
+  let previous: string[] = [];
+  try {
+    const text = readFileSync(file, 'utf8');
+    const at = text.indexOf(heading);
+    if (at >= 0) {
+      previous = text.slice(at + heading.length).split('\n')
+        .filter((l) => /^\| \d{4}-\d\d-\d\d/.test(l));
+    }
+  } catch {
+    previous = [];
+  }
+  return [...previous.slice(-(keep - 1)), row];
+}
