@@ -7,7 +7,7 @@ export { ApiRoutes, type RouteSpec, type ResponseSpec } from './route-table.ts';
 export { ROUTE_MODULES, type RouteModule } from './routes/index.ts';
 export { buildOpenApi } from './openapi.ts';
 export { ServiceMetrics } from './metrics.ts';
-export { HttpError, sendError, type FieldIssue } from './errors.ts';
+export { HttpError, errorHandler, notFound, sendError, type FieldIssue } from './errors.ts';
 export { validate, validOf, zodIssues } from './validate.ts';
 export { ArchivePlanReader, JobResultPlanReader, type PlanReader, type PlanSummary } from './plan-reader.ts';
 export {
