@@ -6,8 +6,8 @@
  */
 import { z } from 'zod';
 import {
-  BODY_NAMES, INERTIAL_FRAMES, InvalidInputError, parseEpoch,
-  type EventSpec, type VelocityImpulse, type PropagationRequest, type Ephemeris, type Vec3,
+  BODY_NAMES, formatEpoch, INERTIAL_FRAMES, InvalidInputError, OutOfSpanError, parseEpoch,
+  type EventSpec, type VelocityImpulse, type PropagationRequest, type Ephemeris, type TdbSpan, type Vec3,
 } from '../propagator/index.ts';
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()]);
@@ -98,6 +98,26 @@ export function requestSpan(file: PropagateRequestFile): { startTdbS: number; en
   const startTdbS = epochSeconds(file.initial.epoch, 'initial.epoch');
   const endTdbS = file.endEpoch !== undefined ? epochSeconds(file.endEpoch, 'endEpoch') : startTdbS + (file.durationS ?? 0);
   return { startTdbS, endTdbS };
+}
+
+/**
+ * Throws OutOfSpanError naming the request field (`initial.epoch`, then `endEpoch` or `durationS`,
+ * whichever the file gives) unless the whole requested span lies inside `span` (TDB s from J2000) of the
+ * ephemeris source `sourceName`. Called before any cache is built over the span, so the message speaks
+ * of the request, never of the cache; the span is never clipped to fit.
+ */
+export function checkRequestSpan(file: PropagateRequestFile, span: TdbSpan, sourceName: string): void {
+  const { startTdbS, endTdbS } = requestSpan(file);
+  const endField = file.endEpoch !== undefined ? 'endEpoch' : 'durationS';
+  const covered = `the span of ${sourceName}, ${formatEpoch(span.startTdbS, 'TDB', 0)} to ${formatEpoch(span.endTdbS, 'TDB', 0)}`;
+  for (const [epoch, field] of [[startTdbS, 'initial.epoch'], [endTdbS, endField]] as const) {
+    if (epoch >= span.startTdbS && epoch <= span.endTdbS) continue;
+    if (!Number.isFinite(epoch)) throw new InvalidInputError(field, `epoch ${epoch} is not a finite number`);
+    const what = field === 'initial.epoch' ? 'the initial epoch'
+      : field === 'endEpoch' ? 'the end epoch' : `the end of the span (initial epoch + durationS ${file.durationS} s)`;
+    throw new OutOfSpanError(field, `${what} ${formatEpoch(epoch, 'TDB', 3)} (${epoch} TDB s from J2000) is outside `
+      + `${covered} (no extrapolation)`);
+  }
 }
 
 /** The propagator's request for a parsed file and an ephemeris. */

@@ -5,7 +5,9 @@ import {
   propagateAsync, type BodyName, type Ephemeris,
 } from '../../propagator/index.ts';
 import type { CliCommand } from '../command.ts';
-import { parsePropagateRequest, requestSpan, toPropagationRequest, type PropagateRequestFile } from '../propagate-request-schema.ts';
+import {
+  checkRequestSpan, parsePropagateRequest, requestSpan, toPropagationRequest, type PropagateRequestFile,
+} from '../propagate-request-schema.ts';
 import { formatPropagateReport, propagateResultJson, type PropagateRunInfo } from '../propagate-report.ts';
 
 const USAGE = `usage: veer propagate <request.json> [--json]
@@ -23,22 +25,36 @@ cancelled); 2 bad usage or invalid request (the field is named); 1 other failure
 Results are predictions for study: any use in operations requires review by qualified flight-dynamics
 staff and independent verification under the mission's own procedures.`;
 
-/** Margin added around the span when building the Chebyshev cache, s. */
+/** Margin added around the span when building the Chebyshev cache, s (narrower only where the
+ * built-in span ends closer than this to a requested span that lies inside it). */
 const CACHE_MARGIN_S = 86400;
 
-/** The ephemeris a request asks for: the built-in series, or a Chebyshev cache of it over the span. */
-function ephemerisFor(file: PropagateRequestFile): Ephemeris {
+/**
+ * The ephemeris a request asks for: the built-in series, or a Chebyshev cache of it over the span.
+ * When any body other than the central one is consulted, the requested span is first checked against
+ * the built-in span (OutOfSpanError naming `initial.epoch`, `endEpoch` or `durationS`).
+ */
+export function ephemerisFor(file: PropagateRequestFile): Ephemeris {
   const builtin = createBuiltinEphemeris();
   const bodies = new Set<BodyName>([file.forces.centralBody, file.initial.centre, ...file.forces.perturbingBodies]);
   if (file.forces.solarPressure !== undefined) bodies.add('sun');
   for (const e of file.events) if (e.kind !== 'epoch') bodies.add(e.body);
-  if (file.ephemeris === 'builtin' || bodies.size === 1) return builtin;
+  if (bodies.size === 1) return builtin;
+  checkRequestSpan(file, BUILTIN_EPHEMERIS_SPAN, builtin.name);
+  if (file.ephemeris === 'builtin') return builtin;
   const { startTdbS, endTdbS } = requestSpan(file);
-  return buildChebyshevEphemeris(builtin, {
-    bodies: [...bodies],
-    startTdbS: Math.max(BUILTIN_EPHEMERIS_SPAN.startTdbS, Math.min(startTdbS, endTdbS) - CACHE_MARGIN_S),
-    endTdbS: Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, Math.max(startTdbS, endTdbS) + CACHE_MARGIN_S),
-  });
+  try {
+    return buildChebyshevEphemeris(builtin, {
+      bodies: [...bodies],
+      startTdbS: Math.max(BUILTIN_EPHEMERIS_SPAN.startTdbS, Math.min(startTdbS, endTdbS) - CACHE_MARGIN_S),
+      endTdbS: Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, Math.max(startTdbS, endTdbS) + CACHE_MARGIN_S),
+    });
+  } catch (error) {
+    // The cache's own fields mean nothing to the author of the request: name the one they can change.
+    if (!(error instanceof InvalidInputError)) throw error;
+    throw new InvalidInputError('ephemeris', `the Chebyshev cache of ${builtin.name} over the requested span could not `
+      + `be built (${error.message}); set "ephemeris": "builtin" to evaluate the series directly`);
+  }
 }
 
 async function readRequestFile(path: string): Promise<PropagateRequestFile> {

@@ -2,11 +2,11 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { propagateCommand } from '../../cli/commands/propagate.ts';
+import { ephemerisFor, propagateCommand } from '../../cli/commands/propagate.ts';
 import { parsePropagateRequest, requestSpan, toPropagationRequest } from '../../cli/propagate-request-schema.ts';
 import { createBuiltinEphemeris } from '../../propagator/ephemeris/index.ts';
 import { PROPAGATE_JSON_SCHEMA } from '../../cli/propagate-report.ts';
-import { InvalidInputError } from '../../propagator/errors.ts';
+import { InvalidInputError, OutOfSpanError } from '../../propagator/errors.ts';
 
 const base = {
   initial: { epoch: '2031-03-01T00:00:00 TDB', centre: 'earth', positionKm: [7000, 0, 1000], velocityKmS: [0, 7.6, 1.0] },
@@ -59,6 +59,55 @@ describe('veer propagate', () => {
         expect(attempt).toThrow(pattern);
       });
     }
+  });
+
+  describe('when the requested span leaves the built-in ephemeris span [1800-01-01, 2200-01-01] TDB', () => {
+    const sunCentred = { ...base, forces: { centralBody: 'sun', perturbingBodies: ['earth'] } };
+    const day = 86400;
+    const cases: [string, Record<string, unknown>, string][] = [
+      ['an initial epoch in 2400', { ...sunCentred, initial: { ...base.initial, epoch: '2400-01-01T00:00:00 TDB' } }, 'initial.epoch'],
+      ['a start on 2199-12-31 with durationS of 10 days', {
+        ...sunCentred, initial: { ...base.initial, epoch: '2199-12-31T00:00:00 TDB' }, durationS: 10 * day,
+      }, 'durationS'],
+      ['an end epoch in 2200-02', {
+        ...sunCentred, durationS: undefined, initial: { ...base.initial, epoch: '2199-12-01T00:00:00 TDB' }, endEpoch: '2200-02-01T00:00:00 TDB',
+      }, 'endEpoch'],
+      ['a backward span from 1800-01-02 over 5 days', {
+        ...sunCentred, initial: { ...base.initial, epoch: '1800-01-02T00:00:00 TDB' }, durationS: -5 * day,
+      }, 'durationS'],
+      ['the uncached built-in ephemeris in 2400', {
+        ...sunCentred, ephemeris: 'builtin', initial: { ...base.initial, epoch: '2400-01-01T00:00:00 TDB' },
+      }, 'initial.epoch'],
+    ];
+    for (const [name, json, field] of cases) {
+      it(`should reject ${name} with OutOfSpanError naming ${field}`, () => {
+        let caught: unknown;
+        try {
+          ephemerisFor(parsePropagateRequest(json));
+        } catch (error) {
+          caught = error;
+        }
+        expect(caught).toBeInstanceOf(OutOfSpanError);
+        expect((caught as OutOfSpanError).field).toBe(field);
+        expect((caught as Error).message).not.toMatch(/startTdbS|endTdbS|toleranceKm/);
+      });
+    }
+    it('should surface the field from the command itself', async () => {
+      captureStdout();
+      const path = writeRequest({ ...sunCentred, initial: { ...base.initial, epoch: '2199-12-31T00:00:00 TDB' }, durationS: 10 * day });
+      await expect(propagateCommand.run([path, '--json'])).rejects.toThrow(/^durationS: .*2200-01-10T00:00:00\.000 TDB/);
+    });
+    it('should still build a cache for a backward span ending half a day after the built-in span starts', () => {
+      const json = { ...sunCentred, initial: { ...base.initial, epoch: '1800-01-02T00:00:00 TDB' }, durationS: -0.5 * day };
+      const ephemeris = ephemerisFor(parsePropagateRequest(json));
+      const { endTdbS } = requestSpan(parsePropagateRequest(json));
+      expect(ephemeris.span.startTdbS).toBeLessThanOrEqual(endTdbS);
+      expect(ephemeris.name).toMatch(/chebyshev/i);
+    });
+    it('should not consult the ephemeris span for a pure two-body request in 2400', () => {
+      const json = { ...base, initial: { ...base.initial, epoch: '2400-01-01T00:00:00 TDB' } };
+      expect(ephemerisFor(parsePropagateRequest(json)).name).toMatch(/astronomy-engine/);
+    });
   });
 
   describe('when run on a two-body request with --json', () => {
