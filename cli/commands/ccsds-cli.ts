@@ -5,6 +5,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { readOpmAsInitialState } from '../../ccsds/index.ts';
+import { parseProblem, type PlanningProblem } from '../../planner/index.ts';
 import { InvalidInputError } from '../../propagator/index.ts';
 import { ApiCallError, type Remote } from './review-http.ts';
 
@@ -31,6 +32,19 @@ export async function problemWithOpmState(problemJson: unknown, opmPath: string)
     all.push(`the OPM's MASS (${massKg} kg) differs from spacecraft.massKg (${String(spacecraft.massKg)} kg); the problem's value is used`);
   }
   return { problem, notes: all };
+}
+
+/** Reads a problem file, replaces its initial state by the OPM's (notes to stderr) and validates it. */
+export async function readProblemFileWithOpmState(problemPath: string, opmPath: string): Promise<PlanningProblem> {
+  let json: unknown;
+  try {
+    json = JSON.parse(await readFile(problemPath, 'utf8'));
+  } catch (error) {
+    throw new InvalidInputError('problem', `cannot read '${problemPath}' as JSON: ${(error as Error).message}`);
+  }
+  const { problem, notes } = await problemWithOpmState(json, opmPath);
+  for (const note of notes) process.stderr.write(`veer plan: --state: ${note}\n`);
+  return parseProblem(problem);
 }
 
 /** Options the CCSDS export formats read from the command line. */

@@ -1,4 +1,4 @@
-/** `veer plan <problem.json> [--json] [--out FILE]`: the whole planning job in-process, no server. */
+/** `veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm]`: the whole planning job in-process, no server. */
 import { constants } from 'node:fs';
 import { access, readFile, stat, writeFile } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
@@ -7,8 +7,9 @@ import { parseProblem, planManeuvers } from '../../planner/index.ts';
 import type { ManeuverPlan, PlanProgress } from '../../planner/index.ts';
 import type { CliCommand } from '../command.ts';
 import { formatPlanReport } from '../report/plan-report.ts';
+import { readProblemFileWithOpmState } from './ccsds-cli.ts';
 
-const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE]
+const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm]
 
 Plans the correction burns of a retargeting problem in this process: differential correction, an
 independent cross-check (the other propagation method at a tighter tolerance), linear and Monte Carlo
@@ -16,6 +17,8 @@ dispersion, caveats. Progress goes to stderr; the readable report to stdout.
 
   --json       print the plan as JSON on stdout instead of the report
   --out FILE   also write the plan as JSON to FILE (checked for writability before planning)
+  --state FILE.opm  take the initial state (and covariance) from a CCSDS OPM, KVN or XML, instead of the
+               problem's initialState (the file is read strictly; errors name the keyword and line)
 
 Exit codes: 0 converged and cross-check passed; 3 not converged or cross-check failed;
 2 bad usage or invalid problem (the field is named); 1 other failures.
@@ -93,6 +96,7 @@ export const planCommand: CliCommand = {
   async run(args: string[]): Promise<number> {
     let json = false;
     let out: string | undefined;
+    let state: string | undefined;
     const files: string[] = [];
     for (let i = 0; i < args.length; i++) {
       const a = args[i];
@@ -101,6 +105,12 @@ export const planCommand: CliCommand = {
         out = args[++i];
         if (!out) {
           process.stderr.write(`veer plan: --out needs a file name\n\n${USAGE}\n`);
+          return 2;
+        }
+      } else if (a === '--state') {
+        state = args[++i];
+        if (!state) {
+          process.stderr.write(`veer plan: --state needs an OPM file name\n\n${USAGE}\n`);
           return 2;
         }
       } else if (a.startsWith('-')) {
@@ -112,7 +122,7 @@ export const planCommand: CliCommand = {
       process.stderr.write(`veer plan: give exactly one problem file\n\n${USAGE}\n`);
       return 2;
     }
-    const problem = await readProblemFile(files[0]);
+    const problem = state ? await readProblemFileWithOpmState(files[0], state) : await readProblemFile(files[0]);
     if (out) await checkOutputPath(out);
     const bar = progressWriter();
     const controller = new AbortController();
