@@ -5,11 +5,27 @@
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readOem, readOpm } from '../../ccsds/index.ts';
+import { main } from '../../cli/main.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
 import { reachableProblem, submission } from '../queue/fixtures.ts';
 
 const opmText = readFileSync(new URL('../fixtures/ccsds/opm-earth-maneuvers.opm', import.meta.url), 'utf8');
 let svc: TestService;
+
+/** Runs `veer ...args` in-process; captures stdout and stderr. */
+async function veer(...args: string[]): Promise<{ code: number; out: string; err: string }> {
+  const out: string[] = [];
+  const err: string[] = [];
+  const write = { out: process.stdout.write.bind(process.stdout), err: process.stderr.write.bind(process.stderr) };
+  process.stdout.write = ((chunk: string) => { out.push(String(chunk)); return true; }) as typeof process.stdout.write;
+  process.stderr.write = ((chunk: string) => { err.push(String(chunk)); return true; }) as typeof process.stderr.write;
+  try {
+    return { code: await main(args), out: out.join(''), err: err.join('') };
+  } finally {
+    process.stdout.write = write.out;
+    process.stderr.write = write.err;
+  }
+}
 let planId: string;
 
 beforeAll(async () => {
@@ -75,4 +91,23 @@ describe('CCSDS endpoints', () => {
       expect(unknown.status).toBe(404);
     });
   });
+
+  describe('when veer export is asked for CCSDS messages', () => {
+    it('should write the OPM and OEM fetched from the API', async () => {
+      const remote = ['--url', svc.url, '--token', svc.tokens.reviewer, '--stdout'];
+      const opm = await veer('export', planId, '--ccsds', 'opm', ...remote);
+      expect(opm.code).toBe(0);
+      expect(readOpm(opm.out).metadata.objectName).toBe('CCSDS-SAT');
+      const oem = await veer('export', planId, '--format', 'ccsds-oem', '--step', '600', '--xml', ...remote);
+      expect(oem.code).toBe(0);
+      expect(readOem(oem.out).segments.length).toBeGreaterThan(1);
+    });
+
+    it('should exit 2 naming --step when an OEM has no step', async () => {
+      const r = await veer('export', planId, '--ccsds', 'oem', '--url', svc.url, '--token', svc.tokens.reviewer, '--stdout');
+      expect(r.code).toBe(2);
+      expect(r.err).toMatch(/--step/);
+    });
+  });
 });
+
