@@ -6,6 +6,7 @@
 import { canonicalJson } from './canonical-json.ts';
 import { entryHash, entryHeader, headerHash, payloadHash, type EntryHeader } from './chain.ts';
 import { ArchiveNotFoundError } from './errors.ts';
+import { applyToPlan, planFromProposal } from './projection.ts';
 import { GENESIS_HASH, type ArchivablePlan, type ArchiveEntry, type PlanArchive, type PlanRecord } from './types.ts';
 
 export const BUNDLE_FORMAT = 'veer-plan-bundle';
@@ -75,12 +76,24 @@ export interface BundleCheck {
   /** True when the chain segment ends at the recorded head. */
   reachesHead: boolean;
   firstFailure: { sequence: number | null; reason: string; message: string } | null;
+  /** The head the bundle claims; an offline check cannot tell a bundle cut short, so compare it with a live verify. */
+  head: { sequence: number; hash: string } | null;
 }
+
+/** What the user must still do: an offline check cannot see entries left out after the bundle's last header. */
+export const BUNDLE_HEAD_ADVICE = 'an offline check cannot tell whether entries after the last chain header were left out: '
+  + 'compare this head hash with the one a live `veer verify` (auditor) reports, or with a head hash you kept outside the database';
+
+/** Plan-record fields the bundle's entries determine (re-derived and compared with planRecord). */
+const DERIVED_FIELDS = ['planId', 'jobId', 'state', 'converged', 'crossCheckPassed', 'submittedBy', 'decidedBy', 'decidedAt', 'supersededBy',
+  'spacecraftName', 'targetSetKey', 'problemHash', 'softwareVersion', 'proposedAt', 'proposedSequence', 'lastSequence'] as const;
 
 /** Checks a bundle offline (no archive needed); names the first entry or header that does not match. */
 export function checkPlanBundle(bundle: PlanBundle): BundleCheck {
+  const head = bundle?.head && typeof bundle.head.sequence === 'number' && typeof bundle.head.hash === 'string'
+    ? { sequence: bundle.head.sequence, hash: bundle.head.hash } : null;
   const fail = (sequence: number | null, reason: string, message: string, counts: [number, number]): BundleCheck =>
-    ({ ok: false, entriesChecked: counts[0], headersChecked: counts[1], reachesHead: false, firstFailure: { sequence, reason, message } });
+    ({ ok: false, entriesChecked: counts[0], headersChecked: counts[1], reachesHead: false, firstFailure: { sequence, reason, message }, head });
   if (bundle?.format !== BUNDLE_FORMAT || !Array.isArray(bundle.entries) || !Array.isArray(bundle.chain) || bundle.entries.length === 0) {
     return fail(null, 'malformed', `not a ${BUNDLE_FORMAT} with entries and chain`, [0, 0]);
   }
@@ -108,10 +121,51 @@ export function checkPlanBundle(bundle: PlanBundle): BundleCheck {
   if (!proposal || canonicalJson(proposal.payload.plan) !== canonicalJson(bundle.plan)) {
     return fail(proposal?.sequence ?? null, 'plan-mismatch', 'the bundled plan is not the plan in its plan-proposed entry', [checked, bundle.chain.length]);
   }
-  const lastHeader = bundle.chain[bundle.chain.length - 1];
-  const reachesHead = lastHeader.sequence === bundle.head?.sequence;
-  if (reachesHead && lastHeader.hash !== bundle.head.hash) {
-    return fail(lastHeader.sequence, 'head-mismatch', 'the chain ends at the head sequence but not at the head hash', [checked, bundle.chain.length]);
+  const counts: [number, number] = [checked, bundle.chain.length];
+  // Every header about this plan or its job must come with its entry: leaving out (say) a reject entry is tampering.
+  const jobId = proposal.jobId;
+  const included = new Set(bundle.entries.map((e) => e.sequence));
+  for (const h of bundle.chain) {
+    const belongs = h.planId === bundle.planId || (jobId !== null && h.jobId === jobId);
+    if (belongs && !included.has(h.sequence)) {
+      return fail(h.sequence, 'missing-entry', `entry ${h.sequence} (${h.kind}) is about this plan or its job but is not in the bundle`, counts);
+    }
   }
-  return { ok: true, entriesChecked: checked, headersChecked: bundle.chain.length, reachesHead, firstFailure: null };
+  for (const e of bundle.entries) {
+    if (e.planId !== bundle.planId && (jobId === null || e.jobId !== jobId)) {
+      return fail(e.sequence, 'foreign-entry', `entry ${e.sequence} is about neither plan ${bundle.planId} nor its job`, counts);
+    }
+  }
+  const mismatch = planRecordMismatch(bundle);
+  if (mismatch) return fail(null, 'plan-record-mismatch', mismatch, counts);
+  const lastHeader = bundle.chain[bundle.chain.length - 1];
+  if (!head || head.sequence < lastHeader.sequence) {
+    return fail(lastHeader.sequence, 'head-mismatch', 'the recorded head is missing or older than the last chain header', counts);
+  }
+  const reachesHead = lastHeader.sequence === head.sequence;
+  if (reachesHead && lastHeader.hash !== head.hash) {
+    return fail(lastHeader.sequence, 'head-mismatch', 'the chain ends at the head sequence but not at the head hash', counts);
+  }
+  return { ok: true, entriesChecked: checked, headersChecked: bundle.chain.length, reachesHead, firstFailure: null, head };
+}
+
+/** Re-derives the plan's record from the bundle's entries; describes the first field planRecord states differently. */
+function planRecordMismatch(bundle: PlanBundle): string | null {
+  let derived: PlanRecord | undefined;
+  for (const entry of bundle.entries) {
+    if (entry.planId !== bundle.planId) continue;
+    if (entry.kind === 'plan-proposed') derived ??= planFromProposal(entry);
+    else if (derived) derived = applyToPlan(derived, entry);
+  }
+  const stored = bundle.planRecord as PlanRecord | undefined;
+  if (!derived || !stored || typeof stored !== 'object') return 'the bundle has no plan record to compare with its entries';
+  for (const field of DERIVED_FIELDS) {
+    if (derived[field] !== stored[field]) {
+      return `planRecord.${field} is ${JSON.stringify(stored[field])} but the entries say ${JSON.stringify(derived[field])}`;
+    }
+  }
+  if (canonicalJson(derived.caveatCodes) !== canonicalJson(stored.caveatCodes)) {
+    return `planRecord.caveatCodes is ${JSON.stringify(stored.caveatCodes)} but the entries say ${JSON.stringify(derived.caveatCodes)}`;
+  }
+  return null;
 }

@@ -9,4 +9,4 @@ export { SqliteArchive, migrateSqlite, openSqliteDatabase, type SqliteArchiveOpt
 export { PostgresArchive, migratePostgres, type PostgresArchiveOptions } from './postgres/postgres-archive.ts';
 export { type Migration } from './sqlite/sqlite-migrations.ts';
 export { type PgMigration } from './postgres/postgres-migrations.ts';
-export { buildPlanBundle, checkPlanBundle, BUNDLE_FORMAT, HASHING_RULES, type PlanBundle, type BundleCheck, type BundleOptions } from './bundle.ts';
+export { buildPlanBundle, checkPlanBundle, BUNDLE_FORMAT, BUNDLE_HEAD_ADVICE, HASHING_RULES, type PlanBundle, type BundleCheck, type BundleOptions } from './bundle.ts';

@@ -4,7 +4,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
-import { checkPlanBundle, openArchive, type PlanBundle, type VerifyReport } from '../../archive/index.ts';
+import { BUNDLE_HEAD_ADVICE, checkPlanBundle, openArchive, type PlanBundle, type VerifyReport } from '../../archive/index.ts';
 import type { CliCommand } from '../command.ts';
 import { ApiCallError, callApi, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
 
@@ -46,8 +46,9 @@ export const verifyCommand: CliCommand = {
         throw new UsageError('--bundle', `cannot read ${values.bundle} as JSON: ${(error as Error).message}`);
       }
       const check = checkPlanBundle(bundle);
-      process.stdout.write(values.json ? JSON.stringify(check, null, 2) + '\n'
+      process.stdout.write(values.json ? JSON.stringify({ ...check, advice: BUNDLE_HEAD_ADVICE }, null, 2) + '\n'
         : check.ok ? `bundle sound: ${check.entriesChecked} entries, ${check.headersChecked} chain headers${check.reachesHead ? ', reaching the recorded head' : ''}\n`
+          + `  head recorded in the bundle: entry ${check.head?.sequence} ${check.head?.hash}\n  note: ${BUNDLE_HEAD_ADVICE}\n`
           : `BUNDLE CHECK FAILED at entry ${check.firstFailure?.sequence ?? '?'} (${check.firstFailure?.reason}): ${check.firstFailure?.message}\n`);
       return check.ok ? 0 : 1;
     }

@@ -114,6 +114,24 @@ describe('veer review, history, export, verify and tokens', () => {
       expect(forged.out).toContain(`BUNDLE CHECK FAILED at entry ${bundle.entries[0].sequence}`);
     });
 
+    it('should refuse a bundle whose rejection was cut out and whose record says approved, and print the head to compare', async () => {
+      const planId = await propose('job-cli-3');
+      expect((await veer('review', planId, '--reject', '--comment', 'aim point off', ...remote('bob'))).code).toBe(0);
+      const file = join(work, 'rejected.json');
+      expect((await veer('export', planId, '--out', file, '--to-head', ...remote('audrey'))).code).toBe(0);
+      const sound = await veer('verify', '--bundle', file);
+      const bundle = JSON.parse(readFileSync(file, 'utf8')) as { head: { hash: string }; entries: Array<{ kind: string }>; planRecord: { state: string } };
+      expect(sound.out).toContain(`head recorded in the bundle: entry`);
+      expect(sound.out).toContain(bundle.head.hash);
+      expect(sound.out).toContain('compare this head hash with the one a live `veer verify`');
+      bundle.entries = bundle.entries.filter((e) => e.kind !== 'review');
+      bundle.planRecord.state = 'approved';
+      writeFileSync(file, JSON.stringify(bundle));
+      const forged = await veer('verify', '--bundle', file);
+      expect(forged.code).toBe(1);
+      expect(forged.out).toMatch(/BUNDLE CHECK FAILED at entry \d+ \(missing-entry\)/);
+    });
+
     it('should refuse an unknown format', async () => {
       expect((await veer('export', 'plan-x', '--format', 'nope', ...remote('audrey'))).code).toBe(2);
     });
