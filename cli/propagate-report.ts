@@ -6,6 +6,7 @@ export const PROPAGATE_JSON_SCHEMA = 'veer.propagate.result/1';
 
 export interface PropagateRunInfo {
   requestFile: string;
+  /** The method the request asked for (or the default); the one used is the result's `methodUsed`. */
   method: string;
   ephemerisName: string;
   relativeTolerance: number;
@@ -37,7 +38,7 @@ export function propagateResultJson(result: PropagationResult, info: PropagateRu
     stats: result.stats,
     warnings: result.warnings,
     run: {
-      requestFile: info.requestFile, method: info.method, ephemeris: info.ephemerisName,
+      requestFile: info.requestFile, method: info.method, methodUsed: result.methodUsed, ephemeris: info.ephemerisName,
       relativeTolerance: info.relativeTolerance, absoluteTolerance: info.absoluteTolerance,
       centralBody: info.centralBody, perturbingBodies: info.perturbingBodies, wallTimeMs: Math.round(info.wallTimeMs),
     },
@@ -51,7 +52,7 @@ export function formatPropagateReport(result: PropagationResult, info: Propagate
   const f = result.final;
   const lines = [
     `veer propagate: ${info.requestFile}`,
-    `  method ${info.method}; central body ${info.centralBody}; perturbers ${info.perturbingBodies.join(', ') || 'none'}`,
+    `  method ${info.method}${result.methodUsed === info.method ? '' : ` (used: ${result.methodUsed}; see warnings)`}; central body ${info.centralBody}; perturbers ${info.perturbingBodies.join(', ') || 'none'}`,
     `  tolerance rel ${info.relativeTolerance} / abs ${info.absoluteTolerance}; ephemeris ${info.ephemerisName}`,
     `  start   ${formatEpoch(startTdbS, 'TDB', 3)}`,
     `  reached ${formatEpoch(f.epochTdbS, 'TDB', 3)}   outcome: ${result.outcome}${result.message ? ` (${result.message})` : ''}`,

@@ -219,7 +219,7 @@ export function* propagationSteps(
   const final = stateVector(finalEpoch, central, cart);
   sampler?.finish(final);
   const result: PropagationResult = {
-    outcome, message, final, samples: sampler?.samples ?? [], events, warnings,
+    outcome, methodUsed: dynamics.method ?? 'cowell', message, final, samples: sampler?.samples ?? [], events, warnings,
     stats: { ...stepper.counts, rectifications: dynamics.rectifications ?? 0, switches: [] },
   };
   if (segments !== null) {

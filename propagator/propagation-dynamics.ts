@@ -5,6 +5,7 @@
  */
 import type { ForceModel } from './forces/index.ts';
 import type { RhsFunction } from './integrators/index.ts';
+import type { PropagationMethod } from './propagation-types.ts';
 
 export interface PropagationDynamics {
   /** Integration vector at the start epoch (the run's stepper copies it). */
@@ -34,6 +35,9 @@ export interface PropagationDynamics {
   readonly maxStepS?: number;
   /** Encke: reference-conic rectifications so far. */
   readonly rectifications?: number;
+  /** The formulation these equations implement, reported as the result's `methodUsed`; absent means
+   * Cowell (so a fallback from Encke says 'cowell' explicitly). */
+  readonly method?: PropagationMethod;
   /** Notes for the result's `warnings` (e.g. a fallback from Encke to Cowell). */
   readonly warnings?: readonly string[];
 }

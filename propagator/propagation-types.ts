@@ -101,8 +101,14 @@ export interface PropagationStats {
   switches: { epochTdbS: number; from: BodyName; to: BodyName }[];
 }
 
+/** The method that integrated a run: the requested one unless Encke fell back to Cowell (see
+ * `warnings`); 'mixed' when the segments of a switched run used different methods. */
+export type MethodUsed = PropagationMethod | 'mixed';
+
 export interface PropagationResult {
   outcome: PropagationOutcome;
+  /** The method actually used (may differ from the request's `method`; see MethodUsed). */
+  methodUsed: MethodUsed;
   /** Why the run ended early, with the numbers needed to diagnose it. */
   message?: string;
   /** Last state reached (J2000 equatorial, relative to the central body in force at the end). */

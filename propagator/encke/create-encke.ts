@@ -22,7 +22,7 @@ export function createEnckeOrFallback(settings: EnckeRunSettings, forces: ForceM
   const reason = degenerateReason(cart, forces.centralGmKm3S2);
   if (reason !== null) {
     const fallback = cowell(forces, cart, settings.withStm);
-    return { ...fallback, warnings: [`method 'encke' fell back to 'cowell': ${reason} about ${forces.centralBody}`] };
+    return { ...fallback, method: 'cowell', warnings: [`method 'encke' fell back to 'cowell': ${reason} about ${forces.centralBody}`] };
   }
   return new EnckeDynamics(forces, settings.startTdbS, cart, settings.withStm, settings);
 }

@@ -85,6 +85,7 @@ export function stmStepLimit(total: ArrayLike<number>, mu: number, rtol: number)
 export class EnckeDynamics {
   readonly forces: ForceModel;
   readonly withStm: boolean;
+  readonly method = 'encke';
   /** The deviation only (Φ stays out of the error norm, as in Cowell's variational equations). */
   readonly errorComponents = 6;
   /** With the STM only: see stmStepLimit. */

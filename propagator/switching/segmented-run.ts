@@ -88,6 +88,7 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
   let state: StateVector = initial;
   let centre = request.forces.centralBody;
   let last: PropagationResult | null = null;
+  const methodsUsed = new Set<PropagationResult['methodUsed']>();
   const samples: StateVector[] = [];
 
   for (let segment = 0; segment < 1000; segment++) {
@@ -133,6 +134,7 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
     }
     const result = next.value;
     last = result;
+    methodsUsed.add(result.methodUsed);
     events.push(...result.events);
     warnings.push(...result.warnings.filter((w) => !w.includes('not reached')));
     for (const k of Object.keys(counts) as (keyof typeof counts)[]) counts[k] += result.stats[k];
@@ -166,7 +168,9 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
   const allSamples = request.outputStepS === undefined ? []
     : [initial, ...samples, final];
   const result: PropagationResult = {
-    outcome: finishedBySwitch ? 'finished' : last.outcome, message: finishedBySwitch ? undefined : last.message,
+    outcome: finishedBySwitch ? 'finished' : last.outcome,
+    methodUsed: methodsUsed.size === 1 ? last.methodUsed : 'mixed',
+    message: finishedBySwitch ? undefined : last.message,
     final, samples: allSamples, events: ordered, warnings,
     stats: { ...counts, rectifications, switches },
   };

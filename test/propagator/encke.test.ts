@@ -29,6 +29,10 @@ describe("Encke's method", () => {
       expect(r.stats.acceptedSteps).toBeLessThan(15);
       expect(r.stats.rectifications).toBe(0);
     });
+    it('should report the method used: encke when asked, cowell by default', () => {
+      expect(propagate(request({ method: 'encke', endEpochTdbS: T0 + 600 })).methodUsed).toBe('encke');
+      expect(propagate(request({ endEpochTdbS: T0 + 600 })).methodUsed).toBe('cowell');
+    });
   });
 
   describe('when the Earth J2, the Moon and the Sun perturb a low orbit for a day', () => {
@@ -101,6 +105,7 @@ describe("Encke's method", () => {
       const e = propagate(request({ initial, method: 'encke', endEpochTdbS: T0 + 3600 }));
       const c = propagate(request({ initial, endEpochTdbS: T0 + 3600 }));
       expect(e.warnings.join(' ')).toMatch(/fell back to 'cowell': near-parabolic/);
+      expect(e.methodUsed).toBe('cowell');
       expect(e.final.positionKm).toEqual(c.final.positionKm);
     });
     it('should fall back for zero angular momentum (radial motion)', () => {
@@ -108,6 +113,7 @@ describe("Encke's method", () => {
         positionKm: R0, velocityKmS: R0.map((x) => x / 2000) as [number, number, number] };
       const e = propagate(request({ initial, method: 'encke', endEpochTdbS: T0 + 600 }));
       expect(e.warnings.join(' ')).toMatch(/zero angular momentum/);
+      expect(e.methodUsed).toBe('cowell');
       expect(e.outcome).toBe('finished');
     });
   });

@@ -125,6 +125,32 @@ describe('veer propagate', () => {
     });
   });
 
+  describe('when Encke is asked for a radial (zero angular momentum) start', () => {
+    const radial = { ...base, method: 'encke', durationS: 600, initial: { ...base.initial, velocityKmS: [3.5, 0, 0.5] } };
+    it('should report the method asked for and the method used in --json', async () => {
+      const out = captureStdout();
+      const code = await propagateCommand.run([writeRequest(radial), '--json']);
+      expect(code).toBe(0);
+      const json = JSON.parse(out.text()) as { run: { method: string; methodUsed: string }; warnings: string[] };
+      expect(json.run.method).toBe('encke');
+      expect(json.run.methodUsed).toBe('cowell');
+      expect(json.warnings.join(' ')).toMatch(/fell back to 'cowell'/);
+    });
+    it('should say so in the readable report', async () => {
+      const out = captureStdout();
+      await propagateCommand.run([writeRequest(radial)]);
+      expect(out.text()).toMatch(/method encke \(used: cowell; see warnings\)/);
+    });
+  });
+
+  describe('when Encke is asked for an ordinary orbit', () => {
+    it('should report encke as the method used', async () => {
+      const out = captureStdout();
+      await propagateCommand.run([writeRequest({ ...base, method: 'encke' }), '--json']);
+      expect((JSON.parse(out.text()) as { run: { methodUsed: string } }).run.methodUsed).toBe('encke');
+    });
+  });
+
   describe('when run without --json on a trajectory that hits the Earth', () => {
     it('should print a readable report with the impact and exit 3', async () => {
       const out = captureStdout();

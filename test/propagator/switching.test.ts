@@ -26,6 +26,13 @@ describe('central-body switching', () => {
     });
   });
 
+  describe('when Encke is asked for the whole switched run', () => {
+    it('should report encke as the method used when no segment fell back, cowell by default', () => {
+      expect(propagate(base({ method: 'encke', endEpochTdbS: PERIAPSIS_EPOCH })).methodUsed).toBe('encke');
+      expect(propagate(base({ endEpochTdbS: PERIAPSIS_EPOCH })).methodUsed).toBe('cowell');
+    });
+  });
+
   describe('when the caller sets the radius', () => {
     it('should switch on that radius instead', () => {
       const r = propagate(base({ switching: { enabled: true, radiusKm: { mars: 200_000 } } }));
