@@ -12,8 +12,6 @@ import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import os from 'node:os';
 import { join, resolve } from 'node:path';
-import { pino } from 'pino';
-import { loadApiConfig, startApiServer } from '../api/index.ts';
 import { openTokenStore } from '../api/auth/index.ts';
 import { parseProblem, planManeuvers } from '../planner/index.ts';
 import { JobEventHub, RetargetQueue, jobRequestSchema, startLocalRedis, type LocalRedis } from '../queue/index.ts';
@@ -25,21 +23,21 @@ const autocannon = createRequire(import.meta.url)('autocannon') as Cannon;
 
 const ROOT = resolve(import.meta.dirname, '..');
 const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 8);
-const quiet = pino({ level: 'silent' });
 
 let local: LocalRedis | null = null;
 
 async function main(): Promise<void> {
+  const loadAtStart = os.loadavg();
   const dir = mkdtempSync(join(os.tmpdir(), 'veer-bench-'));
   const redisUrl = process.env.REDIS_URL ?? (local = await startLocalRedis(join(dir, 'redis'))).url;
   const prefix = `bench${Date.now().toString(36)}`;
   const tokens = await openTokenStore({ dataDir: dir });
   const { token } = await tokens.add('bench', ['submitter']);
-  const config = loadApiConfig({
-    REDIS_URL: redisUrl, QUEUE_PREFIX: prefix, PORT: '0', HOST: '127.0.0.1', DATA_DIR: dir, PLAN_SINK: 'archive',
+  // The API runs in its own process (as deployed) so the load generator does not share its event loop.
+  const api = await startApiProcess({
+    REDIS_URL: redisUrl, QUEUE_PREFIX: prefix, HOST: '127.0.0.1', DATA_DIR: dir, PLAN_SINK: 'archive',
     RATE_LIMIT_MAX: '1000000', LOG_LEVEL: 'silent',
   });
-  const api = await startApiServer(config, quiet, { tokens });
   const lines: string[] = [];
   const say = (s: string): void => { lines.push(s); process.stdout.write(`${s}\n`); };
 
@@ -60,7 +58,10 @@ async function main(): Promise<void> {
   say('');
   say(`Submission p99 ${submit.latency.p99} ms (target < 50 ms): ${submit.latency.p99 < 50 ? 'met' : 'NOT met'}; `
     + `p50 ratio submit/health = ${(submit.latency.p50 / Math.max(health.latency.p50, 0.5)).toFixed(1)}.`);
-  await api.deps.queue.queue.obliterate({ force: true });
+  await api.stop();
+  const submitted = new RetargetQueue({ redisUrl, prefix });
+  await submitted.queue.obliterate({ force: true });
+  await submitted.close();
 
   // 2. Queue overhead per trivial job: sequential jobs through queue + worker process (+ archive), interleaved
   //    with in-process planner runs so that all three paths see the same machine load.
@@ -149,17 +150,42 @@ async function main(): Promise<void> {
     '',
     `Machine: ${cpu}, ${os.cpus().length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB RAM, ${os.platform()} ${os.release()}, `
       + `Node ${process.version}, Redis ${process.env.REDIS_URL ? 'from REDIS_URL' : 'private redis-server (append-only file on)'}, `
-      + 'archive SQLite in a temp folder. Run at ' + new Date().toISOString() + '. Shared machine: other work may have been running.',
+      + 'archive SQLite in a temp folder. Run at ' + new Date().toISOString() + '.',
+    '',
+    `Load average (1 min) at start ${loadAtStart[0]!.toFixed(1)}, at end ${os.loadavg()[0]!.toFixed(1)} on ${os.cpus().length} cores: `
+      + 'the machine was shared with other work, so absolute times are inflated; compare the ratios to the peers measured in the same run.',
     '',
   ];
   mkdirSync(join(ROOT, 'bench/results'), { recursive: true });
   writeFileSync(join(ROOT, 'bench/results/service.md'), `${[...header, ...lines].join('\n')}\n`);
   await events.close();
   await queue.close();
-  await api.close();
   await tokens.close();
   await local?.stop();
   rmSync(dir, { recursive: true, force: true });
+}
+
+async function startApiProcess(env: Record<string, string>): Promise<{ url: string; stop(): Promise<void> }> {
+  const { createServer } = await import('node:net');
+  const port = await new Promise<number>((res) => {
+    const srv = createServer().listen(0, '127.0.0.1', () => {
+      const a = srv.address();
+      srv.close(() => res(typeof a === 'object' && a ? a.port : 0));
+    });
+  });
+  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'api/main.ts')], {
+    cwd: ROOT, stdio: ['ignore', 'ignore', 'inherit'], env: { ...process.env, ...env, PORT: String(port) },
+  });
+  const url = `http://127.0.0.1:${port}`;
+  for (let i = 0; ; i++) {
+    try { if ((await fetch(`${url}/health`)).ok) break; } catch { /* not yet */ }
+    if (i > 300) throw new Error('API process did not start in 30 s');
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  return {
+    url,
+    stop: () => new Promise<void>((res) => { child.once('exit', () => res()); child.kill('SIGTERM'); }),
+  };
 }
 
 async function startWorkers(n: number, redisUrl: string, prefix: string, dataDir: string, extraEnv: Record<string, string> = {}): Promise<ChildProcess[]> {

@@ -64,7 +64,8 @@ export class RetargetQueue {
    * repeat finds the first job; the stored request hash tells a true repeat from a key reused for other work.
    */
   async submit(request: JobRequest, submittedBy: string): Promise<SubmitOutcome> {
-    const requestHash = sha256(canonicalJson({ problem: request.problem, reason: request.reason, priority: request.priority }));
+    const hashOfProblem = problemHash(request.problem as PlanningProblem);
+    const requestHash = sha256(canonicalJson({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority }));
     const jobId = request.idempotencyKey
       ? `k-${sha256(`${submittedBy}\n${request.idempotencyKey}`).slice(0, 40)}`
       : `j-${randomUUID()}`;
@@ -78,7 +79,7 @@ export class RetargetQueue {
     const data: RetargetJobData = {
       problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
       submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'plan',
-      problemHash: problemHash(request.problem as PlanningProblem),
+      problemHash: hashOfProblem,
       ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
     };
     await this.queue.add(JOB_NAMES.retarget, data, {
