@@ -112,7 +112,7 @@ export async function startService(opts: ServiceOptions = {}): Promise<TestServi
       const logs: string[] = [];
       let buffer = '';
       const ready = new Promise<void>((res, rej) => {
-        const timer = setTimeout(() => rej(new Error(`worker process not ready after 30 s:\n${logs.join('\n')}`)), 30_000);
+        const timer = setTimeout(() => rej(new Error(`worker process not ready after 90 s:\n${logs.join('\n')}`)), 90_000);
         child.stdout?.on('data', (chunk: Buffer) => {
           buffer += chunk.toString();
           const lines = buffer.split('\n');

@@ -34,7 +34,7 @@ describe('worker crash', () => {
       expect(history.filter((e) => e.kind === 'plan-proposed')).toHaveLength(1);
       expect(end.result.planId).toBe(plans[0]!.planId);
       await second.stop();
-    });
+    }, 240_000);
   });
 });
 
