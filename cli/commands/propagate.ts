@@ -8,6 +8,7 @@ import type { CliCommand } from '../command.ts';
 import {
   checkRequestSpan, parsePropagateRequest, requestSpan, toPropagationRequest, type PropagateRequestFile,
 } from '../propagate-request-schema.ts';
+import { PropagateProgress } from '../propagate-progress.ts';
 import { formatPropagateReport, propagateResultJson, type PropagateRunInfo } from '../propagate-report.ts';
 
 const USAGE = `usage: veer propagate <request.json> [--json]
@@ -86,23 +87,18 @@ export const propagateCommand: CliCommand = {
       return 2;
     }
     const file = await readRequestFile(files[0]);
+    const progress = new PropagateProgress({ write: (line) => process.stderr.write(line), now: () => performance.now() });
+    progress.start();
     const ephemeris = ephemerisFor(file);
     const request = toPropagationRequest(file, ephemeris);
     const controller = new AbortController();
     const onSigint = (): void => controller.abort();
     process.once('SIGINT', onSigint);
     const started = performance.now();
-    let lastPercent = -1;
     try {
       const result = await propagateAsync(request, {
         signal: controller.signal,
-        onProgress: (fraction) => {
-          const percent = Math.floor(fraction * 100);
-          if (percent >= lastPercent + 10 || (percent === 100 && lastPercent !== 100)) {
-            process.stderr.write(`veer propagate: ${String(percent).padStart(3)}%\n`);
-            lastPercent = percent;
-          }
-        },
+        onProgress: (fraction) => progress.update(fraction),
       });
       const info: PropagateRunInfo = {
         requestFile: files[0],
