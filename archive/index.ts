@@ -5,6 +5,7 @@ export { canonicalJson, canonicalHash, sha256Hex } from './canonical-json.ts';
 export { entryHash, entryHeader, headerHash, payloadHash, ChainVerifier, type EntryHeader } from './chain.ts';
 export type { ManeuverPlanIsArchivable } from './plan-compat.ts';
 export { openArchive, SQLITE_ARCHIVE_FILE, type OpenArchiveOptions } from './open-archive.ts';
+export { verifyPostgresReadOnly, verifySqliteReadOnly } from './verify-store.ts';
 export { SqliteArchive, migrateSqlite, openSqliteDatabase, type SqliteArchiveOptions } from './sqlite/sqlite-archive.ts';
 export { PostgresArchive, migratePostgres, type PostgresArchiveOptions } from './postgres/postgres-archive.ts';
 export { type Migration } from './sqlite/sqlite-migrations.ts';

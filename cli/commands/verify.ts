@@ -4,12 +4,14 @@
  */
 import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
-import { BUNDLE_HEAD_ADVICE, checkPlanBundle, openArchive, type PlanBundle, type VerifyReport } from '../../archive/index.ts';
+import {
+  ArchiveNotFoundError, BUNDLE_HEAD_ADVICE, checkPlanBundle, verifyPostgresReadOnly, verifySqliteReadOnly, type PlanBundle, type VerifyReport,
+} from '../../archive/index.ts';
 import type { CliCommand } from '../command.ts';
 import { ApiCallError, callApi, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
 
 const USAGE = `usage: veer verify [--url URL] [--token TOKEN]          through the API (auditor role)
-       veer verify --data-dir DIR | --database-url URL   directly on a local store
+       veer verify --data-dir DIR | --database-url URL   directly on a store, read-only (never created or migrated)
        veer verify --bundle FILE                         offline, on a bundle from veer export
        [--json]
 
@@ -54,8 +56,18 @@ export const verifyCommand: CliCommand = {
     }
     let report: VerifyReport;
     if (values['data-dir'] !== undefined || values['database-url'] !== undefined) {
-      const archive = await openArchive({ dataDir: values['data-dir'], databaseUrl: values['database-url'] ?? '' });
-      try { report = await archive.verify(); } finally { await archive.close(); }
+      if (values['data-dir'] !== undefined && values['database-url'] !== undefined) {
+        throw new UsageError('--data-dir', 'give either --data-dir or --database-url, not both');
+      }
+      try {
+        // Read-only: nothing is created or migrated, so a mistyped folder is an error, not a fresh "sound" archive.
+        report = values['database-url'] !== undefined ? await verifyPostgresReadOnly(values['database-url'])
+          : await verifySqliteReadOnly(values['data-dir']!);
+      } catch (error) {
+        if (!(error instanceof ArchiveNotFoundError)) throw error;
+        process.stderr.write(`veer verify: ${error.message}\n`);
+        return 2;
+      }
     } else {
       try {
         report = await callApi<VerifyReport>(remoteFrom(values), 'GET', '/v1/archive/verify');

@@ -2,7 +2,8 @@
  * The `veer tokens|review|history|export|verify` commands against a real server (SQLite store) and the local
  * store: exit codes, what they print, the token shown once, bundles checked offline.
  */
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import Database from 'better-sqlite3';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -146,6 +147,23 @@ describe('veer review, history, export, verify and tokens', () => {
       expect(local.code).toBe(0);
       expect(JSON.parse(local.out)).toMatchObject({ ok: true, firstFailure: null });
       expect((await veer('verify', ...remote('bob'))).code).toBe(2);
+    });
+
+    it('should refuse a data folder with no archive instead of creating one, and leave an empty file unmigrated', async () => {
+      const typo = join(work, 'no-such-data');
+      const missing = await veer('verify', '--data-dir', typo);
+      expect(missing.code).toBe(2);
+      expect(missing.err).toContain(`--data-dir ${typo}: no archive file`);
+      expect(missing.out).not.toContain('archive sound');
+      expect(existsSync(typo)).toBe(false);
+      const emptyDir = join(work, 'empty-data');
+      mkdirSync(emptyDir);
+      new Database(join(emptyDir, 'archive.sqlite')).close();
+      const empty = await veer('verify', '--data-dir', emptyDir);
+      expect(empty.code).toBe(2);
+      expect(empty.err).toContain('holds no archive tables');
+      const db = new Database(join(emptyDir, 'archive.sqlite'), { readonly: true });
+      try { expect(db.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all()).toEqual([]); } finally { db.close(); }
     });
   });
 });

@@ -40,6 +40,7 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
         await fill();
         const report = await archive.verify();
         expect(report).toMatchObject({ ok: true, entriesChecked: 6, firstFailure: null, projectionMismatches: [] });
+        expect(await handle.verifyReadOnly()).toMatchObject({ ok: true, entriesChecked: 6, head: report.head });
         expect(report.head.sequence).toBe(6);
       });
     });
@@ -62,6 +63,8 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
         expect(report.ok).toBe(false);
         expect(report.firstFailure).toMatchObject({ sequence: 4, reason: 'hash-mismatch' });
         expect(report.lastGoodSequence).toBe(3);
+        const readOnly = await handle.verifyReadOnly();
+        expect(readOnly).toMatchObject({ ok: false, firstFailure: { sequence: 4, reason: 'hash-mismatch' }, lastGoodSequence: 3 });
       });
 
       it('should name an entry whose hash was recomputed to hide a change (its successor no longer points at it)', async () => {

@@ -4,7 +4,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import pg from 'pg';
-import { PostgresArchive, SqliteArchive, type PlanArchive } from '../../archive/index.ts';
+import { PostgresArchive, SqliteArchive, verifyPostgresReadOnly, verifySqliteReadOnly, type PlanArchive, type VerifyReport } from '../../archive/index.ts';
 import type { TestPostgres } from '../harness/postgres.ts';
 
 export interface StoreHandle {
@@ -15,6 +15,8 @@ export interface StoreHandle {
   sql(statement: string): Promise<void>;
   /** SQL that removes the append-only triggers (what someone editing the database by hand would do first). */
   dropGuardsSql: string[];
+  /** The auditor's read-only verification (what `veer verify --data-dir | --database-url` runs). */
+  verifyReadOnly(): Promise<VerifyReport>;
   dispose(): Promise<void>;
 }
 
@@ -37,6 +39,7 @@ export function sqliteFactory(): StoreFactory {
           try { db.exec(statement); } finally { db.close(); }
         },
         dropGuardsSql: ['DROP TRIGGER archive_entries_no_update', 'DROP TRIGGER archive_entries_no_delete'],
+        verifyReadOnly: () => verifySqliteReadOnly(dir),
         dispose: async () => rmSync(dir, { recursive: true, force: true }),
       };
     },
@@ -57,6 +60,7 @@ export function postgresFactory(server: () => TestPostgres): StoreFactory {
           try { await client.query(statement); } finally { await client.end(); }
         },
         dropGuardsSql: ['DROP TRIGGER archive_entries_no_change ON archive_entries'],
+        verifyReadOnly: () => verifyPostgresReadOnly(url),
         dispose: async () => undefined,
       };
     },
