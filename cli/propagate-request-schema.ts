@@ -23,7 +23,7 @@ const eventSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('periapsis'), body, stop }).strict(),
   z.object({ kind: z.literal('apoapsis'), body, stop }).strict(),
   z.object({ kind: z.literal('closest-approach'), body, stop }).strict(),
-  z.object({ kind: z.literal('altitude'), body, altitudeKm: z.number(), stop }).strict(),
+  z.object({ kind: z.literal('altitude'), body, altitudeKm: z.number().min(0).describe('km above the mean surface, >= 0'), stop }).strict(),
   z.object({ kind: z.literal('epoch'), epoch, stop }).strict(),
 ]);
 

@@ -4,7 +4,7 @@
  */
 import { InvalidInputError, OutOfSpanError } from './errors.ts';
 import { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
-import type { VelocityImpulse, PropagationMethod, PropagationRequest } from './propagation-types.ts';
+import type { EventSpec, VelocityImpulse, PropagationMethod, PropagationRequest } from './propagation-types.ts';
 import { BODY_NAMES, INERTIAL_FRAMES } from './types.ts';
 
 /** A burn in the order the run meets it, with its index in the request. */
@@ -43,6 +43,39 @@ function inRange(value: unknown, lo: number, hi: number, field: string, loOpen =
     throw new InvalidInputError(field, `must lie in ${loOpen ? '(' : '['}${lo}, ${hi}], got ${v}`);
   }
   return v;
+}
+
+const EVENT_KINDS: readonly EventSpec['kind'][] = ['periapsis', 'apoapsis', 'closest-approach', 'altitude', 'epoch'];
+
+/**
+ * Validates the requested events (InvalidInputError naming `events[i].<field>`): a known kind and body,
+ * a finite epoch (TDB s from J2000), and an altitude above the body's mean surface, altitudeKm ≥ 0 km
+ * (below it the crossing is the impact, which is always reported; a negative altitude means nothing).
+ */
+export function checkEvents(events: readonly EventSpec[] | undefined): void {
+  if (events === undefined) return;
+  if (!Array.isArray(events)) throw new InvalidInputError('events', 'must be an array of event specifications');
+  events.forEach((spec, i) => {
+    const field = `events[${i}]`;
+    if (spec === null || typeof spec !== 'object') throw new InvalidInputError(field, 'must be an event specification');
+    if (!EVENT_KINDS.includes(spec.kind)) {
+      throw new InvalidInputError(`${field}.kind`, `unknown kind ${JSON.stringify(spec.kind)}; use ${EVENT_KINDS.join(', ')}`);
+    }
+    if (spec.kind === 'epoch') {
+      finite(spec.epochTdbS, `${field}.epochTdbS`);
+      return;
+    }
+    if (!(BODY_NAMES as readonly string[]).includes(spec.body)) {
+      throw new InvalidInputError(`${field}.body`, `unknown body ${JSON.stringify(spec.body)}`);
+    }
+    if (spec.kind === 'altitude') {
+      const altitudeKm = finite(spec.altitudeKm, `${field}.altitudeKm`);
+      if (altitudeKm < 0) {
+        throw new InvalidInputError(`${field}.altitudeKm`, `must be >= 0 km above the surface of ${spec.body}, got ${altitudeKm} `
+          + '(a crossing below the surface would never be reached: the impact ends the run first)');
+      }
+    }
+  });
 }
 
 /** Validates the request's own fields (forces are checked by ForceModel, frames by frames/). */

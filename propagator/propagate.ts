@@ -12,7 +12,7 @@ import { InvalidInputError } from './errors.ts';
 import { ForceModel } from './forces/index.ts';
 import { changeCentre, stateToFrame } from './frames/index.ts';
 import { Dop853Stepper } from './integrators/index.ts';
-import { checkEphemerisSpan, checkRequest, type CheckedRequest } from './propagate-checks.ts';
+import { checkEphemerisSpan, checkEvents, checkRequest, type CheckedRequest } from './propagate-checks.ts';
 import { ImpactWatch } from './propagate-impact.ts';
 import { OutputSampler, stateVector } from './propagate-output.ts';
 import type { PropagationDynamics } from './propagation-dynamics.ts';
@@ -138,6 +138,7 @@ function impactWatcher(dynamics: PropagationDynamics): StepWatcher {
 export function* propagationSteps(
   request: PropagationRequest, options: PropagationOptions = {}, extraWatchers: StepWatcher[] = [],
 ): Generator<number, PropagationResult, void> {
+  checkEvents(request.events);
   if (needsSegmentedRun(request)) return yield* segmentedSteps(request, options, propagationSteps);
   const { checked, dynamics } = prepare(request);
   const { startTdbS: start, endTdbS: end, direction, burns } = checked;

@@ -148,3 +148,29 @@ describe('events on the dense output', () => {
     });
   });
 });
+
+describe('event requests', () => {
+  describe('when an altitude event lies below the surface (altitudeKm < 0)', () => {
+    it('should be rejected before any work with InvalidInputError naming events[i].altitudeKm', () => {
+      const attempt = (): unknown => propagate(request({ events: [
+        { kind: 'periapsis', body: 'earth' }, { kind: 'altitude', body: 'earth', altitudeKm: -50 },
+      ] }));
+      expect(attempt).toThrow(InvalidInputError);
+      expect(attempt).toThrow(/^events\[1\]\.altitudeKm: must be >= 0 km/);
+    });
+  });
+
+  describe('when an altitude is not a finite number', () => {
+    it('should name the field', () => {
+      expect(() => propagate(request({ events: [{ kind: 'altitude', body: 'earth', altitudeKm: Number.NaN }] })))
+        .toThrow(/^events\[0\]\.altitudeKm: must be a finite number/);
+    });
+  });
+
+  describe('when the altitude is exactly the surface (0 km)', () => {
+    it('should be accepted', () => {
+      expect(propagate(request({ endEpochTdbS: T0 + 600, events: [{ kind: 'altitude', body: 'earth', altitudeKm: 0 }] })).outcome)
+        .toBe('finished');
+    });
+  });
+});

@@ -50,6 +50,7 @@ describe('veer propagate', () => {
       ['both endEpoch and durationS', { ...base, endEpoch: '2031-03-02T00:00:00 TDB' }, /endEpoch/],
       ['an unknown key', { ...base, colour: 'blue' }, /request|colour/],
       ['a malformed burn epoch', { ...base, burns: [{ epoch: 'tomorrow', deltaVKmS: [0, 0, 0] }] }, /burns\[0\]\.epoch/],
+      ['a negative altitude event', { ...base, events: [{ kind: 'altitude', body: 'earth', altitudeKm: -1 }] }, /events\[0\]\.altitudeKm/],
       ['a zero mass', { ...base, forces: { centralBody: 'earth', solarPressure: { areaM2: 1, reflectivityCoefficient: 1.2, massKg: 0 } } }, /forces\.solarPressure\.massKg/],
     ];
     for (const [name, json, pattern] of bad) {
