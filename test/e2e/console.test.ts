@@ -248,12 +248,14 @@ describe('ops console', () => {
   });
 
   describe('when the history is opened', () => {
-    it('should show every entry verified and download the export bundle', async () => {
+    it('should show every entry matching its hash, say the whole chain was not checked, and download the export bundle', async () => {
       const page = reviewerPage;
       const history = (await svc.request('GET', `/v1/plans/${planId}/history`, { token: svc.tokens.auditor })).body;
       await page.getByTestId('history-verified').waitFor();
       const verified = await page.getByTestId('history-verified').textContent();
-      expect(verified).toMatch(/^Verified\./);
+      expect(verified).toMatch(/^Entries match their hashes\./);
+      expect(verified).toContain('The whole chain is not checked here — ask an auditor to verify the archive');
+      expect(verified).not.toMatch(/\bVerified\b/);
       expect(verified).toContain(`this browser re-hashed ${history.entries.length} of ${history.entries.length} as matching`);
       expect(await page.getByTestId('history-table').locator('tbody tr').count()).toBe(history.entries.length);
       expect(await page.getByTestId('plan-state').first().textContent()).toBe('approved');

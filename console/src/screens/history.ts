@@ -1,6 +1,7 @@
 /**
  * History of a plan: its archive entries (and its job's), each hash checked by the server and again in this
- * browser, the plan's state, the export bundle download, and (auditors) a check of the whole chain.
+ * browser (own hash and adjacent links only — not a chain verification), the plan's state, the export bundle
+ * download, and (auditors) a check of the whole chain.
  */
 import { ApiError, api, download } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
@@ -33,12 +34,15 @@ export const historyScreen: ScreenFactory = (ctx) => {
       const serverOk = entries.every((e) => e.hashMatches);
       const localOk = local ? local.every((c) => c.hashOk && c.linkOk !== false) : null;
       const links = local ? local.filter((c) => c.linkOk !== null).length : 0;
-      const verified = serverOk && localOk !== false;
-      const status = h('p', { class: `card verify ${verified ? 'verify-ok' : 'verify-bad'}`, role: 'status', 'data-testid': 'history-verified' },
-        h('strong', {}, verified ? 'Verified. ' : 'NOT verified. '),
+      // Only these entries' own hashes and their links to each other are checked here: an entry rewritten with a
+      // recomputed hash (and its successors) would still match, so this is not a verification of the chain.
+      const matching = serverOk && localOk !== false;
+      const status = h('p', { class: `card verify ${matching ? 'verify-ok' : 'verify-bad'}`, role: 'status', 'data-testid': 'history-verified' },
+        h('strong', {}, matching ? 'Entries match their hashes. ' : 'MISMATCH: an entry does not match its hash. '),
         `${entries.length} entries: the server re-hashed ${entries.filter((e) => e.hashMatches).length} of ${entries.length} as matching`,
         local ? `; this browser re-hashed ${local.filter((c) => c.hashOk).length} of ${entries.length} as matching and checked ${links} link${links === 1 ? '' : 's'} between adjacent entries.`
-          : '; this browser cannot re-hash (WebCrypto needs HTTPS or localhost).');
+          : '; this browser cannot re-hash (WebCrypto needs HTTPS or localhost).',
+        ' The whole chain is not checked here — ask an auditor to verify the archive (veer verify, or the button below).');
       const checkOf = new Map((local ?? []).map((c) => [c.sequence, c]));
       const exportButton = h('button', { type: 'button', class: 'primary', 'data-testid': 'export' }, 'Download the export bundle');
       const exportNote = h('p', { class: 'help', 'aria-live': 'polite' });
