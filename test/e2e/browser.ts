@@ -22,6 +22,8 @@ export async function launchChromium(viewport = { width: 1280, height: 800 }): P
     args: [
       '--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking',
       '--disable-component-update', '--disable-sync',
+      // Every host name fails to resolve except the test server's loopback address: the browser can never reach outside.
+      '--host-resolver-rules=MAP * ~NOTFOUND , EXCLUDE 127.0.0.1',
     ],
   });
   return {
