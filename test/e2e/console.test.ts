@@ -158,6 +158,7 @@ describe('ops console', () => {
       expect(seen.some((v) => v > 0 && v < 100)).toBe(true);
       expect(seen.every((v, i) => i === 0 || v >= seen[i - 1])).toBe(true);
       expect(await page.getByTestId('job-state').textContent()).toBe('finished');
+      await expect.poll(() => page.getByTestId('job-outcome').textContent(), { timeout: 15_000 }).toContain('the cross-check passed');
       await shot(page, '04-jobs-complete');
       const link = page.getByTestId('open-plan');
       planId = decodeURIComponent(((await link.getAttribute('href')) ?? '').replace('#/plans/', ''));
@@ -312,6 +313,10 @@ describe('ops console', () => {
       const done = await waitForJob(svc, res.body.jobId, (st) => st.state === 'completed', 60_000);
       expect(done.result.planStatus).toBe('not-converged');
       const page = reviewerPage;
+      await page.goto(`${svc.url}/console/#/jobs/${encodeURIComponent(res.body.jobId)}`);
+      await expect.poll(() => page.getByTestId('job-outcome').textContent(), { timeout: 15_000 })
+        .toContain('No plan: the corrector did not converge; diagnostics only');
+      expect(await page.locator('.outcome').textContent()).not.toMatch(/ready for review|proposed plan/i);
       await page.goto(`${svc.url}/console/#/plans/${done.result.planId}`);
       await page.getByTestId('approve').waitFor();
       expect(await page.getByRole('alert').filter({ hasText: 'did not converge' }).count()).toBe(1);

@@ -6,6 +6,7 @@ import { isoShort } from '../format.ts';
 import { FINAL_JOB_STATES, type JobProgress, type JobStatus } from '../plan-types.ts';
 import { hasRole } from '../session.ts';
 import { followEvents } from '../sse.ts';
+import { jobOutcomeText } from '../job-outcome.ts';
 
 const STATE_TEXT: Record<string, string> = {
   waiting: 'queued', prioritized: 'queued', delayed: 'delayed', active: 'running', 'waiting-children': 'running (sample batches)',
@@ -71,6 +72,7 @@ export const jobsScreen: ScreenFactory = (ctx) => {
     const cancel = h('button', { type: 'button', class: 'danger', hidden: true }, 'Cancel this job');
     let status: JobStatus | null = null;
     let shown = 0;
+    let outcomeFor: string | null = null;
 
     const apply = (s: JobStatus): void => {
       status = s;
@@ -90,14 +92,8 @@ export const jobsScreen: ScreenFactory = (ctx) => {
       if (s.progress && s.progress.fraction >= shown) applyProgress(s.progress);
       if (s.state === 'completed') {
         bar.set(1);
-        stage.textContent = 'Done: the proposed plan is ready for review.';
-        if (s.result) {
-          replaceChildren(outcome,
-            s.result.planStatus === 'converged'
-              ? h('p', {}, 'The corrector converged. The plan is a proposal: open it to review the burns, plots, cross-check and caveats.')
-              : h('p', { class: 'warn' }, 'The corrector did NOT converge. The plan is kept for diagnosis only and can never be approved.'),
-            h('a', { class: 'button primary', href: `#/plans/${encodeURIComponent(s.result.planId)}`, 'data-testid': 'open-plan' }, 'Open the proposed plan'));
-        }
+        stage.textContent = 'Finished.';
+        if (s.result && outcomeFor !== s.result.planId) showOutcome(s.result);
       } else if (s.state === 'failed') {
         bar.set(s.progress?.fraction ?? 0, true);
         stage.textContent = 'The job failed.';
@@ -107,6 +103,22 @@ export const jobsScreen: ScreenFactory = (ctx) => {
         stage.textContent = 'The job was cancelled.';
         replaceChildren(outcome);
       }
+    };
+    /** Words the result by what it is; the job status lacks the cross-check, so it is read from the plan record. */
+    const showOutcome = (result: NonNullable<JobStatus['result']>): void => {
+      outcomeFor = result.planId;
+      const render = (crossCheckPassed: boolean | null): void => {
+        const text = jobOutcomeText(result.planStatus, crossCheckPassed);
+        stage.textContent = text.stage;
+        replaceChildren(outcome,
+          h('p', { class: text.warning ? 'warn' : '', 'data-testid': 'job-outcome' }, text.message),
+          h('a', { class: text.warning ? 'button' : 'button primary', href: `#/plans/${encodeURIComponent(result.planId)}`, 'data-testid': 'open-plan' }, text.linkText));
+      };
+      render(result.planStatus === 'converged' ? null : false);
+      if (result.planStatus !== 'converged') return;
+      void api<{ summary: { crossCheckPassed: boolean } }>(session, 'GET', `/v1/plans/${encodeURIComponent(result.planId)}`)
+        .then((r) => { if (status?.result?.planId === result.planId) render(r.summary.crossCheckPassed === true); })
+        .catch(() => undefined); // stays at "cross-check result not known yet": never claims a plan ready for review
     };
     const applyProgress = (p: JobProgress): void => {
       if (status && FINAL_JOB_STATES.has(status.state)) return;
