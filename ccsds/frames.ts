@@ -7,7 +7,7 @@
  * ch. 5, from memory) is ignored: it is below the accuracy of the built-in ephemerides. GCRF (the ICRF
  * axes at the Earth) is accepted with CENTER_NAME = EARTH only. The standard's frame table has no
  * ecliptic frame; the name ECLIPJ2000 (the mean ecliptic and equinox of J2000, the name in wide use
- * by widely used navigation software) is accepted for J2000_ECLIPTIC, as the standard allows other values agreed in an
+ * in navigation software) is accepted for J2000_ECLIPTIC, as the standard allows other values agreed in an
  * interface control document — say so to the exchange partner.
  *
  * Local frames for maneuvers and covariance (502.0-B 3.2.4.11): RSW and RTN are the same frame as our
