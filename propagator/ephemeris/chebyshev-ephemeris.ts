@@ -158,16 +158,26 @@ function dropNegligibleTerms(coefs: Float64Array, segments: number, n: number, b
   return m;
 }
 
-/** A body's position coefficients as [segment][j < positionTerms][x, y, z]: read front to back by the
- * batch look-up. */
-function positionsBySegment(s: BodySeries, n: number): Float64Array {
-  const m = s.positionTerms;
-  const out = new Float64Array(s.segments * m * 3);
-  for (let seg = 0; seg < s.segments; seg++) {
-    for (let j = 0; j < m; j++) {
-      for (let c = 0; c < 3; c++) out[(seg * m + j) * 3 + c] = s.coefs[(seg * 6 + c) * n + j];
+/** Every body's position coefficients in one array, each body's block laid [segment][j < positionTerms]
+ * [x, y, z] (read front to back by the batch look-up); `base` receives each block's start. */
+function flatPositions(series: Partial<Record<BodyName, BodySeries>>, n: number, base: Int32Array): Float64Array {
+  let total = 0;
+  BODY_NAMES.forEach((body, i) => {
+    const s = series[body];
+    base[i] = total;
+    if (s) total += s.segments * s.positionTerms * 3;
+  });
+  const out = new Float64Array(total);
+  BODY_NAMES.forEach((body, i) => {
+    const s = series[body];
+    if (!s) return;
+    const m = s.positionTerms;
+    for (let seg = 0; seg < s.segments; seg++) {
+      for (let j = 0; j < m; j++) {
+        for (let c = 0; c < 3; c++) out[base[i] + (seg * m + j) * 3 + c] = s.coefs[(seg * 6 + c) * n + j];
+      }
     }
-  }
+  });
   return out;
 }
 
@@ -185,8 +195,10 @@ class ChebyshevEphemeris implements Ephemeris {
   private readonly segmentCount = new Int32Array(BODY_NAMES.length);
   private readonly positionTerms = new Int32Array(BODY_NAMES.length);
   private readonly coefs: Float64Array[] = [];
-  /** Position coefficients re-laid [segment][j][x, y, z] for the batch look-up (ChebyshevPositionsPlan). */
-  private readonly positionCoefs: Float64Array[] = [];
+  /** Position coefficients of all bodies re-laid in one array for the batch look-up (ChebyshevPositionsPlan):
+   * body i from positionBase[i], [segment][j][x, y, z]. */
+  private readonly positionCoefs: Float64Array;
+  private readonly positionBase = new Int32Array(BODY_NAMES.length);
   private readonly startTdbS: number;
   private readonly endTdbS: number;
   // Last evaluation per body (state relative to its parent) and the epoch and components it holds.
@@ -208,7 +220,6 @@ class ChebyshevEphemeris implements Ephemeris {
       this.present[i] = bodies.includes(body) ? 1 : 0;
       const s = series[body];
       this.coefs.push(s ? s.coefs : new Float64Array(0));
-      this.positionCoefs.push(s ? positionsBySegment(s, n) : new Float64Array(0));
       if (s) {
         this.parentIndex[i] = BODY_NAMES.indexOf(s.parent);
         this.segmentS[i] = s.segmentS;
@@ -216,6 +227,7 @@ class ChebyshevEphemeris implements Ephemeris {
         this.positionTerms[i] = s.positionTerms;
       }
     });
+    this.positionCoefs = flatPositions(series, n, this.positionBase);
   }
 
   /** Batch look-up of `targets` relative to `centre` (see ChebyshevPositionsPlan); bodies checked now. */
@@ -223,7 +235,7 @@ class ChebyshevEphemeris implements Ephemeris {
     const tables: ChebyshevTables = {
       name: this.name, span: this.span, bodies: this.bodies, n: this.n, parentIndex: this.parentIndex,
       segmentS: this.segmentS, segmentCount: this.segmentCount, positionTerms: this.positionTerms,
-      positionCoefs: this.positionCoefs,
+      positionCoefs: this.positionCoefs, positionBase: this.positionBase,
     };
     return new ChebyshevPositionsPlan(tables, targets, centre);
   }

@@ -26,9 +26,10 @@ export interface ChebyshevTables {
   readonly segmentCount: Int32Array;
   /** Position series use only this many leading coefficients (the rest are zero). */
   readonly positionTerms: Int32Array;
-  /** Per body, positions only: [segment][coefficient j < positionTerms][x, y, z] — the order the batch
-   * evaluation reads them in. */
-  readonly positionCoefs: readonly Float64Array[];
+  /** All bodies' position coefficients in one array; body b's block starts at positionBase[b] and is laid
+   * [segment][coefficient j < positionTerms][x, y, z] — the order the batch evaluation reads them in. */
+  readonly positionCoefs: Float64Array;
+  readonly positionBase: Int32Array;
 }
 
 /** Body indices from `b` up to (excluding) the origin. */
@@ -54,7 +55,10 @@ export class ChebyshevPositionsPlan implements BodyPositionsPlan {
   // Series evaluated per epoch: grid, coefficient table; results relative to the parent, 3 per series.
   private readonly seriesGrid: Int32Array;
   private readonly seriesTerms: Int32Array;
-  private readonly seriesCoefs: Float64Array[];
+  private readonly coefs: Float64Array;
+  private readonly seriesBase: Int32Array;
+  /** Coefficients per segment block (3 × terms). */
+  private readonly seriesStride: Int32Array;
   private readonly seriesPosition: Float64Array;
   // Per target: terms [termStart[i], termStart[i+1]) of (series, sign).
   private readonly termStart: Int32Array;
@@ -109,8 +113,10 @@ export class ChebyshevPositionsPlan implements BodyPositionsPlan {
       if (g < 0) g = grids.push({ segmentS, count }) - 1;
       return g;
     }));
-    this.seriesCoefs = seriesBodies.map((b) => tables.positionCoefs[b]);
+    this.coefs = tables.positionCoefs;
+    this.seriesBase = Int32Array.from(seriesBodies.map((b) => tables.positionBase[b]));
     this.seriesTerms = Int32Array.from(seriesBodies.map((b) => tables.positionTerms[b]));
+    this.seriesStride = Int32Array.from(seriesBodies.map((b) => 3 * tables.positionTerms[b]));
     this.seriesPosition = new Float64Array(3 * seriesBodies.length);
     this.gridSegmentS = Float64Array.from(grids.map((g) => g.segmentS));
     this.gridLast = Int32Array.from(grids.map((g) => g.count - 1));
@@ -148,15 +154,16 @@ export class ChebyshevPositionsPlan implements BodyPositionsPlan {
       }
     }
     const grid = this.seriesGrid;
-    const coefs = this.seriesCoefs;
+    const k = this.coefs;
+    const seriesBase = this.seriesBase;
+    const stride = this.seriesStride;
     const pos = this.seriesPosition;
     const terms = this.seriesTerms;
     for (let s = 0; s < grid.length; s++) {
       const g = grid[s];
-      const k = coefs[s];
       const m = terms[s];
       const o = g * n;
-      let c = segment[g] * m * 3;
+      let c = seriesBase[s] + segment[g] * stride[s];
       // Even and odd terms summed apart: six independent sums instead of three long chains.
       let ex = 0;
       let ey = 0;
