@@ -158,6 +158,8 @@ export function* propagationSteps(
   const sampler = checked.outputStepS === null ? null : new OutputSampler(dynamics, start, end, checked.outputStepS, direction);
   sampler?.emitStart(stepper.y);
   const span = Math.abs(end - start);
+  // Encke's rectification rewrites a copy of y in place; one buffer for the whole run (no allocation per step).
+  const rectifyBuffer = dynamics.maybeRectify === undefined ? null : new Float64Array(dynamics.initialY.length);
   const targets = [...new Set([...burns.map((b) => b.epochTdbS), end])];
   let outcome: PropagationOutcome = 'finished';
   let message: string | undefined;
@@ -191,8 +193,10 @@ export function* propagationSteps(
         message = stop.message;
         break run;
       }
-      const rectified = dynamics.maybeRectify === undefined ? null : Float64Array.from(stepper.y);
-      if (rectified !== null && dynamics.maybeRectify!(stepper.t, rectified)) stepper.reset(rectified);
+      if (rectifyBuffer !== null) {
+        rectifyBuffer.set(stepper.y);
+        if (dynamics.maybeRectify!(stepper.t, rectifyBuffer)) stepper.reset(rectifyBuffer);
+      }
       yield span === 0 ? 1 : Math.min(1, Math.abs(stepper.t - start) / span);
     }
     while (burnsApplied < burns.length && burns[burnsApplied].epochTdbS === target) {

@@ -158,13 +158,18 @@ export class EnckeDynamics {
     const f = battinF(q);
     const r2 = tot[0] * tot[0] + tot[1] * tot[1] + tot[2] * tot[2];
     const k = this.mu / (r2 * Math.sqrt(r2));
+    // Perturbation = the model's total minus its central term −μr/r³. A perturbation-only evaluation would
+    // avoid this cancellation but needs a switch in ForceModel (forces/), which the STM also needs: the
+    // gradient must keep the central term. The cost is an absolute round-off of ~1e-16·μ/r² in the
+    // perturbation — the same absolute error Cowell carries in its total acceleration.
     this.forces.accelerationInto(t, tot, this.acc, this.withStm ? this.grad : null);
-    const d = [d0, d1, d2];
-    for (let i = 0; i < 3; i++) {
-      const perturbation = this.acc[i] + k * tot[i]; // model total minus its central term −μr/r³
-      dydt[i] = (y[3 + i] * V) / L;
-      dydt[3 + i] = (-k * (d[i] - f * rho[i]) + perturbation) / V;
-    }
+    const acc = this.acc;
+    dydt[0] = (y[3] * V) / L;
+    dydt[1] = (y[4] * V) / L;
+    dydt[2] = (y[5] * V) / L;
+    dydt[3] = (-k * (d0 - f * rho[0]) + (acc[0] + k * tot[0])) / V;
+    dydt[4] = (-k * (d1 - f * rho[1]) + (acc[1] + k * tot[1])) / V;
+    dydt[5] = (-k * (d2 - f * rho[2]) + (acc[2] + k * tot[2])) / V;
     if (this.withStm) {
       const g = this.grad;
       for (let j = 0; j < 18; j++) dydt[6 + j] = y[24 + j];
