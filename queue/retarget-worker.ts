@@ -75,7 +75,14 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
     maxStalledCount: opts.maxStalledCount ?? 2,
   });
   worker.on('error', (err) => opts.logger.error({ err }, 'worker error'));
-  worker.on('failed', (job, err) => opts.logger.warn({ jobId: job?.id, attemptsMade: job?.attemptsMade, reason: err.message }, 'job failed'));
+  worker.on('failed', (job, err) => {
+    opts.logger.warn({ jobId: job?.id, attemptsMade: job?.attemptsMade, reason: err.message }, 'job failed');
+    // A job failed by the stalled-job check never reached the processor's error path: record it here.
+    if (job && job.name === JOB_NAMES.retarget && /stalled/i.test(err.message)) {
+      opts.sink.recordFailed({ jobId: String(job.id), actor: name, errorName: 'StalledJobError', message: err.message })
+        .catch((e: unknown) => opts.logger.error({ err: e, jobId: job.id }, 'could not record the stalled job\'s failure'));
+    }
+  });
   worker.on('completed', (job) => opts.logger.info({ jobId: job.id, name: job.name }, 'job completed'));
   worker.on('stalled', (jobId) => opts.logger.warn({ jobId }, 'job stalled; taken back to the queue'));
 
