@@ -88,3 +88,15 @@ export function historyRows(file: URL, heading: string, row: string, keep = 10):
   }
   return [...previous.slice(-(keep - 1)), row];
 }
+
+/** Short commit of the measured code, marked "+changes" when propagator/ or bench/ differ from it. */
+export function codeVersion(): string {
+  try {
+    const head = execSync('git rev-parse --short HEAD', { stdio: ['ignore', 'pipe', 'ignore'] }).toString().trim();
+    const dirty = execSync('git status --porcelain -- propagator bench', { stdio: ['ignore', 'pipe', 'ignore'] }).toString()
+      .split('\n').some((l) => l.trim() !== '' && !l.includes('bench/results/'));
+    return dirty ? `${head}+changes` : head;
+  } catch {
+    return 'unknown';
+  }
+}

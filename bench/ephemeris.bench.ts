@@ -17,7 +17,7 @@ import vm from 'node:vm';
 import {
   buildChebyshevEphemeris, createBuiltinEphemeris, parseEpoch, planBodyPositions, type BodyName, type Ephemeris,
 } from '../propagator/index.ts';
-import { alternate, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
+import { alternate, codeVersion, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
 
 const ROUNDS = 15;
 const T0 = parseEpoch('2031-03-01T00:00:00 TDB');
@@ -123,7 +123,7 @@ const fromSun = rows[4];
 const resultsFile = new URL('./results/ephemeris.md', import.meta.url);
 const HISTORY = '## Run history';
 const history = historyRows(resultsFile, HISTORY,
-  `| ${new Date().toISOString().slice(0, 16)}Z | ${machineLine().split('; ').find((l) => l.startsWith('load')) ?? ''} | `
+  `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${machineLine().split('; ').find((l) => l.startsWith('load')) ?? ''} | `
   + `${formatSpread(fromSun.ratio, 0)} | ${formatSpread(fromSun.cacheNs, 0)} | ${formatSpread(rows[6].ratio, 0)} |`);
 const lines = [
   '# Ephemeris look-up benchmark (npm run bench:ephemeris)',
@@ -170,8 +170,8 @@ const lines = [
   '',
   'Headline figures of this run and the previous ones (medians, min–max over rounds in brackets).',
   '',
-  '| run (UTC) | load | 9 from the Sun, batch: ratio | 9 from the Sun, batch: cache ns per look-up | 9 from the Earth, batch: ratio |',
-  '|---|---|---|---|---|',
+  '| run (UTC) | code | load | 9 from the Sun, batch: ratio | 9 from the Sun, batch: cache ns per look-up | 9 from the Earth, batch: ratio |',
+  '|---|---|---|---|---|---|',
   ...history,
   '',
 ];

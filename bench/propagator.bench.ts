@@ -19,7 +19,7 @@ import {
   type PropagationResult,
 } from '../propagator/index.ts';
 import { conicToState } from '../propagator/kepler/index.ts';
-import { alternate, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
+import { alternate, codeVersion, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
 
 interface OdexSolver {
   absoluteTolerance: number;
@@ -315,15 +315,15 @@ const resultsFile = new URL('./results/propagator.md', import.meta.url);
 const HISTORY = '## Run history';
 const speedText = speedRatio === null ? 'n/a' : formatSpread(speedRatio, 2);
 const history = historyRows(resultsFile, HISTORY,
-  `| ${new Date().toISOString().slice(0, 16)}Z | ${machineLine().split('; ').find((p) => p.startsWith('load')) ?? ''} | `
+  `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${machineLine().split('; ').find((p) => p.startsWith('load')) ?? ''} | `
   + `${formatSpread(lookUpRatio, 0)} | ${formatSpread(cacheNs, 0)} | ${speedText} |`);
 log(HISTORY);
 log();
 log('Headline figures of this run and the previous ones (medians, min–max over rounds in brackets), to show how much');
 log('they move between runs on this shared machine.');
 log();
-log('| run (UTC) | load | look-up ratio built-in / cache (target ≥ 50×) | ns per cached look-up | veer / odex speed (target ≥ 2×) |');
-log('|---|---|---|---|---|');
+log('| run (UTC) | code | load | look-up ratio built-in / cache (target ≥ 50×) | ns per cached look-up | veer / odex speed (target ≥ 2×) |');
+log('|---|---|---|---|---|---|');
 for (const row of history) log(row);
 
 writeFileSync(resultsFile, `${lines.join('\n')}\n`);
