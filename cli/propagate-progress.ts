@@ -12,6 +12,7 @@ export const PROPAGATE_PROGRESS_DEFAULTS = Object.freeze({
   heartbeatMs: 2000,
 });
 
+/** Where progress lines go and the clock that paces the heartbeat. */
 export interface PropagateProgressOptions {
   /** Where lines go (stderr in the command). */
   write: (line: string) => void;
@@ -23,6 +24,7 @@ export interface PropagateProgressOptions {
   heartbeatMs?: number;
 }
 
+/** Prints the fraction of the span done as whole percent lines (see the file comment for when). */
 export class PropagateProgress {
   private readonly stepPercent: number;
   private readonly heartbeatMs: number;

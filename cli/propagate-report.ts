@@ -4,6 +4,8 @@ import { formatEpoch, type PropagationResult, type StateVector } from '../propag
 /** Version tag of the JSON contract; bump on any incompatible change. */
 export const PROPAGATE_JSON_SCHEMA = 'veer.propagate.result/1';
 
+/** How a run was set up (the `run` block of the JSON contract); tolerances relative (dimensionless) and
+ * absolute (km or km/s); wall time in ms. */
 export interface PropagateRunInfo {
   requestFile: string;
   /** The method the request asked for (or the default); the one used is the result's `methodUsed`. */

@@ -27,6 +27,7 @@ const eventSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('epoch'), epoch, stop }).strict(),
 ]);
 
+/** The request file's zod schema (README "veer propagate" documents each field). */
 export const propagateRequestSchema = z.object({
   initial: z.object({
     epoch,
@@ -67,6 +68,7 @@ export const propagateRequestSchema = z.object({
   ephemeris: z.enum(['chebyshev', 'builtin']).default('chebyshev'),
 }).strict();
 
+/** A parsed request file (epochs still as given: ISO text with a scale, or TDB s from J2000). */
 export type PropagateRequestFile = z.infer<typeof propagateRequestSchema>;
 
 /** Dotted field path of a zod issue: ['burns', 1, 'epoch'] -> 'burns[1].epoch'. */

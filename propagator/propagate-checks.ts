@@ -12,6 +12,8 @@ export interface OrderedBurn extends VelocityImpulse {
   requestIndex: number;
 }
 
+/** A validated request with its defaults resolved: epochs TDB s from J2000, direction of time ±1,
+ * tolerances (relative dimensionless; absolute km or km/s), burns in the order the run meets them. */
 export interface CheckedRequest {
   method: PropagationMethod;
   startTdbS: number;
@@ -137,7 +139,8 @@ function checkBurns(burns: VelocityImpulse[], start: number, end: number, direct
   return ordered.sort((a, b) => direction * (a.epochTdbS - b.epochTdbS) || a.requestIndex - b.requestIndex);
 }
 
-/** Throws OutOfSpanError unless [start, end] lies inside the ephemeris span. */
+/** Throws OutOfSpanError (naming initial.epochTdbS or endEpochTdbS) unless both epochs, TDB s from J2000,
+ * lie inside the closed span of the ephemeris `name`. */
 export function checkEphemerisSpan(span: { startTdbS: number; endTdbS: number }, name: string, start: number, end: number): void {
   for (const [epoch, field] of [[start, 'initial.epochTdbS'], [end, 'endEpochTdbS']] as const) {
     if (epoch < span.startTdbS || epoch > span.endTdbS) {

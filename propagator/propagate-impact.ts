@@ -16,6 +16,8 @@ export interface ImpactHit {
 
 const TIME_TOLERANCE_S = 1e-6;
 
+/** Finds the first surface crossing (centre or perturbing body, mean radii in km) inside each accepted
+ * step, located on the dense output to 1e-6 s (TDB s from J2000). */
 export class ImpactWatch {
   private readonly dynamics: PropagationDynamics;
   private readonly cart = new Float64Array(6);

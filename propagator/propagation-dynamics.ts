@@ -7,6 +7,7 @@ import type { ForceModel } from './forces/index.ts';
 import type { RhsFunction } from './integrators/index.ts';
 import type { PropagationMethod } from './propagation-types.ts';
 
+/** Equations of motion of one formulation over a force model (integration vector, RHS, read-out, Δv). */
 export interface PropagationDynamics {
   /** Integration vector at the start epoch (the run's stepper copies it). */
   readonly initialY: Float64Array;

@@ -46,6 +46,7 @@ export type EventSpec =
   | { kind: 'epoch'; epochTdbS: number; stop?: boolean };
 // Sphere-of-influence entry/exit and impact are always reported when switching / bodies apply.
 
+/** An event located during a run (epoch TDB s from J2000; state km, km/s, J2000 equatorial). */
 export interface EventRecord {
   kind: EventSpec['kind'] | 'soi-entry' | 'soi-exit' | 'impact';
   body?: BodyName;
@@ -56,6 +57,7 @@ export interface EventRecord {
   distanceKm?: number;
 }
 
+/** Central-body switching at spheres of influence (radii km). */
 export interface SwitchingSpec {
   /** Switch the integration centre to a perturbing body inside its sphere of influence. */
   enabled: boolean;
@@ -63,8 +65,10 @@ export interface SwitchingSpec {
   radiusKm?: Partial<Record<BodyName, number>>;
 }
 
+/** Cowell (the total acceleration integrated directly) or Encke (the deviation from a reference conic). */
 export type PropagationMethod = 'cowell' | 'encke';
 
+/** One propagation: initial state, end epoch (TDB s from J2000), forces, ephemeris and options. */
 export interface PropagationRequest {
   /** Initial state; any centre and inertial frame (translated/rotated to the integration frame). */
   initial: StateVector;
@@ -86,9 +90,11 @@ export interface PropagationRequest {
   switching?: SwitchingSpec;
 }
 
+/** How a run ended: reached the end epoch, or why it stopped early (a result, never a throw). */
 export type PropagationOutcome =
   | 'finished' | 'stopped-by-event' | 'impact' | 'step-size-underflow' | 'max-steps' | 'cancelled';
 
+/** Integration counts of a run (all segments of a switched run summed). */
 export interface PropagationStats {
   steps: number;
   acceptedSteps: number;
@@ -105,6 +111,8 @@ export interface PropagationStats {
  * `warnings`); 'mixed' when the segments of a switched run used different methods. */
 export type MethodUsed = PropagationMethod | 'mixed';
 
+/** The outcome and final state of a run (J2000 equatorial, km, km/s, TDB s from J2000), with samples,
+ * events, the STM on request, counts and warnings. */
 export interface PropagationResult {
   outcome: PropagationOutcome;
   /** The method actually used (may differ from the request's `method`; see MethodUsed). */
@@ -124,6 +132,7 @@ export interface PropagationResult {
   warnings: string[];
 }
 
+/** Progress and cancellation of a run. */
 export interface PropagationOptions {
   /** Called with the fraction of the span done, in [0, 1], at most every few milliseconds. */
   onProgress?: (fraction: number) => void;

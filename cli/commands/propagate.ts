@@ -74,6 +74,7 @@ async function readRequestFile(path: string): Promise<PropagateRequestFile> {
   return parsePropagateRequest(json);
 }
 
+/** The `veer propagate` command (see USAGE above and README). */
 export const propagateCommand: CliCommand = {
   name: 'propagate',
   summary: 'propagate a state under a force model (burns, samples, STM) and print the final state',

@@ -48,6 +48,7 @@ export const B_PLANE_PARTIAL_ROWS = [
   'bDotTKm', 'bDotRKm', 'bMagnitudeKm', 'thetaRad', 'timeToPeriapsisS', 'linearizedTimeOfFlightS',
 ] as const;
 
+/** A B-plane with the analytic partials of its scalars with respect to the approach state. */
 export interface BPlanePartials {
   value: BPlane;
   /** rows[k][j] = ∂(quantity k)/∂(state j), state = (r km, v km/s) relative to the body, J2000 equatorial. */

@@ -9,6 +9,8 @@ import type { ForceModel } from '../forces/index.ts';
 import type { PropagationDynamics } from '../propagation-dynamics.ts';
 import { degenerateReason, EnckeDynamics } from './encke-dynamics.ts';
 
+/** What Encke needs from the checked request: start epoch (TDB s from J2000), step-control tolerances
+ * (relative, dimensionless; absolute, km or km/s) and whether the STM rides along. */
 export interface EnckeRunSettings {
   startTdbS: number;
   relativeTolerance: number;

@@ -34,6 +34,7 @@ import type { ForceModel } from '../forces/index.ts';
 import { battinF } from '../forces/index.ts';
 import { keplerSolve } from '../kepler/universal-kepler.ts';
 
+/** Settings of Encke's method (dimensionless ratios), one frozen object that code and README point to. */
 export const ENCKE_DEFAULTS = Object.freeze({
   /** Rectify when |δr|/|ρ| exceeds this (dimensionless). Battin §8.4 rectifies once the deviation grows
    * large; the value 1e-2 is ours (common practice). */
@@ -44,7 +45,9 @@ export const ENCKE_DEFAULTS = Object.freeze({
   rectilinearGuard: 1e-10,
 });
 
-/** Why a reference conic cannot serve Encke's method, or null when it can. */
+/** Why the reference conic of a Cartesian state (km, km/s, any inertial axes, from the attracting body;
+ * μ in km³/s²) cannot serve Encke's method — near-parabolic or rectilinear (ENCKE_DEFAULTS guards) — or
+ * null when it can. */
 export function degenerateReason(state: ArrayLike<number>, mu: number): string | null {
   const [x, y, z, vx, vy, vz] = [state[0], state[1], state[2], state[3], state[4], state[5]];
   const r = Math.hypot(x, y, z);

@@ -5,6 +5,7 @@
  */
 import { InvalidInputError } from '../errors.ts';
 
+/** A root found by brentRoot and the iterations it took. */
 export interface RootResult {
   /** The root, in the units of the argument (seconds for events). */
   x: number;

@@ -15,6 +15,8 @@ import type { Ephemeris } from '../ephemeris/ephemeris.ts';
 import type { EventRecord, EventSpec } from '../propagation-types.ts';
 import type { BodyName } from '../types.ts';
 
+/** One event function g(t, x) of a segment: t TDB s from J2000, x the Cartesian state (km, km/s,
+ * J2000 equatorial, from the segment's centre); the event is where g crosses zero in `direction`. */
 export interface ActiveEvent {
   kind: EventRecord['kind'];
   body?: BodyName;
@@ -52,6 +54,8 @@ function distanceMinus(ephemeris: Ephemeris, body: BodyName, centre: BodyName, r
   };
 }
 
+/** The segment an event set is built for (centre, direction of time, impact and sphere-of-influence
+ * bodies with radii in km). */
 export interface EventSetup {
   ephemeris: Ephemeris;
   centre: BodyName;

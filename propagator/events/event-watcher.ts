@@ -42,6 +42,9 @@ export interface SampleGrid {
   stepS: number;
 }
 
+/** Watches the accepted steps of one segment: brackets sign changes of the event functions between
+ * steps and locates each root on the dense output (Brent, time tolerance EVENT_TIME_TOLERANCE_S, TDB s),
+ * records EventRecords (states relative to the event's body) and the output samples on the grid. */
 export class EventWatcher {
   /** Set when the run stopped for a sphere-of-influence crossing: the centre to switch to. */
   switchTo: { body: BodyName; epochTdbS: number } | null = null;

@@ -13,7 +13,9 @@
 import { InvalidInputError } from '../errors.ts';
 import type { Vec3 } from '../types.ts';
 
+/** Eccentricity (dimensionless) below which stateToConic treats an orbit as circular (ω = 0). */
 export const CIRCULAR_LIMIT = 1e-11;
+/** |n| / |h| (sine of the inclination, dimensionless) below which an orbit counts as equatorial (Ω = 0). */
 export const EQUATORIAL_LIMIT = 1e-11;
 
 /** Conic elements relative to the attracting body, in the axes of the Cartesian state they came from. */

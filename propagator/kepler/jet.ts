@@ -4,6 +4,8 @@
  * partials built from closed-form expressions are analytic (no finite differences, no truncation error).
  */
 
+/** A value `v` (in whatever unit the expression has) with its gradient `d` with respect to the inputs
+ * (∂v/∂input_i, in the unit of v per unit of input i; for states km and km/s). */
 export class Jet {
   readonly v: number;
   readonly d: Float64Array;
@@ -54,11 +56,14 @@ export class Jet {
   }
 }
 
+/** A 3-vector of jets (e.g. a position in km or a velocity in km/s, in the axes of the input state). */
 export type Jet3 = [Jet, Jet, Jet];
 
+/** Dot product a·b with its gradient; unit = unit(a)·unit(b); a and b in the same axes. */
 export function dot3(a: Jet3, b: Jet3): Jet {
   return a[0].mul(b[0]).add(a[1].mul(b[1])).add(a[2].mul(b[2]));
 }
+/** Cross product a × b with its gradient (right-handed; unit = unit(a)·unit(b); a and b in the same axes). */
 export function cross3(a: Jet3, b: Jet3): Jet3 {
   return [
     a[1].mul(b[2]).sub(a[2].mul(b[1])),
@@ -66,24 +71,29 @@ export function cross3(a: Jet3, b: Jet3): Jet3 {
     a[0].mul(b[1]).sub(a[1].mul(b[0])),
   ];
 }
+/** a·s, component by component, with its gradient (s a jet or a constant; unit = unit(a)·unit(s)). */
 export function scale3(a: Jet3, s: Jet | number): Jet3 {
   return [a[0].mul(s), a[1].mul(s), a[2].mul(s)];
 }
+/** a + b with its gradient (same unit and axes for both). */
 export function add3(a: Jet3, b: Jet3): Jet3 {
   return [a[0].add(b[0]), a[1].add(b[1]), a[2].add(b[2])];
 }
+/** a − b with its gradient (same unit and axes for both). */
 export function sub3(a: Jet3, b: Jet3): Jet3 {
   return [a[0].sub(b[0]), a[1].sub(b[1]), a[2].sub(b[2])];
 }
+/** Euclidean norm |a| with its gradient (unit of a; the gradient is undefined at a = 0). */
 export function norm3(a: Jet3): Jet {
   return dot3(a, a).sqrt();
 }
-/** Unit vector of a Jet3 with the gradient of the normalisation. */
+/** Unit vector a/|a| (dimensionless, same axes) with the gradient of the normalisation; a ≠ 0. */
 export function unit3(a: Jet3): Jet3 {
   const n = norm3(a);
   return [a[0].div(n), a[1].div(n), a[2].div(n)];
 }
-/** Lifts a 6-state into jets: components 0..5 are the independent variables. */
+/** Lifts a Cartesian 6-state [x, y, z (km), vx, vy, vz (km/s)], any inertial axes, into jets: components
+ * 0..5 are the independent variables, so later gradients are ∂/∂(r, v) of that state. */
 export function stateJets(state: readonly number[]): { r: Jet3; v: Jet3 } {
   const j = (i: number) => Jet.variable(state[i], i, 6);
   return { r: [j(0), j(1), j(2)], v: [j(3), j(4), j(5)] };
