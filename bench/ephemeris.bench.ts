@@ -15,7 +15,7 @@ import { writeFileSync } from 'node:fs';
 import v8 from 'node:v8';
 import vm from 'node:vm';
 import {
-  buildChebyshevEphemeris, createBuiltinEphemeris, parseEpoch, planBodyPositions, type BodyName, type Ephemeris,
+  buildChebyshevEphemeris, CHEBYSHEV_DEFAULTS, createBuiltinEphemeris, parseEpoch, planBodyPositions, type BodyName, type Ephemeris,
 } from '../propagator/index.ts';
 import { alternate, codeVersion, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
 
@@ -161,9 +161,9 @@ const lines = [
   'Measured against the source at six check points per segment (ends and between nodes), after dropping trailing',
   'position terms whose summed magnitude stays within a quarter of the tolerance (5 cm default).',
   '',
-  '| body | parent | segment (days) | segments | max fit error at check points (m) | (mm/s) |',
-  '|---|---|---:|---:|---:|---:|',
-  ...cache.fitReport().map((f) => `| ${f.body} | ${f.parent} | ${(f.segmentS / 86400).toFixed(2)} | ${f.segments} | `
+  `| body | parent | segment (days) | segments | position terms kept (of ${CHEBYSHEV_DEFAULTS.coefficients}) | max fit error at check points (m) | (mm/s) |`,
+  '|---|---|---:|---:|---:|---:|---:|',
+  ...cache.fitReport().map((f) => `| ${f.body} | ${f.parent} | ${(f.segmentS / 86400).toFixed(2)} | ${f.segments} | ${f.positionTerms} | `
     + `${(f.maxErrorKm * 1000).toFixed(4)} | ${(f.maxErrorKmS * 1e6).toFixed(6)} |`),
   '',
   HISTORY,

@@ -82,6 +82,8 @@ export interface ChebyshevFitReport {
   parent: BodyName;
   segmentS: number;
   segments: number;
+  /** Coefficients the position series keep after dropping negligible trailing terms (of `coefficients`). */
+  positionTerms: number;
   maxErrorKm: number;
   maxErrorKmS: number;
 }
@@ -242,7 +244,7 @@ class ChebyshevEphemeris implements Ephemeris {
 
   fitReport(): ChebyshevFitReport[] {
     return Object.entries(this.series).map(([body, s]) => ({
-      body: body as BodyName, parent: s.parent, segmentS: s.segmentS, segments: s.segments,
+      body: body as BodyName, parent: s.parent, segmentS: s.segmentS, segments: s.segments, positionTerms: s.positionTerms,
       maxErrorKm: s.maxErrorKm, maxErrorKmS: s.maxErrorKmS,
     }));
   }
