@@ -53,6 +53,8 @@ export class RetargetQueue {
   constructor(private readonly opts: RetargetQueueOptions) {
     this.redis = createRedis(opts.redisUrl, { failFast: true, name: 'veer-producer' });
     this.queue = new Queue(RETARGET_QUEUE, { connection: this.redis, prefix: opts.prefix });
+    // Connection trouble shows in /ready and in failed requests; no log line per reconnect attempt.
+    this.queue.on('error', () => {});
     this.attempts = opts.attempts ?? 3;
     this.retentionS = opts.retentionS ?? 7 * 86_400;
   }

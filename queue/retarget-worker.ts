@@ -48,8 +48,9 @@ export interface RetargetWorker {
 export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<RetargetWorker> {
   const name = opts.name ?? `worker@${hostname()}:${process.pid}`;
   const concurrency = opts.concurrency ?? 1;
-  const connection = createRedis(opts.redisUrl, { name });
-  const subscriber = createRedis(opts.redisUrl);
+  const onError = (err: Error): void => opts.logger.warn({ err: err.message }, 'Redis connection trouble; retrying');
+  const connection = createRedis(opts.redisUrl, { name, onError });
+  const subscriber = createRedis(opts.redisUrl, { onError });
   const pool = new PlannerPool({ size: concurrency });
   await pool.warm();
   const queue = new Queue(RETARGET_QUEUE, { connection, prefix: opts.prefix });
@@ -74,7 +75,15 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
     stalledInterval: opts.stalledIntervalMs ?? 30_000,
     maxStalledCount: opts.maxStalledCount ?? 2,
   });
-  worker.on('error', (err) => opts.logger.error({ err }, 'worker error'));
+  // Connection errors repeat on every retry while Redis is away: log them at most once per 10 s.
+  let lastError = 0;
+  const logError = (err: Error): void => {
+    if (Date.now() - lastError < 10_000) return;
+    lastError = Date.now();
+    opts.logger.error({ err: err.message }, 'queue error (retrying)');
+  };
+  worker.on('error', logError);
+  queue.on('error', logError);
   worker.on('failed', (job, err) => {
     opts.logger.warn({ jobId: job?.id, attemptsMade: job?.attemptsMade, reason: err.message }, 'job failed');
     // A job failed by the stalled-job check never reached the processor's error path: record it here.
