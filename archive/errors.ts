@@ -24,6 +24,18 @@ export class ArchiveNotFoundError extends Error {
 }
 
 /**
+ * The plan table (a projection) disagrees with the archive entries it is derived from — someone edited the
+ * database by hand. Writes that depend on it are refused until an auditor has run `veer verify`. Maps to 409.
+ */
+export class ArchiveIntegrityError extends Error {
+  override readonly name = 'ArchiveIntegrityError';
+  readonly code = 'ARCHIVE_INCONSISTENT';
+  constructor(message: string) {
+    super(message);
+  }
+}
+
+/**
  * The request conflicts with the current state, read under the store's write lock: a plan already
  * decided or superseded, or a review that lost a race with another. Maps to HTTP 409.
  */

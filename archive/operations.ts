@@ -5,9 +5,9 @@
  * see one consistent state even with many processes appending.
  */
 import { randomUUID } from 'node:crypto';
-import { canonicalHash } from './canonical-json.ts';
+import { canonicalHash, canonicalJson } from './canonical-json.ts';
 import { sealEntry } from './chain.ts';
-import { ArchiveConflictError, ArchiveInputError, ArchiveNotFoundError } from './errors.ts';
+import { ArchiveConflictError, ArchiveInputError, ArchiveIntegrityError, ArchiveNotFoundError } from './errors.ts';
 import { applyToJob, applyToPlan, planFromProposal } from './projection.ts';
 import type {
   AppendResult, ArchiveEntry, EntryKind, JobRecord, PlanRecord, RecordJobCancelledInput, RecordJobFailedInput,
@@ -26,6 +26,8 @@ export interface ArchiveTx {
   putPlan(plan: PlanRecord): Promise<void>;
   proposedPlansFor(spacecraftName: string, targetSetKey: string): Promise<PlanRecord[]>;
   entriesOfJob(jobId: string, kinds: readonly EntryKind[]): Promise<ArchiveEntry[]>;
+  /** Every entry whose planId is `planId`, in sequence order. */
+  entriesOfPlan(planId: string): Promise<ArchiveEntry[]>;
 }
 
 /** Appends one entry at the head (sequence, previous hash, time and hash filled in). */
@@ -117,11 +119,35 @@ export function recordJobCancelled(tx: ArchiveTx, now: () => Date, input: Record
   return recordJobEnd(tx, now, 'job-cancelled', input.jobId, input.actor, { reason: input.reason ?? 'cancelled' });
 }
 
+/** Plan-record fields the review rules or the decision depend on. */
+const RULE_FIELDS = ['planId', 'jobId', 'state', 'converged', 'crossCheckPassed', 'caveatCodes', 'submittedBy', 'decidedBy'] as const;
+
+/** The plan record re-derived from its plan-proposed entry, later entries, and its job's job-submitted entry. */
+async function planFromEntries(tx: ArchiveTx, planId: string, planEntries: readonly ArchiveEntry[]): Promise<PlanRecord> {
+  const proposal = planEntries.find((e) => e.kind === 'plan-proposed');
+  if (!proposal) throw new ArchiveIntegrityError(`plan ${planId} is in the plan table but has no plan-proposed entry`);
+  let plan = planFromProposal(proposal);
+  for (const entry of planEntries) if (entry.sequence > proposal.sequence) plan = applyToPlan(plan, entry);
+  const submitted = proposal.jobId ? (await tx.entriesOfJob(proposal.jobId, ['job-submitted']))[0] : undefined;
+  if (submitted && submitted.actor !== plan.submittedBy) {
+    throw new ArchiveIntegrityError(`plan ${planId}: its job was submitted by ${submitted.actor} but its plan-proposed entry names ${plan.submittedBy}`);
+  }
+  return plan;
+}
+
 export async function recordReview(tx: ArchiveTx, now: () => Date, input: RecordReviewInput, guard?: ReviewGuard): Promise<{ entry: ArchiveEntry; plan: PlanRecord }> {
   requireText('reviewer', input.reviewer);
   if (input.decision !== 'approve' && input.decision !== 'reject') throw new ArchiveInputError('decision', "must be 'approve' or 'reject'");
-  const plan = await tx.getPlan(input.planId);
-  if (!plan) throw new ArchiveNotFoundError(`plan ${input.planId} is not in the archive`);
+  const stored = await tx.getPlan(input.planId);
+  const planEntries = await tx.entriesOfPlan(input.planId);
+  if (!stored && planEntries.length === 0) throw new ArchiveNotFoundError(`plan ${input.planId} is not in the archive`);
+  // The rules read the plan as its entries say it is (under the lock), never the editable plan table alone.
+  const plan = await planFromEntries(tx, input.planId, planEntries);
+  const differs = stored ? RULE_FIELDS.find((f) => canonicalJson(stored[f]) !== canonicalJson(plan[f])) : 'planId';
+  if (differs) {
+    throw new ArchiveIntegrityError(`plan ${input.planId}: the plan table's ${differs} disagrees with the archive entries; `
+      + 'no review is recorded until an auditor has run veer verify and the store is repaired');
+  }
   if (plan.state !== 'proposed') {
     throw new ArchiveConflictError(`plan ${input.planId} is already ${plan.state}${plan.decidedBy ? ` by ${plan.decidedBy}` : ''}; a decision is final`, plan.state);
   }

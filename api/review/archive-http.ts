@@ -13,7 +13,7 @@ export function archiveOf(deps: Pick<AppDeps, 'archive'>): PlanArchive {
 
 /**
  * Answers a known error and returns true; returns false for anything else (left to the error handler).
- * ArchiveNotFoundError → 404, ArchiveConflictError → 409, ArchiveInputError → 400, ReviewRuleError → its status
+ * ArchiveNotFoundError → 404, ArchiveConflictError and ArchiveIntegrityError → 409, ArchiveInputError → 400, ReviewRuleError → its status
  * with `missing` / `unknown` caveat codes when they apply.
  */
 export function sendArchiveError(res: Response, error: unknown): boolean {
@@ -30,6 +30,9 @@ export function sendArchiveError(res: Response, error: unknown): boolean {
       return true;
     case 'ArchiveConflictError':
       res.status(409).json({ error: { code: 'PLAN_ALREADY_DECIDED', message: named.message, currentState: named.currentState } });
+      return true;
+    case 'ArchiveIntegrityError':
+      res.status(409).json({ error: { code: 'ARCHIVE_INCONSISTENT', message: named.message } });
       return true;
     case 'ArchiveInputError':
       res.status(400).json({ error: { code: 'INVALID_REQUEST', message: named.message, issues: [{ path: `body.${named.field}`, message: named.message }] } });

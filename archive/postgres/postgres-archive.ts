@@ -219,6 +219,8 @@ export class PostgresArchive implements PlanArchive {
           [spacecraftName, targetSetKey])).rows.map(planFromRow),
       entriesOfJob: async (jobId: string, kinds: readonly EntryKind[]) =>
         (await db.query(`SELECT * FROM archive_entries WHERE job_id = $1 AND kind = ANY($2::text[]) ORDER BY sequence`, [jobId, [...kinds]])).rows.map(entryFromRow),
+      entriesOfPlan: async (planId: string) =>
+        (await db.query('SELECT * FROM archive_entries WHERE plan_id = $1 ORDER BY sequence', [planId])).rows.map(entryFromRow),
     };
   }
 }

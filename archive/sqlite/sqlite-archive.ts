@@ -252,6 +252,8 @@ export class SqliteArchive implements PlanArchive {
       entriesOfJob: async (jobId: string, kinds: readonly EntryKind[]) =>
         (db.prepare(`SELECT * FROM archive_entries WHERE job_id = ? AND kind IN (${kinds.map(() => '?').join(', ')}) ORDER BY sequence`)
           .all(jobId, ...kinds) as Row[]).map(entryFromRow),
+      entriesOfPlan: async (planId: string) =>
+        (db.prepare('SELECT * FROM archive_entries WHERE plan_id = ? ORDER BY sequence').all(planId) as Row[]).map(entryFromRow),
     };
   }
 }

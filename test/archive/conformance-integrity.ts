@@ -5,8 +5,8 @@ import { execFile } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { ArchiveConflictError, type PlanArchive } from '../../archive/index.ts';
-import { makePlan, PROBLEM } from './fixtures.ts';
+import { ArchiveConflictError, ArchiveIntegrityError, type PlanArchive, type PlanRecord, type RecordReviewInput } from '../../archive/index.ts';
+import { makePlan, PROBLEM, type PlanOptions } from './fixtures.ts';
 import type { StoreFactory, StoreHandle } from './store-handles.ts';
 
 const run = promisify(execFile);
@@ -99,6 +99,32 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
           { planId, field: 'state', derived: 'proposed', stored: 'approved' },
           { planId, field: 'decidedBy', derived: null, stored: 'mallory' },
         ]));
+      });
+    });
+
+    describe('when the plan table is edited to get an approval through', () => {
+      /** A guard like the review rules': refuses what the plan record says is unapprovable or self-approved. */
+      const guard = (plan: PlanRecord, input: RecordReviewInput): void => {
+        if (input.reviewer === plan.submittedBy || !plan.converged || !plan.crossCheckPassed) throw new Error('refused by the rules');
+        if (plan.caveatCodes.some((c) => !input.acknowledgedCaveatCodes.includes(c))) throw new Error('caveats not acknowledged');
+      };
+      // Each edit alone would make the guard above pass for this reviewer with no caveats acknowledged.
+      const cases: Array<[string, string, PlanOptions, string]> = [
+        ['a not-converged plan marked converged', 'converged = 1, cross_check_passed = 1', { status: 'not-converged' }, 'bob'],
+        ['a failed cross-check marked passed', 'cross_check_passed = 1', { crossCheckPassed: false }, 'bob'],
+        ['the caveat codes emptied', `caveat_codes = '[]'`, {}, 'bob'],
+        ['the submitter renamed (two-person rule)', `submitted_by = 'someone-else'`, {}, 'ann'],
+      ];
+      it.each(cases)('should refuse the review when %s, and append nothing', async (_label, assignment, options, reviewer) => {
+        await archive.recordJobSubmitted({ jobId: 'jt', actor: 'ann', problem: PROBLEM });
+        const { planId } = await archive.recordPlanProposed({ jobId: 'jt', actor: 'w', submittedBy: 'ann', plan: makePlan(options) });
+        const sqlAssignment = handle.location.startsWith('sqlite:') ? assignment : assignment.replace(/= 1/g, '= true');
+        await handle.sql(`UPDATE archive_plans SET ${sqlAssignment} WHERE plan_id = '${planId}'`);
+        const before = await archive.head();
+        await expect(archive.recordReview({ planId, reviewer, decision: 'approve', comment: '', acknowledgedCaveatCodes: [] }, guard))
+          .rejects.toBeInstanceOf(ArchiveIntegrityError);
+        expect(await archive.head()).toEqual(before);
+        expect((await archive.getPlan(planId))?.state).toBe('proposed');
       });
     });
 
