@@ -103,8 +103,12 @@ export class ChainVerifier {
       return { sequence: entry.sequence, reason: 'malformed', message: `entry ${entry.sequence} has an unknown kind, a malformed hash or time` };
     }
     if (entry.previousHash !== this.previousHash) {
+      // Entry n−1 hashed correctly on its own, so the likely edit is n−1 changed and re-hashed to hide it.
+      const suspect = entry.sequence - 1;
       return { sequence: entry.sequence, reason: 'previous-hash-mismatch', expected: this.previousHash, found: entry.previousHash,
-        message: `entry ${entry.sequence} does not point at the hash of entry ${entry.sequence - 1}` };
+        likelyEditedSequence: suspect,
+        message: `entry ${entry.sequence} does not point at the hash of entry ${suspect}: entry ${suspect} was most likely edited and `
+          + `its hash recomputed (or entry ${entry.sequence}'s link was changed); the mismatch was seen at entry ${entry.sequence}` };
     }
     let recomputed: string;
     try {

@@ -152,6 +152,8 @@ export interface VerifyFailure {
   /** The first entry (by sequence) that does not match; for a missing entry, the sequence that is absent. */
   sequence: number;
   reason: VerifyFailureReason;
+  /** For a broken link: the entry before it, which most likely was edited and re-hashed. */
+  likelyEditedSequence?: number;
   message: string;
   expected?: string;
   found?: string;

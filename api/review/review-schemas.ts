@@ -52,7 +52,7 @@ export const entriesQuerySchema = z.object({
 export const verifyResponseSchema = z.object({
   ok: z.boolean(), entriesChecked: z.number().int(), lastGoodSequence: z.number().int(), lastGoodHash: z.string(),
   head: z.object({ sequence: z.number().int(), hash: z.string() }),
-  firstFailure: z.object({ sequence: z.number().int(), reason: z.string(), message: z.string(), expected: z.string().optional(), found: z.string().optional() }).nullable(),
+  firstFailure: z.object({ sequence: z.number().int(), reason: z.string(), likelyEditedSequence: z.number().int().optional(), message: z.string(), expected: z.string().optional(), found: z.string().optional() }).nullable(),
   projectionMismatches: z.array(z.object({ planId: z.string(), field: z.string(), derived: z.unknown(), stored: z.unknown() })),
   durationMs: z.number(),
   verifiedBy: z.string(),

@@ -23,8 +23,13 @@ ${REMOTE_USAGE}`;
 function reportText(r: VerifyReport): string {
   const lines = [r.ok ? `archive sound: ${r.entriesChecked} entries, head ${r.head.sequence} ${r.head.hash}` : 'ARCHIVE CHECK FAILED'];
   if (r.firstFailure) {
-    lines.push(`  first entry that does not match: ${r.firstFailure.sequence} (${r.firstFailure.reason}) — ${r.firstFailure.message}`,
-      `  entries 1..${r.lastGoodSequence} check out (last good hash ${r.lastGoodHash})`);
+    const f = r.firstFailure;
+    lines.push(f.likelyEditedSequence !== undefined
+      ? `  mismatch seen at entry ${f.sequence} (${f.reason}); most likely edited: entry ${f.likelyEditedSequence} — ${f.message}`
+      : `  first entry that does not match: ${f.sequence} (${f.reason}) — ${f.message}`,
+      f.likelyEditedSequence !== undefined
+        ? `  entries 1..${f.likelyEditedSequence - 1} check out; entry ${f.likelyEditedSequence} hashes on its own but is not the entry ${f.sequence} was written after`
+        : `  entries 1..${r.lastGoodSequence} check out (last good hash ${r.lastGoodHash})`);
   }
   for (const m of r.projectionMismatches) lines.push(`  plan ${m.planId}: ${m.field} stored ${JSON.stringify(m.stored)} but the entries say ${JSON.stringify(m.derived)}`);
   lines.push(`  checked in ${r.durationMs.toFixed(1)} ms`);

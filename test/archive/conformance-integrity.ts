@@ -5,7 +5,7 @@ import { execFile } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { ArchiveConflictError, ArchiveIntegrityError, type PlanArchive, type PlanRecord, type RecordReviewInput } from '../../archive/index.ts';
+import { ArchiveConflictError, ArchiveIntegrityError, canonicalJson, entryHash, type PlanArchive, type PlanRecord, type RecordReviewInput } from '../../archive/index.ts';
 import { makePlan, PROBLEM, type PlanOptions } from './fixtures.ts';
 import type { StoreFactory, StoreHandle } from './store-handles.ts';
 
@@ -67,12 +67,27 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
         expect(readOnly).toMatchObject({ ok: false, firstFailure: { sequence: 4, reason: 'hash-mismatch' }, lastGoodSequence: 3 });
       });
 
-      it('should name an entry whose hash was recomputed to hide a change (its successor no longer points at it)', async () => {
+      it('should name an entry whose stored hash was overwritten with another value', async () => {
         await fill();
         for (const s of handle.dropGuardsSql) await handle.sql(s);
         await handle.sql("UPDATE archive_entries SET actor = 'mallory', hash = '" + 'f'.repeat(64) + "' WHERE sequence = 3");
         const report = await archive.verify();
         expect(report.firstFailure).toMatchObject({ sequence: 3, reason: 'hash-mismatch' });
+      });
+
+      it('should name an entry whose payload was changed and its hash correctly recomputed (its successor no longer points at it)', async () => {
+        await fill();
+        for (const s of handle.dropGuardsSql) await handle.sql(s);
+        const [original] = await archive.entries(3, 1);
+        const payload = { ...original.payload, problem: { ...(original.payload.problem as object), note: 'edited afterwards' } };
+        const rehashed = entryHash({ ...original, payload });
+        const quoted = canonicalJson(payload).replace(/'/g, "''");
+        await handle.sql(`UPDATE archive_entries SET payload = '${quoted}', hash = '${rehashed}' WHERE sequence = 3`);
+        const report = await archive.verify();
+        expect(report.ok).toBe(false);
+        expect(report.firstFailure).toMatchObject({ sequence: 4, reason: 'previous-hash-mismatch', likelyEditedSequence: 3 });
+        expect(report.firstFailure?.message).toContain('entry 3 was most likely edited and its hash recomputed');
+        expect(report.firstFailure?.message).toContain('the mismatch was seen at entry 4');
       });
 
       it('should name a deleted entry as missing', async () => {
