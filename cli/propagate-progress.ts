@@ -36,9 +36,10 @@ export class PropagateProgress {
     this.heartbeatMs = options.heartbeatMs ?? PROPAGATE_PROGRESS_DEFAULTS.heartbeatMs;
   }
 
-  /** Prints 0 % at once (call before any slow preparation such as building the ephemeris cache). */
+  /** Prints 0 % at once (call before any slow preparation such as building the ephemeris cache); later
+   * calls, or calls after any line, print nothing. */
   start(): void {
-    this.print(0);
+    if (this.lastPercent < 0) this.print(0);
   }
 
   /** Takes the fraction of the span done, in [0, 1]; prints when a line is due. */

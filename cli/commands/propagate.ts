@@ -33,9 +33,10 @@ const CACHE_MARGIN_S = 86400;
 /**
  * The ephemeris a request asks for: the built-in series, or a Chebyshev cache of it over the span.
  * When any body other than the central one is consulted, the requested span is first checked against
- * the built-in span (OutOfSpanError naming `initial.epoch`, `endEpoch` or `durationS`).
+ * the built-in span (OutOfSpanError naming `initial.epoch`, `endEpoch` or `durationS`); `beforeBuild`
+ * runs once those checks pass, just before the (slower) cache build.
  */
-export function ephemerisFor(file: PropagateRequestFile): Ephemeris {
+export function ephemerisFor(file: PropagateRequestFile, beforeBuild?: () => void): Ephemeris {
   const builtin = createBuiltinEphemeris();
   const bodies = new Set<BodyName>([file.forces.centralBody, file.initial.centre, ...file.forces.perturbingBodies]);
   if (file.forces.solarPressure !== undefined) bodies.add('sun');
@@ -44,6 +45,7 @@ export function ephemerisFor(file: PropagateRequestFile): Ephemeris {
   checkRequestSpan(file, BUILTIN_EPHEMERIS_SPAN, builtin.name);
   if (file.ephemeris === 'builtin') return builtin;
   const { startTdbS, endTdbS } = requestSpan(file);
+  beforeBuild?.();
   try {
     return buildChebyshevEphemeris(builtin, {
       bodies: [...bodies],
@@ -89,9 +91,10 @@ export const propagateCommand: CliCommand = {
     }
     const file = await readRequestFile(files[0]);
     const progress = new PropagateProgress({ write: (line) => process.stderr.write(line), now: () => performance.now() });
-    progress.start();
-    const ephemeris = ephemerisFor(file);
+    // 0 % as soon as the request is known good enough to start: before the cache build, after the span check.
+    const ephemeris = ephemerisFor(file, () => progress.start());
     const request = toPropagationRequest(file, ephemeris);
+    progress.start();
     const controller = new AbortController();
     const onSigint = (): void => controller.abort();
     process.once('SIGINT', onSigint);

@@ -21,6 +21,7 @@ describe('veer propagate progress', () => {
     it('should print 0 % at once, before any update', () => {
       const { lines, progress } = printer();
       progress.start();
+      progress.start();
       expect(lines).toEqual(['veer propagate:   0%']);
     });
   });
@@ -66,7 +67,23 @@ describe('veer propagate progress', () => {
       }));
       expect(await propagateCommand.run([path, '--json'])).toBe(0);
       expect(err[0]).toBe('veer propagate:   0%');
+      expect(err.filter((l) => l === 'veer propagate:   0%')).toHaveLength(1);
       expect(err[err.length - 1]).toBe('veer propagate: 100%');
+    });
+    it('should print no progress line before rejecting a span outside the ephemeris', async () => {
+      const err: string[] = [];
+      vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => {
+        err.push(String(chunk).trim());
+        return true;
+      });
+      const dir = mkdtempSync(join(tmpdir(), 'veer-progress-'));
+      const path = join(dir, 'request.json');
+      writeFileSync(path, JSON.stringify({
+        initial: { epoch: '2400-01-01T00:00:00 TDB', centre: 'earth', positionKm: [3e6, 1e6, 5e5], velocityKmS: [1.5, 2.5, 0.8] },
+        durationS: 86400, forces: { centralBody: 'sun', perturbingBodies: ['earth'] },
+      }));
+      await expect(propagateCommand.run([path])).rejects.toThrow(/^initial\.epoch/);
+      expect(err).toEqual([]);
     });
   });
 });
