@@ -20,7 +20,15 @@ export interface Identity {
   tokenId: string;
 }
 
-/** Token names: 1–64 characters of letters, digits, `.`, `_`, `-`, `@`. */
+/**
+ * Token names: 1–64 characters of letters, digits, `.`, `_`, `-`, `@`, stored in lowercase so `Ann` and `ann`
+ * are one person to the two-person rule.
+ */
 export const tokenNameSchema = z.string().regex(/^[A-Za-z0-9._@-]{1,64}$/, {
   error: 'must be 1–64 characters of letters, digits, . _ - @',
-});
+}).toLowerCase();
+
+/** Whether two identity names are the same person (names are ASCII; compared case-insensitively). */
+export function sameIdentityName(a: string, b: string): boolean {
+  return a.toLowerCase() === b.toLowerCase();
+}

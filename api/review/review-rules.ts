@@ -8,6 +8,7 @@
  *  - approval acknowledges every caveat of the plan by its code, and only those codes.
  */
 import type { PlanRecord, RecordReviewInput, ReviewGuard } from '../../archive/index.ts';
+import { sameIdentityName } from '../auth/index.ts';
 
 /** A review refused by a rule; `status` is the HTTP answer, `details` lists what was wrong. */
 export class ReviewRuleError extends Error {
@@ -35,7 +36,8 @@ export function checkReviewRules(plan: PlanRecord, input: RecordReviewInput): vo
     if (input.comment.trim() === '') throw new ReviewRuleError(400, 'COMMENT_REQUIRED', 'a rejection needs a comment saying why');
     return;
   }
-  if (input.reviewer === plan.submittedBy) {
+  // Case-insensitive: tokens made before names were lowercased may differ from the submitter only in case.
+  if (sameIdentityName(input.reviewer, plan.submittedBy)) {
     throw new ReviewRuleError(403, 'TWO_PERSON_RULE',
       `${input.reviewer} submitted the job of plan ${plan.planId}; another reviewer must approve it`);
   }

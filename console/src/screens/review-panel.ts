@@ -17,7 +17,7 @@ export interface ReviewPanelInput {
 
 export function reviewPanel({ session, summary, caveats, onDecided }: ReviewPanelInput): HTMLElement {
   const isReviewer = hasRole(session, 'reviewer');
-  const isSubmitter = summary.submittedBy === session.name;
+  const isSubmitter = summary.submittedBy.toLowerCase() === session.name.toLowerCase(); // as the server's two-person rule compares
   const proposed = summary.state === 'proposed';
   const approvable = summary.converged && summary.crossCheckPassed;
   if (!proposed) {
