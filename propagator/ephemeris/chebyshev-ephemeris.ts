@@ -32,8 +32,10 @@ export interface ChebyshevEphemerisOptions {
    * present). @defaultValue 'sun' */
   origin?: BodyName;
   /** Largest position difference from the source allowed at the check points, km.
-   * @defaultValue 5e-5 (5 cm; the built-in source itself is only smooth to ~1 cm because it takes time
-   * as float64 days, ~2e-7 s resolution) */
+   * @defaultValue 5e-5 (5 cm; the built-in source itself is only smooth to ~1 cm near today because it
+   * takes time as float64 days, ~2e-7 s resolution). Far from J2000 the default rises with that
+   * resolution (to ~25 cm for planets near 2200, still under 1 m; the Moon about the Earth stays near
+   * 5 cm); an explicit value is used as given. */
   toleranceKm?: number;
   /** Coefficients per series (polynomial degree + 1), in [6, 32]. @defaultValue 14 */
   coefficients?: number;
@@ -352,6 +354,20 @@ export type ChebyshevEphemerisCache = Ephemeris & { fitReport(): ChebyshevFitRep
  * is kept within `toleranceKm` (default 5 cm) and reported by `fitReport()`. Look-ups outside the span
  * throw OutOfSpanError. Building calls the source about (2 + 6/14) × coefficients times per segment.
  */
+/**
+ * Position noise (km) a source shows because it takes time as float64 days: its time resolution is one
+ * ulp of the day count, which coarsens away from J2000 (about 1.6e-7 s in 2031, 1.3e-6 s near 2196).
+ * Bounded by twice a generous relative speed times that resolution: 1.1 km/s for the Moon about the
+ * Earth, 100 km/s for anything else (Mercury about the Sun peaks near 59 km/s). Only used for the
+ * default tolerance, so a caller's explicit `toleranceKm` is never loosened.
+ */
+function sourceTimeNoiseKm(body: BodyName, parent: BodyName, span: TdbSpan): number {
+  const farthestDays = Math.max(Math.abs(span.startTdbS), Math.abs(span.endTdbS)) / 86400;
+  const ulpDays = 2 ** (Math.floor(Math.log2(Math.max(farthestDays, 1))) - 52);
+  const speedKmS = body === 'moon' && parent === 'earth' ? 1.1 : 100;
+  return 2 * speedKmS * ulpDays * 86400;
+}
+
 export function buildChebyshevEphemeris(source: Ephemeris, options: ChebyshevEphemerisOptions): ChebyshevEphemerisCache {
   const span: TdbSpan = { startTdbS: options.startTdbS, endTdbS: options.endTdbS };
   assertValidSpan(span, 'startTdbS/endTdbS');
@@ -375,7 +391,8 @@ export function buildChebyshevEphemeris(source: Ephemeris, options: ChebyshevEph
     const parent: BodyName = body === 'moon' && bodies.includes('earth') && origin !== 'earth' ? 'earth' : origin;
     const first = options.initialSegmentS?.[body] ?? INITIAL_SEGMENT_S[body];
     if (!(first > 0)) throw new InvalidInputError(`initialSegmentS.${body}`, `${first} must be a positive number of s`);
-    series[body] = fitBody(source, body, parent, span, n, toleranceKm, first);
+    const bodyToleranceKm = options.toleranceKm ?? Math.max(toleranceKm, sourceTimeNoiseKm(body, parent, span));
+    series[body] = fitBody(source, body, parent, span, n, bodyToleranceKm, first);
   }
   const name = `chebyshev cache of ${source.name} over [${span.startTdbS}, ${span.endTdbS}] TDB s`;
   return new ChebyshevEphemeris(name, Object.freeze(span), Object.freeze(bodies), n, series);
