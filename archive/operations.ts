@@ -75,6 +75,12 @@ export async function recordPlanProposed(tx: ArchiveTx, now: () => Date, input: 
   if (already) {
     return { created: false, planId: already.planId, superseded: [], entries: await tx.entriesOfJob(input.jobId, ['plan-proposed']) };
   }
+  // A job that ended without a plan stays ended: a late worker result must not turn it into a proposal.
+  const [ended] = await tx.entriesOfJob(input.jobId, ['job-failed', 'job-cancelled']);
+  if (ended) {
+    const state = ended.kind === 'job-failed' ? 'failed' : 'cancelled';
+    throw new ArchiveConflictError(`job ${input.jobId} was ${state} (entry ${ended.sequence}); no plan is recorded for it`, state);
+  }
   const planId = `plan-${randomUUID()}`;
   const payload = { plan: input.plan, planHash: canonicalHash(input.plan), submittedBy: input.submittedBy };
   const proposed = await append(tx, now, { actor: input.actor, kind: 'plan-proposed', planId, jobId: input.jobId,

@@ -182,6 +182,7 @@ export interface PlanArchive {
    * Records the plan a job produced, exactly once per job (idempotent by jobId: a repeat returns the first
    * plan's id with `created: false`). In the same transaction, older proposed plans with the same spacecraft
    * and targetSetKey are superseded — only by a plan that could be approved (converged, cross-check passed).
+   * A job already recorded as failed or cancelled gets no plan (ArchiveConflictError).
    */
   recordPlanProposed(input: RecordPlanProposedInput): Promise<RecordPlanProposedResult>;
   /** Records a job's failure (idempotent: a job gets at most one terminal entry). */

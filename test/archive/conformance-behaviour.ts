@@ -93,6 +93,20 @@ export function describeArchiveBehaviour(factory: StoreFactory): void {
       });
     });
 
+    describe('when a plan arrives for a job that already ended', () => {
+      it.each([['cancelled', 'job-cancelled'], ['failed', 'job-failed']] as const)('should refuse it for a %s job and append nothing', async (state, kind) => {
+        await archive.recordJobSubmitted({ jobId: 'j-end', actor: 'ann', problem: PROBLEM });
+        if (kind === 'job-cancelled') await archive.recordJobCancelled({ jobId: 'j-end', actor: 'ann', reason: 'no longer needed' });
+        else await archive.recordJobFailed({ jobId: 'j-end', actor: 'worker-1', errorName: 'OutOfSpanError', message: 'endEpoch: outside' });
+        const late = archive.recordPlanProposed({ jobId: 'j-end', actor: 'worker-1', submittedBy: 'ann', plan: makePlan() });
+        await expect(late).rejects.toBeInstanceOf(ArchiveConflictError);
+        await expect(late).rejects.toThrow(`job j-end was ${state}`);
+        expect((await archive.entries()).map((e) => e.kind)).toEqual(['job-submitted', kind]);
+        expect(await archive.getPlanByJob('j-end')).toBeUndefined();
+        expect((await archive.getJob('j-end'))?.state).toBe(state);
+      });
+    });
+
     describe('when a newer plan arrives for the same spacecraft and target set', () => {
       it('should supersede the older proposed plan with its own entry', async () => {
         const older = await propose('j1');
