@@ -3,7 +3,7 @@ import type Database from 'better-sqlite3';
 import { migrateSqlite, openSqliteDatabase, type Migration } from '../../archive/index.ts';
 import { parseNewToken } from './token-input.ts';
 import { generateTokenId, generateTokenSecret, hashTokenSecret } from './token-secret.ts';
-import type { TokenRecord, TokenStore } from './token-store.ts';
+import { UNSTATED_ACTOR, type TokenRecord, type TokenStore } from './token-store.ts';
 import type { Identity, Role } from './roles.ts';
 
 const MIGRATIONS: readonly Migration[] = [{
@@ -17,12 +17,18 @@ const MIGRATIONS: readonly Migration[] = [{
     created_at TEXT NOT NULL,
     revoked_at TEXT
   );`,
+}, {
+  version: 2,
+  name: 'api tokens: who created and who revoked each',
+  sql: 'ALTER TABLE api_tokens ADD COLUMN created_by TEXT; ALTER TABLE api_tokens ADD COLUMN revoked_by TEXT;',
 }];
 
 type Row = Record<string, unknown>;
 export const tokenFromRow = (row: Row): TokenRecord => ({
   id: String(row.id), name: String(row.name), roles: JSON.parse(String(row.roles)) as Role[],
   createdAt: String(row.created_at), revokedAt: row.revoked_at === null || row.revoked_at === undefined ? null : String(row.revoked_at),
+  createdBy: row.created_by === null || row.created_by === undefined ? null : String(row.created_by),
+  revokedBy: row.revoked_by === null || row.revoked_by === undefined ? null : String(row.revoked_by),
 });
 
 export class SqliteTokenStore implements TokenStore {
@@ -31,19 +37,20 @@ export class SqliteTokenStore implements TokenStore {
     this.db = openSqliteDatabase(file);
     migrateSqlite(this.db, 'auth_schema_migrations', MIGRATIONS);
   }
-  async add(name: string, roles: Role[]): Promise<{ token: string; record: TokenRecord }> {
+  async add(name: string, roles: Role[], createdBy: string = UNSTATED_ACTOR): Promise<{ token: string; record: TokenRecord }> {
     const valid = parseNewToken({ name, roles });
     const token = generateTokenSecret();
-    const record: TokenRecord = { id: generateTokenId(), name: valid.name, roles: valid.roles, createdAt: new Date().toISOString(), revokedAt: null };
-    this.db.prepare('INSERT INTO api_tokens (id, name, roles, token_hash, created_at, revoked_at) VALUES (?, ?, ?, ?, ?, NULL)')
-      .run(record.id, record.name, JSON.stringify(record.roles), hashTokenSecret(token), record.createdAt);
+    const record: TokenRecord = { id: generateTokenId(), name: valid.name, roles: valid.roles, createdAt: new Date().toISOString(), revokedAt: null,
+      createdBy, revokedBy: null };
+    this.db.prepare('INSERT INTO api_tokens (id, name, roles, token_hash, created_at, revoked_at, created_by) VALUES (?, ?, ?, ?, ?, NULL, ?)')
+      .run(record.id, record.name, JSON.stringify(record.roles), hashTokenSecret(token), record.createdAt, createdBy);
     return { token, record };
   }
   async list(): Promise<TokenRecord[]> {
     return (this.db.prepare('SELECT * FROM api_tokens ORDER BY created_at, id').all() as Row[]).map(tokenFromRow);
   }
-  async revoke(id: string): Promise<TokenRecord | undefined> {
-    this.db.prepare('UPDATE api_tokens SET revoked_at = ? WHERE id = ? AND revoked_at IS NULL').run(new Date().toISOString(), id);
+  async revoke(id: string, revokedBy: string = UNSTATED_ACTOR): Promise<TokenRecord | undefined> {
+    this.db.prepare('UPDATE api_tokens SET revoked_at = ?, revoked_by = ? WHERE id = ? AND revoked_at IS NULL').run(new Date().toISOString(), revokedBy, id);
     const row = this.db.prepare('SELECT * FROM api_tokens WHERE id = ?').get(id) as Row | undefined;
     return row ? tokenFromRow(row) : undefined;
   }

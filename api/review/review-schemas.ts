@@ -61,5 +61,6 @@ export const verifyResponseSchema = z.object({
 
 export const tokenRecordSchema = z.object({
   id: z.string(), name: z.string(), roles: z.array(z.enum(ROLES)), createdAt: z.string(), revokedAt: z.string().nullable(),
+  createdBy: z.string().nullable(), revokedBy: z.string().nullable(),
 });
 export const tokenParamsSchema = z.object({ tokenId: z.string().regex(/^tok_[0-9a-f]{12}$/, { error: 'must look like tok_0123456789ab' }) }).strict();

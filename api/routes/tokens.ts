@@ -1,7 +1,7 @@
 /** Token management over HTTP (admin role). The secret is returned once, on creation. */
 import type { Response } from 'express';
 import { z } from 'zod';
-import { newTokenSchema } from '../auth/index.ts';
+import { identityOf, newTokenSchema } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
 import { tokenParamsSchema, tokenRecordSchema } from '../review/review-schemas.ts';
@@ -22,9 +22,14 @@ export function tokenRoutes(routes: ApiRoutes, deps: AppDeps): void {
     summary: 'Create a token; the secret is in this answer only',
     body: newTokenSchema,
     responses: { 201: { description: 'Created', schema: z.object({ token: z.string(), record: tokenRecordSchema }) } },
-  }, async (_req, res: Response) => {
+  }, async (req, res: Response) => {
     const body = validOf<unknown, unknown, z.infer<typeof newTokenSchema>>(res).body;
-    res.status(201).json(await deps.tokens.add(body.name, [...new Set(body.roles)]));
+    const admin = identityOf(req).name;
+    const created = await deps.tokens.add(body.name, [...new Set(body.roles)], admin);
+    // The audit trail of identities: who made which token with which roles (never the secret).
+    deps.logger.info({ audit: 'token-created', tokenId: created.record.id, name: created.record.name, roles: created.record.roles, by: admin },
+      'token created');
+    res.status(201).json(created);
   });
 
   routes.add({
@@ -32,10 +37,12 @@ export function tokenRoutes(routes: ApiRoutes, deps: AppDeps): void {
     summary: 'Revoke a token (it stops working at once; the record stays)',
     params: tokenParamsSchema,
     responses: { 200: { description: 'Revoked', schema: z.object({ record: tokenRecordSchema }) }, 404: { description: 'No such token' } },
-  }, async (_req, res: Response) => {
+  }, async (req, res: Response) => {
     const { tokenId } = validOf<z.infer<typeof tokenParamsSchema>, unknown, unknown>(res).params;
-    const record = await deps.tokens.revoke(tokenId);
+    const admin = identityOf(req).name;
+    const record = await deps.tokens.revoke(tokenId, admin);
     if (!record) { sendError(res, 404, 'TOKEN_NOT_FOUND', `no token ${tokenId}`); return; }
+    deps.logger.info({ audit: 'token-revoked', tokenId, name: record.name, by: admin, revokedBy: record.revokedBy }, 'token revoked');
     res.json({ record });
   });
 }

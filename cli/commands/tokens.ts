@@ -1,4 +1,5 @@
 /** `veer tokens add|list|revoke`: manage API tokens in the local store (the data folder, or DATABASE_URL). */
+import { hostname, userInfo } from 'node:os';
 import { parseArgs } from 'node:util';
 import { openTokenStore, ROLES, type Role, type TokenRecord } from '../../api/auth/index.ts';
 import type { CliCommand } from '../command.ts';
@@ -14,7 +15,15 @@ else tokens.sqlite in --data-dir (or $DATA_DIR, else ./data). Only a SHA-256 has
 \`add\` prints the token once — copy it then; it cannot be shown again. Roles: ${ROLES.join(', ')}.`;
 
 function row(t: TokenRecord): string {
-  return `${t.id}  ${t.name.padEnd(20)} ${t.roles.join(',').padEnd(34)} created ${t.createdAt}${t.revokedAt ? `  REVOKED ${t.revokedAt}` : ''}`;
+  return `${t.id}  ${t.name.padEnd(20)} ${t.roles.join(',').padEnd(34)} created ${t.createdAt}${t.createdBy ? ` by ${t.createdBy}` : ''}`
+    + `${t.revokedAt ? `  REVOKED ${t.revokedAt}${t.revokedBy ? ` by ${t.revokedBy}` : ''}` : ''}`;
+}
+
+/** Who acts from this command line, for the tokens' audit trail: `cli:user@host`. */
+function cliActor(): string {
+  let user = process.env.USER ?? 'unknown';
+  try { user = userInfo().username; } catch { /* no passwd entry: keep $USER */ }
+  return `cli:${user}@${hostname()}`;
 }
 
 export const tokensCommand: CliCommand = {
@@ -33,7 +42,7 @@ export const tokensCommand: CliCommand = {
       if (action === 'add') {
         if (!arg) throw new UsageError('name', 'veer tokens add needs a name');
         const roles = (values.role ?? []).flatMap((r) => r.split(',')).map((r) => r.trim()).filter(Boolean) as Role[];
-        const { token, record } = await store.add(arg, roles);
+        const { token, record } = await store.add(arg, roles, cliActor());
         if (values.json) process.stdout.write(JSON.stringify({ token, record }, null, 2) + '\n');
         else {
           process.stdout.write(`${row(record)}\n\ntoken (shown once, store it safely):\n${token}\n`);
@@ -46,7 +55,7 @@ export const tokensCommand: CliCommand = {
         return 0;
       }
       if (!arg) throw new UsageError('tokenId', 'veer tokens revoke needs a token id (see veer tokens list)');
-      const record = await store.revoke(arg);
+      const record = await store.revoke(arg, cliActor());
       if (!record) { process.stderr.write(`veer tokens: no token ${arg}\n`); return 1; }
       process.stdout.write(values.json ? JSON.stringify(record, null, 2) + '\n' : `${row(record)}\n`);
       return 0;

@@ -63,6 +63,7 @@ describe('veer review, history, export, verify and tokens', () => {
       const records = JSON.parse(listed.out) as Array<{ id: string; name: string; roles: string[] }>;
       expect(records.map((r) => r.name)).toEqual(['ann', 'bob', 'audrey']);
       expect(listed.out).not.toContain('veer_');
+      expect(JSON.parse(listed.out)[0].createdBy).toMatch(/^cli:.+@.+/);
       const extra = await veer('tokens', 'add', 'temp', '--role', 'auditor', '--data-dir', location.dataDir!, '--json');
       const { token, record } = JSON.parse(extra.out) as { token: string; record: { id: string } };
       expect((await veer('tokens', 'revoke', record.id, '--data-dir', location.dataDir!)).out).toContain('REVOKED');

@@ -70,6 +70,64 @@ describe.each([
       expect((await store.list()).map((t) => t.id)).toEqual([record.id]);
       expect(await store.revoke('tok_000000000000')).toBeUndefined();
     });
+
+    it('should keep who created and who revoked it', async () => {
+      const { record } = await store.add('cy', ['auditor'], 'root-admin');
+      expect(record).toMatchObject({ createdBy: 'root-admin', revokedBy: null });
+      expect(await store.revoke(record.id, 'second-admin')).toMatchObject({ createdBy: 'root-admin', revokedBy: 'second-admin' });
+      const [row] = await storedRows(location);
+      expect(row).toMatchObject({ created_by: 'root-admin', revoked_by: 'second-admin' });
+    });
+  });
+});
+
+describe('token audit trail', () => {
+  describe('when a store made before the trail was recorded is opened', () => {
+    it('should add the columns and show old tokens with no recorded creator', async () => {
+      const location = sqliteLocation();
+      try {
+        const file = join(location.dataDir!, 'tokens.sqlite');
+        const db = new Database(file);
+        db.exec(`CREATE TABLE auth_schema_migrations (version INTEGER PRIMARY KEY, name TEXT NOT NULL, applied_at TEXT NOT NULL);
+          INSERT INTO auth_schema_migrations VALUES (1, 'api tokens (hashes only)', '2030-01-01T00:00:00.000Z');
+          CREATE TABLE api_tokens (id TEXT PRIMARY KEY, name TEXT NOT NULL, roles TEXT NOT NULL, token_hash TEXT NOT NULL UNIQUE,
+            created_at TEXT NOT NULL, revoked_at TEXT);
+          INSERT INTO api_tokens VALUES ('tok_0123456789ab', 'old', '["auditor"]', '${'c'.repeat(64)}', '2030-01-01T00:00:00.000Z', NULL);`);
+        db.close();
+        const store = await openTokenStore({ dataDir: location.dataDir, databaseUrl: '' });
+        try {
+          expect(await store.list()).toEqual([expect.objectContaining({ id: 'tok_0123456789ab', createdBy: null, revokedBy: null })]);
+        } finally {
+          await store.close();
+        }
+      } finally {
+        await location.dispose();
+      }
+    });
+  });
+
+  describe('when an admin creates and revokes a token over HTTP', () => {
+    it('should record the admin in both and log both', async () => {
+      const location = sqliteLocation();
+      const api = await startTestApi(location);
+      try {
+        const admin = await api.token('Root.Admin', ['admin']);
+        const created = await api.call('POST', '/v1/tokens', admin, { name: 'Dee', roles: ['reviewer'] });
+        expect(created.status).toBe(201);
+        expect(created.body.record).toMatchObject({ name: 'dee', createdBy: 'root.admin', revokedBy: null });
+        const revoked = await api.call('DELETE', `/v1/tokens/${created.body.record.id}`, admin);
+        expect(revoked.body.record).toMatchObject({ createdBy: 'root.admin', revokedBy: 'root.admin' });
+        const audit = api.logs.filter((l) => typeof l.audit === 'string');
+        expect(audit).toEqual([
+          expect.objectContaining({ audit: 'token-created', tokenId: created.body.record.id, name: 'dee', roles: ['reviewer'], by: 'root.admin' }),
+          expect.objectContaining({ audit: 'token-revoked', tokenId: created.body.record.id, name: 'dee', by: 'root.admin' }),
+        ]);
+        expect(JSON.stringify(api.logs)).not.toContain(created.body.token);
+      } finally {
+        await api.close();
+        await location.dispose();
+      }
+    });
   });
 });
 

@@ -34,6 +34,8 @@ export interface TestApi {
   archive: PlanArchive;
   tokens: TokenStore;
   specs: RouteSpec[];
+  /** Log records the app wrote (pino JSON lines, parsed), oldest first. */
+  logs: Array<Record<string, unknown>>;
   /** Creates a token and returns its secret. */
   token(name: string, roles: Role[]): Promise<string>;
   /** fetch with JSON body and bearer token; resolves to status and parsed body. */
@@ -45,7 +47,8 @@ export async function startTestApi(location: StoreLocation): Promise<TestApi> {
   const options = { dataDir: location.dataDir, databaseUrl: location.databaseUrl ?? '' };
   const archive = await openArchive(options);
   const tokens = await openTokenStore(options);
-  const logger = pino({ level: 'silent' });
+  const logs: Array<Record<string, unknown>> = [];
+  const logger = pino({ level: 'info' }, { write: (line: string) => { logs.push(JSON.parse(line) as Record<string, unknown>); } });
   // Only what these route modules use; the queue-facing parts of AppDeps are not needed by them.
   const deps = { archive, tokens, logger, plans: new ArchivePlanReader(archive) } as unknown as AppDeps;
   const app = express();
@@ -60,7 +63,7 @@ export async function startTestApi(location: StoreLocation): Promise<TestApi> {
   const address = server.address();
   const url = `http://127.0.0.1:${typeof address === 'object' && address ? address.port : 0}`;
   return {
-    url, archive, tokens, specs: routes.specs,
+    url, archive, tokens, specs: routes.specs, logs,
     token: async (name, roles) => (await tokens.add(name, roles)).token,
     call: async (method, path, token, body) => {
       const headers: Record<string, string> = {};
