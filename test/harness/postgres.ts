@@ -4,7 +4,9 @@
  *  2. testcontainers (postgres:16-alpine) when a Docker engine answers;
  *  3. initdb + pg_ctl from the PostgreSQL binaries (PG_BIN, else /usr/lib/postgresql/<newest>/bin) in a temporary
  *     folder on a free port. initdb refuses to run as root, so under root the cluster belongs to the
- *     `postgres` system user (created by Debian's package) and the commands run through `runuser -u postgres --`.
+ *     `postgres` system user (created by Debian's package, or here with `useradd --system` when the binaries came
+ *     without it) and the commands run through `runuser -u postgres --`, in the temporary folder (so a checkout
+ *     the `postgres` user cannot read is no obstacle).
  */
 import { execFile } from 'node:child_process';
 import { chownSync, existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
@@ -104,6 +106,25 @@ async function startContainer(): Promise<TestPostgres | null> {
   }
 }
 
+/** The uid and gid of a system user, creating it (no home, no login) when missing. Needs root. */
+export async function ensureSystemUser(name: string): Promise<{ uid: number; gid: number }> {
+  const idOf = async (flag: '-u' | '-g'): Promise<number | null> => {
+    const { stdout } = await run('id', [flag, name]).catch(() => ({ stdout: '' }));
+    return stdout.trim() ? Number(stdout.trim()) : null;
+  };
+  if (await idOf('-u') === null) {
+    try {
+      await run('useradd', ['--system', '--user-group', '--no-create-home', '--home-dir', '/nonexistent', '--shell', '/usr/sbin/nologin', name]);
+    } catch (error) {
+      throw new Error(`running as root needs the \`${name}\` system user to own the test cluster, and useradd failed: ${(error as Error).message}`);
+    }
+  }
+  const uid = await idOf('-u');
+  const gid = await idOf('-g');
+  if (uid === null || gid === null) throw new Error(`the \`${name}\` user still does not exist after useradd`);
+  return { uid, gid };
+}
+
 export interface StartPostgresOptions {
   /** Keep fsync on (benchmarks); tests turn it off for speed. @defaultValue false */
   durable?: boolean;
@@ -116,12 +137,12 @@ async function startProcess(options: StartPostgresOptions): Promise<TestPostgres
   const dir = mkdtempSync(join(tmpdir(), 'veer-pg-'));
   const data = join(dir, 'data');
   if (asRoot) {
-    const { stdout } = await run('id', ['-u', 'postgres']).catch(() => ({ stdout: '' }));
-    if (!stdout.trim()) throw new Error('running as root needs the `postgres` system user (from Debian\'s postgresql package) to own the test cluster');
-    chownSync(dir, Number(stdout.trim()), Number((await run('id', ['-g', 'postgres'])).stdout.trim()));
+    const owner = await ensureSystemUser('postgres');
+    chownSync(dir, owner.uid, owner.gid);
   }
+  // cwd: the temp folder, which the cluster's owner can always enter (the caller's folder may be closed to it).
   const exec = (cmd: string, args: string[]): Promise<{ stdout: string; stderr: string }> =>
-    asRoot ? run('runuser', ['-u', 'postgres', '--', join(bin, cmd), ...args]) : run(join(bin, cmd), args);
+    asRoot ? run('runuser', ['-u', 'postgres', '--', join(bin, cmd), ...args], { cwd: dir }) : run(join(bin, cmd), args, { cwd: dir });
   const port = await freePort();
   await exec('initdb', ['-D', data, '-U', 'veer', '-A', 'trust', '--no-sync', '-E', 'UTF8', '--locale=C']);
   const serverOptions = `-p ${port} -k ${dir} -c listen_addresses=127.0.0.1 -c fsync=${options.durable ? 'on' : 'off'} -c max_connections=60`;
