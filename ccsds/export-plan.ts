@@ -15,8 +15,9 @@ export type CcsdsExportOptions = PlanExportOptions & Partial<Omit<PlanOemOptions
   encoding?: OdmWriteOptions['encoding'];
 };
 
-/** Writes a converged plan as an OPM (initial state + maneuvers) or an OEM (predicted trajectory at
- * `stepS`, required for 'oem'). Throws InvalidInputError for an unconverged plan or bad options. */
+/** Writes a converged, cross-checked plan as an OPM (initial state + maneuvers) or an OEM (predicted
+ * trajectory at `stepS`, required for 'oem'). Throws InvalidInputError for a plan that did not converge
+ * or failed its cross-check, or for bad options. */
 export async function exportPlanAsCcsds(problem: PlanningProblem, plan: ManeuverPlan, options: CcsdsExportOptions): Promise<string> {
   const writing: OdmWriteOptions = { encoding: options.encoding ?? 'kvn' };
   if (options.kind === 'opm') return writeOpm(planToOpm(problem, plan, options), writing);

@@ -24,7 +24,7 @@ export {
   oemToEphemeris, oemToTrajectory, segmentInterpolation, OEM_EPHEMERIS_DEFAULTS, type OemEphemerisOptions,
   type OemTrajectory,
 } from './oem-ephemeris.ts';
-export { planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './plan-opm.ts';
+export { assertExportable, planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './plan-opm.ts';
 export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './plan-oem.ts';
 export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export-plan.ts';
 export { compareWithReference, type ReferenceComparison } from './compare-reference.ts';

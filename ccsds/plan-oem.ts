@@ -43,7 +43,8 @@ function transpose(a: number[][]): number[][] {
   return a[0].map((_, j) => a.map((row) => row[j]));
 }
 
-/** Propagates the plan arc by arc and builds the OEM (throws InvalidInputError for an unconverged plan). */
+/** Propagates the plan arc by arc and builds the OEM (throws InvalidInputError for a plan that did not
+ * converge or failed its cross-check). */
 export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, options: PlanOemOptions): Promise<Oem> {
   assertExportable(plan);
   if (!(options.stepS > 0) || !Number.isFinite(options.stepS)) {

@@ -28,10 +28,16 @@ export interface PlanExportOptions {
   maneuverFrame?: 'RTN' | 'TNW' | 'inertial';
 }
 
-/** Refuses plans that must never leave as a plan. */
+/** Refuses plans that must never leave as a plan: one that did not converge, and one whose independent
+ * cross-check (a second propagation method) did not confirm it — both are unchecked results. */
 export function assertExportable(plan: ManeuverPlan): void {
   if (plan.status !== 'converged') {
     throw new InvalidInputError('plan.status', `plan is '${plan.status}': an unconverged result is not exported as a plan`);
+  }
+  if (plan.crossCheck?.passed !== true) {
+    const why = plan.crossCheck?.message ? ` (${plan.crossCheck.message})` : '';
+    throw new InvalidInputError('plan.crossCheck', `the plan converged but its independent cross-check did not pass${why}: `
+      + 'an unconfirmed result is not exported as a plan; look into the disagreement and plan again');
   }
 }
 
@@ -51,7 +57,7 @@ export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmH
   };
 }
 
-/** Builds the OPM of a converged plan (throws InvalidInputError for an unconverged one). */
+/** Builds the OPM of a converged, cross-checked plan (throws InvalidInputError for any other). */
 export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options: PlanExportOptions): Opm {
   assertExportable(plan);
   const scale = options.timeSystem ?? 'TDB';

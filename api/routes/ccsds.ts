@@ -6,7 +6,7 @@
 import type { Request, Response } from 'express';
 import { z } from 'zod';
 import {
-  CcsdsFormatError, exportPlanAsCcsds, readOpmAsInitialState, SUPPORTED_TIME_SYSTEMS,
+  assertExportable, CcsdsFormatError, exportPlanAsCcsds, readOpmAsInitialState, SUPPORTED_TIME_SYSTEMS,
 } from '../../ccsds/index.ts';
 import { jobRequestSchema } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
@@ -82,7 +82,7 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
 
   routes.add({
     method: 'get', path: '/v1/plans/:planId/ccsds/:kind', tags: ['ccsds'], roles: [...READERS],
-    summary: 'Export a converged plan as a CCSDS OPM (maneuvers) or OEM (predicted trajectory)',
+    summary: 'Export a converged, cross-checked plan as a CCSDS OPM (maneuvers) or OEM (predicted trajectory)',
     description: 'OPM: the initial state, covariance, mass and one maneuver block per burn. OEM: the trajectory propagated '
       + 'with the plan\'s burns, one segment per arc, every `stepS` seconds. Both carry the review statement. '
       + `${REVIEW_NOTICE}`,
@@ -90,13 +90,20 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
     query: exportQuerySchema,
     responses: {
       200: { description: 'The message text', contentType: 'text/plain' },
-      400: { description: 'Bad options, or a plan that did not converge' },
+      400: { description: 'Bad options, or a plan that did not converge or failed its cross-check' },
       404: { description: 'No such plan, or its problem is not on record' },
     },
   }, async (req: Request, res: Response) => {
     const { params, query } = validOf<z.infer<typeof exportParamsSchema>, z.infer<typeof exportQuerySchema>, unknown>(res);
     const found = await deps.plans.get(params.planId);
     if (!found) { sendError(res, 404, 'PLAN_NOT_FOUND', `no plan ${params.planId}`); return; }
+    // Before any lookup or propagation: an unconverged or unconfirmed result never leaves as a plan.
+    try {
+      assertExportable(found.plan as unknown as ManeuverPlan);
+    } catch (error) {
+      if (!sendInputError(res, error)) throw error;
+      return;
+    }
     const problem = await problemOf(deps, params.planId);
     if (!problem) { sendError(res, 404, 'PROBLEM_NOT_FOUND', `the problem of plan ${params.planId} is not on record`); return; }
     if (params.kind === 'oem' && query.stepS === undefined) {

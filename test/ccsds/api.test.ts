@@ -37,6 +37,17 @@ beforeAll(async () => {
 });
 afterAll(async () => { await svc?.close(); });
 
+/** Records, under a new job, the real plan with its cross-check marked failed; returns its plan id. */
+async function recordFailedCrossCheckCopy(): Promise<string> {
+  const archive = svc.archive!;
+  const original = await archive.getPlanDocument(planId);
+  const submitted = (await archive.history(planId)).find((e) => e.kind === 'job-submitted')!;
+  const jobId = `ccsds-cross-check-${Date.now()}`;
+  await archive.recordJobSubmitted({ jobId, actor: 'submitter', problem: submitted.payload.problem });
+  const plan = { ...original!, targetSetKey: jobId, crossCheck: { ...original!.crossCheck, passed: false, message: 'methods disagree at target 1' } };
+  return (await archive.recordPlanProposed({ jobId, actor: 'worker-test', submittedBy: 'submitter', plan })).planId;
+}
+
 describe('CCSDS endpoints', () => {
   describe('when an OPM is posted for an initial state', () => {
     it('should answer the planner initial state with the covariance in the state frame', async () => {
@@ -82,6 +93,21 @@ describe('CCSDS endpoints', () => {
       const oem = readOem(r.text);
       expect(oem.segments).toHaveLength(plan.burns.length + 1);
       expect(oem.segments[0].metadata.objectName).toBe('CCSDS-SAT');
+    });
+
+    it('should refuse (400, saying why) a converged plan whose cross-check failed, as OPM and as OEM', async () => {
+      // Project safety rule: an unchecked result is never presented as a plan. The stored copy is the real
+      // plan with its cross-check marked failed, recorded the way the worker records plans.
+      const planId2 = await recordFailedCrossCheckCopy();
+      for (const path of [`/v1/plans/${planId2}/ccsds/opm`, `/v1/plans/${planId2}/ccsds/oem?stepS=600`]) {
+        const r = await svc.request('GET', path, { token: svc.tokens.reviewer });
+        expect(r.status, path).toBe(400);
+        expect(r.body.error.message).toMatch(/cross-check did not pass/);
+      }
+      const cli = await veer('export', planId2, '--ccsds', 'opm', '--url', svc.url, '--token', svc.tokens.reviewer, '--stdout');
+      expect(cli.code).toBe(2);
+      expect(cli.out).toBe('');
+      expect(cli.err).toMatch(/cross-check did not pass/);
     });
 
     it('should answer 400 when the OEM step is missing and 404 for an unknown plan', async () => {

@@ -76,7 +76,7 @@ const DV_INERTIAL: Vec3 = [0.0123, -0.0041, 0.0022];
 
 /** Only the fields the exporters read are filled; the Δv's local components come from the propagator's
  * own frame helpers at the (independently computed) pre-burn state. */
-function plan(status: 'converged' | 'not-converged'): ManeuverPlan {
+function plan(status: 'converged' | 'not-converged', crossCheckPassed = true): ManeuverPlan {
   return {
     planFormatVersion: 1, status, problemHash: 'a'.repeat(64), softwareVersion: '0.1.0', spacecraftName: 'Wren',
     targetSetKey: 'wren', title: problem.title ?? null,
@@ -88,7 +88,8 @@ function plan(status: 'converged' | 'not-converged'): ManeuverPlan {
       magnitudeMS: norm(DV_INERTIAL) * 1000, propellantKg: 1.21, massBeforeKg: 180, massAfterKg: 178.79, durationS: 11.5,
       timeToTargetS: 2700,
     }],
-    crossCheck: { passed: true },
+    crossCheck: crossCheckPassed ? { passed: true, message: 'agrees' }
+      : { passed: false, message: 'encke and cowell differ by 3.2 km at target 1' },
     caveats: [{ code: 'PROPOSAL_REQUIRES_REVIEW', severity: 'critical', text: 'Proposed plan — requires review.' }],
   } as unknown as ManeuverPlan;
 }
@@ -126,6 +127,14 @@ describe('CCSDS export of a plan', () => {
     it('should refuse a plan that did not converge', async () => {
       await expect(exportPlanAsCcsds(problem, plan('not-converged'), { kind: 'opm', creationDateUtc: '2029-12-01T10:00:00' }))
         .rejects.toThrow(InvalidInputError);
+    });
+
+    it('should refuse a converged plan whose cross-check failed, saying why', async () => {
+      // Project safety rule: an unchecked result is never presented as a plan.
+      const refused = exportPlanAsCcsds(problem, plan('converged', false), { kind: 'opm', creationDateUtc: '2029-12-01T10:00:00' });
+      await expect(refused).rejects.toThrow(InvalidInputError);
+      await expect(refused).rejects.toMatchObject({ field: 'plan.crossCheck' });
+      await expect(refused).rejects.toThrow(/cross-check did not pass \(encke and cowell differ by 3\.2 km at target 1\)/);
     });
   });
 
@@ -203,6 +212,14 @@ describe('CCSDS export of a plan', () => {
       expect(same.maxPositionDifferenceKm!).toBeLessThan(1e-5);
       const shifted = compareWithReference(states.map((x) => ({ ...x, positionKm: [x.positionKm[0] + 1, x.positionKm[1], x.positionKm[2]] as Vec3 })), reference);
       expect(shifted.maxPositionDifferenceKm!).toBeCloseTo(1, 4);
+    });
+
+    it('should refuse a converged plan whose cross-check failed (and one that did not converge)', async () => {
+      const options = { kind: 'oem' as const, creationDateUtc: '2029-12-01T10:00:00', stepS: 120 };
+      await expect(exportPlanAsCcsds(problem, plan('converged', false), options)).rejects.toMatchObject({
+        name: 'InvalidInputError', field: 'plan.crossCheck', message: expect.stringMatching(/cross-check did not pass/),
+      });
+      await expect(planToOem(problem, plan('not-converged'), options)).rejects.toMatchObject({ field: 'plan.status' });
     });
 
     it('should refuse a step that would write too many lines', async () => {
