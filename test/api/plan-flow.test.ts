@@ -10,10 +10,10 @@ import { reachableProblem, submission } from '../queue/fixtures.ts';
 
 let svc: TestService;
 
-beforeAll(async () => {
-  svc = await startService();
-  await svc.startWorkerInProcess({ concurrency: 2 });
-});
+let worker: Promise<unknown> | null = null;
+const ensureWorker = (): Promise<unknown> => (worker ??= svc.startWorkerInProcess({ concurrency: 2 }));
+
+beforeAll(async () => { svc = await startService(); });
 afterAll(async () => { await svc?.close(); });
 
 describe('submit → progress → plan', () => {
@@ -22,7 +22,10 @@ describe('submit → progress → plan', () => {
       const problem = reachableProblem({ samples: 200 });
       const submitted = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(problem) });
       expect(submitted.status).toBe(202);
-      const stream = await readEventStream(`${svc.url}${submitted.body.eventsUrl}`, svc.tokens.submitter);
+      // The worker starts only once the stream is open, so every progress report is live on the stream.
+      const stream = await readEventStream(`${svc.url}${submitted.body.eventsUrl}`, svc.tokens.submitter, 60_000, (e) => {
+        if (e.event === 'status') void ensureWorker();
+      });
       expect(stream.status).toBe(200);
       expect(stream.contentType).toMatch(/^text\/event-stream/);
       const kinds = stream.events.map((e) => e.event);
@@ -51,6 +54,7 @@ describe('submit → progress → plan', () => {
 
   describe('when plans are listed with filters', () => {
     it('should filter by spacecraft and convergence', async () => {
+      await ensureWorker();
       const a = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(reachableProblem({ name: 'FILTERSAT-A' })) });
       await waitForJob(svc, a.body.jobId, (s) => s.state === 'completed');
       const hit = await svc.request('GET', '/v1/plans?spacecraft=FILTERSAT-A&converged=true', { token: svc.tokens.auditor });
@@ -63,6 +67,7 @@ describe('submit → progress → plan', () => {
 
   describe('when the problem does not converge', () => {
     it('should complete the job with a plan marked not-converged (final, not retried)', async () => {
+      await ensureWorker();
       const problem = reachableProblem({ samples: 0 });
       problem.targets[0].positionKm = [-6000, 3600, 0];
       problem.corrector = { maxIterations: 3 };

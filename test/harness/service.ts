@@ -151,7 +151,7 @@ export async function startService(opts: ServiceOptions = {}): Promise<TestServi
 export interface SseEvent { event: string; data: any }
 
 /** Reads a server-sent event stream until it closes (or `timeoutMs`); returns every event in order. */
-export async function readEventStream(url: string, token: string, timeoutMs = 60_000): Promise<{ status: number; contentType: string | null; events: SseEvent[] }> {
+export async function readEventStream(url: string, token: string, timeoutMs = 60_000, onEvent?: (e: SseEvent) => void): Promise<{ status: number; contentType: string | null; events: SseEvent[] }> {
   const controller = new AbortController();
   const timer = setTimeout(() => controller.abort(), timeoutMs);
   const res = await fetch(url, { headers: { authorization: `Bearer ${token}`, accept: 'text/event-stream' }, signal: controller.signal });
@@ -168,7 +168,11 @@ export async function readEventStream(url: string, token: string, timeoutMs = 60
         buffer = buffer.slice(cut + 2);
         const event = /^event: (.*)$/m.exec(block)?.[1];
         const data = /^data: (.*)$/m.exec(block)?.[1];
-        if (event && data) events.push({ event, data: JSON.parse(data) });
+        if (event && data) {
+          const e = { event, data: JSON.parse(data) };
+          events.push(e);
+          onEvent?.(e);
+        }
       }
     }
   } catch (e) {

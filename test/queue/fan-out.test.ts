@@ -54,7 +54,8 @@ describe('Monte Carlo fan-out', () => {
 
       const events = (await stream).events;
       expect(events.at(-1)?.event).toBe('end');
-      const dispersion = events.filter((e) => e.event === 'progress' && e.data.stage === 'dispersion' && e.data.samplesTotal === 110);
+      const report = (e: { event: string; data: any }) => (e.event === 'progress' ? e.data : e.data.progress);
+      const dispersion = events.filter((e) => report(e)?.stage === 'dispersion' && report(e)?.samplesTotal === 110);
       expect(dispersion.length).toBeGreaterThan(0);
     });
   });
