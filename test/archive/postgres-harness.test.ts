@@ -24,7 +24,7 @@ describe.skipIf(!asRoot)('PostgreSQL test harness as root', () => {
         const script = `const m = await import(${JSON.stringify(HARNESS)}); const s = await m.startPostgres();
           const pg = (await import('pg')).default; const c = new pg.Client({ connectionString: await s.freshDatabase() });
           await c.connect(); const r = await c.query('SELECT 1 + 1 AS two'); await c.end(); await s.stop(); console.log(JSON.stringify(r.rows[0]));`;
-        const env = { ...process.env, NODE_PATH: join(process.cwd(), 'node_modules') };
+        const env: NodeJS.ProcessEnv = { ...process.env };
         delete env.DATABASE_URL;
         const { stdout } = await run(process.execPath, ['--import', import.meta.resolve('tsx'), '--input-type=module', '-e',
           script.replace("import('pg')", `import(${JSON.stringify(import.meta.resolve('pg'))})`)], { cwd: closed, env, timeout: 90_000 });
