@@ -36,7 +36,12 @@ export async function migratePostgres(pool: pg.Pool, table = 'schema_migrations'
   try {
     await client.query('BEGIN');
     await client.query('SELECT pg_advisory_xact_lock($1)', [lockKey]);
-    await client.query(`CREATE TABLE IF NOT EXISTS ${table} (version INTEGER PRIMARY KEY, name TEXT NOT NULL, applied_at TEXT NOT NULL)`);
+    // Look before creating: CREATE … IF NOT EXISTS still needs CREATE on the schema, which the service's
+    // non-owner role (README, "Operating the archive") does not have once the owner has migrated.
+    const present = (await client.query('SELECT to_regclass($1) IS NOT NULL AS present', [table])).rows[0] as Row;
+    if (present.present !== true) {
+      await client.query(`CREATE TABLE ${table} (version INTEGER PRIMARY KEY, name TEXT NOT NULL, applied_at TEXT NOT NULL)`);
+    }
     const done = new Set((await client.query(`SELECT version FROM ${table}`)).rows.map((r: Row) => Number(r.version)));
     let applied = 0;
     for (const m of migrations) {
