@@ -5,16 +5,15 @@
  * Inertial frames (502.0-B 3.2.3.3): EME2000 and ICRF both map to J2000_EQUATORIAL, which this project
  * defines as ICRF-aligned. The EME2000–ICRF frame bias (tens of milliarcseconds, IERS Conventions 2010
  * ch. 5, from memory) is ignored: it is below the accuracy of the built-in ephemerides. GCRF (the ICRF
- * axes at the Earth) is accepted with CENTER_NAME = EARTH only. The standard's frame table has no
- * ecliptic frame; the name ECLIPJ2000 (the mean ecliptic and equinox of J2000, the name in wide use
- * in navigation software) is accepted for J2000_ECLIPTIC, as the standard allows other values agreed in an
- * interface control document — say so to the exchange partner.
+ * axes at the Earth) is accepted with CENTER_NAME = EARTH only. The standard's frame table has no J2000
+ * ecliptic frame, so no ecliptic name is read or written: a state the project holds in J2000_ECLIPTIC is
+ * rotated to EME2000 before it is written, and a file naming an ecliptic frame is refused with its line.
  *
  * Local frames for maneuvers and covariance (502.0-B 3.2.4.11): RSW and RTN are the same frame as our
  * RTN. TNW (T along velocity, W along angular momentum, N = W × T) is our VNB with the axes permuted:
  * V = T, N = W, B = V × N = −N(TNW). That permutation is exact, so TNW is accepted.
  */
-import { type BodyName, type InertialFrame, type LocalFrame, type Vec3 } from '../propagator/index.ts';
+import { type BodyName, InvalidInputError, type LocalFrame, type Vec3 } from '../propagator/index.ts';
 import { CcsdsFormatError } from './errors.ts';
 
 /** CENTER_NAME values (annex B / SANA body names) for the bodies the propagator knows. The outer planets'
@@ -37,19 +36,21 @@ export const CENTRE_NAME_OF_BODY: Readonly<Record<BodyName, string>> = Object.fr
   Object.fromEntries(Object.entries(CENTRE_BY_NAME).map(([name, body]) => [body, name])) as Record<BodyName, string>,
 );
 
-/** REF_FRAME values accepted for inertial axes. */
-const INERTIAL_BY_NAME: Readonly<Record<string, InertialFrame>> = Object.freeze({
+/** The only inertial axes a message is read in or written in: the project's J2000_EQUATORIAL. */
+export type MessageFrame = 'J2000_EQUATORIAL';
+
+/** REF_FRAME values accepted for inertial axes (all J2000 equatorial, see above). */
+const INERTIAL_BY_NAME: Readonly<Record<string, MessageFrame>> = Object.freeze({
   EME2000: 'J2000_EQUATORIAL',
   ICRF: 'J2000_EQUATORIAL',
   GCRF: 'J2000_EQUATORIAL',
-  ECLIPJ2000: 'J2000_ECLIPTIC',
 });
 
-/** The REF_FRAME written for each inertial frame (EME2000 is the name most partners expect). */
-export const FRAME_NAME_OF_INERTIAL: Readonly<Record<InertialFrame, string>> = Object.freeze({
-  J2000_EQUATORIAL: 'EME2000',
-  J2000_ECLIPTIC: 'ECLIPJ2000',
-});
+/** The REF_FRAME (and inertial MAN_REF_FRAME / COV_REF_FRAME) written: EME2000, the name most partners expect. */
+export const WRITTEN_FRAME_NAME = 'EME2000';
+
+/** Any frame name that speaks of the ecliptic (none is in the standard's table). */
+const ECLIPTIC_NAME = /ECLIP/i;
 
 /** Maps a CENTER_NAME onto a body; throws CcsdsFormatError with the line for any other name. */
 export function centreFromName(line: number, name: string): BodyName {
@@ -61,31 +62,51 @@ export function centreFromName(line: number, name: string): BodyName {
     + `supported: ${Object.keys(CENTRE_BY_NAME).join(', ')}`);
 }
 
-/** Maps a REF_FRAME (or the inertial value of MAN_REF_FRAME / COV_REF_FRAME) onto an inertial frame. */
-export function inertialFrameFromName(keyword: string, line: number, name: string, centre: BodyName): InertialFrame {
+/** Maps a REF_FRAME (or the inertial value of MAN_REF_FRAME / COV_REF_FRAME) onto an inertial frame;
+ * throws CcsdsFormatError with the line for any other name (an ecliptic one with its own explanation). */
+export function inertialFrameFromName(keyword: string, line: number, name: string, centre: BodyName): MessageFrame {
   const frame = INERTIAL_BY_NAME[name];
   if (frame && (name !== 'GCRF' || centre === 'earth')) return frame;
+  if (ECLIPTIC_NAME.test(name)) throw eclipticFrameError(keyword, line, name);
   const why = name === 'GCRF' ? 'GCRF is geocentric: it needs CENTER_NAME = EARTH'
     : `frame '${name}' is not supported`;
   throw new CcsdsFormatError(keyword, line, `${why}; supported inertial frames: `
     + `${Object.keys(INERTIAL_BY_NAME).join(', ')} (GCRF with EARTH only)`);
 }
 
+function eclipticFrameError(keyword: string, line: number, name: string): CcsdsFormatError {
+  return new CcsdsFormatError(keyword, line, `frame '${name}' is refused: the reference-frame table of CCSDS 502.0-B `
+    + 'has no J2000 ecliptic frame; the file should give its states in EME2000 or ICRF');
+}
+
 /** What a MAN_REF_FRAME or COV_REF_FRAME names: inertial axes, or a local orbital frame given by the
  * axes it is exactly equivalent to (TNW is VNB with permuted axes). */
 export type FrameMeaning =
-  | { kind: 'inertial'; frame: InertialFrame }
+  | { kind: 'inertial'; frame: MessageFrame }
   | { kind: 'local'; frame: LocalFrame; ccsdsName: 'RTN' | 'RSW' | 'TNW' };
 
 /** Interprets a MAN_REF_FRAME / COV_REF_FRAME value. */
 export function frameMeaningFromName(keyword: string, line: number, name: string, centre: BodyName): FrameMeaning {
   if (name === 'RTN' || name === 'RSW') return { kind: 'local', frame: 'RTN', ccsdsName: name };
   if (name === 'TNW') return { kind: 'local', frame: 'VNB', ccsdsName: 'TNW' };
+  if (ECLIPTIC_NAME.test(name)) throw eclipticFrameError(keyword, line, name);
   try {
     return { kind: 'inertial', frame: inertialFrameFromName(keyword, line, name, centre) };
   } catch {
     throw new CcsdsFormatError(keyword, line, `frame '${name}' is not supported; supported: RTN, RSW, TNW, `
       + `${Object.keys(INERTIAL_BY_NAME).join(', ')}`);
+  }
+}
+
+/** Refuses, before anything is written, a frame name the readers would refuse (so what is written can be
+ * read back): InvalidInputError naming `field` (e.g. `metadata.refFrame`). `local` allows RTN/RSW/TNW. */
+export function assertWritableFrame(field: string, name: string, centre: BodyName, local: boolean): void {
+  try {
+    if (local) frameMeaningFromName(field, 0, name, centre);
+    else inertialFrameFromName(field, 0, name, centre);
+  } catch (error) {
+    const detail = (error as Error).message.replace(/^[^:]*: end of file: /, '');
+    throw new InvalidInputError(field, `not written: ${detail}`);
   }
 }
 

@@ -13,8 +13,8 @@ export { encodingOf } from './tokenise.ts';
 export { ODM_WRITE_DEFAULTS, type OdmWriteOptions } from './write-options.ts';
 export { formatCcsdsEpoch, parseCcsdsEpoch, SUPPORTED_TIME_SYSTEMS } from './values.ts';
 export {
-  CENTRE_NAME_OF_BODY, FRAME_NAME_OF_INERTIAL, centreFromName, inertialFrameFromName, frameMeaningFromName,
-  vnbFromTnw, tnwFromVnb, type FrameMeaning,
+  CENTRE_NAME_OF_BODY, WRITTEN_FRAME_NAME, centreFromName, inertialFrameFromName, frameMeaningFromName,
+  assertWritableFrame, vnbFromTnw, tnwFromVnb, type FrameMeaning, type MessageFrame,
 } from './frames.ts';
 export { assertPositiveSemiDefinite, PSD_TOLERANCE } from './covariance.ts';
 export {

@@ -3,7 +3,8 @@
  * CCSDS 502.0-B. Names as written in the file are kept beside their meaning so a message is rewritten as
  * it was read. Units km, s, km/s, kg, deg; epochs as written (text) and as TDB seconds from J2000.
  */
-import type { BodyName, InertialFrame, TimeScale, Vec3 } from '../propagator/index.ts';
+import type { BodyName, TimeScale, Vec3 } from '../propagator/index.ts';
+import type { MessageFrame } from './frames.ts';
 
 export interface OdmHeader {
   /** CCSDS_OPM_VERS / CCSDS_OEM_VERS, e.g. `2.0`. */
@@ -25,9 +26,10 @@ export interface OdmMetadata {
   /** CENTER_NAME as written, and the body it denotes. */
   centerName: string;
   centre: BodyName;
-  /** REF_FRAME as written, and the inertial frame it denotes. */
+  /** REF_FRAME as written (EME2000, ICRF or GCRF), and the inertial frame it denotes: always J2000
+   * equatorial (the standard's table has no ecliptic frame; ecliptic states are rotated before writing). */
   refFrame: string;
-  frame: InertialFrame;
+  frame: MessageFrame;
   refFrameEpoch?: string;
   timeSystem: TimeScale;
 }

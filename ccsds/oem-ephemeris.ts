@@ -2,7 +2,7 @@
  * An OEM as a tabulated ephemeris for the propagator: each segment becomes the propagator's tabulated
  * source (Lagrange or Hermite over a sliding window), segments are chained in time, and the span is
  * each segment's useable span (USEABLE_START/STOP_TIME when given). Epochs outside every segment throw
- * OutOfSpanError; states come out J2000 equatorial (ECLIPJ2000 files are rotated on reading).
+ * OutOfSpanError; states come out J2000 equatorial (the only axes a message may name).
  *
  * Interpolation: INTERPOLATION = LAGRANGE with degree d uses d + 1 states; HERMITE with degree d
  * uses (d + 1) / 2 states matching positions and velocities (an even d is raised to the next odd one,
@@ -11,7 +11,7 @@
  */
 import {
   type BodyName, type Ephemeris, type StateVector, type TabulatedEphemeris, type TabulatedInterpolation, type TdbSpan,
-  assertBody, assertInSpan, createTabulatedEphemeris, equatorialFromEclipticJ2000, InvalidInputError, OutOfSpanError,
+  assertBody, assertInSpan, createTabulatedEphemeris, InvalidInputError, OutOfSpanError,
 } from '../propagator/index.ts';
 import { CcsdsFormatError } from './errors.ts';
 import { centreFromName } from './frames.ts';
@@ -54,12 +54,8 @@ function segmentSource(segment: OemSegment, target: BodyName, name: string, opti
     throw new CcsdsFormatError('INTERPOLATION_DEGREE', segment.states[0]?.line ?? 0, `segment of ${m.objectName} has `
       + `${segment.states.length} states; ${interpolation} of degree ${degree} needs ${needed}`);
   }
-  const ecliptic = m.frame === 'J2000_ECLIPTIC';
-  const records = segment.states.map((s) => ({
-    epochTdbS: s.epochTdbS,
-    positionKm: ecliptic ? equatorialFromEclipticJ2000(s.positionKm) : s.positionKm,
-    velocityKmS: ecliptic ? equatorialFromEclipticJ2000(s.velocityKmS) : s.velocityKmS,
-  }));
+  // Every frame a message may name is J2000 equatorial (ccsds/frames.ts): no rotation.
+  const records = segment.states.map((s) => ({ epochTdbS: s.epochTdbS, positionKm: s.positionKm, velocityKmS: s.velocityKmS }));
   const table = createTabulatedEphemeris({ name, target, centre: m.centre, records, interpolation, degree });
   const first = records[0].epochTdbS;
   const last = records[records.length - 1].epochTdbS;

@@ -1,8 +1,10 @@
 /**
  * Orbit Ephemeris Message writer (CCSDS 502.0-B section 5), KVN or XML: per segment the metadata,
- * the ephemeris lines and, when present, the covariance matrices.
+ * the ephemeris lines and, when present, the covariance matrices. Frame names the readers would refuse are
+ * refused before anything is written (InvalidInputError naming the field).
  */
 import { lowerTriangle } from './covariance.ts';
+import { assertWritableFrame } from './frames.ts';
 import type { Oem } from './odm-types.ts';
 import { type Item, renderKvn, renderXml } from './render.ts';
 import { formatExponent, formatFixed } from './values.ts';
@@ -18,6 +20,12 @@ export function writeOem(oem: Oem, options?: OdmWriteOptions): string {
   const kw = (keyword: string, value: string): void => { items.push({ kind: 'keyword', keyword, value }); };
   const comments = (list: readonly string[]): void => list.forEach((text) => items.push({ kind: 'comment', text }));
   const { header } = oem;
+  oem.segments.forEach((segment, k) => {
+    assertWritableFrame(`segments[${k}].metadata.refFrame`, segment.metadata.refFrame, segment.metadata.centre, false);
+    segment.covariances.forEach((c, i) => {
+      if (c.covRefFrame !== undefined) assertWritableFrame(`segments[${k}].covariances[${i}].covRefFrame`, c.covRefFrame, segment.metadata.centre, true);
+    });
+  });
   if (o.encoding === 'kvn') kw('CCSDS_OEM_VERS', header.version);
   items.push({ kind: 'open', name: 'header' });
   comments(header.comments);

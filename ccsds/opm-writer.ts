@@ -1,9 +1,11 @@
 /**
  * Orbit Parameter Message writer (CCSDS 502.0-B section 3), KVN or XML, in the standard's block order.
  * Epoch texts are written as held in the Opm (build them with formatCcsdsEpoch); numbers with the
- * precision in the options.
+ * precision in the options. Frame names the readers would refuse (an ecliptic one, say) are refused before
+ * anything is written (InvalidInputError naming the field).
  */
 import { lowerTriangle } from './covariance.ts';
+import { assertWritableFrame } from './frames.ts';
 import type { Opm } from './odm-types.ts';
 import { type Item, renderKvn, renderXml } from './render.ts';
 import { formatExponent, formatFixed } from './values.ts';
@@ -19,6 +21,9 @@ export function writeOpm(opm: Opm, options?: OdmWriteOptions): string {
   const comments = (list: readonly string[]): void => list.forEach((text) => items.push({ kind: 'comment', text }));
   const fixed = formatFixed;
   const { header, metadata, state } = opm;
+  assertWritableFrame('metadata.refFrame', metadata.refFrame, metadata.centre, false);
+  if (opm.covariance?.covRefFrame !== undefined) assertWritableFrame('covariance.covRefFrame', opm.covariance.covRefFrame, metadata.centre, true);
+  opm.maneuvers.forEach((m, i) => assertWritableFrame(`maneuvers[${i}].manRefFrame`, m.manRefFrame, metadata.centre, true));
 
   if (o.encoding === 'kvn') kw('CCSDS_OPM_VERS', header.version);
   items.push({ kind: 'open', name: 'header' });

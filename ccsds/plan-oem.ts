@@ -4,15 +4,16 @@
  * sampled at a chosen step, one segment per arc between burns (an ephemeris must not be interpolated
  * across a velocity jump). When the problem has an initial covariance, each segment ends with that
  * covariance mapped linearly through the state transition matrix — orbit-determination uncertainty only;
- * execution errors of the burns are not in it (said in the block's comment).
+ * execution errors of the burns are not in it (said in the block's comment). States and covariances are
+ * always written in EME2000 (the standard's frame table has no ecliptic frame).
  */
 import type { ManeuverPlan, PlanningProblem } from '../planner/index.ts';
 import {
   CancelledError, changeCentre, createBuiltinEphemeris, type Ephemeris, type ForceModelSpec, InvalidInputError,
-  type InertialFrame, parseEpoch, propagateAsync, type StateVector, stateToFrame,
+  parseEpoch, propagateAsync, type StateVector, stateToFrame,
 } from '../propagator/index.ts';
 import { rotateInertialCovariance } from './initial-state.ts';
-import { CENTRE_NAME_OF_BODY, FRAME_NAME_OF_INERTIAL } from './frames.ts';
+import { CENTRE_NAME_OF_BODY, type MessageFrame, WRITTEN_FRAME_NAME } from './frames.ts';
 import type { InterpolationMethod, Oem, OemCovariance, OemSegment, OemState } from './odm-types.ts';
 import { assertExportable, type PlanExportOptions, planHeader } from './plan-opm.ts';
 import { formatCcsdsEpoch } from './values.ts';
@@ -20,8 +21,6 @@ import { formatCcsdsEpoch } from './values.ts';
 export interface PlanOemOptions extends PlanExportOptions {
   /** Time between ephemeris lines, s (> 0); each segment also holds its first and last epoch. */
   stepS: number;
-  /** Axes of the written states. @defaultValue the initial state's frame */
-  frame?: InertialFrame;
   /** Interpolation recommended in the metadata. @defaultValue { method: 'HERMITE', degree: 7 } */
   interpolation?: { method: InterpolationMethod; degree: number };
   /** Source of body positions; the built-in one when absent. */
@@ -59,7 +58,7 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
       + `(limit ${MAX_OEM_LINES}); choose a larger step`);
   }
   const scale = options.timeSystem ?? 'TDB';
-  const frame = options.frame ?? s.frame;
+  const frame: MessageFrame = 'J2000_EQUATORIAL';
   const ephemeris = options.ephemeris ?? createBuiltinEphemeris();
   const interpolation = options.interpolation ?? { method: 'HERMITE', degree: 7 };
   const f = problem.forceModel;
@@ -101,9 +100,9 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
       const covariances: OemCovariance[] = [];
       if (withCovariance && covariance && result.stm) {
         const phi = Array.from({ length: 6 }, (_, i) => result.stm!.slice(6 * i, 6 * i + 6));
-        if (arc === 0) covariances.push(covarianceBlock(startTdbS, covariance, frame, scale, 'Initial-state covariance'));
+        if (arc === 0) covariances.push(covarianceBlock(startTdbS, covariance, scale, 'Initial-state covariance'));
         covariance = multiply(multiply(phi, covariance), transpose(phi));
-        covariances.push(covarianceBlock(arcEnd, covariance, frame, scale,
+        covariances.push(covarianceBlock(arcEnd, covariance, scale,
           'Initial-state covariance mapped linearly (STM); burn execution errors not included'));
       }
       segments.push(segment(plan, options, samples, covariances, arc, interpolation, frame, scale));
@@ -121,16 +120,16 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
   return { header: planHeader(plan, options), segments };
 }
 
-function covarianceBlock(epochTdbS: number, matrix: number[][], frame: InertialFrame, scale: PlanOemOptions['timeSystem'],
-  comment: string): OemCovariance {
+/** A covariance block; `matrix` is in J2000 equatorial axes, written as EME2000. */
+function covarianceBlock(epochTdbS: number, matrix: number[][], scale: PlanOemOptions['timeSystem'], comment: string): OemCovariance {
   return {
     comments: [comment], epoch: formatCcsdsEpoch(epochTdbS, scale ?? 'TDB'), epochTdbS,
-    covRefFrame: FRAME_NAME_OF_INERTIAL[frame], matrix: rotateInertialCovariance(matrix, 'J2000_EQUATORIAL', frame),
+    covRefFrame: WRITTEN_FRAME_NAME, matrix: matrix.map((row) => [...row]),
   };
 }
 
 function segment(plan: ManeuverPlan, options: PlanOemOptions, samples: StateVector[], covariances: OemCovariance[],
-  arc: number, interpolation: { method: InterpolationMethod; degree: number }, frame: InertialFrame,
+  arc: number, interpolation: { method: InterpolationMethod; degree: number }, frame: MessageFrame,
   scale: PlanOemOptions['timeSystem']): OemSegment {
   const ts = scale ?? 'TDB';
   const written: OemState[] = samples.map((x) => ({
@@ -155,7 +154,7 @@ function segment(plan: ManeuverPlan, options: PlanOemOptions, samples: StateVect
       objectId: options.objectId ?? 'UNKNOWN',
       centerName: CENTRE_NAME_OF_BODY[centre],
       centre,
-      refFrame: FRAME_NAME_OF_INERTIAL[frame],
+      refFrame: WRITTEN_FRAME_NAME,
       frame,
       timeSystem: ts,
       startTime: first.epoch, startTdbS: first.epochTdbS,

@@ -1,10 +1,13 @@
 /**
  * A proposed maneuver plan as an Orbit Parameter Message: the problem's initial state (and covariance),
  * the spacecraft mass, and one maneuver block per planned burn. Pure: the creation date comes in.
+ * The state is always written in EME2000: an initial state given in J2000_ECLIPTIC is rotated (with its
+ * covariance), since the standard's frame table has no ecliptic frame.
  */
 import type { ManeuverPlan, PlanningProblem } from '../planner/index.ts';
-import { InvalidInputError, parseEpoch, type TimeScale } from '../propagator/index.ts';
-import { CENTRE_NAME_OF_BODY, FRAME_NAME_OF_INERTIAL, tnwFromVnb } from './frames.ts';
+import { InvalidInputError, parseEpoch, stateToFrame, type TimeScale } from '../propagator/index.ts';
+import { CENTRE_NAME_OF_BODY, tnwFromVnb, WRITTEN_FRAME_NAME } from './frames.ts';
+import { rotateInertialCovariance } from './initial-state.ts';
 import type { OdmHeader, Opm, OpmManeuver } from './odm-types.ts';
 import { formatCcsdsEpoch } from './values.ts';
 
@@ -63,6 +66,8 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
   const scale = options.timeSystem ?? 'TDB';
   const s = problem.initialState;
   const epochTdbS = parseEpoch(s.epoch, undefined, 'initialState.epoch');
+  const written = stateToFrame({ epochTdbS, centre: s.centre, frame: s.frame, positionKm: s.positionKm, velocityKmS: s.velocityKmS },
+    'J2000_EQUATORIAL');
   const local = problem.forceModel.centralBody === s.centre && !problem.forceModel.switching;
   const frameChoice = local ? options.maneuverFrame ?? 'RTN' : 'inertial';
   const maneuvers: OpmManeuver[] = plan.burns.map((b) => {
@@ -74,7 +79,7 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
     }
     const [manRefFrame, deltaVKmS] = frameChoice === 'RTN' ? ['RTN', b.deltaVRtnKmS]
       : frameChoice === 'TNW' ? ['TNW', tnwFromVnb(b.deltaVVnbKmS)]
-      : [FRAME_NAME_OF_INERTIAL.J2000_EQUATORIAL, b.deltaVInertialKmS];
+      : [WRITTEN_FRAME_NAME, b.deltaVInertialKmS];
     return {
       comments,
       epochIgnition: formatCcsdsEpoch(b.epoch.tdbS, scale),
@@ -93,16 +98,16 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
       objectId: options.objectId ?? 'UNKNOWN',
       centerName: CENTRE_NAME_OF_BODY[s.centre],
       centre: s.centre,
-      refFrame: FRAME_NAME_OF_INERTIAL[s.frame],
-      frame: s.frame,
+      refFrame: WRITTEN_FRAME_NAME,
+      frame: 'J2000_EQUATORIAL',
       timeSystem: scale,
     },
     state: {
       comments: ['Initial state of the plan (orbit determination input)'],
       epoch: formatCcsdsEpoch(epochTdbS, scale),
       epochTdbS,
-      positionKm: [...s.positionKm],
-      velocityKmS: [...s.velocityKmS],
+      positionKm: [...written.positionKm],
+      velocityKmS: [...written.velocityKmS],
     },
     spacecraft: {
       comments: [],
@@ -115,6 +120,11 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
     maneuvers,
     userDefined: [],
   };
-  if (s.covarianceKmKmS) opm.covariance = { comments: ['Initial-state covariance'], matrix: s.covarianceKmKmS.map((r) => [...r]) };
+  if (s.covarianceKmKmS) {
+    opm.covariance = { comments: ['Initial-state covariance'], matrix: rotateInertialCovariance(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL') };
+  }
+  if (s.frame !== 'J2000_EQUATORIAL') {
+    opm.state.comments.push(`Rotated from the problem's ${s.frame} axes to EME2000 (the standard has no ecliptic frame)`);
+  }
   return opm;
 }

@@ -64,7 +64,8 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
     method: 'post', path: '/v1/ccsds/opm/initial-state', tags: ['ccsds'], roles: ['submitter'],
     summary: 'Read a CCSDS OPM (KVN or XML) into the problem\'s initialState',
     description: 'Strict reading of CCSDS 502.0-B: required keywords, units, time systems UTC/TAI/TT/TDB, frames '
-      + 'EME2000/ICRF/GCRF/ECLIPJ2000, centres the propagator knows. A malformed file answers 400 naming the keyword and line.',
+      + 'EME2000/ICRF/GCRF (the standard\'s frame table has no J2000 ecliptic frame, so an ecliptic frame name is refused), '
+      + 'centres the propagator knows. A malformed file answers 400 naming the keyword and line.',
     body: opmBodySchema,
     responses: {
       200: { description: 'The initial state (with covariance when the OPM has one), mass, notes' },

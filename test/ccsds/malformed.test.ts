@@ -96,6 +96,23 @@ describe('CCSDS readers on malformed input', () => {
       });
     }
 
+    // CCSDS 502.0-B annex A frame table (from memory): EME2000, GCRF, GRC, ICRF, ITRF..., MCI, TDR, TEME, TOD —
+    // no J2000 ecliptic frame, so an ecliptic name is refused with the line and what to write instead.
+    const ecliptic: [string, string, string, string][] = [
+      ['OPM', 'REF_FRAME', 'REF_FRAME = ECLIPJ2000', 'REF_FRAME'],
+      ['OPM', 'COV_REF_FRAME', 'COV_REF_FRAME = ECLIPJ2000', 'COV_REF_FRAME'],
+      ['OPM', 'MAN_REF_FRAME = RTN', 'MAN_REF_FRAME = ECLIPTIC', 'MAN_REF_FRAME'],
+      ['OEM', 'REF_FRAME', 'REF_FRAME = ECLIPJ2000', 'REF_FRAME'],
+    ];
+    for (const [kind, prefix, replacement, field] of ecliptic) {
+      it(`should refuse the ecliptic frame name in '${replacement}' (${kind}) on its line, pointing to EME2000/ICRF`, () => {
+        const original = kind === 'OPM' ? OPM : OEM;
+        const error = failure(() => (kind === 'OPM' ? readOpm : readOem)(replaceLine(original, prefix, replacement)));
+        expect([error.field, error.line]).toEqual([field, lineOf(original, prefix)]);
+        expect(error.message).toMatch(/table of CCSDS 502\.0-B has no J2000 ecliptic frame; the file should give its states in EME2000 or ICRF/);
+      });
+    }
+
     it('should refuse GCRF about a centre other than the Earth', () => {
       const text = fixture('opm-sun-minimal.opm').replace('REF_FRAME = ICRF', 'REF_FRAME = GCRF');
       expect(failure(() => readOpm(text)).message).toMatch(/GCRF is geocentric/);

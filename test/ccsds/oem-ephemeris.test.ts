@@ -3,7 +3,7 @@ import {
   formatCcsdsEpoch, oemToEphemeris, oemToTrajectory, readOem, writeOem, type Oem, type OemState,
 } from '../../ccsds/index.ts';
 import {
-  createBuiltinEphemeris, eclipticFromEquatorialJ2000, layerEphemerides, OutOfSpanError, type BodyName, type Vec3,
+  createBuiltinEphemeris, layerEphemerides, OutOfSpanError, type BodyName, type Vec3,
 } from '../../propagator/index.ts';
 
 /**
@@ -118,20 +118,6 @@ describe('OEM as a tabulated ephemeris', () => {
       });
     });
   }
-
-  describe('when the OEM is written in the J2000 ecliptic frame', () => {
-    it('should answer in J2000 equatorial axes, as every ephemeris does', () => {
-      const oem = circleOem('LAGRANGE', 7);
-      const seg = oem.segments[0];
-      seg.metadata = { ...seg.metadata, refFrame: 'ECLIPJ2000', frame: 'J2000_ECLIPTIC' };
-      seg.states = seg.states.map((x) => ({ ...x, positionKm: eclipticFromEquatorialJ2000(x.positionKm), velocityKmS: eclipticFromEquatorialJ2000(x.velocityKmS) }));
-      const trajectory = oemToTrajectory(readOem(writeOem(oem)));
-      const t = T0 + 7.25 * STEP_S;
-      const got = trajectory.stateAt(t).positionKm;
-      // Rounding happened in ecliptic axes; rotated back, a component can collect up to √3 of it: bound × 2.
-      got.forEach((x, c) => expect(Math.abs(x - truth(t).p[c])).toBeLessThanOrEqual(2 * errorBound(t, 8, false)));
-    });
-  });
 
   describe('when asked outside the tabulated span', () => {
     const trajectory = oemToTrajectory(readOem(writeOem(circleOem('LAGRANGE', 7))));

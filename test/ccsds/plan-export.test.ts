@@ -1,3 +1,4 @@
+import * as Astronomy from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
 import {
   compareWithReference, exportPlanAsCcsds, oemToTrajectory, planToOem, readOem, readOpm, REVIEW_COMMENTS,
@@ -94,7 +95,58 @@ function plan(status: 'converged' | 'not-converged', crossCheckPassed = true): M
   } as unknown as ManeuverPlan;
 }
 
+/** J2000 equatorial → J2000 mean ecliptic with astronomy-engine's own rotation (EQJ → ECL), an outside check
+ * on the project's frame code. */
+function eclipticByAstronomyEngine(v: readonly number[]): Vec3 {
+  const r = Astronomy.RotateVector(Astronomy.Rotation_EQJ_ECL(), new Astronomy.Vector(v[0], v[1], v[2], Astronomy.MakeTime(0)));
+  return [r.x, r.y, r.z];
+}
+
+/** The same problem with its initial state (and covariance) given in J2000 ecliptic axes. */
+function eclipticProblem(): PlanningProblem {
+  const c = problem.initialState.covarianceKmKmS!;
+  // C_ecl = B C Bᵀ, B = diag(R, R): rotate every column, then every row.
+  const rotate6 = (x: readonly number[]): number[] => [...eclipticByAstronomyEngine(x.slice(0, 3)), ...eclipticByAstronomyEngine(x.slice(3))];
+  const columns = c.map((row) => rotate6(row));
+  const cEcl = Array.from({ length: 6 }, (_, j) => rotate6(columns.map((row) => row[j])));
+  return problemSchema.parse({
+    ...problem,
+    initialState: {
+      ...problem.initialState, frame: 'J2000_ECLIPTIC', positionKm: eclipticByAstronomyEngine(P0), velocityKmS: eclipticByAstronomyEngine(V0),
+      covarianceKmKmS: cEcl,
+    },
+  });
+}
+
 describe('CCSDS export of a plan', () => {
+  describe('when the problem\'s initial state is in J2000 ecliptic axes', () => {
+    // CCSDS 502.0-B's frame table has no J2000 ecliptic frame (from memory): the messages say EME2000 and
+    // hold the state rotated back — it must equal the equatorial state the ecliptic one was made from.
+    it('should write the OPM state and covariance in EME2000', async () => {
+      const opm = readOpm(await exportPlanAsCcsds(eclipticProblem(), plan('converged'), { kind: 'opm', creationDateUtc: '2029-12-01T10:00:00' }));
+      expect(opm.metadata).toMatchObject({ refFrame: 'EME2000', frame: 'J2000_EQUATORIAL' });
+      // Printed to 1e-6 km / 1e-9 km/s (the writer's defaults); the rotations agree far below that.
+      opm.state.positionKm.forEach((x, i) => expect(Math.abs(x - P0[i])).toBeLessThan(1e-6));
+      opm.state.velocityKmS.forEach((x, i) => expect(Math.abs(x - V0[i])).toBeLessThan(1e-9));
+      const c0 = problem.initialState.covarianceKmKmS!;
+      opm.covariance!.matrix.forEach((row, i) => row.forEach((x, j) => {
+        expect(Math.abs(x - c0[i][j]), `[${i}][${j}]`).toBeLessThan(1e-9 * Math.sqrt(c0[i][i] * c0[j][j]));
+      }));
+      expect(opm.state.comments.join(' ')).toMatch(/Rotated from the problem's J2000_ECLIPTIC axes to EME2000/);
+    });
+
+    it('should write the OEM in EME2000, matching the independent Kepler solution in equatorial axes', async () => {
+      const oem = readOem(await exportPlanAsCcsds(eclipticProblem(), plan('converged'), { kind: 'oem', creationDateUtc: '2029-12-01T10:00:00', stepS: 600 }));
+      expect(oem.segments.map((s) => s.metadata.refFrame)).toEqual(['EME2000', 'EME2000']);
+      expect(oem.segments[0].covariances.map((c) => c.covRefFrame)).toEqual(['EME2000', 'EME2000']);
+      const first = oem.segments[0].states[0];
+      first.positionKm.forEach((x, i) => expect(Math.abs(x - P0[i])).toBeLessThan(1e-6));
+      const end = oem.segments[0].states.at(-1)!;
+      end.positionKm.forEach((x, i) => expect(Math.abs(x - PRE_BURN.r[i])).toBeLessThan(1e-5));
+    });
+  });
+
+
   describe('when a converged plan is written as an OPM', () => {
     it('should carry the initial state, the covariance, the mass and one maneuver per burn', async () => {
       const text = await exportPlanAsCcsds(problem, plan('converged'), { kind: 'opm', creationDateUtc: '2029-12-01T10:00:00Z' });

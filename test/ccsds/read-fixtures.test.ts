@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import {
   covarianceInStateFrame, readOem, readOpm, readOpmAsInitialState, segmentInterpolation, vnbFromTnw,
 } from '../../ccsds/index.ts';
-import { eclipticFromEquatorialJ2000, parseEpoch, ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000, rtnMatrix } from '../../propagator/index.ts';
+import { eclipticFromEquatorialJ2000, parseEpoch, rtnMatrix } from '../../propagator/index.ts';
 
 // Fixtures: hand-written from memory in the layout of the CCSDS 502.0-B annex examples, invented content
 // (see test/fixtures/ccsds/README.md).
@@ -168,7 +168,7 @@ describe('OPM reader, version 3.0 and frame details', () => {
     'OBJECT_NAME = FINCH',
     'OBJECT_ID = UNKNOWN',
     'CENTER_NAME = SUN',
-    'REF_FRAME = ECLIPJ2000',
+    'REF_FRAME = ICRF',
     'TIME_SYSTEM = TT',
     'EPOCH = 2030-02-02T00:00:00',
     'X = 1.4e8 [km]', 'Y = 2.0e7 [km]', 'Z = 1.0e5 [km]',
@@ -180,22 +180,25 @@ describe('OPM reader, version 3.0 and frame details', () => {
         'CZ_DOT_X_DOT', 'CZ_DOT_Y_DOT', 'CZ_DOT_Z_DOT'][i]} = ${v}`),
   ].join('\n');
 
-  describe('when the header has the 3.0 keywords and the state is ecliptic', () => {
+  describe('when the header has the 3.0 keywords and the state is in ICRF', () => {
     const read = readOpmAsInitialState(v3);
 
-    it('should read CLASSIFICATION and MESSAGE_ID and map ECLIPJ2000 to the J2000 ecliptic', () => {
+    it('should read CLASSIFICATION and MESSAGE_ID and map ICRF to the J2000 equatorial frame', () => {
       expect(read.opm.header).toMatchObject({ version: '3.0', classification: 'unclassified demo', messageId: 'DEMO-0001' });
-      expect(read.initialState).toMatchObject({ frame: 'J2000_ECLIPTIC', centre: 'sun', epoch: '2030-02-02T00:00:00 TT' });
+      expect(read.initialState).toMatchObject({ frame: 'J2000_EQUATORIAL', centre: 'sun', epoch: '2030-02-02T00:00:00 TT' });
     });
 
-    it('should rotate an EME2000 covariance into the ecliptic state frame', () => {
+    it('should keep an EME2000 covariance as it is (EME2000 and ICRF are the same axes here)', () => {
       const c = read.initialState.covarianceKmKmS!;
-      // The diagonal equatorial covariance is isotropic per block, so any rotation leaves it unchanged.
-      expect(c[0][0]).toBeCloseTo(100, 10);
-      expect(c[1][2]).toBeCloseTo(0, 10);
-      // A rotation matrix row is a unit vector (IAU 2006 obliquity, from the propagator's frames).
-      const r = ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000;
-      expect(Math.hypot(r[3], r[4], r[5])).toBeCloseTo(1, 15);
+      expect(c[0][0]).toBe(100);
+      expect(c[5][5]).toBe(1e-6);
+      expect(c[1][2]).toBe(0);
+    });
+
+    it('should refuse the same message with an ecliptic REF_FRAME, on its line', () => {
+      // 502.0-B's frame table has no J2000 ecliptic frame (from memory).
+      expect(() => readOpmAsInitialState(v3.replace('REF_FRAME = ICRF', 'REF_FRAME = ECLIPJ2000')))
+        .toThrow(/^REF_FRAME: line 10: frame 'ECLIPJ2000' is refused: .*should give its states in EME2000 or ICRF/);
     });
 
     it('should refuse the 3.0 keywords in a 2.0 message', () => {
@@ -211,7 +214,7 @@ describe('OPM reader, version 3.0 and frame details', () => {
     });
   });
 
-  it('should agree with the propagator on the ecliptic rotation used for ECLIPJ2000 files', () => {
+  it('should agree with the propagator on the ecliptic rotation used to write ecliptic states in EME2000', () => {
     const v = eclipticFromEquatorialJ2000([0, 0, 1]);
     // The equatorial pole seen from the ecliptic is tilted by the obliquity, about 23.44 deg (IAU 2006: 84381.406").
     expect(Math.acos(v[2]) * 180 / Math.PI).toBeCloseTo(84381.406 / 3600, 9);

@@ -3,7 +3,7 @@ import {
   formatCcsdsEpoch, ODM_WRITE_DEFAULTS, readOem, readOpm, writeOem, writeOpm,
   type Oem, type OemState, type Opm,
 } from '../../ccsds/index.ts';
-import type { TimeScale, Vec3 } from '../../propagator/index.ts';
+import { InvalidInputError, type TimeScale, type Vec3 } from '../../propagator/index.ts';
 
 /** Small seeded PRNG (mulberry32, common practice) so the values are varied but repeatable. */
 function prng(seed: number): () => number {
@@ -124,7 +124,7 @@ describe('CCSDS writers and readers', () => {
           return {
             metadata: {
               comments: [], objectName: 'ROUND TRIP', objectId: 'UNKNOWN', centerName: 'SUN', centre: 'sun' as const,
-              refFrame: 'ECLIPJ2000', frame: 'J2000_ECLIPTIC' as const, timeSystem: scale,
+              refFrame: 'ICRF', frame: 'J2000_EQUATORIAL' as const, timeSystem: scale,
               startTime: s[0].epoch, startTdbS: s[0].epochTdbS, stopTime: s[4].epoch, stopTdbS: s[4].epochTdbS,
               useableStartTime: s[1].epoch, useableStartTdbS: s[1].epochTdbS,
               interpolation, interpolationDegree: 3,
@@ -164,6 +164,20 @@ describe('CCSDS writers and readers', () => {
       });
     });
   }
+
+  describe('when a message names a frame the readers refuse', () => {
+    // CCSDS 502.0-B's frame table has no J2000 ecliptic frame (from memory): nothing unreadable is written.
+    it('should refuse to write an ecliptic REF_FRAME, COV_REF_FRAME or MAN_REF_FRAME, naming the field', () => {
+      const opm = sampleOpm('TDB', 1e9);
+      expect(() => writeOpm({ ...opm, metadata: { ...opm.metadata, refFrame: 'ECLIPJ2000' } }))
+        .toThrow(/^metadata\.refFrame: not written: frame 'ECLIPJ2000' is refused: .* no J2000 ecliptic frame/);
+      expect(() => writeOpm({ ...opm, covariance: { comments: [], covRefFrame: 'ECLIPJ2000', matrix: covariance(1, 1e-3) } }))
+        .toThrow(/^covariance\.covRefFrame: not written/);
+      expect(() => writeOpm({ ...opm, maneuvers: opm.maneuvers.map((m) => ({ ...m, manRefFrame: 'ECLIPJ2000' })) }))
+        .toThrow(/^maneuvers\[0\]\.manRefFrame: not written/);
+      expect(() => writeOpm({ ...opm, metadata: { ...opm.metadata, refFrame: 'TOD' } })).toThrow(InvalidInputError);
+    });
+  });
 
   describe('when a comment is long or not ASCII', () => {
     it('should wrap it into KVN lines of at most 254 characters, spelling out common symbols', () => {
