@@ -10,7 +10,7 @@ import {
 } from '../../ccsds/index.ts';
 import { jobRequestSchema } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
-import { sendError } from '../errors.ts';
+import { type FieldIssue, sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { planParamsSchema, REVIEW_NOTICE } from '../schemas.ts';
 import { validOf } from '../validate.ts';
@@ -36,13 +36,28 @@ const exportQuerySchema = z.object({
   objectId: z.string().min(1).max(40).regex(/^[A-Za-z0-9 ._-]+$/).optional(),
 }).strict();
 
-/** Sends a format or input error as 400 with the keyword (and line) as the issue path. */
-function sendInputError(res: Response, error: unknown): boolean {
+/** An issue of a malformed message: the body path as in every other 400 (`body.opm`), plus the message's
+ * keyword and 1-based line (left out when the problem is the end of the text). */
+export interface CcsdsFieldIssue extends FieldIssue { keyword?: string; line?: number }
+
+/** Where an export error points: a query option by its name, anything about the stored plan or problem at
+ * the plan id. */
+function exportIssuePath(field: string): string {
+  return field in exportQuerySchema.shape ? `query.${field}` : 'params.planId';
+}
+
+/**
+ * Sends an InvalidInputError / OutOfSpanError as 400: a CcsdsFormatError with `body.<bodyField>` as the
+ * path and its keyword and line as their own fields; any other with the path `pathOf(field)`.
+ */
+function sendInputError(res: Response, error: unknown, pathOf: (field: string) => string, bodyField?: string): boolean {
   if (!(error instanceof Error) || (error.name !== 'InvalidInputError' && error.name !== 'OutOfSpanError')) return false;
   const field = (error as { field?: string }).field ?? 'input';
-  const line = error instanceof CcsdsFormatError ? error.line : undefined;
-  sendError(res, 400, (error as { code?: string }).code ?? 'INVALID_INPUT', error.message,
-    [{ path: line ? `${field} (line ${line})` : field, message: error.message }]);
+  const code = (error as { code?: string }).code ?? 'INVALID_INPUT';
+  const issue: CcsdsFieldIssue = error instanceof CcsdsFormatError && bodyField !== undefined
+    ? { path: `body.${bodyField}`, message: error.message, code, keyword: field, ...(error.line > 0 ? { line: error.line } : {}) }
+    : { path: pathOf(field), message: error.message, code };
+  sendError(res, 400, code, error.message, [issue]);
   return true;
 }
 
@@ -69,7 +84,7 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
     body: opmBodySchema,
     responses: {
       200: { description: 'The initial state (with covariance when the OPM has one), mass, notes' },
-      400: { description: 'Malformed or unsupported OPM (keyword and line in the issue path)' },
+      400: { description: 'Malformed or unsupported OPM: the issue has path `body.opm`, the `keyword` and the `line`' },
     },
   }, (_req: Request, res: Response) => {
     const { opm } = validOf<unknown, unknown, z.infer<typeof opmBodySchema>>(res).body;
@@ -77,7 +92,7 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
       const { initialState, massKg, notes } = readOpmAsInitialState(opm);
       res.json({ initialState, ...(massKg !== undefined ? { massKg } : {}), notes });
     } catch (error) {
-      if (!sendInputError(res, error)) throw error;
+      if (!sendInputError(res, error, () => 'body.opm', 'opm')) throw error;
     }
   });
 
@@ -102,13 +117,13 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
     try {
       assertExportable(found.plan as unknown as ManeuverPlan);
     } catch (error) {
-      if (!sendInputError(res, error)) throw error;
+      if (!sendInputError(res, error, exportIssuePath)) throw error;
       return;
     }
     const problem = await problemOf(deps, params.planId);
     if (!problem) { sendError(res, 404, 'PROBLEM_NOT_FOUND', `the problem of plan ${params.planId} is not on record`); return; }
     if (params.kind === 'oem' && query.stepS === undefined) {
-      sendError(res, 400, 'INVALID_INPUT', 'stepS: an OEM export needs the step between lines, s', [{ path: 'stepS', message: 'required for oem' }]);
+      sendError(res, 400, 'INVALID_INPUT', 'stepS: an OEM export needs the step between lines, s', [{ path: 'query.stepS', message: 'required for oem' }]);
       return;
     }
     const controller = new AbortController();
@@ -125,7 +140,7 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
       res.type(query.encoding === 'xml' ? 'application/xml' : 'text/plain').send(text);
     } catch (error) {
       if (error instanceof Error && error.name === 'CancelledError') return;
-      if (!sendInputError(res, error)) throw error;
+      if (!sendInputError(res, error, exportIssuePath)) throw error;
     }
   });
 }

@@ -58,13 +58,24 @@ describe('CCSDS endpoints', () => {
       expect(r.body.massKg).toBe(2140.5);
     });
 
-    it('should answer 400 naming the keyword and line of a malformed OPM', async () => {
+    it('should answer 400 with the body path, and the keyword and line as their own fields', async () => {
       const broken = opmText.replace('REF_FRAME = EME2000', 'REF_FRAME = TOD');
       const line = broken.split('\n').findIndex((l) => l.startsWith('REF_FRAME')) + 1;
       const r = await svc.request('POST', '/v1/ccsds/opm/initial-state', { token: svc.tokens.submitter, body: { opm: broken } });
       expect(r.status).toBe(400);
       expect(r.body.error.code).toBe('CCSDS_FORMAT');
-      expect(r.body.error.issues[0].path).toBe(`REF_FRAME (line ${line})`);
+      // Paths are rooted at body/query/params like every other 400 of the API (api/errors.ts, api/validate.ts).
+      expect(r.body.error.issues).toEqual([{
+        path: 'body.opm', keyword: 'REF_FRAME', line, code: 'CCSDS_FORMAT', message: expect.stringMatching(new RegExp(`^REF_FRAME: line ${line}: frame 'TOD'`)),
+      }]);
+    });
+
+    it('should leave the line out when the fault is the end of the text', async () => {
+      const cut = opmText.slice(0, opmText.indexOf('X_DOT'));
+      const r = await svc.request('POST', '/v1/ccsds/opm/initial-state', { token: svc.tokens.submitter, body: { opm: cut } });
+      expect(r.status).toBe(400);
+      expect(r.body.error.issues[0]).toMatchObject({ path: 'body.opm', keyword: 'X_DOT' });
+      expect(r.body.error.issues[0]).not.toHaveProperty('line');
     });
 
     it('should refuse a caller without the submitter role', async () => {
@@ -103,6 +114,7 @@ describe('CCSDS endpoints', () => {
         const r = await svc.request('GET', path, { token: svc.tokens.reviewer });
         expect(r.status, path).toBe(400);
         expect(r.body.error.message).toMatch(/cross-check did not pass/);
+        expect(r.body.error.issues[0].path).toBe('params.planId');
       }
       const cli = await veer('export', planId2, '--ccsds', 'opm', '--url', svc.url, '--token', svc.tokens.reviewer, '--stdout');
       expect(cli.code).toBe(2);
@@ -113,6 +125,10 @@ describe('CCSDS endpoints', () => {
     it('should answer 400 when the OEM step is missing and 404 for an unknown plan', async () => {
       const missing = await svc.request('GET', `/v1/plans/${planId}/ccsds/oem`, { token: svc.tokens.auditor });
       expect(missing.status).toBe(400);
+      expect(missing.body.error.issues[0].path).toBe('query.stepS');
+      const tooFine = await svc.request('GET', `/v1/plans/${planId}/ccsds/oem?stepS=0.001`, { token: svc.tokens.auditor });
+      expect(tooFine.status).toBe(400);
+      expect(tooFine.body.error.issues[0]).toMatchObject({ path: 'query.stepS', message: expect.stringMatching(/choose a larger step/) });
       const unknown = await svc.request('GET', '/v1/plans/no-such-plan/ccsds/opm', { token: svc.tokens.auditor });
       expect(unknown.status).toBe(404);
     });
