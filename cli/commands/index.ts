@@ -7,5 +7,10 @@ import { reviewCommand } from './review.ts';
 import { tokensCommand } from './tokens.ts';
 import { verifyCommand } from './verify.ts';
 import { propagateCommand } from './propagate.ts';
+import { submitCommand } from './submit.ts';
+import { statusCommand } from './status.ts';
+import { watchCommand } from './watch.ts';
+import { cancelCommand } from './cancel.ts';
 
-export const COMMANDS: CliCommand[] = [planCommand, propagateCommand, tokensCommand, reviewCommand, historyCommand, exportCommand, verifyCommand];
+export const COMMANDS: CliCommand[] = [planCommand, propagateCommand, tokensCommand, reviewCommand, historyCommand, exportCommand, verifyCommand,
+  submitCommand, statusCommand, watchCommand, cancelCommand];

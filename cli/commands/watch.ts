@@ -1,0 +1,155 @@
+/**
+ * `veer watch <jobId>`: follows a job over the API's server-sent event stream (progress bar on stderr) and ends
+ * with the outcome and the plan id on stdout. The exit code says what happened (JOB_EXIT).
+ */
+import { parseArgs } from 'node:util';
+import type { CliCommand } from '../command.ts';
+import {
+  describeOutcome, isFinal, JOB_EXIT, JOB_EXIT_USAGE, jobPath, progressText, type JobStatusAnswer, type ProgressAnswer,
+} from './job-outcome.ts';
+import { ApiCallError, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError, type Remote } from './review-http.ts';
+
+const USAGE = `usage: veer watch <jobId> [--url URL] [--token TOKEN] [--json]
+
+Follows a job until it finishes: state changes and a progress bar on stderr (one line per stage when stderr is
+not a terminal), then the outcome and the plan id on stdout. Stopping veer watch (Ctrl-C) does not cancel the
+job; \`veer cancel <jobId>\` does. A lost stream is reopened up to ${5} times.
+${REMOTE_USAGE} (with --json: the final job status and plan summary as JSON)
+
+${JOB_EXIT_USAGE}`;
+
+const MAX_RECONNECTS = 5;
+const RECONNECT_DELAY_MS = 2000;
+
+interface SseEvent { event: string; data: unknown }
+
+/** Reads a text/event-stream (WHATWG HTML §9.2 format) until it closes; rejects with ApiCallError on an error answer. */
+async function* readEvents(remote: Remote, path: string): AsyncGenerator<SseEvent> {
+  const headers: Record<string, string> = { accept: 'text/event-stream' };
+  if (remote.token) headers.authorization = `Bearer ${remote.token}`;
+  let res: Response;
+  try {
+    res = await fetch(remote.url + path, { headers });
+  } catch (error) {
+    throw new Error(`cannot reach ${remote.url}: ${(error as Error).message}`);
+  }
+  if (!res.ok || !res.body) {
+    const text = await res.text();
+    let parsed: unknown;
+    try { parsed = JSON.parse(text); } catch { parsed = { error: { message: text.slice(0, 200) } }; }
+    throw new ApiCallError(res.status, parsed as ApiCallError['body']);
+  }
+  const decoder = new TextDecoder();
+  let buffer = '';
+  for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) {
+    buffer += decoder.decode(chunk, { stream: true }).replace(/\r\n?/g, '\n');
+    let cut: number;
+    while ((cut = buffer.indexOf('\n\n')) >= 0) {
+      const block = buffer.slice(0, cut);
+      buffer = buffer.slice(cut + 2);
+      let event = 'message';
+      const data: string[] = [];
+      for (const line of block.split('\n')) {
+        if (line.startsWith(':')) continue; // comment (heartbeat)
+        const colon = line.indexOf(':');
+        const field = colon < 0 ? line : line.slice(0, colon);
+        const value = colon < 0 ? '' : line.slice(colon + 1).replace(/^ /, '');
+        if (field === 'event') event = value;
+        else if (field === 'data') data.push(value);
+      }
+      if (data.length > 0) yield { event, data: JSON.parse(data.join('\n')) as unknown };
+    }
+  }
+}
+
+/** Progress on stderr: a redrawn bar on a terminal, else one line per stage. */
+function progressDisplay(jobId: string): { state(s: JobStatusAnswer): void; update(p: ProgressAnswer): void; end(): void } {
+  const tty = process.stderr.isTTY === true;
+  let lastStage = '';
+  let lastLen = 0;
+  const clear = (): void => { if (tty && lastLen > 0) { process.stderr.write(`\r${' '.repeat(lastLen)}\r`); lastLen = 0; } };
+  return {
+    state(s) {
+      clear();
+      process.stderr.write(`veer watch: job ${jobId} ${s.state}${s.cancelRequested && !isFinal(s) ? ' (cancellation requested)' : ''}\n`);
+    },
+    update(p) {
+      const fraction = Math.min(1, Math.max(0, p.fraction));
+      if (tty) {
+        const width = 30;
+        const filled = Math.round(fraction * width);
+        const text = `[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${progressText(p)}`.slice(0, 110);
+        process.stderr.write(`\r${text.padEnd(lastLen)}`);
+        lastLen = text.length;
+      } else if (p.stage !== lastStage) {
+        process.stderr.write(`veer watch: ${progressText(p)}\n`);
+      }
+      lastStage = p.stage;
+    },
+    end: clear,
+  };
+}
+
+const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
+
+/**
+ * Follows `jobId` to its end and prints the outcome; resolves to the exit code (JOB_EXIT). API refusals
+ * (401/403/404…) reject with ApiCallError.
+ */
+export async function watchJob(remote: Remote, jobId: string, json: boolean): Promise<number> {
+  const display = progressDisplay(jobId);
+  let final: JobStatusAnswer | undefined;
+  let failures = 0;
+  let lastError = '';
+  try {
+    while (!final) {
+      try {
+        for await (const e of readEvents(remote, `${jobPath(jobId)}/events`)) {
+          failures = 0;
+          if (e.event === 'status') display.state(e.data as JobStatusAnswer);
+          else if (e.event === 'progress') display.update(e.data as ProgressAnswer);
+          else if (e.event === 'end') { final = e.data as JobStatusAnswer; break; }
+        }
+        lastError = 'the stream closed before the job ended';
+      } catch (error) {
+        if (error instanceof ApiCallError && error.status < 500) throw error;
+        lastError = (error as Error).message;
+      }
+      if (final) break;
+      failures += 1;
+      if (failures > MAX_RECONNECTS) {
+        display.end();
+        process.stderr.write(`veer watch: gave up following job ${jobId}: ${lastError}. The job itself may still be running (veer status ${jobId}).\n`);
+        return JOB_EXIT.failed;
+      }
+      display.end();
+      process.stderr.write(`veer watch: ${lastError}; reopening in ${RECONNECT_DELAY_MS / 1000} s (${failures}/${MAX_RECONNECTS})\n`);
+      await sleep(RECONNECT_DELAY_MS);
+    }
+  } finally {
+    display.end();
+  }
+  const outcome = await describeOutcome(remote, final);
+  const code = outcome.code ?? JOB_EXIT.failed;
+  if (json) process.stdout.write(JSON.stringify({ status: final, plan: outcome.plan ?? null, exitCode: code, outcome: outcome.lines }, null, 2) + '\n');
+  else process.stdout.write(outcome.lines.join('\n') + '\n');
+  return code;
+}
+
+export const watchCommand: CliCommand = {
+  name: 'watch',
+  summary: 'Follow a job\'s progress until it ends (exit code tells the outcome)',
+  usage: USAGE,
+  async run(args) {
+    const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { ...REMOTE_OPTIONS } });
+    const jobId = positionals[0];
+    if (!jobId) throw new UsageError('jobId', 'veer watch needs a job id\n\n' + USAGE);
+    try {
+      return await watchJob(remoteFrom(values), jobId, values.json);
+    } catch (error) {
+      if (!(error instanceof ApiCallError)) throw error;
+      process.stderr.write(`veer watch: ${error.message}\n`);
+      return exitCodeFor(error);
+    }
+  },
+};
