@@ -40,6 +40,26 @@ describe('worker configuration', () => {
     });
   });
 
+  describe('when a URL holding a password is bad', () => {
+    it('should name the variable without echoing the password', () => {
+      let error: unknown;
+      try {
+        loadWorkerConfig({ DATABASE_URL: 'mysql://veer:hunter2-secret@db:3306/veer', REDIS_URL: 'redis-tls://:redis-pw-77@cache:6380' });
+      } catch (e) { error = e; }
+      expect(error).toBeInstanceOf(ConfigError);
+      const text = (error as ConfigError).message;
+      expect(text).toMatch(/DATABASE_URL: .*\(got "mysql:\/\/\*\*\*@db:3306\/veer"\)/);
+      expect(text).toMatch(/REDIS_URL: .*\(got "redis-tls:\/\/\*\*\*@cache:6380"\)/);
+      expect(text).not.toMatch(/hunter2|redis-pw-77/);
+    });
+  });
+
+  describe('when a *_URL without a scheme carries credentials', () => {
+    it('should hide everything before the @', () => {
+      expect(() => loadApiConfig({ DATABASE_URL: 'veer:hunter2@db/veer' })).toThrow(/DATABASE_URL: .*\(got "\*\*\*@db\/veer"\)/);
+    });
+  });
+
   describe('when a variable is set to the empty string', () => {
     it('should treat it as unset', () => {
       expect(loadWorkerConfig({ WORKER_CONCURRENCY: '', DATABASE_URL: '' }).WORKER_CONCURRENCY).toBe(1);
