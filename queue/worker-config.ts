@@ -13,8 +13,6 @@ export const workerEnvSchema = z.object({
   WORKER_CONCURRENCY: envInt(1, 64, 1),
   /** Wall-clock limit of one processing run of a job, s. */
   JOB_TIME_LIMIT_S: envInt(1, 86_400, 900),
-  /** Tries of a job whose failure was transient (invalid input, cancellation, time limit are never retried). */
-  JOB_ATTEMPTS: envInt(1, 20, 3),
   /** Lock duration of an active job, ms; a dead worker's job is taken over after about this long. */
   LOCK_DURATION_MS: envInt(1_000, 600_000, 30_000),
   /** How often workers look for jobs whose lock expired, ms. */
