@@ -181,6 +181,23 @@ describe('veer submit, status, watch and cancel', () => {
     });
   });
 
+  describe('when the job fails', () => {
+    it('should exit 1 naming the error, with no plan', async () => {
+      // A second service on the same Redis whose worker has a 50 ms time limit: the planner needs longer.
+      const limited = await startService({ redis: svc.redis });
+      try {
+        await limited.startWorkerInProcess({ jobTimeLimitS: 0.05 });
+        const run = await veer(['submit', DEMO, '--reason', 'time limit check', '--watch', '--url', limited.url, '--token', limited.tokens.submitter]);
+        expect(run.code).toBe(1);
+        expect(run.out).toMatch(/FAILED: TimeLimitError: /);
+        expect(run.out).toContain('No plan was produced.');
+        expect(run.out).not.toMatch(/plan-/);
+      } finally {
+        await limited.close();
+      }
+    });
+  });
+
   describe('when the job or the token is unknown', () => {
     it('should exit 2 with the 404 for an unknown job', async () => {
       const run = await veer(['status', 'j-no-such-job', ...as('auditor')]);
