@@ -1,7 +1,8 @@
 /**
  * Worker behaviour against a real Redis: priority (urgent first), cancellation of a running job through
  * the planner's AbortSignal, the time limit (final, not retried), and lock renewal while the planner runs
- * on its thread (a lock far shorter than the job must not let the job stall).
+ * on its thread (a lock far shorter than the job, with a stalled-job check running often, must not let the
+ * job stall).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
@@ -42,16 +43,19 @@ describe('priority', () => {
 describe('cancellation of a running job', () => {
   describe('when the submitter cancels during the Monte Carlo stage', () => {
     it('should stop the planner, end cancelled without retry, and keep the worker usable', async () => {
-      const worker = await svc.startWorkerInProcess({ concurrency: 1, lockDurationMs: 2_000 });
+      // A 4 s lock and a stalled-job check every second: without renewal the job would be declared stalled
+      // about 5 s after it started (the lock renews every 2 s, so a loaded machine still has 2 s of slack).
+      const worker = await svc.startWorkerInProcess({ concurrency: 1, lockDurationMs: 4_000, stalledIntervalMs: 1_000 });
       const stalled: string[] = [];
       worker.worker.on('stalled', (id) => stalled.push(id));
-      const jobId = await submit(reachableProblem({ samples: 60_000 }));
-      await waitForJob(svc, jobId, (s) => s.state === 'active' && s.progress?.stage === 'dispersion', 60_000);
-      // Held for a while with a 2 s lock: renewal must keep flowing while the thread computes.
-      await new Promise((r) => setTimeout(r, 3_000));
+      // 100 000 samples: some 20 s of Monte Carlo on an idle core, far longer than the hold below.
+      const jobId = await submit(reachableProblem({ samples: 100_000 }));
+      await waitForJob(svc, jobId, (s) => s.state === 'active' && s.progress?.stage === 'dispersion', 120_000);
+      // Held longer than lock + stalled interval: renewal must keep flowing while the thread computes.
+      await new Promise((r) => setTimeout(r, 6_500));
       const cancel = await svc.request('POST', `/v1/jobs/${jobId}/cancel`, { token: svc.tokens.submitter, body: { reason: 'new OD arrived' } });
       expect(cancel.status).toBe(202);
-      const end = await waitForJob(svc, jobId, (s) => s.state === 'cancelled' || s.state === 'completed', 30_000);
+      const end = await waitForJob(svc, jobId, (s) => s.state === 'cancelled' || s.state === 'completed', 60_000);
       expect(end.state).toBe('cancelled');
       expect(end.error.name).toBe('CancelledError');
       expect(end.attemptsMade).toBe(1);
@@ -60,7 +64,7 @@ describe('cancellation of a running job', () => {
       const next = await submit(reachableProblem({ samples: 0, name: 'AFTER-CANCEL' }));
       expect((await waitForJob(svc, next, (s) => s.state === 'completed', 60_000)).result.planStatus).toBe('converged');
       await worker.close();
-    });
+    }, 240_000);
   });
 });
 
