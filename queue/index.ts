@@ -16,7 +16,7 @@ export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } 
 export { ArchivePlanSink, JobResultSink, type ArchiveAppends, type PlanSink, type ProposedPlanInput } from './plan-sink.ts';
 export { createPlanSink } from './sink-from-config.ts';
 export { PlannerPool, type PlannerPoolOptions } from './planner-pool.ts';
-export { sampleBatches } from './processor.ts';
+export { isFinalFailure, sampleBatches } from './processor.ts';
 export { findProblemIssue, type ProblemIssue } from './job-request-check.ts';
 export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from './env-config.ts';
 export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './worker-config.ts';

@@ -55,6 +55,8 @@ export interface RetargetJobData {
   nominalPlan?: ManeuverPlan;
   /** Number of sample batches added as child jobs. */
   batches?: number;
+  /** ISO UTC time the job first started; its time limit counts from here (set by the first run). */
+  firstStartedAt?: string;
 }
 
 /** Data of a `dispersion-samples` child job. */
@@ -66,6 +68,8 @@ export interface SampleBatchData {
   firstIndex: number;
   count: number;
   priority: Priority;
+  /** ISO UTC end of the parent's overall time limit; the batch stops there (TimeLimitError). */
+  deadlineAt?: string;
 }
 
 /** Result of a sample batch (what the parent collects). */

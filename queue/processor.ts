@@ -35,13 +35,28 @@ export interface ProcessorDeps {
   track(jobId: string, parentId: string | null, cancel: (by: string) => void): () => void;
 }
 
-/** Error kinds that are the caller's fault: final, never retried (as in propagator/errors.ts isFinalError). */
-const FINAL_ERROR_NAMES = new Set(['InvalidInputError', 'OutOfSpanError', 'CancelledError', 'ZodError']);
+/**
+ * Error kinds that end a job for good: the caller's fault (as in propagator/errors.ts isFinalError), and
+ * programming errors (TypeError, RangeError, ReferenceError, SyntaxError), which a retry only repeats.
+ */
+const FINAL_ERROR_NAMES = new Set([
+  'InvalidInputError', 'OutOfSpanError', 'CancelledError', 'ZodError',
+  'TypeError', 'RangeError', 'ReferenceError', 'SyntaxError',
+]);
+
+/** True when a failure with this error must not be retried (see FINAL_ERROR_NAMES); transient ones return false. */
+export function isFinalFailure(error: unknown): boolean {
+  return error instanceof Error && FINAL_ERROR_NAMES.has(error.name);
+}
 
 type StopReason = { kind: 'cancel'; by: string } | { kind: 'time-limit' } | { kind: 'shutdown' };
 
-/** Sets up a controller combining BullMQ's signal, cancel requests and the time limit. */
-function runControl(deps: ProcessorDeps, jobId: string, parentId: string | null, bullSignal?: AbortSignal) {
+/**
+ * Sets up a controller combining BullMQ's signal, cancel requests and the time limit. `deadlineMs` (Unix ms)
+ * is the end of the job's overall time: JOB_TIME_LIMIT_S counted from the job's first start, across retries,
+ * take-overs and a fanned-out run's sample batches; a run that starts after it stops at once.
+ */
+function runControl(deps: ProcessorDeps, jobId: string, parentId: string | null, deadlineMs: number, bullSignal?: AbortSignal) {
   const controller = new AbortController();
   let stop: StopReason | null = null;
   const abort = (reason: StopReason): void => {
@@ -49,7 +64,7 @@ function runControl(deps: ProcessorDeps, jobId: string, parentId: string | null,
     stop = reason;
     controller.abort(reason.kind === 'cancel' ? `cancelled by ${reason.by}` : reason.kind);
   };
-  const timer = setTimeout(() => abort({ kind: 'time-limit' }), deps.jobTimeLimitS * 1000);
+  const timer = setTimeout(() => abort({ kind: 'time-limit' }), Math.max(0, deadlineMs - Date.now()));
   const onBull = (): void => abort({ kind: 'shutdown' });
   bullSignal?.addEventListener('abort', onBull, { once: true });
   const untrack = deps.track(jobId, parentId, (by) => abort({ kind: 'cancel', by }));
@@ -66,10 +81,10 @@ function classify(error: unknown, stop: StopReason | null, deps: ProcessorDeps):
   if (error instanceof WaitingChildrenError) return error;
   if (stop?.kind === 'cancel') return new UnrecoverableError(`${CANCELLED_REASON_PREFIX}: cancelled by ${stop.by}`);
   if (stop?.kind === 'time-limit') {
-    return new UnrecoverableError(`${TIME_LIMIT_REASON_PREFIX}: stopped after the time limit of ${deps.jobTimeLimitS} s`);
+    return new UnrecoverableError(`${TIME_LIMIT_REASON_PREFIX}: stopped at the time limit of ${deps.jobTimeLimitS} s from the job's first start`);
   }
   const e: Error & { field?: string } = error instanceof Error ? error : new Error(String(error));
-  if (FINAL_ERROR_NAMES.has(e.name)) {
+  if (isFinalFailure(e)) {
     return new UnrecoverableError(`${e.name}${e.field ? ` [${e.field}]` : ''}: ${e.message}`);
   }
   return e;
@@ -110,7 +125,7 @@ async function finishPlan(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: 
   };
 }
 
-async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: ManeuverPlan): Promise<number> {
+async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: ManeuverPlan, deadlineMs: number): Promise<number> {
   const { samples, seed } = job.data.problem.dispersion;
   const batches = sampleBatches(samples, deps.batchSize);
   const priority = job.data.priority === 'urgent' ? BULL_PRIORITY.urgentSamples : BULL_PRIORITY.routineSamples;
@@ -119,7 +134,7 @@ async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, 
     name: JOB_NAMES.samples,
     data: {
       parentId: String(job.id), problem: job.data.problem, plan, seed, firstIndex: b.firstIndex, count: b.count,
-      priority: job.data.priority,
+      priority: job.data.priority, deadlineAt: new Date(deadlineMs).toISOString(),
     } satisfies SampleBatchData,
     opts: {
       jobId: `${job.id}-mc-${b.firstIndex}`,
@@ -138,7 +153,9 @@ async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, 
 /** Processes a `retarget` job (see the file comment). */
 export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobData>, token: string | undefined, bullSignal?: AbortSignal): Promise<RetargetJobResult> {
   const jobId = String(job.id);
-  const control = runControl(deps, jobId, null, bullSignal);
+  if (!job.data.firstStartedAt) await job.updateData({ ...job.data, firstStartedAt: new Date().toISOString() });
+  const deadlineMs = Date.parse(job.data.firstStartedAt ?? '') + deps.jobTimeLimitS * 1000;
+  const control = runControl(deps, jobId, null, deadlineMs, bullSignal);
   const report = progressWriter(job, deps.logger);
   try {
     const cancel = await readCancel(deps.redis, deps.prefix, jobId);
@@ -171,7 +188,7 @@ export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobD
     const expected = sampleBatches(problem.dispersion.samples, deps.batchSize).length;
     if (Object.keys(values).length < expected) {
       // First time here, or the worker died between storing the nominal plan and adding the batches.
-      const batches = await addSampleBatches(deps, job, nominal);
+      const batches = await addSampleBatches(deps, job, nominal, deadlineMs);
       await job.updateData({ ...job.data, batches });
       report({ stage: 'dispersion', fraction: 0.5, message: `Monte Carlo: ${batches} batches queued`, samplesDone: 0, samplesTotal: problem.dispersion.samples });
       if (!token) throw new Error('no lock token to wait for child jobs');
@@ -203,7 +220,10 @@ export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobD
  */
 export async function processSamples(deps: ProcessorDeps, job: Job<SampleBatchData>, bullSignal?: AbortSignal): Promise<SampleBatchResult> {
   const { parentId } = job.data;
-  const control = runControl(deps, String(job.id), parentId, bullSignal);
+  // The parent's overall deadline, and never longer than this worker's own limit for one run.
+  const ownDeadlineMs = Date.now() + deps.jobTimeLimitS * 1000;
+  const parentDeadlineMs = job.data.deadlineAt ? Date.parse(job.data.deadlineAt) : ownDeadlineMs;
+  const control = runControl(deps, String(job.id), parentId, Math.min(ownDeadlineMs, parentDeadlineMs), bullSignal);
   try {
     const cancel = await readCancel(deps.redis, deps.prefix, parentId);
     if (cancel) control.cancel(cancel.by);

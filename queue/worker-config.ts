@@ -11,7 +11,7 @@ export const workerEnvSchema = z.object({
   QUEUE_PREFIX: z.string().regex(/^[a-z0-9_-]{1,32}$/, { error: 'must be 1–32 of a-z 0-9 _ -' }).default('veer'),
   /** Jobs one worker process runs at once (each on its own planner thread). */
   WORKER_CONCURRENCY: envInt(1, 64, 1),
-  /** Wall-clock limit of one processing run of a job, s. */
+  /** Wall-clock limit of a job from its first start, s: covers retries, take-overs and fanned-out sample batches. */
   JOB_TIME_LIMIT_S: envInt(1, 86_400, 900),
   /** Lock duration of an active job, ms; a dead worker's job is taken over after about this long. */
   LOCK_DURATION_MS: envInt(1_000, 600_000, 30_000),

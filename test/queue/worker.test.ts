@@ -1,10 +1,12 @@
 /**
  * Worker behaviour against a real Redis: priority (urgent first), cancellation of a running job through
- * the planner's AbortSignal, the time limit (final, not retried), and lock renewal while the planner runs
- * on its thread (a lock far shorter than the job, with a stalled-job check running often, must not let the
- * job stall).
+ * the planner's AbortSignal, the time limit (final, not retried; counted from the job's first start, so it
+ * also bounds a fanned-out run), lock renewal while the planner runs on its thread (a lock far shorter than
+ * the job, with a stalled-job check running often, must not let the job stall), and which failures are final.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { InvalidInputError } from '../../propagator/index.ts';
+import { isFinalFailure } from '../../queue/index.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
 import { reachableProblem, submission } from './fixtures.ts';
 
@@ -79,6 +81,45 @@ describe('time limit', () => {
       expect(end.attemptsMade).toBe(1);
       expect((await svc.archive!.getJob(jobId))?.state).toBe('failed');
       await worker.close();
+    });
+  });
+});
+
+describe('overall time limit of a fanned-out job', () => {
+  describe('when its sample batches would run past JOB_TIME_LIMIT_S counted from the first start', () => {
+    it('should stop the batches with TimeLimitError and fail the job, although each batch is short', async () => {
+      // Batches of 500 samples take about 0.1 s each on an idle core, far below the 8 s limit; pausing the
+      // worker while they wait makes the job's overall time pass the limit on any machine.
+      const worker = await svc.startWorkerInProcess({ concurrency: 1, jobTimeLimitS: 8, fanOutMinSamples: 1_000, batchSize: 500 });
+      const jobId = await submit(reachableProblem({ samples: 20_000, name: 'LONGFANSAT' }));
+      const fanned = await waitForJob(svc, jobId, (s) => ['waiting-children', 'completed', 'failed'].includes(s.state), 120_000);
+      expect(fanned.state).toBe('waiting-children');
+      await worker.worker.pause();
+      const waitMs = Date.parse(fanned.startedAt) + 8_500 - Date.now();
+      if (waitMs > 0) await new Promise((r) => setTimeout(r, waitMs));
+      worker.worker.resume();
+      const end = await waitForJob(svc, jobId, (s) => s.state === 'completed' || s.state === 'failed', 120_000);
+      expect(end.state).toBe('failed');
+      const failedBatches = (await svc.api.deps.queue.queue.getJobs(['failed'], 0, 1_000))
+        .filter((j) => j && String(j.id).startsWith(`${jobId}-mc-`));
+      expect(failedBatches.length).toBeGreaterThan(0);
+      expect(failedBatches[0]!.failedReason).toMatch(/^TimeLimitError: stopped at the time limit of 8 s from the job's first start/);
+      expect(failedBatches[0]!.attemptsMade).toBe(1);
+      expect((await svc.archive!.getJob(jobId))?.state).toBe('failed');
+      await worker.close(true);
+    }, 240_000);
+  });
+});
+
+describe('failure classification', () => {
+  describe('when a run fails', () => {
+    it('should treat invalid input and programming errors as final and other errors as transient', () => {
+      expect(isFinalFailure(new InvalidInputError('problem.burns', 'no burns'))).toBe(true);
+      expect(isFinalFailure(new TypeError("Cannot read properties of undefined (reading 'x')"))).toBe(true);
+      expect(isFinalFailure(new RangeError('Invalid array length'))).toBe(true);
+      expect(isFinalFailure(new ReferenceError('plan is not defined'))).toBe(true);
+      expect(isFinalFailure(Object.assign(new Error('serialised from the planner thread'), { name: 'TypeError' }))).toBe(true);
+      expect(isFinalFailure(new Error('connect ECONNREFUSED 127.0.0.1:5432'))).toBe(false);
     });
   });
 });
