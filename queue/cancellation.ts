@@ -10,6 +10,8 @@ export interface CancelRecord {
   by: string;
   at: string;
   reason: string;
+  /** The cancelled job's request hash, so a resubmission with its idempotency key can tell a repeat from other work. */
+  requestHash?: string;
   /** Set when the job was removed before it ever ran (it then has no BullMQ state). */
   removedWhileWaiting?: { submittedBy: string; submittedAt: string; reason: string; priority: string; spacecraftName: string };
 }

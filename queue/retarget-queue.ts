@@ -74,8 +74,12 @@ export class RetargetQueue {
     if (request.idempotencyKey) {
       const existing = await this.queue.getJob(jobId);
       if (existing) return { outcome: existing.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
+      // Cancelled before it ran (no job left): the record keeps the request hash to answer the same way.
       const cancelled = await readCancel(this.redis, this.prefix, jobId);
-      if (cancelled) return { outcome: 'existing', jobId };
+      if (cancelled) {
+        const same = cancelled.requestHash === undefined || cancelled.requestHash === requestHash;
+        return { outcome: same ? 'existing' : 'conflict', jobId };
+      }
     }
     const submissionId = randomUUID();
     const data: RetargetJobData = {
@@ -174,7 +178,7 @@ export class RetargetQueue {
       const cancel = await readCancel(this.redis, this.prefix, jobId);
       return { outcome: 'already-finished', jobId, state: this.clientState(state, job, cancel) };
     }
-    const record: CancelRecord = { by, at: new Date().toISOString(), reason };
+    const record: CancelRecord = { by, at: new Date().toISOString(), reason, requestHash: job.data.requestHash };
     if (state === 'waiting' || state === 'prioritized' || state === 'delayed') {
       record.removedWhileWaiting = {
         submittedBy: job.data.submittedBy, submittedAt: job.data.submittedAt, reason: job.data.reason,

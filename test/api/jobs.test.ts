@@ -79,6 +79,24 @@ describe('idempotent resubmission', () => {
     });
   });
 
+  describe('when the key of a job cancelled before it ran comes again', () => {
+    it('should answer 200 for the same request and 409 for a different one', async () => {
+      const body = submission(schemaValidProblem(), { idempotencyKey: 'cancelled-key-0001' });
+      const first = await post(body);
+      expect(first.status).toBe(202);
+      const cancel = await svc.request('POST', `/v1/jobs/${first.body.jobId}/cancel`, { token: svc.tokens.submitter, body: { reason: 'superseded' } });
+      expect(cancel.status).toBe(200);
+      const same = await post(body);
+      expect(same.status).toBe(200);
+      expect(same.body).toEqual(expect.objectContaining({ jobId: first.body.jobId, outcome: 'existing' }));
+      const other = schemaValidProblem();
+      other.spacecraft.massKg = 502;
+      const different = await post(submission(other, { idempotencyKey: 'cancelled-key-0001' }));
+      expect(different.status).toBe(409);
+      expect(different.body.error.code).toBe('IDEMPOTENCY_CONFLICT');
+    });
+  });
+
   describe('when ten identical first submissions race', () => {
     it('should yield one job: one 202 and nine 200', async () => {
       const body = submission(schemaValidProblem(), { idempotencyKey: 'race-key-0001' });
