@@ -9,17 +9,17 @@ import {
 } from './job-outcome.ts';
 import { ApiCallError, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError, type Remote } from './review-http.ts';
 
+const MAX_RECONNECTS = 5;
+const RECONNECT_DELAY_MS = 2000;
+
 const USAGE = `usage: veer watch <jobId> [--url URL] [--token TOKEN] [--json]
 
 Follows a job until it finishes: state changes and a progress bar on stderr (one line per stage when stderr is
 not a terminal), then the outcome and the plan id on stdout. Stopping veer watch (Ctrl-C) does not cancel the
-job; \`veer cancel <jobId>\` does. A lost stream is reopened up to ${5} times.
+job; \`veer cancel <jobId>\` does. A lost stream is reopened up to ${MAX_RECONNECTS} times, ${RECONNECT_DELAY_MS / 1000} s apart.
 ${REMOTE_USAGE} (with --json: the final job status and plan summary as JSON)
 
 ${JOB_EXIT_USAGE}`;
-
-const MAX_RECONNECTS = 5;
-const RECONNECT_DELAY_MS = 2000;
 
 interface SseEvent { event: string; data: unknown }
 
