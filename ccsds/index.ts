@@ -1,7 +1,8 @@
 /**
  * Public face of ccsds/: CCSDS Orbit Data Messages (502.0-B) in and out — the Orbit Parameter Message
  * (initial state, covariance, maneuvers) and the Orbit Ephemeris Message (tabulated trajectories), in
- * KVN and XML. Pure: text in, data out (and back); the CLI and the API do the file and HTTP work.
+ * KVN and XML. Pure: text in, data out (and back); the CLI and the API do the file and HTTP work. The one
+ * runner here, CcsdsExportThreads, computes an export in a worker thread so a server's event loop stays free.
  */
 export { CcsdsFormatError } from './errors.ts';
 export type * from './odm-types.ts';
@@ -27,4 +28,7 @@ export {
 export { assertExportable, planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './plan-opm.ts';
 export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './plan-oem.ts';
 export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export-plan.ts';
+export {
+  CcsdsExportThreads, ExportTimeLimitError, type CcsdsExportThreadsOptions, type ThreadExportOptions,
+} from './export-off-thread.ts';
 export { compareWithReference, type ReferenceComparison } from './compare-reference.ts';

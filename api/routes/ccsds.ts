@@ -6,7 +6,8 @@
 import type { Request, Response } from 'express';
 import { z } from 'zod';
 import {
-  assertExportable, CcsdsFormatError, exportPlanAsCcsds, readOpmAsInitialState, SUPPORTED_TIME_SYSTEMS,
+  assertExportable, CcsdsExportThreads, CcsdsFormatError, exportPlanAsCcsds, ExportTimeLimitError, readOpmAsInitialState,
+  SUPPORTED_TIME_SYSTEMS, type ThreadExportOptions,
 } from '../../ccsds/index.ts';
 import { jobRequestSchema } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
@@ -74,7 +75,11 @@ async function problemOf(deps: AppDeps, planId: string): Promise<PlanningProblem
   return parsed.success ? parsed.data : undefined;
 }
 
-export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
+/**
+ * `exportThreads`: where OEM exports run (propagation with the STM and up to 200,000 rendered lines), off
+ * the HTTP event loop; by default two at a time, two minutes each at most.
+ */
+export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps, exportThreads = new CcsdsExportThreads()): void {
   routes.add({
     method: 'post', path: '/v1/ccsds/opm/initial-state', tags: ['ccsds'], roles: ['submitter'],
     summary: 'Read a CCSDS OPM (KVN or XML) into the problem\'s initialState',
@@ -108,6 +113,7 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
       200: { description: 'The message text', contentType: 'text/plain' },
       400: { description: 'Bad options, or a plan that did not converge or failed its cross-check' },
       404: { description: 'No such plan, or its problem is not on record' },
+      503: { description: 'The OEM export did not finish within the time limit (choose a larger step)' },
     },
   }, async (req: Request, res: Response) => {
     const { params, query } = validOf<z.infer<typeof exportParamsSchema>, z.infer<typeof exportQuerySchema>, unknown>(res);
@@ -129,17 +135,22 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps): void {
     const controller = new AbortController();
     req.on('close', () => { if (!res.writableEnded) controller.abort(); });
     try {
-      const text = await exportPlanAsCcsds(problem, found.plan as unknown as ManeuverPlan, {
+      const plan = found.plan as unknown as ManeuverPlan;
+      const options: ThreadExportOptions = {
         kind: params.kind, encoding: query.encoding, creationDateUtc: new Date().toISOString().slice(0, 19),
-        timeSystem: query.timeSystem, maneuverFrame: query.maneuverFrame, signal: controller.signal,
+        timeSystem: query.timeSystem, maneuverFrame: query.maneuverFrame,
         ...(query.stepS !== undefined ? { stepS: query.stepS } : {}),
         ...(query.objectId ? { objectId: query.objectId } : {}),
-      });
+      };
+      // The OPM is a few lines from the plan as it is; the OEM propagates, so it runs in a thread.
+      const text = params.kind === 'opm' ? await exportPlanAsCcsds(problem, plan, options)
+        : await exportThreads.run(problem, plan, options, controller.signal);
       const extension = query.encoding === 'xml' ? 'xml' : params.kind;
       res.set('Content-Disposition', `attachment; filename="${params.planId}.${extension}"`);
       res.type(query.encoding === 'xml' ? 'application/xml' : 'text/plain').send(text);
     } catch (error) {
       if (error instanceof Error && error.name === 'CancelledError') return;
+      if (error instanceof ExportTimeLimitError) { sendError(res, 503, error.code, error.message); return; }
       if (!sendInputError(res, error, exportIssuePath)) throw error;
     }
   });
