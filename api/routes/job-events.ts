@@ -1,7 +1,8 @@
 /**
  * Live progress of a job as server-sent events: `status` (the full status, first and on every state
  * change), `progress` (stage, fraction, iteration, samples), then `end` (final status) and the stream closes.
- * A comment line every SSE_HEARTBEAT_S keeps proxies from closing an idle stream.
+ * A comment line every SSE_HEARTBEAT_S keeps proxies from closing an idle stream; at each one the job's
+ * state is read again, so the stream ends even when the final event was missed (Redis reconnect).
  */
 import type { Response } from 'express';
 import { z } from 'zod';
@@ -49,7 +50,8 @@ export function jobEventRoutes(routes: ApiRoutes, deps: AppDeps): void {
     };
     const refresh = async (): Promise<JobStatus | undefined> => {
       const s = await deps.queue.status(jobId);
-      if (closed || !s) return s;
+      if (closed) return s;
+      if (!s) { close(); return s; } // expired or removed meanwhile: nothing more will come
       if (FINAL.has(s.state)) { write(res, 'end', s); close(); return s; }
       if (s.state !== lastState) { lastState = s.state; write(res, 'status', s); }
       if (s.state === 'waiting-children' && s.progress) write(res, 'progress', s.progress);
@@ -68,7 +70,13 @@ export function jobEventRoutes(routes: ApiRoutes, deps: AppDeps): void {
     cleanups.push(deps.events.subscribe('*', (e) => {
       if (e.type === 'completed' && e.jobId.startsWith(childPrefix)) onEvent({ type: 'waiting-children', jobId });
     }));
-    const heartbeat = setInterval(() => { if (!closed) res.write(': keep-alive\n\n'); }, deps.limits.sseHeartbeatMs);
+    // Each heartbeat also re-reads the job: an end event missed while the event listener reconnected to
+    // Redis would otherwise leave the stream open for ever.
+    const heartbeat = setInterval(() => {
+      if (closed) return;
+      res.write(': keep-alive\n\n');
+      void refresh().catch((err: unknown) => deps.logger.warn({ err, jobId }, 'progress stream refresh failed'));
+    }, deps.limits.sseHeartbeatMs);
     cleanups.push(() => clearInterval(heartbeat));
     res.on('close', close);
     // The job may have moved on between the first read and the subscription.
