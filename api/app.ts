@@ -1,10 +1,11 @@
 /**
  * createApp(deps): the express 5 application. Order: request id + log + metrics → helmet → JSON body (size
- * limit → 413) → bearer authentication → per-token rate limit on /v1 → routes (ROUTE_MODULES) → 404 → errors.
+ * limit → 413) → per-address limit of refused tokens → bearer authentication → per-token rate limit on /v1 →
+ * routes (ROUTE_MODULES) → 404 → errors.
  */
 import { randomUUID } from 'node:crypto';
 import express, { type Express, type RequestHandler } from 'express';
-import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
+import { rateLimit, ipKeyGenerator, type RateLimitInfo } from 'express-rate-limit';
 import helmet from 'helmet';
 import { authenticate } from './auth/index.ts';
 import type { AppDeps } from './deps.ts';
@@ -33,6 +34,31 @@ function requestLog(deps: AppDeps): RequestHandler {
   };
 }
 
+/**
+ * Runs before authentication, keyed by client address: only requests whose bearer token is refused (401)
+ * count, so guessing tokens is slowed down while the per-token limit (which needs a known token) cannot.
+ * Past the limit every request from that address that carries a token gets 429 until the window ends.
+ */
+function refusedTokenLimit(deps: AppDeps): RequestHandler {
+  const { authFailureLimitMax: max, rateLimitWindowMs: windowMs } = deps.limits;
+  return rateLimit({
+    windowMs,
+    limit: max,
+    standardHeaders: false,
+    legacyHeaders: false,
+    skip: (req) => !req.get('authorization'),
+    skipSuccessfulRequests: true,
+    requestWasSuccessful: (_req, res) => res.statusCode !== 401,
+    keyGenerator: (req) => `refused:${ipKeyGenerator(req.ip ?? '0.0.0.0')}`,
+    handler: (req, res) => {
+      const resetAt = (req as typeof req & { rateLimit?: RateLimitInfo }).rateLimit?.resetTime?.getTime();
+      res.set('Retry-After', String(Math.max(1, Math.ceil(((resetAt ?? Date.now() + windowMs) - Date.now()) / 1000))));
+      sendError(res, 429, 'TOO_MANY_REFUSED_TOKENS',
+        `more than ${max} requests with a refused token from this address in ${windowMs / 1000} s; retry later`);
+    },
+  });
+}
+
 /** Builds the application; the caller owns `deps` (and closes them). */
 export function createApp(deps: AppDeps): Express {
   const app = express();
@@ -41,6 +67,7 @@ export function createApp(deps: AppDeps): Express {
   app.use(requestLog(deps));
   app.use(helmet());
   app.use(express.json({ limit: deps.limits.bodyLimitBytes }));
+  app.use(refusedTokenLimit(deps));
   app.use(authenticate(deps.tokens));
   app.use('/v1', rateLimit({
     windowMs: deps.limits.rateLimitWindowMs,

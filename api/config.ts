@@ -19,6 +19,8 @@ export const apiEnvSchema = z.object({
   /** Rate limit per bearer token (per address for anonymous calls): requests per window. */
   RATE_LIMIT_MAX: envInt(1, 1_000_000, 600),
   RATE_LIMIT_WINDOW_S: envInt(1, 86_400, 60),
+  /** Requests with an unknown, revoked or malformed bearer token per window per client address (then 429). */
+  AUTH_FAILURE_LIMIT_MAX: envInt(1, 1_000_000, 60),
   /** Tries of a job whose failure was transient. */
   JOB_ATTEMPTS: envInt(1, 20, 3),
   JOB_RETENTION_S: envInt(60, 90 * 86_400, 7 * 86_400),

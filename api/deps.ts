@@ -12,6 +12,8 @@ export interface AppLimits {
   /** Requests per window per token (per address when anonymous). */
   rateLimitMax: number;
   rateLimitWindowMs: number;
+  /** Requests with a refused bearer token per window per client address, before every such address is answered 429. */
+  authFailureLimitMax: number;
   /** Keep-alive comment interval on progress streams, ms. */
   sseHeartbeatMs: number;
   /** Express `trust proxy` hops. */
@@ -34,5 +36,5 @@ export interface AppDeps {
 
 /** Frozen defaults for limits (the README's table points here). */
 export const DEFAULT_LIMITS: Readonly<AppLimits> = Object.freeze({
-  bodyLimitBytes: 256 * 1024, rateLimitMax: 600, rateLimitWindowMs: 60_000, sseHeartbeatMs: 15_000, trustProxy: 0,
+  bodyLimitBytes: 256 * 1024, rateLimitMax: 600, rateLimitWindowMs: 60_000, authFailureLimitMax: 60, sseHeartbeatMs: 15_000, trustProxy: 0,
 });

@@ -42,7 +42,8 @@ export async function startApiServer(config: ApiConfig, logger: Logger, override
     plans: archive ? new ArchivePlanReader(archive) : new JobResultPlanReader(queue),
     limits: {
       bodyLimitBytes: config.BODY_LIMIT_KB * 1024, rateLimitMax: config.RATE_LIMIT_MAX,
-      rateLimitWindowMs: config.RATE_LIMIT_WINDOW_S * 1000, sseHeartbeatMs: config.SSE_HEARTBEAT_S * 1000,
+      rateLimitWindowMs: config.RATE_LIMIT_WINDOW_S * 1000, authFailureLimitMax: config.AUTH_FAILURE_LIMIT_MAX,
+      sseHeartbeatMs: config.SSE_HEARTBEAT_S * 1000,
       trustProxy: config.TRUST_PROXY,
     },
   };

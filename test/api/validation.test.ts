@@ -131,3 +131,29 @@ describe('rate limiting per token', () => {
     });
   });
 });
+
+describe('rate limiting of refused tokens', () => {
+  describe('when one address keeps presenting unknown tokens', () => {
+    it('should answer 429 once the per-address limit is used up, before any token lookup', async () => {
+      // A service of its own (same Redis): AUTH_FAILURE_LIMIT_MAX=5 per 60 s window.
+      const own = await startService({ redis: svc.redis, apiEnv: { AUTH_FAILURE_LIMIT_MAX: '5', RATE_LIMIT_WINDOW_S: '60' } });
+      try {
+        const anonymous = await own.request('GET', '/health');
+        expect(anonymous.status).toBe(200);
+        const statuses: number[] = [];
+        for (let i = 0; i < 5; i++) statuses.push((await own.request('GET', '/v1/jobs?limit=1', { token: `veer_guess-${i}` })).status);
+        expect(statuses).toEqual([401, 401, 401, 401, 401]);
+        const sixth = await own.request('GET', '/v1/jobs?limit=1', { token: 'veer_guess-6' });
+        expect(sixth.status).toBe(429);
+        expect(sixth.body.error.code).toBe('TOO_MANY_REFUSED_TOKENS');
+        expect(Number(sixth.headers.get('retry-after'))).toBeGreaterThan(0);
+        // Requests without a token are not counted by this limiter (the per-token limit covers them).
+        expect((await own.request('GET', '/health')).status).toBe(200);
+        // Past the limit the address is refused for the rest of the window, whatever token it shows.
+        expect((await own.request('GET', '/v1/jobs?limit=1', { token: own.tokens.auditor })).status).toBe(429);
+      } finally {
+        await own.close();
+      }
+    });
+  });
+});
