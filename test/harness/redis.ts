@@ -3,7 +3,8 @@
  *  1. REDIS_URL from the environment (used as is; cannot be restarted by the harness);
  *  2. testcontainers (redis:7-alpine) when a Docker engine answers;
  *  3. a `redis-server` process from PATH on a free port in a temporary folder.
- * Append-only persistence is on in cases 2 and 3 so a restart keeps waiting jobs.
+ * Append-only persistence is on in cases 2 and 3 (`appendfsync always`, as in docker-compose.yml) so a
+ * restart, even after a crash, keeps every acknowledged write.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync, existsSync } from 'node:fs';
@@ -20,6 +21,11 @@ export interface TestRedis {
   restartable: boolean;
   /** Stops and starts the same server with the same data folder (append-only file kept). */
   restart(): Promise<void>;
+  /**
+   * Kills the server with SIGKILL (no shutdown, no final fsync: a crash) and starts it again with the same
+   * data folder. For a container: `docker restart -t 0` (killed without a grace period).
+   */
+  crash(): Promise<void>;
   stop(): Promise<void>;
 }
 
@@ -76,6 +82,11 @@ async function startContainer(): Promise<TestRedis | null> {
         handle.url = url();
         await waitForRedis(container.getHost(), container.getMappedPort(6379));
       },
+      async crash() {
+        await container.restart({ timeout: 0 });
+        handle.url = url();
+        await waitForRedis(container.getHost(), container.getMappedPort(6379));
+      },
       async stop() { await container.stop(); },
     };
     return handle;
@@ -99,11 +110,11 @@ async function startProcess(): Promise<TestRedis> {
     });
     await Promise.race([waitForRedis('127.0.0.1', port), spawnError]);
   };
-  const halt = async (): Promise<void> => {
+  const halt = async (signal: NodeJS.Signals = 'SIGTERM'): Promise<void> => {
     const c = child as ChildProcess | null;
-    if (!c || c.exitCode !== null) return;
+    if (!c || c.exitCode !== null || c.signalCode !== null) return;
     const exited = new Promise<void>((r) => c.once('exit', () => r()));
-    c.kill('SIGTERM');
+    c.kill(signal);
     await exited;
     child = null;
   };
@@ -113,6 +124,7 @@ async function startProcess(): Promise<TestRedis> {
     kind: 'process',
     restartable: true,
     restart: async () => { await halt(); await launch(); },
+    crash: async () => { await halt('SIGKILL'); await launch(); },
     stop: async () => { await halt(); rmSync(dir, { recursive: true, force: true }); },
   };
 }
@@ -123,6 +135,8 @@ export async function startRedis(): Promise<TestRedis> {
   if (fromEnv) {
     return { url: fromEnv, kind: 'env', restartable: false, restart: async () => {
       throw new Error('REDIS_URL given: the harness cannot restart that Redis');
+    }, crash: async () => {
+      throw new Error('REDIS_URL given: the harness cannot crash that Redis');
     }, stop: async () => {} };
   }
   if (dockerLikelyAvailable()) {

@@ -1,7 +1,9 @@
 /**
  * Nothing lost: (1) a worker process killed with SIGKILL in the middle of a job — another worker takes the
  * job over after its lock expires (BullMQ stalled-job check) and the archive holds exactly one plan for it;
- * (2) Redis stopped and restarted (append-only file on) while jobs wait — every job is still there and runs.
+ * (2) Redis stopped and restarted (append-only file on) while jobs wait — every job is still there and runs;
+ * (3) the same after Redis is killed with SIGKILL (a crash: `appendfsync always`, as in docker-compose.yml,
+ * so every job the API acknowledged with 202 is on disk).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
@@ -82,4 +84,25 @@ describe('Redis restart', () => {
     });
   });
 
+  describe('when Redis is killed with SIGKILL while jobs wait (append-only file, fsync always)', () => {
+    it.skipIf(Boolean(process.env.REDIS_URL))('should lose no acknowledged job: all are still queued and then complete', async () => {
+      const ids: string[] = [];
+      for (let i = 0; i < 4; i++) {
+        const res = await svc.request('POST', '/v1/jobs', {
+          token: svc.tokens.submitter,
+          body: submission(reachableProblem({ samples: 0, name: `CRASH-REDIS-${i}` }), i === 3 ? { priority: 'urgent' } : {}),
+        });
+        expect(res.status).toBe(202);
+        ids.push(res.body.jobId);
+      }
+      await svc.redis.crash();
+      for (const id of ids) {
+        const s = await waitForJob(svc, id, (j) => j.state === 'waiting', 30_000);
+        expect(s.state).toBe('waiting');
+      }
+      const worker = await svc.startWorkerInProcess({ concurrency: 2 });
+      for (const id of ids) expect((await waitForJob(svc, id, (j) => j.state === 'completed', 90_000)).result.planStatus).toBe('converged');
+      await worker.close();
+    }, 180_000);
+  });
 });
