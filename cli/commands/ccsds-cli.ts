@@ -1,13 +1,15 @@
 /**
  * CLI glue for CCSDS messages: `veer plan --state FILE.opm` (the OPM's state replaces the problem's
- * initial state) and the `veer export` formats `ccsds-opm` / `ccsds-oem` (also `--ccsds opm|oem`), fetched
- * from the API's /v1/plans/:planId/ccsds/:kind.
+ * initial state), the `veer export` formats `ccsds-opm` / `ccsds-oem` (also `--ccsds opm|oem`), fetched
+ * from the API's /v1/plans/:planId/ccsds/:kind, and the same export without a server from the files
+ * `veer plan --out` and the problem (`--plan FILE --problem FILE`).
  */
-import { readFile } from 'node:fs/promises';
-import { readOpmAsInitialState } from '../../ccsds/index.ts';
-import { parseProblem, type PlanningProblem } from '../../planner/index.ts';
+import { readFile, writeFile } from 'node:fs/promises';
+import { basename, extname } from 'node:path';
+import { exportPlanAsCcsds, readOpmAsInitialState } from '../../ccsds/index.ts';
+import { type ManeuverPlan, parseProblem, type PlanningProblem, problemHash } from '../../planner/index.ts';
 import { InvalidInputError } from '../../propagator/index.ts';
-import { ApiCallError, type Remote } from './review-http.ts';
+import { ApiCallError, PROPOSAL_NOTICE, type Remote, UsageError } from './review-http.ts';
 
 /**
  * Reads an OPM file and puts its state (epoch, centre, frame, position, velocity, covariance) in place
@@ -95,3 +97,94 @@ export const CCSDS_EXPORT_FORMATS = {
   'ccsds-opm': ccsdsFormat('opm'),
   'ccsds-oem': ccsdsFormat('oem'),
 };
+
+/** What `veer export --ccsds opm|oem --plan FILE --problem FILE` reads from the command line. */
+export interface OfflineCcsdsExport {
+  kind: 'opm' | 'oem';
+  /** The plan JSON written by `veer plan --out`. */
+  planPath: string;
+  /** The problem JSON the plan was made from. */
+  problemPath: string;
+  /** The OPM given to `veer plan --state`, when it was. */
+  statePath?: string;
+  /** Seconds between OEM lines. */
+  stepS?: number;
+  xml?: boolean;
+}
+
+async function readJson(path: string, field: string): Promise<unknown> {
+  try {
+    return JSON.parse(await readFile(path, 'utf8'));
+  } catch (error) {
+    throw new InvalidInputError(field, `cannot read '${path}' as JSON: ${(error as Error).message}`);
+  }
+}
+
+/** The least a plan file must hold for an export to read it (the rest is the planner's own output). */
+function planFromJson(json: unknown, path: string): ManeuverPlan {
+  const p = json as Partial<Record<keyof ManeuverPlan, unknown>> | null;
+  const missing = ['status', 'problemHash', 'burns', 'crossCheck', 'caveats', 'spacecraftName']
+    .filter((k) => p === null || typeof p !== 'object' || p[k as keyof ManeuverPlan] === undefined);
+  if (missing.length > 0 || !Array.isArray(p?.burns) || p?.planFormatVersion !== 1) {
+    throw new InvalidInputError('--plan', `'${path}' is not a plan written by veer plan --out`
+      + `${missing.length > 0 ? ` (missing ${missing.join(', ')})` : ''}`);
+  }
+  return json as ManeuverPlan;
+}
+
+/**
+ * The CCSDS export of a plan file, in this process: reads the problem (with the --state OPM when given),
+ * checks that the plan was made from exactly this problem (its problem hash), and writes the message.
+ * A plan that did not converge or failed its cross-check is refused, as over the API.
+ */
+export async function exportPlanFilesAsCcsds(o: OfflineCcsdsExport): Promise<{ text: string; defaultFileName: string }> {
+  if (o.kind === 'oem' && o.stepS === undefined) throw new InvalidInputError('--step', 'an OEM export needs --step SECONDS');
+  const problem = o.statePath !== undefined ? await readProblemFileWithOpmState(o.problemPath, o.statePath)
+    : parseProblem(await readJson(o.problemPath, '--problem'));
+  const plan = planFromJson(await readJson(o.planPath, '--plan'), o.planPath);
+  const hash = problemHash(problem);
+  if (plan.problemHash !== hash) {
+    throw new InvalidInputError('--problem', `the plan in '${o.planPath}' was made from another problem (its problem hash `
+      + `${String(plan.problemHash).slice(0, 12)}… differs from ${hash.slice(0, 12)}… of '${o.problemPath}'`
+      + `${o.statePath === undefined ? '; if it was planned with --state, give the same --state' : ''})`);
+  }
+  const text = await exportPlanAsCcsds(problem, plan, {
+    kind: o.kind, encoding: o.xml ? 'xml' : 'kvn', creationDateUtc: new Date().toISOString().slice(0, 19),
+    ...(o.stepS !== undefined ? { stepS: o.stepS } : {}),
+  });
+  const stem = basename(o.planPath, extname(o.planPath));
+  return { text, defaultFileName: `${stem}.${o.xml ? 'xml' : o.kind}` };
+}
+
+/** The `veer export` options the offline path reads (as parsed by the export command). */
+export interface OfflineExportValues {
+  plan?: string; problem?: string; state?: string; ccsds?: string; format?: string; step?: string; xml?: boolean;
+  out?: string; stdout?: boolean;
+}
+
+/**
+ * `veer export --ccsds opm|oem --plan FILE --problem FILE [--state FILE.opm] [--step S] [--xml] [--out FILE |
+ * --stdout]`: the CCSDS export without a server. Writes the message and returns the exit code.
+ */
+export async function runOfflineCcsdsExport(values: OfflineExportValues, positionals: readonly string[]): Promise<number> {
+  if (values.plan === undefined || values.problem === undefined) {
+    throw new UsageError(values.plan === undefined ? '--plan' : '--problem', 'an export without a server needs both --plan FILE and --problem FILE');
+  }
+  if (positionals.length > 0) throw new UsageError('planId', 'give either a plan id (API) or --plan/--problem files, not both');
+  const kind = values.ccsds ?? values.format?.replace(/^ccsds-/, '');
+  if (kind !== 'opm' && kind !== 'oem') {
+    throw new UsageError('--ccsds', `an export from files is CCSDS only: --ccsds opm or --ccsds oem (got ${String(kind)})`);
+  }
+  const stepS = values.step === undefined ? undefined : Number(values.step);
+  if (stepS !== undefined && !(stepS > 0 && Number.isFinite(stepS))) throw new UsageError('--step', `'${values.step}' is not a number of seconds > 0`);
+  const { text, defaultFileName } = await exportPlanFilesAsCcsds({
+    kind, planPath: values.plan, problemPath: values.problem, xml: values.xml ?? false,
+    ...(values.state !== undefined ? { statePath: values.state } : {}),
+    ...(stepS !== undefined ? { stepS } : {}),
+  });
+  if (values.stdout) { process.stdout.write(text); return 0; }
+  const file = values.out ?? defaultFileName;
+  await writeFile(file, text, 'utf8');
+  process.stdout.write(`wrote ${file} (${Buffer.byteLength(text)} bytes)\n${PROPOSAL_NOTICE}\n`);
+  return 0;
+}

@@ -5,7 +5,7 @@
 import { writeFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
-import { CCSDS_EXPORT_FORMATS } from './ccsds-cli.ts';
+import { CCSDS_EXPORT_FORMATS, runOfflineCcsdsExport } from './ccsds-cli.ts';
 import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, remoteFrom, UsageError, type Remote } from './review-http.ts';
 
 /** One export format: fetches what it needs and returns the text to write. */
@@ -36,6 +36,7 @@ ${Object.entries(EXPORT_FORMATS).map(([name, f]) => `  ${name.padEnd(8)} ${f.sum
   --stdout     write to stdout instead of a file
   --to-head    carry chain headers up to the archive head (ties the plan to the current head hash)
   --ccsds opm|oem  same as --format ccsds-opm|ccsds-oem; --step SECONDS (OEM line spacing), --xml (NDM/XML)
+  --plan FILE --problem FILE [--state FILE.opm]   CCSDS export without a server, from veer plan --out (no plan id)
   --url URL / --token TOKEN   the API ($VEER_URL / $VEER_TOKEN); needs the reviewer or auditor role
 ${PROPOSAL_NOTICE}`;
 
@@ -48,8 +49,10 @@ export const exportCommand: CliCommand = {
       args, allowPositionals: true,
       options: { url: REMOTE_OPTIONS.url, token: REMOTE_OPTIONS.token, format: { type: 'string', default: 'json' }, out: { type: 'string' },
         stdout: { type: 'boolean', default: false }, 'to-head': { type: 'boolean', default: false },
-        ccsds: { type: 'string' }, step: { type: 'string' }, xml: { type: 'boolean', default: false } },
+        ccsds: { type: 'string' }, step: { type: 'string' }, xml: { type: 'boolean', default: false },
+        plan: { type: 'string' }, problem: { type: 'string' }, state: { type: 'string' } },
     });
+    if (values.plan !== undefined || values.problem !== undefined) return runOfflineCcsdsExport(values, positionals);
     const planId = positionals[0];
     if (!planId) throw new UsageError('planId', 'veer export needs a plan id');
     const formatName = values.ccsds !== undefined ? `ccsds-${values.ccsds}` : values.format ?? 'json';
