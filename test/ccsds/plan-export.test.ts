@@ -6,7 +6,7 @@ import {
 import { problemSchema, type PlanningProblem } from '../../planner/index.ts';
 import { inertialToLocal, InvalidInputError, parseEpoch, type Vec3 } from '../../propagator/index.ts';
 import {
-  BURN_TDB, DV_INERTIAL, kepler, norm, P0, plan, PRE_BURN, problem, START_TDB, V0,
+  BURN_TDB, DV_INERTIAL, kepler, P0, plan, PRE_BURN, problem, START_TDB, V0,
 } from './plan-fixture.ts';
 
 /** J2000 equatorial → J2000 mean ecliptic with astronomy-engine's own rotation (EQJ → ECL), an outside check
