@@ -57,6 +57,10 @@ describe('CCSDS export of a plan', () => {
       first.positionKm.forEach((x, i) => expect(Math.abs(x - P0[i])).toBeLessThan(1e-6));
       const end = oem.segments[0].states.at(-1)!;
       end.positionKm.forEach((x, i) => expect(Math.abs(x - PRE_BURN.r[i])).toBeLessThan(1e-5));
+      // The mapped covariance is the one the equatorial problem gives (same physics, other input axes).
+      const equatorial = readOem(await exportPlanAsCcsds(problem, plan('converged'), { kind: 'oem', creationDateUtc: '2029-12-01T10:00:00', stepS: 600 }));
+      const [m, e] = [oem.segments[0].covariances[1].matrix, equatorial.segments[0].covariances[1].matrix];
+      m.forEach((row, i) => row.forEach((x, j) => expect(Math.abs(x - e[i][j]), `[${i}][${j}]`).toBeLessThan(1e-9 * Math.sqrt(e[i][i] * e[j][j]))));
     });
   });
 
