@@ -161,7 +161,7 @@ describe('CCSDS endpoints', () => {
       // rendering of 180,000 lines); off it, the largest gap (receiving and sending the text) was under 10 %.
       expect(gapsMs.length).toBeGreaterThan(3);
       expect(Math.max(...gapsMs), `gaps ${gapsMs.map((x) => x.toFixed(0)).join(' ')} ms; export ${totalMs.toFixed(0)} ms`)
-        .toBeLessThan(Math.max(300, totalMs / 4));
+        .toBeLessThan(Math.max(300, totalMs / 3));
     }, 120_000);
   });
 
