@@ -42,6 +42,8 @@ export interface ProcessorDeps {
 const FINAL_ERROR_NAMES = new Set([
   'InvalidInputError', 'OutOfSpanError', 'CancelledError', 'ZodError',
   'TypeError', 'RangeError', 'ReferenceError', 'SyntaxError',
+  // The archive refuses a plan for a job already recorded as cancelled or failed: retrying cannot change that.
+  'ArchiveConflictError',
 ]);
 
 /** True when a failure with this error must not be retried (see FINAL_ERROR_NAMES); transient ones return false. */

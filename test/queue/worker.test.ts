@@ -122,6 +122,7 @@ describe('failure classification', () => {
       expect(isFinalFailure(new RangeError('Invalid array length'))).toBe(true);
       expect(isFinalFailure(new ReferenceError('plan is not defined'))).toBe(true);
       expect(isFinalFailure(Object.assign(new Error('serialised from the planner thread'), { name: 'TypeError' }))).toBe(true);
+      expect(isFinalFailure(Object.assign(new Error('job j-1 was cancelled; no plan is recorded for it'), { name: 'ArchiveConflictError' }))).toBe(true);
       expect(isFinalFailure(new Error('connect ECONNREFUSED 127.0.0.1:5432'))).toBe(false);
     });
   });
