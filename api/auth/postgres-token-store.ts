@@ -1,28 +1,11 @@
 /** Token store in PostgreSQL (same database as the archive, its own table and migration history). */
 import pg from 'pg';
-import { migratePostgres, type PgMigration } from '../../archive/index.ts';
-import { tokenFromRow } from './sqlite-token-store.ts';
-import { parseNewToken } from './token-input.ts';
-import { generateTokenId, generateTokenSecret, hashTokenSecret } from './token-secret.ts';
+import { migratePostgres } from '../../archive/index.ts';
+import { TOKEN_MIGRATIONS, identityFromRow, newToken, tokenFromRow, tokenInsertValues } from './token-table.ts';
+import { hashTokenSecret } from './token-secret.ts';
 import { UNSTATED_ACTOR, type TokenRecord, type TokenStore } from './token-store.ts';
 import type { Identity, Role } from './roles.ts';
 
-const MIGRATIONS: readonly PgMigration[] = [{
-  version: 1,
-  name: 'api tokens (hashes only)',
-  sql: `CREATE TABLE api_tokens (
-    id TEXT PRIMARY KEY,
-    name TEXT NOT NULL,
-    roles TEXT NOT NULL,
-    token_hash TEXT NOT NULL UNIQUE,
-    created_at TEXT NOT NULL,
-    revoked_at TEXT
-  );`,
-}, {
-  version: 2,
-  name: 'api tokens: who created and who revoked each',
-  sql: 'ALTER TABLE api_tokens ADD COLUMN created_by TEXT; ALTER TABLE api_tokens ADD COLUMN revoked_by TEXT;',
-}];
 const MIGRATION_LOCK_KEY = 7_335_002;
 
 export class PostgresTokenStore implements TokenStore {
@@ -30,7 +13,7 @@ export class PostgresTokenStore implements TokenStore {
   private readonly ready: Promise<unknown>;
   constructor(connectionString: string) {
     this.pool = new pg.Pool({ connectionString, max: 3 });
-    this.ready = migratePostgres(this.pool, 'auth_schema_migrations', MIGRATIONS, MIGRATION_LOCK_KEY);
+    this.ready = migratePostgres(this.pool, 'auth_schema_migrations', TOKEN_MIGRATIONS, MIGRATION_LOCK_KEY);
     this.ready.catch(() => undefined);
   }
   async open(): Promise<this> {
@@ -39,12 +22,9 @@ export class PostgresTokenStore implements TokenStore {
   }
   async add(name: string, roles: Role[], createdBy: string = UNSTATED_ACTOR): Promise<{ token: string; record: TokenRecord }> {
     await this.ready;
-    const valid = parseNewToken({ name, roles });
-    const token = generateTokenSecret();
-    const record: TokenRecord = { id: generateTokenId(), name: valid.name, roles: valid.roles, createdAt: new Date().toISOString(), revokedAt: null,
-      createdBy, revokedBy: null };
+    const { token, record, tokenHash } = newToken(name, roles, createdBy);
     await this.pool.query('INSERT INTO api_tokens (id, name, roles, token_hash, created_at, revoked_at, created_by) VALUES ($1, $2, $3, $4, $5, NULL, $6)',
-      [record.id, record.name, JSON.stringify(record.roles), hashTokenSecret(token), record.createdAt, createdBy]);
+      tokenInsertValues(record, tokenHash));
     return { token, record };
   }
   async list(): Promise<TokenRecord[]> {
@@ -60,9 +40,7 @@ export class PostgresTokenStore implements TokenStore {
   async identify(token: string): Promise<Identity | undefined> {
     await this.ready;
     const row = (await this.pool.query('SELECT * FROM api_tokens WHERE token_hash = $1 AND revoked_at IS NULL', [hashTokenSecret(token)])).rows[0];
-    if (!row) return undefined;
-    const record = tokenFromRow(row);
-    return { name: record.name, roles: record.roles, tokenId: record.id };
+    return row ? identityFromRow(row) : undefined;
   }
   async close(): Promise<void> {
     await this.ready.catch(() => undefined);
