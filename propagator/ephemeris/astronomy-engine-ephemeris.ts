@@ -35,7 +35,7 @@ import { BODY_NAMES } from '../types.ts';
 import { calendarSecondsFromJ2000 } from '../time/calendar.ts';
 import { ttFromTdb } from '../time/tdb.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
-import { assertBody, assertInSpan } from './ephemeris-checks.ts';
+import { assertRequest } from './ephemeris-checks.ts';
 
 /** Span of the built-in source, TDB seconds from J2000: [1800-01-01, 2200-01-01] TDB. */
 export const BUILTIN_EPHEMERIS_SPAN: Readonly<TdbSpan> = Object.freeze({
@@ -117,9 +117,7 @@ class AstronomyEngineEphemeris implements Ephemeris {
   }
 
   private check(target: BodyName, centre: BodyName, epochTdbS: number): void {
-    assertBody(this.name, this.bodies, target, 'target');
-    assertBody(this.name, this.bodies, centre, 'centre');
-    assertInSpan(this.name, this.span, epochTdbS);
+    assertRequest(this, target, centre, epochTdbS);
   }
 }
 

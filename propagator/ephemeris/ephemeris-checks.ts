@@ -27,3 +27,16 @@ export function assertValidSpan(span: TdbSpan, field = 'span'): void {
     throw new InvalidInputError(field, `span [${span.startTdbS}, ${span.endTdbS}] TDB s must be finite with end > start`);
   }
 }
+
+/**
+ * Throws unless a source gives both bodies and the epoch (TDB s from J2000) lies in its span:
+ * the checks every look-up makes before it reads anything.
+ */
+export function assertRequest(
+  source: { readonly name: string; readonly bodies: readonly BodyName[]; readonly span: TdbSpan },
+  target: BodyName, centre: BodyName, epochTdbS: number,
+): void {
+  assertBody(source.name, source.bodies, target, 'target');
+  assertBody(source.name, source.bodies, centre, 'centre');
+  assertInSpan(source.name, source.span, epochTdbS);
+}

@@ -9,7 +9,7 @@
 import { InvalidInputError } from '../errors.ts';
 import type { BodyName } from '../types.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
-import { assertBody, assertInSpan } from './ephemeris-checks.ts';
+import { assertRequest } from './ephemeris-checks.ts';
 import type { TabulatedEphemeris } from './tabulated-ephemeris.ts';
 
 class LayeredEphemeris implements Ephemeris {
@@ -47,9 +47,7 @@ class LayeredEphemeris implements Ephemeris {
 
   private fill(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
     components: number): void {
-    assertBody(this.name, this.bodies, target, 'target');
-    assertBody(this.name, this.bodies, centre, 'centre');
-    assertInSpan(this.name, this.span, epochTdbS);
+    assertRequest(this, target, centre, epochTdbS);
     const t = this.override.target;
     if (target === centre) {
       out.fill(0, offset, offset + components);

@@ -11,7 +11,7 @@
 import { InvalidInputError } from '../errors.ts';
 import type { BodyName, Vec3 } from '../types.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
-import { assertBody, assertInSpan } from './ephemeris-checks.ts';
+import { assertRequest } from './ephemeris-checks.ts';
 
 /** One tabulated state: epoch TDB s from J2000; position km and velocity km/s, J2000 equatorial. */
 export interface TabulatedStateRecord {
@@ -170,9 +170,7 @@ class TabulatedSource implements TabulatedEphemeris {
 
   private fill(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
     components: number): void {
-    assertBody(this.name, this.bodies, target, 'target');
-    assertBody(this.name, this.bodies, centre, 'centre');
-    assertInSpan(this.name, this.span, epochTdbS);
+    assertRequest(this, target, centre, epochTdbS);
     if (target === centre) {
       out.fill(0, offset, offset + components);
       return;
