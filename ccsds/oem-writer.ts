@@ -5,6 +5,7 @@
  */
 import { lowerTriangle } from './covariance.ts';
 import { assertWritableFrame } from './frames.ts';
+import { headerItems, metadataLeadItems } from './header-items.ts';
 import type { Oem } from './odm-types.ts';
 import { type Item, renderKvn, renderXml } from './render.ts';
 import { formatExponent, formatFixed } from './values.ts';
@@ -26,23 +27,12 @@ export function writeOem(oem: Oem, options?: OdmWriteOptions): string {
       if (c.covRefFrame !== undefined) assertWritableFrame(`segments[${k}].covariances[${i}].covRefFrame`, c.covRefFrame, segment.metadata.centre, true);
     });
   });
-  if (o.encoding === 'kvn') kw('CCSDS_OEM_VERS', header.version);
-  items.push({ kind: 'open', name: 'header' });
-  comments(header.comments);
-  if (header.classification !== undefined) kw('CLASSIFICATION', header.classification);
-  kw('CREATION_DATE', header.creationDate);
-  kw('ORIGINATOR', header.originator);
-  if (header.messageId !== undefined) kw('MESSAGE_ID', header.messageId);
-  items.push({ kind: 'close', name: 'header' }, { kind: 'open', name: 'body' });
+  items.push(...headerItems('CCSDS_OEM_VERS', header, o.encoding));
+  items.push({ kind: 'open', name: 'body' });
   for (const segment of oem.segments) {
     const m = segment.metadata;
     items.push({ kind: 'blank' }, { kind: 'open', name: 'segment' }, { kind: 'open', name: 'metadata', kvn: 'META_START' });
-    comments(m.comments);
-    kw('OBJECT_NAME', m.objectName);
-    kw('OBJECT_ID', m.objectId);
-    kw('CENTER_NAME', m.centerName);
-    kw('REF_FRAME', m.refFrame);
-    kw('TIME_SYSTEM', m.timeSystem);
+    items.push(...metadataLeadItems(m));
     kw('START_TIME', m.startTime);
     if (m.useableStartTime !== undefined) kw('USEABLE_START_TIME', m.useableStartTime);
     if (m.useableStopTime !== undefined) kw('USEABLE_STOP_TIME', m.useableStopTime);

@@ -6,6 +6,7 @@
  */
 import { lowerTriangle } from './covariance.ts';
 import { assertWritableFrame } from './frames.ts';
+import { headerItems, metadataLeadItems } from './header-items.ts';
 import type { Opm } from './odm-types.ts';
 import { type Item, renderKvn, renderXml } from './render.ts';
 import { formatExponent, formatFixed } from './values.ts';
@@ -25,21 +26,10 @@ export function writeOpm(opm: Opm, options?: OdmWriteOptions): string {
   if (opm.covariance?.covRefFrame !== undefined) assertWritableFrame('covariance.covRefFrame', opm.covariance.covRefFrame, metadata.centre, true);
   opm.maneuvers.forEach((m, i) => assertWritableFrame(`maneuvers[${i}].manRefFrame`, m.manRefFrame, metadata.centre, true));
 
-  if (o.encoding === 'kvn') kw('CCSDS_OPM_VERS', header.version);
-  items.push({ kind: 'open', name: 'header' });
-  comments(header.comments);
-  if (header.classification !== undefined) kw('CLASSIFICATION', header.classification);
-  kw('CREATION_DATE', header.creationDate);
-  kw('ORIGINATOR', header.originator);
-  if (header.messageId !== undefined) kw('MESSAGE_ID', header.messageId);
-  items.push({ kind: 'close', name: 'header' }, { kind: 'blank' });
+  items.push(...headerItems('CCSDS_OPM_VERS', header, o.encoding));
+  items.push({ kind: 'blank' });
   items.push({ kind: 'open', name: 'body' }, { kind: 'open', name: 'segment' }, { kind: 'open', name: 'metadata' });
-  comments(metadata.comments);
-  kw('OBJECT_NAME', metadata.objectName);
-  kw('OBJECT_ID', metadata.objectId);
-  kw('CENTER_NAME', metadata.centerName);
-  kw('REF_FRAME', metadata.refFrame);
-  kw('TIME_SYSTEM', metadata.timeSystem);
+  items.push(...metadataLeadItems(metadata));
   items.push({ kind: 'close', name: 'metadata' }, { kind: 'blank' }, { kind: 'open', name: 'data' });
 
   items.push({ kind: 'open', name: 'stateVector' });
