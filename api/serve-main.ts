@@ -5,7 +5,7 @@
  */
 import { join } from 'node:path';
 import {
-  ConfigError, createLogger, createPlanSink, loadWorkerConfig, startLocalRedis, startRetargetWorker, type LocalRedis,
+  ConfigError, createLogger, loadWorkerConfig, startLocalRedis, startWorkerFromConfig, type LocalRedis,
 } from '../queue/index.ts';
 import { loadApiConfig } from './config.ts';
 import { startApiServer } from './server.ts';
@@ -22,14 +22,7 @@ async function main(): Promise<void> {
     const workerConfig = loadWorkerConfig(env);
     const logger = createLogger('veer', apiConfig.LOG_LEVEL);
     if (localRedis) logger.info({ url: localRedis.url }, 'private redis-server started');
-    const sink = await createPlanSink(workerConfig);
-    const worker = await startRetargetWorker({
-      redisUrl: workerConfig.REDIS_URL, prefix: workerConfig.QUEUE_PREFIX, sink, logger,
-      concurrency: workerConfig.WORKER_CONCURRENCY, jobTimeLimitS: workerConfig.JOB_TIME_LIMIT_S,
-      lockDurationMs: workerConfig.LOCK_DURATION_MS, stalledIntervalMs: workerConfig.STALLED_INTERVAL_MS,
-      maxStalledCount: workerConfig.MAX_STALLED_COUNT, fanOutMinSamples: workerConfig.MC_FANOUT_MIN_SAMPLES,
-      batchSize: workerConfig.MC_BATCH_SIZE, retentionS: workerConfig.JOB_RETENTION_S,
-    });
+    const { worker, sink } = await startWorkerFromConfig(workerConfig, logger);
     const api = await startApiServer(apiConfig, logger);
     process.stderr.write(`veer: API on ${api.url} (OpenAPI at ${api.url}/openapi.json), 1 worker, Redis ${apiConfig.REDIS_URL}\n`);
     const stop = (): void => {

@@ -15,6 +15,7 @@ export { JobEventHub, type JobEvent } from './job-events.ts';
 export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './retarget-worker.ts';
 export { ArchivePlanSink, JobResultSink, type ArchiveAppends, type PlanSink, type ProposedPlanInput } from './plan-sink.ts';
 export { createPlanSink } from './sink-from-config.ts';
+export { startWorkerFromConfig } from './worker-from-config.ts';
 export { PlannerPool, type PlannerPoolOptions } from './planner-pool.ts';
 export { isFinalFailure, sampleBatches } from './processor.ts';
 export { findProblemIssue, type ProblemIssue } from './job-request-check.ts';

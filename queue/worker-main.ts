@@ -4,9 +4,8 @@
  */
 import { ConfigError } from './env-config.ts';
 import { createLogger } from './logger.ts';
-import { startRetargetWorker } from './retarget-worker.ts';
-import { createPlanSink } from './sink-from-config.ts';
 import { loadWorkerConfig } from './worker-config.ts';
+import { startWorkerFromConfig } from './worker-from-config.ts';
 
 async function main(): Promise<void> {
   let config;
@@ -20,14 +19,7 @@ async function main(): Promise<void> {
     throw e;
   }
   const logger = createLogger('veer-worker', config.LOG_LEVEL);
-  const sink = await createPlanSink(config);
-  const worker = await startRetargetWorker({
-    redisUrl: config.REDIS_URL, prefix: config.QUEUE_PREFIX, sink, logger,
-    concurrency: config.WORKER_CONCURRENCY, jobTimeLimitS: config.JOB_TIME_LIMIT_S,
-    lockDurationMs: config.LOCK_DURATION_MS, stalledIntervalMs: config.STALLED_INTERVAL_MS,
-    maxStalledCount: config.MAX_STALLED_COUNT, fanOutMinSamples: config.MC_FANOUT_MIN_SAMPLES,
-    batchSize: config.MC_BATCH_SIZE, retentionS: config.JOB_RETENTION_S,
-  });
+  const { worker, sink } = await startWorkerFromConfig(config, logger);
   let stopping = false;
   const stop = (signal: string): void => {
     if (stopping) { logger.warn({ signal }, 'forced stop'); process.exit(1); }
