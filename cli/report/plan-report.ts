@@ -55,7 +55,10 @@ function burnTable(plan: ManeuverPlan): string[] {
     b.deltaVRtnKmS.map(ms).join(' '), b.deltaVVnbKmS.map(ms).join(' '),
     b.propellantKg.toFixed(3), b.durationS.toFixed(1),
   ]);
-  return ['Proposed burns (impulsive; Δv in m/s):',
+  const heading = plan.crossCheck.passed
+    ? 'Proposed burns (impulsive; Δv in m/s):'
+    : 'Burns that FAILED the cross-check (diagnostics only — NOT burns to execute; Δv in m/s):';
+  return [heading,
     ...table(['burn', 'epoch UTC', 'epoch TDB', '|Δv|', 'Δv R T N', 'Δv V N B', 'propellant kg', 'duration s'], rows),
     `  Δv J2000 equatorial (km/s): ${plan.burns.map((b) => `[${b.deltaVInertialKmS.map((v) => v.toExponential(9)).join(', ')}]`).join('; ')}`,
     `  total |Δv| ${plan.totalDeltaVMS.toFixed(4)} m/s, propellant ${plan.totalPropellantKg.toFixed(3)} kg`];
@@ -136,10 +139,28 @@ function dispersionLines(plan: ManeuverPlan): string[] {
   return out;
 }
 
+/** First line of the report: only a converged, cross-checked result is called a proposed plan. */
+function openingHeadline(plan: ManeuverPlan): string {
+  if (plan.status !== 'converged') {
+    return 'NOT CONVERGED — NO PLAN: the corrector did not meet the targets; what follows is diagnostics only. Caveats:';
+  }
+  if (!plan.crossCheck.passed) {
+    return 'UNCHECKED RESULT — NOT A PLAN: the independent cross-check failed; do not use these burns. Caveats:';
+  }
+  return 'PROPOSED MANEUVER PLAN — requires review and approval by qualified flight-dynamics staff and independent verification before any commanding. Caveats:';
+}
+
+/** Last line of the report, repeating the verdict and the review requirement. */
+function closingHeadline(plan: ManeuverPlan): string {
+  if (plan.status !== 'converged') return 'NOT CONVERGED — no plan. Caveats:';
+  if (!plan.crossCheck.passed) return 'CROSS-CHECK FAILED — not a plan; re-plan or investigate before any use. Caveats:';
+  return 'REMINDER — this is a PROPOSAL. Review, approval and independent verification come first; follow the mission\'s own procedures. Caveats:';
+}
+
 /** The full readable report of a plan. */
 export function formatPlanReport(plan: ManeuverPlan): string {
   const lines: string[] = [
-    ...caveatBlock(plan, 'PROPOSED MANEUVER PLAN — requires review and approval by qualified flight-dynamics staff and independent verification before any commanding. Caveats:'),
+    ...caveatBlock(plan, openingHeadline(plan)),
     `Spacecraft: ${plan.spacecraftName}${plan.title ? ` — ${plan.title}` : ''}`,
     `Problem hash (SHA-256): ${plan.problemHash}   software: ${plan.softwareVersion}`,
     `Initial state: ${plan.createdFrom.initialEpoch.tdb} (${plan.createdFrom.initialEpoch.utc ?? 'UTC n/a'}), centre ${plan.createdFrom.centre}, ${plan.createdFrom.frame}; span to ${plan.createdFrom.endEpoch.tdb}`,
@@ -160,9 +181,7 @@ export function formatPlanReport(plan: ManeuverPlan): string {
     ...plan.iterations.map((it) => `  ${it.iteration}: max |residual|/tol ${num(it.maxScaledResidual)}, cond ${num(it.conditionNumber)}, step ${num(it.stepNorm)}, Jacobian ${it.jacobianSource}${it.note ? ` — ${it.note}` : ''}`),
     `Effort: ${plan.effort.propagations} propagations, ${plan.effort.evaluations} force evaluations`,
     '',
-    ...caveatBlock(plan, plan.status === 'converged'
-      ? 'REMINDER — this is a PROPOSAL. Review, approval and independent verification come first; follow the mission\'s own procedures. Caveats:'
-      : 'NOT CONVERGED — no plan. Caveats:'),
+    ...caveatBlock(plan, closingHeadline(plan)),
   ];
   return lines.join('\n');
 }

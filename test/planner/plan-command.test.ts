@@ -2,26 +2,17 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { main } from '../../cli/main.ts';
+import { runVeer } from '../harness/run-cli.ts';
+import { formatPlanReport } from '../../cli/report/plan-report.ts';
+import type { ManeuverPlan } from '../../planner/index.ts';
 import { twoBodyProblem } from './two-body-fixture.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'veer-plan-cli-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 async function run(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const w1 = process.stdout.write.bind(process.stdout);
-  const w2 = process.stderr.write.bind(process.stderr);
-  process.stdout.write = ((c: string) => { out.push(String(c)); return true; }) as typeof process.stdout.write;
-  process.stderr.write = ((c: string) => { err.push(String(c)); return true; }) as typeof process.stderr.write;
-  try {
-    const code = await main(args);
-    return { code, stdout: out.join(''), stderr: err.join('') };
-  } finally {
-    process.stdout.write = w1;
-    process.stderr.write = w2;
-  }
+  const r = await runVeer(args);
+  return { code: r.code, stdout: r.out, stderr: r.err };
 }
 
 function file(name: string, content: unknown): string {
@@ -37,6 +28,7 @@ describe('veer plan', () => {
       const r = await run(['plan', file('ok.json', twoBodyProblem({ dispersion: { samples: 4, seed: 1 } })), '--out', out]);
       expect(r.code).toBe(0);
       const lines = r.stdout.trim().split('\n');
+      expect(lines[1]).toContain('PROPOSED MANEUVER PLAN');
       expect(lines.slice(0, 3).join('\n')).toContain('PROPOSAL_REQUIRES_REVIEW');
       expect(lines.slice(-4).join('\n')).toContain('PROPOSAL_REQUIRES_REVIEW');
       expect(r.stdout).toContain('Proposed burns');
@@ -55,12 +47,29 @@ describe('veer plan', () => {
     });
   });
 
+  describe('when a converged plan failed its independent cross-check', () => {
+    it('should not call it a proposed plan in the report', async () => {
+      const r = await run(['plan', file('xc.json', twoBodyProblem({ dispersion: { samples: 0, seed: 1 } })), '--json']);
+      const plan = JSON.parse(r.stdout) as ManeuverPlan;
+      expect(plan.crossCheck.passed).toBe(true);
+      const failed: ManeuverPlan = { ...plan, crossCheck: { ...plan.crossCheck, passed: false } };
+      const lines = formatPlanReport(failed).split('\n');
+      expect(lines[1]).toContain('UNCHECKED RESULT — NOT A PLAN');
+      expect(lines.join('\n')).not.toContain('PROPOSED MANEUVER PLAN');
+      expect(lines.join('\n')).not.toContain('Proposed burns');
+      expect(lines.join('\n')).toContain('FAILED the cross-check');
+      expect(lines.slice(-6).join('\n')).toContain('CROSS-CHECK FAILED');
+    });
+  });
+
   describe('when the problem does not converge', () => {
     it('should exit 3, say so prominently and show no burn table', async () => {
       const r = await run(['plan', file('nc.json', twoBodyProblem({ corrector: { maxIterations: 1, maxStepKmS: 0.001, maxEpochStepS: 60 } }))]);
       expect(r.code).toBe(3);
       expect(r.stdout).toContain('NOT CONVERGED');
       expect(r.stdout).not.toContain('Proposed burns');
+      expect(r.stdout).not.toContain('PROPOSED MANEUVER PLAN');
+      expect(r.stdout.split('\n')[1]).toContain('NOT CONVERGED — NO PLAN');
       expect(r.stderr).toContain('NOT CONVERGED');
     });
   });
