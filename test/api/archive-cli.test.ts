@@ -7,27 +7,14 @@ import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { main } from '../../cli/main.ts';
+import { runVeer, type CliRun } from '../harness/run-cli.ts';
 import { makePlan, PROBLEM } from '../archive/fixtures.ts';
 import { sqliteLocation, startTestApi, type StoreLocation, type TestApi } from '../archive/http-app.ts';
 
 const CODES = 'PROPOSAL_REQUIRES_REVIEW,DISPERSION_LINEAR_ONLY';
 
 /** Runs `veer ...args` in-process; captures stdout and stderr. */
-async function veer(...args: string[]): Promise<{ code: number; out: string; err: string }> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const write = { out: process.stdout.write.bind(process.stdout), err: process.stderr.write.bind(process.stderr) };
-  process.stdout.write = ((chunk: string) => { out.push(String(chunk)); return true; }) as typeof process.stdout.write;
-  process.stderr.write = ((chunk: string) => { err.push(String(chunk)); return true; }) as typeof process.stderr.write;
-  try {
-    const code = await main(args);
-    return { code, out: out.join(''), err: err.join('') };
-  } finally {
-    process.stdout.write = write.out;
-    process.stderr.write = write.err;
-  }
-}
+const veer = (...args: string[]): Promise<CliRun> => runVeer(args);
 
 describe('veer review, history, export, verify and tokens', () => {
   let location: StoreLocation;

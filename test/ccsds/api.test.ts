@@ -5,7 +5,7 @@
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readOem, readOpm } from '../../ccsds/index.ts';
-import { main } from '../../cli/main.ts';
+import { runVeer, type CliRun } from '../harness/run-cli.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
 import { reachableProblem, submission } from '../queue/fixtures.ts';
 
@@ -13,19 +13,7 @@ const opmText = readFileSync(new URL('../fixtures/ccsds/opm-earth-maneuvers.opm'
 let svc: TestService;
 
 /** Runs `veer ...args` in-process; captures stdout and stderr. */
-async function veer(...args: string[]): Promise<{ code: number; out: string; err: string }> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const write = { out: process.stdout.write.bind(process.stdout), err: process.stderr.write.bind(process.stderr) };
-  process.stdout.write = ((chunk: string) => { out.push(String(chunk)); return true; }) as typeof process.stdout.write;
-  process.stderr.write = ((chunk: string) => { err.push(String(chunk)); return true; }) as typeof process.stderr.write;
-  try {
-    return { code: await main(args), out: out.join(''), err: err.join('') };
-  } finally {
-    process.stdout.write = write.out;
-    process.stderr.write = write.err;
-  }
-}
+const veer = (...args: string[]): Promise<CliRun> => runVeer(args);
 let planId: string;
 
 beforeAll(async () => {

@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readOem, readOpm, REVIEW_COMMENTS } from '../../ccsds/index.ts';
-import { main } from '../../cli/main.ts';
+import { runVeer, type CliRun } from '../harness/run-cli.ts';
 import { parseEpoch } from '../../propagator/index.ts';
 
 const PROBLEM = fileURLToPath(new URL('../../examples/two-body-demo.json', import.meta.url));
@@ -17,19 +17,7 @@ let planPath: string;
 let plan: { burns: { epoch: { tdbS: number } }[]; crossCheck: Record<string, unknown> } & Record<string, unknown>;
 
 /** Runs `veer ...args` in-process; captures stdout and stderr. */
-async function veer(...args: string[]): Promise<{ code: number; out: string; err: string }> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const write = { out: process.stdout.write.bind(process.stdout), err: process.stderr.write.bind(process.stderr) };
-  process.stdout.write = ((chunk: string) => { out.push(String(chunk)); return true; }) as typeof process.stdout.write;
-  process.stderr.write = ((chunk: string) => { err.push(String(chunk)); return true; }) as typeof process.stderr.write;
-  try {
-    return { code: await main(args), out: out.join(''), err: err.join('') };
-  } finally {
-    process.stdout.write = write.out;
-    process.stderr.write = write.err;
-  }
-}
+const veer = (...args: string[]): Promise<CliRun> => runVeer(args);
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'veer-ccsds-offline-'));

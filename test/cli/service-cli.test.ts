@@ -10,7 +10,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { main } from '../../cli/main.ts';
+import { runVeer } from '../harness/run-cli.ts';
 import { startService, type TestService } from '../harness/service.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
@@ -20,20 +20,7 @@ const NOTICE = /review and approval by qualified flight-dynamics staff and indep
 interface Run { code: number; out: string; err: string }
 
 /** Runs `veer ...args` in-process; captures stdout and stderr (`onErr` sees stderr as it is written). */
-async function veer(args: string[], onErr?: (text: string) => void): Promise<Run> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const write = { out: process.stdout.write.bind(process.stdout), err: process.stderr.write.bind(process.stderr) };
-  process.stdout.write = ((chunk: string) => { out.push(String(chunk)); return true; }) as typeof process.stdout.write;
-  process.stderr.write = ((chunk: string) => { err.push(String(chunk)); onErr?.(String(chunk)); return true; }) as typeof process.stderr.write;
-  try {
-    const code = await main(args);
-    return { code, out: out.join(''), err: err.join('') };
-  } finally {
-    process.stdout.write = write.out;
-    process.stderr.write = write.err;
-  }
-}
+const veer = runVeer;
 
 /** Runs `node bin/veer.js ...args` as a child process (the real exit code and streams). */
 function veerProcess(args: string[], env: Record<string, string>): Promise<Run> {
