@@ -9,7 +9,9 @@ import { join, resolve } from 'node:path';
 import pg from 'pg';
 import { ArchiveNotFoundError } from './errors.ts';
 import { SQLITE_ARCHIVE_FILE } from './open-archive.ts';
-import { entryFromRow, planFromRow } from './rows.ts';
+import { inTransaction } from './postgres/pg-transaction.ts';
+import { postgresVerifySource } from './postgres/postgres-archive.ts';
+import { sqliteVerifySource } from './sqlite/sqlite-archive.ts';
 import type { VerifyReport } from './types.ts';
 import { verifySource } from './verify.ts';
 
@@ -27,15 +29,7 @@ export async function verifySqliteReadOnly(dataDir: string): Promise<VerifyRepor
     if (!table) throw new ArchiveNotFoundError(`--data-dir ${dataDir}: ${resolve(file)} holds no archive tables`);
     db.exec('BEGIN DEFERRED');
     try {
-      return await verifySource({
-        head: async () => {
-          const row = db.prepare('SELECT sequence, hash FROM archive_head WHERE id = 1').get() as Row;
-          return { sequence: Number(row.sequence), hash: String(row.hash) };
-        },
-        page: async (from, limit) => (db.prepare('SELECT * FROM archive_entries WHERE sequence >= ? ORDER BY sequence LIMIT ?')
-          .all(from, limit) as Row[]).map(entryFromRow),
-        plans: async () => (db.prepare('SELECT * FROM archive_plans').all() as Row[]).map(planFromRow),
-      });
+      return await verifySource(sqliteVerifySource(db));
     } finally {
       db.exec('COMMIT');
     }
@@ -49,23 +43,11 @@ export async function verifyPostgresReadOnly(connectionString: string): Promise<
   const client = new pg.Client({ connectionString });
   await client.connect();
   try {
-    await client.query('BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY');
-    const found = (await client.query("SELECT to_regclass('archive_entries') IS NOT NULL AS present")).rows[0] as Row;
-    if (found.present !== true) throw new ArchiveNotFoundError('--database-url: that database holds no archive tables (nothing was created)');
-    const report = await verifySource({
-      head: async () => {
-        const row = (await client.query('SELECT sequence, hash FROM archive_head WHERE id = 1')).rows[0] as Row;
-        return { sequence: Number(row.sequence), hash: String(row.hash) };
-      },
-      page: async (from, limit) => (await client.query('SELECT * FROM archive_entries WHERE sequence >= $1 ORDER BY sequence LIMIT $2', [from, limit]))
-        .rows.map(entryFromRow),
-      plans: async () => (await client.query('SELECT * FROM archive_plans')).rows.map(planFromRow),
+    return await inTransaction(client, 'BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY', async () => {
+      const found = (await client.query("SELECT to_regclass('archive_entries') IS NOT NULL AS present")).rows[0] as Row;
+      if (found.present !== true) throw new ArchiveNotFoundError('--database-url: that database holds no archive tables (nothing was created)');
+      return verifySource(postgresVerifySource(client));
     });
-    await client.query('COMMIT');
-    return report;
-  } catch (error) {
-    await client.query('ROLLBACK').catch(() => undefined);
-    throw error;
   } finally {
     await client.end();
   }

@@ -7,7 +7,8 @@ import pg from 'pg';
 import * as ops from '../operations.ts';
 import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
-import { verifySource } from '../verify.ts';
+import { verifySource, type VerifySource } from '../verify.ts';
+import { type Queryable, withPoolTransaction } from './pg-transaction.ts';
 import { POSTGRES_ARCHIVE_MIGRATIONS, type PgMigration } from './postgres-migrations.ts';
 import type {
   AppendResult, ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, RecordJobCancelledInput,
@@ -23,7 +24,6 @@ export interface PostgresArchiveOptions {
   now?: () => Date;
 }
 
-type Queryable = Pick<pg.PoolClient, 'query'>;
 type Row = Record<string, unknown>;
 
 /** Key of the advisory lock that serialises concurrent migrations (any constant shared by all starts). */
@@ -32,9 +32,7 @@ const MIGRATION_LOCK_KEY = 7_335_001;
 /** Applies the migrations not yet applied, under a transaction-scoped advisory lock. */
 export async function migratePostgres(pool: pg.Pool, table = 'schema_migrations', migrations: readonly PgMigration[] = POSTGRES_ARCHIVE_MIGRATIONS,
   lockKey = MIGRATION_LOCK_KEY): Promise<number> {
-  const client = await pool.connect();
-  try {
-    await client.query('BEGIN');
+  return withPoolTransaction(pool, 'BEGIN', async (client) => {
     await client.query('SELECT pg_advisory_xact_lock($1)', [lockKey]);
     // Look before creating: CREATE … IF NOT EXISTS still needs CREATE on the schema, which the service's
     // non-owner role (README, "Operating the archive") does not have once the owner has migrated.
@@ -50,14 +48,26 @@ export async function migratePostgres(pool: pg.Pool, table = 'schema_migrations'
       await client.query(`INSERT INTO ${table} (version, name, applied_at) VALUES ($1, $2, $3)`, [m.version, m.name, new Date().toISOString()]);
       applied += 1;
     }
-    await client.query('COMMIT');
     return applied;
-  } catch (error) {
-    await client.query('ROLLBACK').catch(() => undefined);
-    throw error;
-  } finally {
-    client.release();
-  }
+  });
+}
+
+async function postgresHead(db: Queryable): Promise<{ sequence: number; hash: string }> {
+  const row = (await db.query('SELECT sequence, hash FROM archive_head WHERE id = 1')).rows[0] as Row;
+  return { sequence: Number(row.sequence), hash: String(row.hash) };
+}
+
+async function postgresPage(db: Queryable, from: number, limit: number): Promise<ArchiveEntry[]> {
+  return (await db.query('SELECT * FROM archive_entries WHERE sequence >= $1 ORDER BY sequence LIMIT $2', [from, limit])).rows.map(entryFromRow);
+}
+
+/** What verification reads (head, entries by sequence, plan projections); run it inside one snapshot transaction. */
+export function postgresVerifySource(db: Queryable): VerifySource {
+  return {
+    head: () => postgresHead(db),
+    page: (from, limit) => postgresPage(db, from, limit),
+    plans: async () => (await db.query('SELECT * FROM archive_plans')).rows.map(planFromRow),
+  };
 }
 
 const placeholders = (n: number, start = 1): string => Array.from({ length: n }, (_, i) => `$${i + start}`).join(', ');
@@ -138,7 +148,7 @@ export class PostgresArchive implements PlanArchive {
   }
   async entries(fromSequence = 1, limit = 1000): Promise<ArchiveEntry[]> {
     await this.ready;
-    return this.page(this.pool, fromSequence, clampLimit(limit, 1000));
+    return postgresPage(this.pool, fromSequence, clampLimit(limit, 1000));
   }
   async head(): Promise<{ sequence: number; hash: string }> {
     await this.ready;
@@ -148,22 +158,7 @@ export class PostgresArchive implements PlanArchive {
   /** Verifies inside one REPEATABLE READ snapshot, so concurrent appends do not disturb it. */
   async verify(): Promise<VerifyReport> {
     await this.ready;
-    const client = await this.pool.connect();
-    try {
-      await client.query('BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY');
-      const report = await verifySource({
-        head: () => this.makeTx(client).head(),
-        page: (from, limit) => this.page(client, from, limit),
-        plans: async () => (await client.query('SELECT * FROM archive_plans')).rows.map(planFromRow),
-      });
-      await client.query('COMMIT');
-      return report;
-    } catch (error) {
-      await client.query('ROLLBACK').catch(() => undefined);
-      throw error;
-    } finally {
-      client.release();
-    }
+    return withPoolTransaction(this.pool, 'BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY', (client) => verifySource(postgresVerifySource(client)));
   }
 
   async close(): Promise<void> {
@@ -171,25 +166,12 @@ export class PostgresArchive implements PlanArchive {
     await this.pool.end();
   }
 
-  private async page(db: Queryable, from: number, limit: number): Promise<ArchiveEntry[]> {
-    return (await db.query('SELECT * FROM archive_entries WHERE sequence >= $1 ORDER BY sequence LIMIT $2', [from, limit])).rows.map(entryFromRow);
-  }
-
   private async write<T>(fn: (tx: ArchiveTx) => Promise<T>): Promise<T> {
     await this.ready;
-    const client = await this.pool.connect();
-    try {
-      await client.query('BEGIN');
+    return withPoolTransaction(this.pool, 'BEGIN', async (client) => {
       await client.query('SELECT sequence FROM archive_head WHERE id = 1 FOR UPDATE');
-      const result = await fn(this.makeTx(client));
-      await client.query('COMMIT');
-      return result;
-    } catch (error) {
-      await client.query('ROLLBACK').catch(() => undefined);
-      throw error;
-    } finally {
-      client.release();
-    }
+      return fn(this.makeTx(client));
+    });
   }
 
   private makeTx(db: Queryable): ArchiveTx {
@@ -197,10 +179,7 @@ export class PostgresArchive implements PlanArchive {
       `INSERT INTO ${table} (${columns.join(', ')}) VALUES (${placeholders(columns.length)})
        ON CONFLICT (${key}) DO UPDATE SET ${columns.filter((c) => c !== key).map((c) => `${c} = EXCLUDED.${c}`).join(', ')}`;
     return {
-      head: async () => {
-        const row = (await db.query('SELECT sequence, hash FROM archive_head WHERE id = 1')).rows[0] as Row;
-        return { sequence: Number(row.sequence), hash: String(row.hash) };
-      },
+      head: () => postgresHead(db),
       insertEntry: async (entry: ArchiveEntry) => {
         await db.query(`INSERT INTO archive_entries (${ENTRY_COLUMNS.join(', ')}) VALUES (${placeholders(ENTRY_COLUMNS.length)})`, entryValues(entry));
         await db.query('UPDATE archive_head SET sequence = $1, hash = $2 WHERE id = 1', [entry.sequence, entry.hash]);

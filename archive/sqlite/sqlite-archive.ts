@@ -10,7 +10,7 @@ import { dirname, resolve } from 'node:path';
 import * as ops from '../operations.ts';
 import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
-import { verifySource } from '../verify.ts';
+import { verifySource, type VerifySource } from '../verify.ts';
 import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
 import type {
   AppendResult, ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, RecordJobCancelledInput,
@@ -44,6 +44,24 @@ export function migrateSqlite(db: Database.Database, table = 'schema_migrations'
     return applied;
   });
   return run.immediate();
+}
+
+function sqliteHead(db: Database.Database): { sequence: number; hash: string } {
+  const row = db.prepare('SELECT sequence, hash FROM archive_head WHERE id = 1').get() as Row;
+  return { sequence: Number(row.sequence), hash: String(row.hash) };
+}
+
+function sqlitePage(db: Database.Database, from: number, limit: number): ArchiveEntry[] {
+  return (db.prepare('SELECT * FROM archive_entries WHERE sequence >= ? ORDER BY sequence LIMIT ?').all(from, limit) as Row[]).map(entryFromRow);
+}
+
+/** What verification reads (head, entries by sequence, plan projections); run it inside one read transaction. */
+export function sqliteVerifySource(db: Database.Database): VerifySource {
+  return {
+    head: async () => sqliteHead(db),
+    page: async (from, limit) => sqlitePage(db, from, limit),
+    plans: async () => (db.prepare('SELECT * FROM archive_plans').all() as Row[]).map(planFromRow),
+  };
 }
 
 /** Opens (creating if needed) a SQLite database file in WAL mode with a busy timeout. */
@@ -160,7 +178,7 @@ export class SqliteArchive implements PlanArchive {
     });
   }
   entries(fromSequence = 1, limit = 1000): Promise<ArchiveEntry[]> {
-    return this.read(async () => this.page(fromSequence, clampLimit(limit, 1000)));
+    return this.read(async () => sqlitePage(this.db, fromSequence, clampLimit(limit, 1000)));
   }
   head(): Promise<{ sequence: number; hash: string }> {
     return this.read(() => this.tx.head());
@@ -171,11 +189,7 @@ export class SqliteArchive implements PlanArchive {
     return this.serial(async () => {
       this.db.exec('BEGIN DEFERRED');
       try {
-        return await verifySource({
-          head: () => this.tx.head(),
-          page: async (from, limit) => this.page(from, limit),
-          plans: async () => (this.db.prepare('SELECT * FROM archive_plans').all() as Row[]).map(planFromRow),
-        });
+        return await verifySource(sqliteVerifySource(this.db));
       } finally {
         this.db.exec('COMMIT');
       }
@@ -186,10 +200,6 @@ export class SqliteArchive implements PlanArchive {
     if (this.closed) return;
     this.closed = true;
     await this.serial(async () => release(this.file));
-  }
-
-  private page(from: number, limit: number): ArchiveEntry[] {
-    return (this.db.prepare('SELECT * FROM archive_entries WHERE sequence >= ? ORDER BY sequence LIMIT ?').all(from, limit) as Row[]).map(entryFromRow);
   }
 
   /** One operation at a time on this connection (the cross-process lock is SQLite's, taken by BEGIN IMMEDIATE). */
@@ -224,10 +234,7 @@ export class SqliteArchive implements PlanArchive {
     const putPlan = db.prepare(`INSERT OR REPLACE INTO archive_plans (${PLAN_COLUMNS.join(', ')}) VALUES (${PLAN_COLUMNS.map(() => '?').join(', ')})`);
     const putJob = db.prepare(`INSERT OR REPLACE INTO archive_jobs (${JOB_COLUMNS.join(', ')}) VALUES (${JOB_COLUMNS.map(() => '?').join(', ')})`);
     return {
-      head: async () => {
-        const row = db.prepare('SELECT sequence, hash FROM archive_head WHERE id = 1').get() as Row;
-        return { sequence: Number(row.sequence), hash: String(row.hash) };
-      },
+      head: async () => sqliteHead(db),
       insertEntry: async (entry: ArchiveEntry) => {
         insertEntry.run(...entryValues(entry));
         moveHead.run(entry.sequence, entry.hash);
