@@ -12,10 +12,10 @@
 import { execSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
 import {
-  buildChebyshevEphemeris, changeCentre, createBuiltinEphemeris, GM_KM3_S2, KM_PER_AU, propagate,
-  type BodyName, type PropagationRequest, type PropagationResult, type StateVector,
+  changeCentre, propagate, type PropagationRequest, type PropagationResult, type StateVector,
 } from '../propagator/index.ts';
 import { flybyEphemeris, flybyStart, forcesAbout, PERIAPSIS_EPOCH } from '../test/propagator/flyby-fixture.ts';
+import { ALL, cruise, GIANTS } from '../test/reference/heliocentric-cruise.ts';
 
 const lines: string[] = [];
 const log = (line = ''): void => {
@@ -54,17 +54,7 @@ log('Ratios compare runs of the same process.');
 log();
 
 // 1. One-year heliocentric cruise.
-const T0 = 9.0e8;
-const T1 = T0 + 365.25 * 86400;
-const ALL: BodyName[] = ['mercury', 'venus', 'earth', 'moon', 'mars', 'jupiter', 'saturn', 'uranus', 'neptune'];
-const GIANTS: BodyName[] = ['jupiter', 'saturn', 'uranus', 'neptune'];
-const ephemeris = buildChebyshevEphemeris(createBuiltinEphemeris(), { bodies: ['sun', ...ALL], startTdbS: T0 - 86400, endTdbS: T1 + 86400 });
-const A = 2.3 * KM_PER_AU;
-const V = 1.1 * Math.sqrt(GM_KM3_S2.sun / A);
-const cruise = (bodies: BodyName[], extra: Partial<PropagationRequest>): PropagationRequest => ({
-  initial: { epochTdbS: T0, centre: 'sun', frame: 'J2000_EQUATORIAL', positionKm: [A, 0, 0], velocityKmS: [0, V * Math.cos(0.4), V * Math.sin(0.4)] },
-  endEpochTdbS: T1, forces: { centralBody: 'sun', perturbingBodies: bodies }, ephemeris, ...extra,
-});
+// (scenario shared with test/reference/encke-vs-cowell.test.ts)
 
 for (const [label, bodies] of [['every planet and the Moon', ALL], ['giant planets only (quiet cruise)', GIANTS]] as const) {
   log(`## One year heliocentric, ${label}`);

@@ -14,26 +14,11 @@
  *                              3.4e-4 km from the reference.
  */
 import { describe, expect, it } from 'vitest';
-import {
-  buildChebyshevEphemeris, createBuiltinEphemeris, GM_KM3_S2, KM_PER_AU, propagate, type BodyName,
-  type PropagationRequest,
-} from '../../propagator/index.ts';
-
-const T0 = 9.0e8;
-const T1 = T0 + 365.25 * 86400;
-const ALL: BodyName[] = ['mercury', 'venus', 'earth', 'moon', 'mars', 'jupiter', 'saturn', 'uranus', 'neptune'];
-const GIANTS: BodyName[] = ['jupiter', 'saturn', 'uranus', 'neptune'];
-const ephemeris = buildChebyshevEphemeris(createBuiltinEphemeris(), { bodies: ['sun', ...ALL], startTdbS: T0 - 86400, endTdbS: T1 + 86400 });
-const A = 2.3 * KM_PER_AU;
-const V = 1.1 * Math.sqrt(GM_KM3_S2.sun / A);
+import { propagate, type BodyName, type PropagationRequest } from '../../propagator/index.ts';
+import { ALL, cruise, GIANTS } from './heliocentric-cruise.ts';
 
 function run(bodies: BodyName[], extra: Partial<PropagationRequest>) {
-  return propagate({
-    initial: { epochTdbS: T0, centre: 'sun', frame: 'J2000_EQUATORIAL', positionKm: [A, 0, 0],
-      velocityKmS: [0, V * Math.cos(0.4), V * Math.sin(0.4)] },
-    endEpochTdbS: T1, forces: { centralBody: 'sun', perturbingBodies: bodies }, ephemeris,
-    relativeTolerance: 1e-12, absoluteTolerance: 1e-9, ...extra,
-  });
+  return propagate(cruise(bodies, { relativeTolerance: 1e-12, absoluteTolerance: 1e-9, ...extra }));
 }
 const miss = (a: readonly number[], b: readonly number[]) => Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
 
