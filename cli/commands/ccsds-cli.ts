@@ -9,7 +9,7 @@ import { basename, extname } from 'node:path';
 import { exportPlanAsCcsds, readOpmAsInitialState } from '../../ccsds/index.ts';
 import { type ManeuverPlan, parseProblem, type PlanningProblem, problemHash } from '../../planner/index.ts';
 import { InvalidInputError } from '../../propagator/index.ts';
-import { ApiCallError, PROPOSAL_NOTICE, type Remote, UsageError } from './review-http.ts';
+import { ApiCallError, parseAnswer, PROPOSAL_NOTICE, type Remote, sendToApi, UsageError } from './review-http.ts';
 
 /**
  * Reads an OPM file and puts its state (epoch, centre, frame, position, velocity, covariance) in place
@@ -58,20 +58,9 @@ export interface CcsdsExportCliOptions {
 }
 
 async function fetchText(remote: Remote, path: string): Promise<string> {
-  const headers: Record<string, string> = {};
-  if (remote.token) headers.authorization = `Bearer ${remote.token}`;
-  let res: Response;
-  try {
-    res = await fetch(remote.url + path, { headers });
-  } catch (error) {
-    throw new Error(`cannot reach ${remote.url}: ${(error as Error).message}`);
-  }
+  const res = await sendToApi(remote, path, { headers: {} });
   const text = await res.text();
-  if (!res.ok) {
-    let body: ApiCallError['body'];
-    try { body = JSON.parse(text) as ApiCallError['body']; } catch { body = { error: { message: text.slice(0, 200) } } as ApiCallError['body']; }
-    throw new ApiCallError(res.status, body);
-  }
+  if (!res.ok) throw new ApiCallError(res.status, parseAnswer(text) as ApiCallError['body']);
   return text;
 }
 

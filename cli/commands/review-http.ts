@@ -47,20 +47,28 @@ export function remoteFrom(values: { url?: string; token?: string }): Remote {
   return { url, token: values.token ?? process.env.VEER_TOKEN };
 }
 
-/** Calls the API; resolves to the parsed JSON body of a 2xx answer, rejects with ApiCallError otherwise. */
-export async function callApi<T>(remote: Remote, method: string, path: string, body?: unknown): Promise<T> {
-  const headers: Record<string, string> = { accept: 'application/json' };
+/** Sends a request to the API with the bearer token (if any); rejects with "cannot reach URL" when nothing answers. */
+export async function sendToApi(remote: Remote, path: string, init: Omit<RequestInit, 'headers'> & { headers: Record<string, string> }): Promise<Response> {
+  const headers = { ...init.headers };
   if (remote.token) headers.authorization = `Bearer ${remote.token}`;
-  if (body !== undefined) headers['content-type'] = 'application/json';
-  let res: Response;
   try {
-    res = await fetch(remote.url + path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) });
+    return await fetch(remote.url + path, { ...init, headers });
   } catch (error) {
     throw new Error(`cannot reach ${remote.url}: ${(error as Error).message}`);
   }
-  const text = await res.text();
-  let parsed: unknown;
-  try { parsed = JSON.parse(text); } catch { parsed = { error: { message: text.slice(0, 200) } }; }
+}
+
+/** An answer's body as JSON, or (not JSON) an error body carrying the first 200 characters of its text. */
+export function parseAnswer(text: string): unknown {
+  try { return JSON.parse(text); } catch { return { error: { message: text.slice(0, 200) } }; }
+}
+
+/** Calls the API; resolves to the parsed JSON body of a 2xx answer, rejects with ApiCallError otherwise. */
+export async function callApi<T>(remote: Remote, method: string, path: string, body?: unknown): Promise<T> {
+  const headers: Record<string, string> = { accept: 'application/json' };
+  if (body !== undefined) headers['content-type'] = 'application/json';
+  const res = await sendToApi(remote, path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) });
+  const parsed = parseAnswer(await res.text());
   if (!res.ok) throw new ApiCallError(res.status, parsed as ApiCallError['body']);
   return parsed as T;
 }

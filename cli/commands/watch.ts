@@ -7,7 +7,7 @@ import type { CliCommand } from '../command.ts';
 import {
   describeOutcome, isFinal, JOB_EXIT, JOB_EXIT_USAGE, jobPath, progressText, type JobStatusAnswer, type ProgressAnswer,
 } from './job-outcome.ts';
-import { ApiCallError, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError, type Remote } from './review-http.ts';
+import { ApiCallError, exitCodeFor, parseAnswer, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, sendToApi, UsageError, type Remote } from './review-http.ts';
 
 const MAX_RECONNECTS = 5;
 const RECONNECT_DELAY_MS = 2000;
@@ -25,20 +25,8 @@ interface SseEvent { event: string; data: unknown }
 
 /** Reads a text/event-stream (WHATWG HTML §9.2 format) until it closes; rejects with ApiCallError on an error answer. */
 async function* readEvents(remote: Remote, path: string): AsyncGenerator<SseEvent> {
-  const headers: Record<string, string> = { accept: 'text/event-stream' };
-  if (remote.token) headers.authorization = `Bearer ${remote.token}`;
-  let res: Response;
-  try {
-    res = await fetch(remote.url + path, { headers });
-  } catch (error) {
-    throw new Error(`cannot reach ${remote.url}: ${(error as Error).message}`);
-  }
-  if (!res.ok || !res.body) {
-    const text = await res.text();
-    let parsed: unknown;
-    try { parsed = JSON.parse(text); } catch { parsed = { error: { message: text.slice(0, 200) } }; }
-    throw new ApiCallError(res.status, parsed as ApiCallError['body']);
-  }
+  const res = await sendToApi(remote, path, { headers: { accept: 'text/event-stream' } });
+  if (!res.ok || !res.body) throw new ApiCallError(res.status, parseAnswer(await res.text()) as ApiCallError['body']);
   const decoder = new TextDecoder();
   let buffer = '';
   for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) {
