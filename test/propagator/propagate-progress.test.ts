@@ -12,6 +12,24 @@ function printer(heartbeatMs = 2000): { lines: string[]; clock: { ms: number }; 
   return { lines, clock, progress };
 }
 
+/** Collects what is written to stderr (trimmed), instead of printing it; restored after each test. */
+function captureStderr(): string[] {
+  const err: string[] = [];
+  vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => {
+    err.push(String(chunk).trim());
+    return true;
+  });
+  return err;
+}
+
+/** Writes a propagation request to a new temp folder; returns its path. */
+function requestFile(request: unknown): string {
+  const dir = mkdtempSync(join(tmpdir(), 'veer-progress-'));
+  const path = join(dir, 'request.json');
+  writeFileSync(path, JSON.stringify(request));
+  return path;
+}
+
 afterEach(() => {
   vi.restoreAllMocks();
 });
@@ -53,35 +71,23 @@ describe('veer propagate progress', () => {
 
   describe('when the command runs a two-body request', () => {
     it('should write 0 % first and 100 % last on stderr', async () => {
-      const err: string[] = [];
       vi.spyOn(process.stdout, 'write').mockImplementation(() => true);
-      vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => {
-        err.push(String(chunk).trim());
-        return true;
-      });
-      const dir = mkdtempSync(join(tmpdir(), 'veer-progress-'));
-      const path = join(dir, 'request.json');
-      writeFileSync(path, JSON.stringify({
+      const err = captureStderr();
+      const path = requestFile({
         initial: { epoch: '2031-03-01T00:00:00 TDB', centre: 'earth', positionKm: [7000, 0, 1000], velocityKmS: [0, 7.6, 1.0] },
         durationS: 3000, forces: { centralBody: 'earth' },
-      }));
+      });
       expect(await propagateCommand.run([path, '--json'])).toBe(0);
       expect(err[0]).toBe('veer propagate:   0%');
       expect(err.filter((l) => l === 'veer propagate:   0%')).toHaveLength(1);
       expect(err[err.length - 1]).toBe('veer propagate: 100%');
     });
     it('should print no progress line before rejecting a span outside the ephemeris', async () => {
-      const err: string[] = [];
-      vi.spyOn(process.stderr, 'write').mockImplementation((chunk: string | Uint8Array) => {
-        err.push(String(chunk).trim());
-        return true;
-      });
-      const dir = mkdtempSync(join(tmpdir(), 'veer-progress-'));
-      const path = join(dir, 'request.json');
-      writeFileSync(path, JSON.stringify({
+      const err = captureStderr();
+      const path = requestFile({
         initial: { epoch: '2400-01-01T00:00:00 TDB', centre: 'earth', positionKm: [3e6, 1e6, 5e5], velocityKmS: [1.5, 2.5, 0.8] },
         durationS: 86400, forces: { centralBody: 'sun', perturbingBodies: ['earth'] },
-      }));
+      });
       await expect(propagateCommand.run([path])).rejects.toThrow(/^initial\.epoch/);
       expect(err).toEqual([]);
     });
