@@ -10,11 +10,11 @@
  */
 import { execFile } from 'node:child_process';
 import { chownSync, existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import pg from 'pg';
+import { freePort } from './free-port.ts';
 
 const run = promisify(execFile);
 
@@ -27,18 +27,6 @@ export interface TestPostgres {
   stop(): Promise<void>;
 }
 
-/** A TCP port nobody listens on right now (common practice: bind to port 0, read it, close). */
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = createServer();
-    srv.on('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const address = srv.address();
-      const port = typeof address === 'object' && address ? address.port : 0;
-      srv.close(() => resolve(port));
-    });
-  });
-}
 
 function withDatabase(url: string, database: string): string {
   const u = new URL(url);

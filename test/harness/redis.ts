@@ -8,9 +8,10 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync, existsSync } from 'node:fs';
-import { createServer, Socket } from 'node:net';
+import { Socket } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { freePort } from './free-port.ts';
 
 export interface TestRedis {
   /** redis://host:port */
@@ -29,19 +30,7 @@ export interface TestRedis {
   stop(): Promise<void>;
 }
 
-/** A TCP port nobody listens on right now (common practice: bind to port 0, read it, close). */
-export async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const srv = createServer();
-    srv.unref();
-    srv.on('error', reject);
-    srv.listen(0, '127.0.0.1', () => {
-      const address = srv.address();
-      const port = typeof address === 'object' && address ? address.port : 0;
-      srv.close(() => resolve(port));
-    });
-  });
-}
+export { freePort } from './free-port.ts';
 
 /** Resolves once a TCP connection to host:port succeeds and Redis answers PING, or rejects after timeoutMs. */
 export async function waitForRedis(host: string, port: number, timeoutMs = 10_000): Promise<void> {
