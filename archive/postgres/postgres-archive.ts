@@ -4,6 +4,7 @@
  * writer on every machine queues on that one row; sequence, previous hash and the plan rules are read after it.
  */
 import pg from 'pg';
+import { MIGRATION_HISTORY_COLUMNS, pendingMigrations } from '../migrations.ts';
 import * as ops from '../operations.ts';
 import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
@@ -38,12 +39,11 @@ export async function migratePostgres(pool: pg.Pool, table = 'schema_migrations'
     // non-owner role (README, "Operating the archive") does not have once the owner has migrated.
     const present = (await client.query('SELECT to_regclass($1) IS NOT NULL AS present', [table])).rows[0] as Row;
     if (present.present !== true) {
-      await client.query(`CREATE TABLE ${table} (version INTEGER PRIMARY KEY, name TEXT NOT NULL, applied_at TEXT NOT NULL)`);
+      await client.query(`CREATE TABLE ${table} ${MIGRATION_HISTORY_COLUMNS}`);
     }
     const done = new Set((await client.query(`SELECT version FROM ${table}`)).rows.map((r: Row) => Number(r.version)));
     let applied = 0;
-    for (const m of migrations) {
-      if (done.has(m.version)) continue;
+    for (const m of pendingMigrations(migrations, done)) {
       await client.query(m.sql);
       await client.query(`INSERT INTO ${table} (version, name, applied_at) VALUES ($1, $2, $3)`, [m.version, m.name, new Date().toISOString()]);
       applied += 1;

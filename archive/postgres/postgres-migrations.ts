@@ -1,5 +1,8 @@
 /** Versioned schema of the PostgreSQL archive. Append new versions; never edit a released one. */
-export interface PgMigration { version: number; name: string; sql: string }
+import type { Migration } from '../migrations.ts';
+
+/** Same shape as the SQLite store's migrations. */
+export type PgMigration = Migration;
 
 export const POSTGRES_ARCHIVE_MIGRATIONS: readonly PgMigration[] = [
   {

@@ -7,6 +7,7 @@
 import Database from 'better-sqlite3';
 import { mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
+import { MIGRATION_HISTORY_COLUMNS, pendingMigrations } from '../migrations.ts';
 import * as ops from '../operations.ts';
 import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
@@ -31,12 +32,11 @@ type Row = Record<string, unknown>;
 
 /** Runs the schema migrations not yet applied (inside one write transaction, so concurrent starts are safe). */
 export function migrateSqlite(db: Database.Database, table = 'schema_migrations', migrations = SQLITE_ARCHIVE_MIGRATIONS): number {
-  db.exec(`CREATE TABLE IF NOT EXISTS ${table} (version INTEGER PRIMARY KEY, name TEXT NOT NULL, applied_at TEXT NOT NULL)`);
+  db.exec(`CREATE TABLE IF NOT EXISTS ${table} ${MIGRATION_HISTORY_COLUMNS}`);
   const run = db.transaction(() => {
     const done = new Set((db.prepare(`SELECT version FROM ${table}`).all() as Row[]).map((r) => Number(r.version)));
     let applied = 0;
-    for (const m of migrations) {
-      if (done.has(m.version)) continue;
+    for (const m of pendingMigrations(migrations, done)) {
       db.exec(m.sql);
       db.prepare(`INSERT INTO ${table} (version, name, applied_at) VALUES (?, ?, ?)`).run(m.version, m.name, new Date().toISOString());
       applied += 1;

@@ -1,5 +1,7 @@
 /** Versioned schema of the SQLite archive. Append new versions; never edit a released one. */
-export interface Migration { version: number; name: string; sql: string }
+import type { Migration } from '../migrations.ts';
+
+export type { Migration };
 
 export const SQLITE_ARCHIVE_MIGRATIONS: readonly Migration[] = [
   {
