@@ -8,16 +8,12 @@ import Database from 'better-sqlite3';
 import { mkdirSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { MIGRATION_HISTORY_COLUMNS, pendingMigrations } from '../migrations.ts';
-import * as ops from '../operations.ts';
+import { ArchiveWrites } from '../archive-writes.ts';
 import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
 import { verifySource, type VerifySource } from '../verify.ts';
 import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
-import type {
-  AppendResult, ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, RecordJobCancelledInput,
-  RecordJobFailedInput, RecordJobSubmittedInput, RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, ReviewGuard,
-  VerifyReport,
-} from '../types.ts';
+import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyReport } from '../types.ts';
 
 export interface SqliteArchiveOptions {
   /** Path of the database file (created with its folder if missing). */
@@ -106,37 +102,22 @@ function release(file: string): void {
   }
 }
 
-export class SqliteArchive implements PlanArchive {
+export class SqliteArchive extends ArchiveWrites implements PlanArchive {
   readonly storeKind = 'sqlite' as const;
   private readonly file: string;
   private readonly shared: SharedConnection;
   private readonly db: Database.Database;
-  private readonly now: () => Date;
+  protected readonly now: () => Date;
   private readonly tx: ArchiveTx;
   private closed = false;
 
   constructor(options: SqliteArchiveOptions) {
+    super();
     this.file = options.file;
     this.shared = acquire(options.file, options.busyTimeoutMs);
     this.db = this.shared.db;
     this.now = options.now ?? (() => new Date());
     this.tx = this.makeTx();
-  }
-
-  recordJobSubmitted(input: RecordJobSubmittedInput): Promise<AppendResult> {
-    return this.write((tx) => ops.recordJobSubmitted(tx, this.now, input));
-  }
-  recordPlanProposed(input: RecordPlanProposedInput): Promise<RecordPlanProposedResult> {
-    return this.write((tx) => ops.recordPlanProposed(tx, this.now, input));
-  }
-  recordJobFailed(input: RecordJobFailedInput): Promise<AppendResult> {
-    return this.write((tx) => ops.recordJobFailed(tx, this.now, input));
-  }
-  recordJobCancelled(input: RecordJobCancelledInput): Promise<AppendResult> {
-    return this.write((tx) => ops.recordJobCancelled(tx, this.now, input));
-  }
-  recordReview(input: RecordReviewInput, guard?: ReviewGuard): Promise<{ entry: ArchiveEntry; plan: PlanRecord }> {
-    return this.write((tx) => ops.recordReview(tx, this.now, input, guard));
   }
 
   getPlan(planId: string): Promise<PlanRecord | undefined> {
@@ -213,7 +194,7 @@ export class SqliteArchive implements PlanArchive {
     return this.serial(fn);
   }
 
-  private write<T>(fn: (tx: ArchiveTx) => Promise<T>): Promise<T> {
+  protected write<T>(fn: (tx: ArchiveTx) => Promise<T>): Promise<T> {
     return this.serial(async () => {
       this.db.exec('BEGIN IMMEDIATE');
       try {
