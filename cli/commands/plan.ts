@@ -1,6 +1,6 @@
 /** `veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm]`: the whole planning job in-process, no server. */
 import { constants } from 'node:fs';
-import { access, readFile, stat, writeFile } from 'node:fs/promises';
+import { access, stat, writeFile } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
 import { InvalidInputError } from '../../propagator/index.ts';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
@@ -8,6 +8,7 @@ import type { ManeuverPlan, PlanProgress } from '../../planner/index.ts';
 import type { CliCommand } from '../command.ts';
 import { formatPlanReport } from '../report/plan-report.ts';
 import { readProblemFileWithOpmState } from './ccsds-cli.ts';
+import { readJsonFile } from './read-json-file.ts';
 
 const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm]
 
@@ -51,19 +52,7 @@ function progressWriter(): { update: (p: PlanProgress) => void; end: () => void 
 
 /** Reads and validates a problem file; InvalidInputError names the file or the field. */
 export async function readProblemFile(path: string): Promise<ReturnType<typeof parseProblem>> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    throw new InvalidInputError('problem', `cannot read '${path}': ${(error as Error).message}`);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (error) {
-    throw new InvalidInputError('problem', `'${path}' is not valid JSON: ${(error as Error).message}`);
-  }
-  return parseProblem(json);
+  return parseProblem(await readJsonFile(path, 'problem', (field, message) => new InvalidInputError(field, message)));
 }
 
 /**

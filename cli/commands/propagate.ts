@@ -1,5 +1,4 @@
 /** `veer propagate <request.json> [--json]`: one propagation in-process; report or JSON on stdout. */
-import { readFile } from 'node:fs/promises';
 import {
   BUILTIN_EPHEMERIS_SPAN, buildChebyshevEphemeris, createBuiltinEphemeris, InvalidInputError, PROPAGATION_DEFAULTS,
   propagateAsync, type BodyName, type Ephemeris,
@@ -10,6 +9,7 @@ import {
 } from '../propagate-request-schema.ts';
 import { PropagateProgress } from '../propagate-progress.ts';
 import { formatPropagateReport, propagateResultJson, type PropagateRunInfo } from '../propagate-report.ts';
+import { readJsonFile } from './read-json-file.ts';
 
 const USAGE = `usage: veer propagate <request.json> [--json]
 
@@ -61,19 +61,7 @@ export function ephemerisFor(file: PropagateRequestFile, beforeBuild?: () => voi
 }
 
 async function readRequestFile(path: string): Promise<PropagateRequestFile> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    throw new InvalidInputError('request', `cannot read '${path}': ${(error as Error).message}`);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (error) {
-    throw new InvalidInputError('request', `'${path}' is not valid JSON: ${(error as Error).message}`);
-  }
-  return parsePropagateRequest(json);
+  return parsePropagateRequest(await readJsonFile(path, 'request', (field, message) => new InvalidInputError(field, message)));
 }
 
 /** The `veer propagate` command (see USAGE above and README). */

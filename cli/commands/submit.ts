@@ -2,11 +2,11 @@
  * `veer submit <problem.json>`: checks the problem locally with the planner's own parser (nothing is sent when it
  * fails), submits it as a retargeting job, and optionally follows it to the end (--watch).
  */
-import { readFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import { parseProblem } from '../../planner/index.ts';
 import type { CliCommand } from '../command.ts';
 import { JOB_EXIT, JOB_EXIT_USAGE } from './job-outcome.ts';
+import { readJsonFile } from './read-json-file.ts';
 import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
 import { watchJob } from './watch.ts';
 
@@ -32,18 +32,7 @@ interface SubmitAnswer { jobId: string; outcome: 'created' | 'existing'; statusU
 
 /** Reads the problem file as JSON and checks it with parseProblem; returns the JSON exactly as written. */
 async function readCheckedProblem(path: string): Promise<unknown> {
-  let text: string;
-  try {
-    text = await readFile(path, 'utf8');
-  } catch (error) {
-    throw new UsageError('problem', `cannot read '${path}': ${(error as Error).message}`);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (error) {
-    throw new UsageError('problem', `'${path}' is not valid JSON: ${(error as Error).message}`);
-  }
+  const json = await readJsonFile(path, 'problem', (field, message) => new UsageError(field, message));
   try {
     parseProblem(json);
   } catch (error) {
