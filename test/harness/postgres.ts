@@ -34,6 +34,17 @@ function withDatabase(url: string, database: string): string {
   return u.toString();
 }
 
+/** Runs one statement on its own connection to `url`. */
+async function runOnce(url: string, sql: string): Promise<void> {
+  const client = new pg.Client({ connectionString: url });
+  await client.connect();
+  try {
+    await client.query(sql);
+  } finally {
+    await client.end();
+  }
+}
+
 let counter = 0;
 /**
  * Each call gives a new, empty schema in one shared test database, named in the URL's `options`
@@ -44,26 +55,14 @@ function makeFresh(url: string): () => Promise<string> {
   let shared: Promise<string> | undefined;
   const sharedDatabase = async (): Promise<string> => {
     const name = `veer_tests_${process.pid}`;
-    const client = new pg.Client({ connectionString: url });
-    await client.connect();
-    try {
-      await client.query(`CREATE DATABASE ${name}`);
-    } finally {
-      await client.end();
-    }
+    await runOnce(url, `CREATE DATABASE ${name}`);
     return withDatabase(url, name);
   };
   return async () => {
     shared ??= sharedDatabase();
     const base = await shared;
     const schema = `t${Date.now().toString(36)}_${(counter += 1)}`;
-    const client = new pg.Client({ connectionString: base });
-    await client.connect();
-    try {
-      await client.query(`CREATE SCHEMA ${schema}`);
-    } finally {
-      await client.end();
-    }
+    await runOnce(base, `CREATE SCHEMA ${schema}`);
     const u = new URL(base);
     u.searchParams.set('options', `-c search_path=${schema}`);
     return u.toString();
