@@ -9,10 +9,10 @@
 import { InvalidInputError } from '../errors.ts';
 import type { BodyName } from '../types.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
-import { assertRequest } from './ephemeris-checks.ts';
+import { ComponentEphemeris } from './component-ephemeris.ts';
 import type { TabulatedEphemeris } from './tabulated-ephemeris.ts';
 
-class LayeredEphemeris implements Ephemeris {
+class LayeredEphemeris extends ComponentEphemeris {
   readonly name: string;
   readonly span: TdbSpan;
   readonly bodies: readonly BodyName[];
@@ -21,6 +21,7 @@ class LayeredEphemeris implements Ephemeris {
   private readonly fallback: Ephemeris;
 
   constructor(override: TabulatedEphemeris, fallback: Ephemeris) {
+    super();
     this.override = override;
     this.fallback = fallback;
     this.name = `${override.name} over ${fallback.name}`;
@@ -37,21 +38,10 @@ class LayeredEphemeris implements Ephemeris {
     this.bodies = Object.freeze([...new Set<BodyName>([...fallback.bodies, override.target])]);
   }
 
-  stateInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {
-    this.fill(target, centre, epochTdbS, out, offset, 6);
-  }
-
-  positionInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {
-    this.fill(target, centre, epochTdbS, out, offset, 3);
-  }
-
-  private fill(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
-    components: number): void {
-    assertRequest(this, target, centre, epochTdbS);
+  protected fillRelative(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
+    components: 3 | 6): void {
     const t = this.override.target;
-    if (target === centre) {
-      out.fill(0, offset, offset + components);
-    } else if (target !== t && centre !== t) {
+    if (target !== t && centre !== t) {
       this.get(this.fallback, target, centre, epochTdbS, out, offset, components);
     } else {
       // One side is the tabulated body: chain through the override's centre.

@@ -11,7 +11,7 @@
 import { InvalidInputError } from '../errors.ts';
 import type { BodyName, Vec3 } from '../types.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
-import { assertRequest } from './ephemeris-checks.ts';
+import { ComponentEphemeris } from './component-ephemeris.ts';
 
 /** One tabulated state: epoch TDB s from J2000; position km and velocity km/s, J2000 equatorial. */
 export interface TabulatedStateRecord {
@@ -61,7 +61,7 @@ function checkRecords(records: readonly TabulatedStateRecord[], needed: number):
   });
 }
 
-class TabulatedSource implements TabulatedEphemeris {
+class TabulatedSource extends ComponentEphemeris implements TabulatedEphemeris {
   readonly name: string;
   readonly span: TdbSpan;
   readonly bodies: readonly BodyName[];
@@ -75,6 +75,7 @@ class TabulatedSource implements TabulatedEphemeris {
   private readonly work = new Float64Array(6);
 
   constructor(options: TabulatedEphemerisOptions) {
+    super();
     const interpolation = options.interpolation ?? 'lagrange';
     if (interpolation !== 'lagrange' && interpolation !== 'hermite') {
       throw new InvalidInputError('interpolation', `'${String(interpolation)}' is not 'lagrange' or 'hermite'`);
@@ -160,21 +161,8 @@ class TabulatedSource implements TabulatedEphemeris {
     }
   }
 
-  stateInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {
-    this.fill(target, centre, epochTdbS, out, offset, 6);
-  }
-
-  positionInto(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset = 0): void {
-    this.fill(target, centre, epochTdbS, out, offset, 3);
-  }
-
-  private fill(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
-    components: number): void {
-    assertRequest(this, target, centre, epochTdbS);
-    if (target === centre) {
-      out.fill(0, offset, offset + components);
-      return;
-    }
+  protected fillRelative(target: BodyName, centre: BodyName, epochTdbS: number, out: Float64Array, offset: number,
+    components: 3 | 6): void {
     this.interpolate(epochTdbS, this.work);
     const sign = target === this.target ? 1 : -1;
     for (let c = 0; c < components; c++) out[offset + c] = sign * this.work[c];
