@@ -2,7 +2,7 @@
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
 import { jobPath, type JobStatusAnswer } from './job-outcome.ts';
-import { ApiCallError, callApi, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { callApi, reportApiError, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
 
 const USAGE = `usage: veer cancel <jobId> [--reason TEXT] [--url URL] [--token TOKEN] [--json]
 
@@ -33,9 +33,7 @@ export const cancelCommand: CliCommand = {
         : `job ${jobId}: cancellation requested while ${status.state}; it stops shortly (veer watch ${jobId})\n`);
       return 0;
     } catch (error) {
-      if (!(error instanceof ApiCallError)) throw error;
-      process.stderr.write(`veer cancel: ${error.message}\n`);
-      return exitCodeFor(error);
+      return reportApiError('cancel', error);
     }
   },
 };

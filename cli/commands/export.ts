@@ -6,7 +6,7 @@ import { writeFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
 import { CCSDS_EXPORT_FORMATS, runOfflineCcsdsExport } from './ccsds-cli.ts';
-import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, remoteFrom, UsageError, type Remote } from './review-http.ts';
+import { callApi, reportApiError, PROPOSAL_NOTICE, REMOTE_OPTIONS, remoteFrom, UsageError, type Remote } from './review-http.ts';
 
 /** One export format: fetches what it needs and returns the text to write. */
 export interface ExportFormat {
@@ -70,9 +70,7 @@ export const exportCommand: CliCommand = {
       process.stdout.write(`wrote ${file} (${Buffer.byteLength(text)} bytes)\n${PROPOSAL_NOTICE}\n`);
       return 0;
     } catch (error) {
-      if (!(error instanceof ApiCallError)) throw error;
-      process.stderr.write(`veer export: ${error.message}\n`);
-      return exitCodeFor(error);
+      return reportApiError('export', error);
     }
   },
 };

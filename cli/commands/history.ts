@@ -1,7 +1,7 @@
 /** `veer history <planId>`: a plan's archive entries, oldest first, each with its hash re-checked. */
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
-import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { callApi, reportApiError, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
 
 const USAGE = `usage: veer history <planId> [--url URL] [--token TOKEN] [--json]
 
@@ -48,9 +48,7 @@ export const historyCommand: CliCommand = {
       process.stdout.write(lines.join('\n') + '\n');
       return answer.entries.every((e) => e.hashMatches) ? 0 : 1;
     } catch (error) {
-      if (!(error instanceof ApiCallError)) throw error;
-      process.stderr.write(`veer history: ${error.message}\n`);
-      return exitCodeFor(error);
+      return reportApiError('history', error);
     }
   },
 };

@@ -73,6 +73,16 @@ export async function callApi<T>(remote: Remote, method: string, path: string, b
   return parsed as T;
 }
 
+/**
+ * The catch of a remote command: rethrows anything that is not an API answer; otherwise prints
+ * `veer <command>: <message>` on stderr and returns the exit code (see exitCodeFor).
+ */
+export function reportApiError(command: string, error: unknown): number {
+  if (!(error instanceof ApiCallError)) throw error;
+  process.stderr.write(`veer ${command}: ${error.message}\n`);
+  return exitCodeFor(error);
+}
+
 /** Exit code for an API error: 2 for a refused request the user can fix (4xx), 1 otherwise. */
 export function exitCodeFor(error: unknown): number {
   return error instanceof ApiCallError && error.status >= 400 && error.status < 500 ? 2 : 1;

@@ -2,7 +2,7 @@
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
 import { describeOutcome, isFinal, jobPath, statusLines, type JobStatusAnswer } from './job-outcome.ts';
-import { ApiCallError, callApi, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { callApi, reportApiError, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
 
 const USAGE = `usage: veer status <jobId> [--url URL] [--token TOKEN] [--json]
 
@@ -31,9 +31,7 @@ export const statusCommand: CliCommand = {
       process.stdout.write(lines.join('\n') + '\n');
       return 0;
     } catch (error) {
-      if (!(error instanceof ApiCallError)) throw error;
-      process.stderr.write(`veer status: ${error.message}\n`);
-      return exitCodeFor(error);
+      return reportApiError('status', error);
     }
   },
 };

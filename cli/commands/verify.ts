@@ -8,7 +8,7 @@ import {
   ArchiveNotFoundError, BUNDLE_HEAD_ADVICE, checkPlanBundle, verifyPostgresReadOnly, verifySqliteReadOnly, type PlanBundle, type VerifyReport,
 } from '../../archive/index.ts';
 import type { CliCommand } from '../command.ts';
-import { ApiCallError, callApi, exitCodeFor, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { callApi, reportApiError, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
 
 const USAGE = `usage: veer verify [--url URL] [--token TOKEN]          through the API (auditor role)
        veer verify --data-dir DIR | --database-url URL   directly on a store, read-only (never created or migrated)
@@ -77,9 +77,7 @@ export const verifyCommand: CliCommand = {
       try {
         report = await callApi<VerifyReport>(remoteFrom(values), 'GET', '/v1/archive/verify');
       } catch (error) {
-        if (!(error instanceof ApiCallError)) throw error;
-        process.stderr.write(`veer verify: ${error.message}\n`);
-        return exitCodeFor(error);
+        return reportApiError('verify', error);
       }
     }
     process.stdout.write(values.json ? JSON.stringify(report, null, 2) + '\n' : reportText(report));

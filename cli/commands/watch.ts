@@ -7,7 +7,7 @@ import type { CliCommand } from '../command.ts';
 import {
   describeOutcome, isFinal, JOB_EXIT, JOB_EXIT_USAGE, jobPath, progressText, type JobStatusAnswer, type ProgressAnswer,
 } from './job-outcome.ts';
-import { ApiCallError, exitCodeFor, parseAnswer, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, sendToApi, UsageError, type Remote } from './review-http.ts';
+import { ApiCallError, reportApiError, parseAnswer, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, sendToApi, UsageError, type Remote } from './review-http.ts';
 
 const MAX_RECONNECTS = 5;
 const RECONNECT_DELAY_MS = 2000;
@@ -135,9 +135,7 @@ export const watchCommand: CliCommand = {
     try {
       return await watchJob(remoteFrom(values), jobId, values.json);
     } catch (error) {
-      if (!(error instanceof ApiCallError)) throw error;
-      process.stderr.write(`veer watch: ${error.message}\n`);
-      return exitCodeFor(error);
+      return reportApiError('watch', error);
     }
   },
 };
