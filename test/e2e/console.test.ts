@@ -297,7 +297,8 @@ describe('ops console', () => {
       await shot(page, '10-jobs-cancelled');
       await page.getByRole('link', { name: 'Plans' }).click();
       await page.getByRole('link', { name: 'Saltmarsh' }).first().waitFor();
-      expect(await page.locator('table.data tbody tr').count()).toBe(1); // the cancelled job made no plan
+      // Poll: a 'Saltmarsh' link can be on screen before the plans table has rendered its rows.
+      await expect.poll(() => page.locator('table.data tbody tr').count(), { timeout: 15_000 }).toBe(1); // the cancelled job made no plan
       expect(await page.getByTestId('plan-state').first().textContent()).toBe('approved');
       await shot(page, '11-plans');
     });
