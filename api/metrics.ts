@@ -51,7 +51,7 @@ export class ServiceMetrics {
   watch(events: JobEventHub): void {
     this.unsubscribe = events.subscribe('*', (e) => {
       if (e.type !== 'completed' && e.type !== 'failed') return;
-      void this.queue.queue.getJob(e.jobId).then((job) => {
+      void this.queue.findJob(e.jobId).then((job) => {
         if (!job || job.name !== JOB_NAMES.retarget || !job.processedOn || !job.finishedOn) return;
         this.jobDuration.observe({ outcome: e.type }, (job.finishedOn - job.processedOn) / 1000);
       }, () => {});

@@ -38,7 +38,7 @@ export class ArchivePlanReader implements PlanReader {
 export class JobResultPlanReader implements PlanReader {
   constructor(private readonly queue: RetargetQueue) {}
   async get(planId: string) {
-    const job = await this.queue.queue.getJob(planId);
+    const job = await this.queue.findJob(planId);
     const plan = job?.returnvalue?.plan;
     if (!job || !plan || !job.finishedOn) return undefined;
     return { summary: this.summary(job.id ?? planId, job.data.submittedBy, job.finishedOn, plan), plan: plan as unknown as Record<string, unknown> };

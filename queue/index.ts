@@ -10,7 +10,7 @@ export {
   type JobProgress, type JobRequest, type JobRequestInput, type JobState, type JobStatus, type Priority,
   type RetargetJobData, type RetargetJobResult, type SampleBatchData, type SampleBatchResult,
 } from './job-types.ts';
-export { RetargetQueue, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './retarget-queue.ts';
+export { RetargetQueue, isIssuedJobId, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './retarget-queue.ts';
 export { JobEventHub, type JobEvent } from './job-events.ts';
 export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './retarget-worker.ts';
 export { ArchivePlanSink, JobResultSink, type ArchiveAppends, type PlanSink, type ProposedPlanInput } from './plan-sink.ts';

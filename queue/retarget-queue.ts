@@ -39,6 +39,18 @@ export type CancelOutcome =
 /** Job counts by client-facing state. */
 export type JobCounts = Record<'waiting' | 'delayed' | 'active' | 'waiting-children' | 'completed' | 'failed', number>;
 
+/**
+ * The job ids this queue issues: `j-<uuid>`, `k-<40 hex>` (idempotency key) and sample batches
+ * `<parent>-mc-<firstIndex>`. Any other spelling cannot name a job, and must not reach BullMQ: ids such as
+ * `id`, `events` or `completed` are the queue's own Redis keys (of other types), which it would read as a job.
+ */
+const ISSUED_JOB_ID = /^(?:j-[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}|k-[0-9a-f]{40})(?:-mc-\d{1,9})?$/;
+
+/** True when `jobId` has the shape of an id this queue issues (not that such a job exists). */
+export function isIssuedJobId(jobId: string): boolean {
+  return ISSUED_JOB_ID.test(jobId);
+}
+
 const CLIENT_STATE: Record<string, JobState> = {
   waiting: 'waiting', prioritized: 'waiting', 'waiting-children': 'waiting-children', delayed: 'delayed',
   active: 'active', completed: 'completed', failed: 'failed',
@@ -61,6 +73,12 @@ export class RetargetQueue {
 
   get prefix(): string { return this.opts.prefix; }
 
+  /** The job with this id, or undefined when there is none or the id is not one this queue issues. */
+  async findJob(jobId: string): Promise<Job<RetargetJobData, RetargetJobResult> | undefined> {
+    if (!isIssuedJobId(jobId)) return undefined;
+    return (await this.queue.getJob(jobId)) ?? undefined;
+  }
+
   /**
    * Enqueues a validated request. With an idempotency key the job id is derived from (submitter, key), so a
    * repeat finds the first job; the stored request hash tells a true repeat from a key reused for other work.
@@ -72,7 +90,7 @@ export class RetargetQueue {
       ? `k-${sha256(`${submittedBy}\n${request.idempotencyKey}`).slice(0, 40)}`
       : `j-${randomUUID()}`;
     if (request.idempotencyKey) {
-      const existing = await this.queue.getJob(jobId);
+      const existing = await this.findJob(jobId);
       if (existing) return { outcome: existing.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
       // Cancelled before it ran (no job left): the record keeps the request hash to answer the same way.
       const cancelled = await readCancel(this.redis, this.prefix, jobId);
@@ -98,13 +116,14 @@ export class RetargetQueue {
     });
     if (!request.idempotencyKey) return { outcome: 'created', jobId };
     // Two concurrent first submissions with one key: BullMQ keeps the first; tell the second apart.
-    const stored = await this.queue.getJob(jobId);
+    const stored = await this.findJob(jobId);
     if (!stored || stored.data.submissionId === submissionId) return { outcome: 'created', jobId };
     return { outcome: stored.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
   }
 
   /** A retarget job's status, or undefined when unknown (never submitted, or expired). */
   async status(jobId: string): Promise<JobStatus | undefined> {
+    if (!isIssuedJobId(jobId)) return undefined;
     const { job, state } = await this.snapshot(jobId);
     const cancel = await readCancel(this.redis, this.prefix, jobId);
     if (!job || job.name !== JOB_NAMES.retarget) {
@@ -150,16 +169,16 @@ export class RetargetQueue {
    * between (state completed, no result yet), so a finished state is followed by a fresh read of the job.
    */
   private async snapshot(jobId: string): Promise<{ job: Job<RetargetJobData, RetargetJobResult> | undefined; state: string }> {
-    let job = await this.queue.getJob(jobId);
+    let job = await this.findJob(jobId);
     if (!job) return { job, state: 'unknown' };
     const state = await job.getState();
-    if ((state === 'completed' || state === 'failed') && !job.finishedOn) job = await this.queue.getJob(jobId);
+    if ((state === 'completed' || state === 'failed') && !job.finishedOn) job = await this.findJob(jobId);
     return { job, state };
   }
 
   /** The finished job's result (with the plan when no archive holds it). */
   async result(jobId: string): Promise<RetargetJobResult | undefined> {
-    const job = await this.queue.getJob(jobId);
+    const job = await this.findJob(jobId);
     return job?.returnvalue ?? undefined;
   }
 
@@ -168,7 +187,8 @@ export class RetargetQueue {
    * (`cancelling`; it ends failed with a CancelledError reason, reported as `cancelled`).
    */
   async cancel(jobId: string, by: string, reason: string): Promise<CancelOutcome> {
-    const job = await this.queue.getJob(jobId);
+    if (!isIssuedJobId(jobId)) return { outcome: 'not-found', jobId };
+    const job = await this.findJob(jobId);
     if (!job || job.name !== JOB_NAMES.retarget) {
       const earlier = await readCancel(this.redis, this.prefix, jobId);
       return earlier ? { outcome: 'already-finished', jobId, state: 'cancelled' } : { outcome: 'not-found', jobId };

@@ -69,7 +69,7 @@ async function problemOf(deps: AppDeps, planId: string): Promise<PlanningProblem
     const entries = await deps.archive.history(planId);
     raw = entries.find((e) => e.kind === 'job-submitted')?.payload.problem;
   } else {
-    raw = (await deps.queue.queue.getJob(planId))?.data.problem;
+    raw = (await deps.queue.findJob(planId))?.data.problem;
   }
   const parsed = jobRequestSchema.shape.problem.safeParse(raw);
   return parsed.success ? parsed.data : undefined;
