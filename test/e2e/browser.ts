@@ -6,8 +6,9 @@ import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium, type BrowserContext } from 'playwright-core';
+import { chromiumPath } from '../../scripts/setup.mjs';
 
-export const CHROMIUM_PATH = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+export const CHROMIUM_PATH = chromiumPath();
 
 export interface TestBrowser { context: BrowserContext; close(): Promise<void> }
 

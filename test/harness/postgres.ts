@@ -9,11 +9,12 @@
  *     the `postgres` user cannot read is no obstacle).
  */
 import { execFile } from 'node:child_process';
-import { chownSync, existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { chownSync, existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { promisify } from 'node:util';
 import pg from 'pg';
+import { postgresBinDir } from '../../scripts/setup.mjs';
 import { freePort } from './free-port.ts';
 
 const run = promisify(execFile);
@@ -67,14 +68,6 @@ function makeFresh(url: string): () => Promise<string> {
     u.searchParams.set('options', `-c search_path=${schema}`);
     return u.toString();
   };
-}
-
-function postgresBinDir(): string | null {
-  if (process.env.PG_BIN && existsSync(join(process.env.PG_BIN, 'initdb'))) return process.env.PG_BIN;
-  const root = '/usr/lib/postgresql';
-  if (!existsSync(root)) return null;
-  const versions = readdirSync(root).filter((v) => existsSync(join(root, v, 'bin', 'initdb'))).sort((a, b) => Number(b) - Number(a));
-  return versions.length ? join(root, versions[0], 'bin') : null;
 }
 
 async function startContainer(): Promise<TestPostgres | null> {
