@@ -202,6 +202,7 @@ export function* propagationSteps(
     while (burnsApplied < burns.length && burns[burnsApplied].epochTdbS === target) {
       const y = Float64Array.from(stepper.y);
       if (segments !== null) {
+        dynamics.settleStm?.(target, y);
         segments.closeAtBurn(y, direction);
         resetStm(y);
       }
@@ -228,6 +229,7 @@ export function* propagationSteps(
     stats: { ...stepper.counts, rectifications: dynamics.rectifications ?? 0, switches: [] },
   };
   if (segments !== null) {
+    dynamics.settleStm?.(finalEpoch, yFinal);
     const { stm, burnSensitivities } = segments.finish(yFinal, burns.length - burnsApplied);
     result.stm = stm;
     // Back to the request's order of burns.

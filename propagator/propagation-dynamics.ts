@@ -31,9 +31,11 @@ export interface PropagationDynamics {
   /** First trial step, s, when the formulation knows a better one than the stepper's estimate (Encke's
    * deviation starts at zero, where that estimate degenerates). */
   readonly initialStepS?: number;
-  /** Largest step, s, when the formulation needs one (Encke with the STM: Φ follows the full gravity
-   * gradient, which the small deviation's error estimate does not see). */
+  /** Largest step, s, when the formulation needs one. */
   readonly maxStepS?: number;
+  /** Encke with the STM: rewrites `y` in place so that y[6..41] holds Φ itself (it holds Φ's deviation
+   * part between restarts of the reference conic); the loop calls it before reading Φ. */
+  settleStm?(epochTdbS: number, y: Float64Array): void;
   /** Encke: reference-conic rectifications so far. */
   readonly rectifications?: number;
   /** The formulation these equations implement, reported as the result's `methodUsed`; absent means

@@ -25,14 +25,16 @@
  * interval does not; evaluating the conic at the label made δ and Φ inconsistent with ρ (Φ errors of 1e-6
  * measured at t = 8e8 s against 4e-10 at 1e5 s). The Cartesian read-out uses the label.
  *
- * STM: Φ rides along in y[6..41] and obeys Φ' = A Φ with the full-state gradient of the force model at
- * the reconstructed true state (Φ is a property of the true trajectory, unaffected by rectification).
- * A small deviation lets Encke take steps far longer than Φ's dynamics (the full gravity gradient) allow,
- * so with the STM the step is capped by stmStepLimit.
+ * STM: y[6..41] holds M with Φ = Φ_K(τ)·M (encke-stm.ts): the reference conic's analytic two-body STM
+ * carries the fast part of Φ, and the integrated M follows only the deviation's variational part, so the
+ * STM costs no extra steps. Φ stays out of the error norm, as in Cowell's variational equations. Φ is a
+ * property of the true trajectory, unaffected by rectification (M is folded into Φ at each restart).
  */
 import type { ForceModel } from '../forces/index.ts';
 import { battinF } from '../forces/index.ts';
 import { keplerSolve } from '../kepler/universal-kepler.ts';
+import { keplerStm } from '../kepler/two-body-stm.ts';
+import { deviationStmRatesInto, EnckeStmScratch, foldReferenceStm, keplerGradientInto } from './encke-stm.ts';
 
 /** Settings of Encke's method (dimensionless ratios), one frozen object that code and README point to. */
 export const ENCKE_DEFAULTS = Object.freeze({
@@ -68,22 +70,6 @@ export function degenerateReason(state: ArrayLike<number>, mu: number): string |
   return null;
 }
 
-/**
- * Step cap for Encke with the STM, s: 2·rtol^(1/8)·√(r_p³/μ), with r_p the periapsis radius of the
- * starting conic — about the step an 8th-order method needs to follow Kepler motion to rtol at its
- * fastest point (our rule, close to the step DOP853 Cowell takes at rtol 1e-12 on a circular orbit, ~0.07/n).
- */
-export function stmStepLimit(total: ArrayLike<number>, mu: number, rtol: number): number {
-  const [x, y, z, vx, vy, vz] = [total[0], total[1], total[2], total[3], total[4], total[5]];
-  const r = Math.hypot(x, y, z);
-  const h2 = (y * vz - z * vy) ** 2 + (z * vx - x * vz) ** 2 + (x * vy - y * vx) ** 2;
-  const rv = x * vx + y * vy + z * vz;
-  const c = vx * vx + vy * vy + vz * vz - mu / r;
-  const e = Math.hypot(c * x - rv * vx, c * y - rv * vy, c * z - rv * vz) / mu;
-  const rp = Math.min(r, h2 / mu / (1 + e));
-  return 2 * rtol ** 0.125 * Math.sqrt(rp ** 3 / mu);
-}
-
 /** Encke formulation over one force model (one central body); shaped as PropagationDynamics. */
 export class EnckeDynamics {
   readonly forces: ForceModel;
@@ -91,8 +77,6 @@ export class EnckeDynamics {
   readonly method = 'encke';
   /** The deviation only (Φ stays out of the error norm, as in Cowell's variational equations). */
   readonly errorComponents = 6;
-  /** With the STM only: see stmStepLimit. */
-  readonly maxStepS: number | undefined;
   readonly initialY: Float64Array;
   /** First trial step: 1e-3 of the reference conic's time scale √(r³/μ) (δ = 0 at the start gives the
    * stepper's own estimate nothing to work with). */
@@ -110,6 +94,8 @@ export class EnckeDynamics {
   private readonly grad = new Float64Array(9);
   private readonly total = new Float64Array(6);
   private readonly scratch = new Float64Array(6);
+  private readonly gradK = new Float64Array(9);
+  private readonly stmScratch = new EnckeStmScratch();
 
   /**
    * @param epoch0 start epoch, TDB s from J2000
@@ -124,7 +110,6 @@ export class EnckeDynamics {
     const { relativeTolerance: rtol, absoluteTolerance: atol } = tolerances;
     this.lengthKm = (atol + rtol * Math.hypot(total0[0], total0[1], total0[2])) / atol;
     this.speedKmS = (atol + rtol * Math.hypot(total0[3], total0[4], total0[5])) / atol;
-    this.maxStepS = withStm ? stmStepLimit(total0, this.mu, rtol) : undefined;
     this.refEpoch = epoch0;
     this.setReference(total0);
     this.initialStepS = 1e-3 * Math.sqrt(Math.hypot(total0[0], total0[1], total0[2]) ** 3 / this.mu);
@@ -144,10 +129,17 @@ export class EnckeDynamics {
     return { r: s.positionKm, v: s.velocityKmS };
   }
 
+  /** Reference conic after τ seconds with its analytic STM Φ_K(τ) (row-major 6x6). */
+  private referenceWithStm(tau: number): { r: number[]; v: number[]; stm: number[] } {
+    const s = keplerStm(Array.from(this.refState.subarray(0, 3)), Array.from(this.refState.subarray(3, 6)), tau, this.mu);
+    return { r: s.positionKm, v: s.velocityKmS, stm: s.stm };
+  }
+
   readonly rhs = (t: number, y: Float64Array, dydt: Float64Array): void => {
     const L = this.lengthKm;
     const V = this.speedKmS;
-    const { r: rho } = this.reference(y[this.clock]);
+    const ref: { r: number[]; stm?: number[] } = this.withStm ? this.referenceWithStm(y[this.clock]) : this.reference(y[this.clock]);
+    const rho = ref.r;
     dydt[this.clock] = 1;
     const d0 = y[0] * L;
     const d1 = y[1] * L;
@@ -174,13 +166,10 @@ export class EnckeDynamics {
     dydt[4] = (-k * (d1 - f * rho[1]) + (acc[1] + k * tot[1])) / V;
     dydt[5] = (-k * (d2 - f * rho[2]) + (acc[2] + k * tot[2])) / V;
     if (this.withStm) {
-      const g = this.grad;
-      for (let j = 0; j < 18; j++) dydt[6 + j] = y[24 + j];
-      for (let i = 0; i < 3; i++) {
-        for (let j = 0; j < 6; j++) {
-          dydt[24 + 6 * i + j] = g[3 * i] * y[6 + j] + g[3 * i + 1] * y[12 + j] + g[3 * i + 2] * y[18 + j];
-        }
-      }
+      // ΔG = G(x) − G_K(ρ): the part of the gravity gradient the reference conic's Φ_K does not carry.
+      keplerGradientInto(rho, this.mu, this.gradK);
+      for (let k = 0; k < 9; k++) this.gradK[k] = this.grad[k] - this.gradK[k];
+      if (ref.stm !== undefined) deviationStmRatesInto(ref.stm, this.gradK, y, 6, dydt, this.stmScratch);
     }
   };
 
@@ -213,9 +202,22 @@ export class EnckeDynamics {
     return true;
   }
 
+  /** Folds the reference conic's STM into y[6..41] and restarts the conic at the current state, so that
+   * y[6..41] holds Φ itself (the propagation loop reads Φ there at burns and at the end). */
+  settleStm(epochTdbS: number, y: Float64Array): void {
+    if (this.withStm) this.restartAt(epochTdbS, y);
+  }
+
   private restartAt(epochTdbS: number, y: Float64Array): void {
     // The new conic starts from the state the dynamics have reached (τ-consistent), labelled epochTdbS.
-    const { r, v } = this.reference(y[this.clock]);
+    const tau = y[this.clock];
+    let ref: { r: number[]; v: number[] } = this.reference(tau);
+    if (this.withStm && tau !== 0) {
+      const withStm = this.referenceWithStm(tau);
+      foldReferenceStm(withStm.stm, y, 6, this.stmScratch);
+      ref = withStm;
+    }
+    const { r, v } = ref;
     for (let i = 0; i < 3; i++) {
       this.scratch[i] = r[i] + y[i] * this.lengthKm;
       this.scratch[3 + i] = v[i] + y[3 + i] * this.speedKmS;
