@@ -12,4 +12,4 @@ export { validate, validOf, zodIssues } from './validate.ts';
 export { ArchivePlanReader, JobResultPlanReader, type PlanReader, type PlanSummary } from './plan-reader.ts';
 export {
   REVIEW_NOTICE, jobStatusSchema, submitResponseSchema, planSummarySchema, planResponseSchema, jobRequestSchema,
-} from './schemas.ts';
+} from '../contract/http-schemas.ts';

@@ -5,7 +5,7 @@
 import type { PlanArchive, PlanFilter, PlanRecord } from '../archive/index.ts';
 import type { RetargetQueue } from '../queue/index.ts';
 import type { z } from 'zod';
-import type { planSummarySchema } from './schemas.ts';
+import type { planSummarySchema } from '../contract/http-schemas.ts';
 
 export type PlanSummary = z.infer<typeof planSummarySchema>;
 

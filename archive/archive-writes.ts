@@ -7,7 +7,7 @@ import type { ArchiveTx } from './operations.ts';
 import type {
   AppendResult, ArchiveEntry, PlanRecord, RecordJobCancelledInput, RecordJobFailedInput, RecordJobSubmittedInput,
   RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, ReviewGuard,
-} from './types.ts';
+} from '../contract/archive-types.ts';
 
 export abstract class ArchiveWrites {
   /** Clock for entry times. */

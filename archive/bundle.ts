@@ -7,7 +7,7 @@ import { canonicalJson } from './canonical-json.ts';
 import { entryHash, entryHeader, headerHash, payloadHash, type EntryHeader } from './chain.ts';
 import { ArchiveNotFoundError } from './errors.ts';
 import { applyToPlan, planFromProposal } from './projection.ts';
-import { GENESIS_HASH, type ArchivablePlan, type ArchiveEntry, type PlanArchive, type PlanRecord } from './types.ts';
+import { GENESIS_HASH, type ArchivablePlan, type ArchiveEntry, type PlanArchive, type PlanRecord } from '../contract/archive-types.ts';
 
 export const BUNDLE_FORMAT = 'veer-plan-bundle';
 

@@ -3,7 +3,7 @@
  * sequence order and stops at the first one that does not match.
  */
 import { canonicalJson, sha256Hex } from './canonical-json.ts';
-import { ENTRY_KINDS, GENESIS_HASH, type ArchiveEntry, type VerifyFailure } from './types.ts';
+import { ENTRY_KINDS, GENESIS_HASH, type ArchiveEntry, type VerifyFailure } from '../contract/archive-types.ts';
 
 /** An entry before its hash is known. */
 export type UnhashedEntry = Omit<ArchiveEntry, 'hash'>;

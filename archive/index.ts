@@ -1,5 +1,5 @@
 /** Public face of archive/: other rooms import from here only. */
-export * from './types.ts';
+export * from '../contract/archive-types.ts';
 export { ArchiveConflictError, ArchiveInputError, ArchiveIntegrityError, ArchiveNotFoundError } from './errors.ts';
 export { canonicalJson, canonicalHash, sha256Hex } from './canonical-json.ts';
 export { entryHash, entryHeader, headerHash, payloadHash, ChainVerifier, type EntryHeader } from './chain.ts';

@@ -2,7 +2,7 @@
 import { join } from 'node:path';
 import { PostgresArchive } from './postgres/postgres-archive.ts';
 import { SqliteArchive } from './sqlite/sqlite-archive.ts';
-import type { PlanArchive } from './types.ts';
+import type { PlanArchive } from '../contract/archive-types.ts';
 
 export interface OpenArchiveOptions {
   /** postgres://… — when set, the PostgreSQL store is used. @defaultValue process.env.DATABASE_URL */

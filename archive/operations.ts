@@ -12,7 +12,7 @@ import { applyToJob, applyToPlan, planFromProposal } from './projection.ts';
 import type {
   AppendResult, ArchiveEntry, EntryKind, JobRecord, PlanRecord, RecordJobCancelledInput, RecordJobFailedInput,
   RecordJobSubmittedInput, RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, ReviewGuard,
-} from './types.ts';
+} from '../contract/archive-types.ts';
 
 /** What a store offers inside its write transaction. Reads see the locked, current state. */
 export interface ArchiveTx {

@@ -3,7 +3,7 @@
  * imports only the plan's types from planner/ (erased at run time).
  */
 import type { ManeuverPlan } from '../planner/index.ts';
-import type { ArchivablePlan } from './types.ts';
+import type { ArchivablePlan } from '../contract/archive-types.ts';
 
 /** Resolves to `true` only while ManeuverPlan stays assignable to ArchivablePlan. */
 export type ManeuverPlanIsArchivable = ManeuverPlan extends ArchivablePlan ? true : never;

@@ -5,7 +5,7 @@
  */
 import type {
   ArchiveEntry, JobRecord, PlanProposedPayload, PlanRecord, PlanSupersededPayload, ProjectionMismatch, ReviewPayload,
-} from './types.ts';
+} from '../contract/archive-types.ts';
 
 /** The plan record a `plan-proposed` entry creates. */
 export function planFromProposal(entry: ArchiveEntry): PlanRecord {

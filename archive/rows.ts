@@ -1,7 +1,7 @@
 /** Row ↔ record mapping shared by both stores (same column names; PostgreSQL returns BIGINT as text). */
 import { canonicalJson } from './canonical-json.ts';
 import { parsePayload } from './verify.ts';
-import type { ArchiveEntry, EntryKind, JobArchiveState, JobRecord, PlanRecord, PlanState } from './types.ts';
+import type { ArchiveEntry, EntryKind, JobArchiveState, JobRecord, PlanRecord, PlanState } from '../contract/archive-types.ts';
 
 type Row = Record<string, unknown>;
 

@@ -12,7 +12,7 @@ import { SQLITE_ARCHIVE_FILE } from './open-archive.ts';
 import { inTransaction } from './postgres/pg-transaction.ts';
 import { postgresVerifySource } from './postgres/postgres-archive.ts';
 import { sqliteVerifySource } from './sqlite/sqlite-archive.ts';
-import type { VerifyReport } from './types.ts';
+import type { VerifyReport } from '../contract/archive-types.ts';
 import { verifySource } from './verify.ts';
 
 type Row = Record<string, unknown>;

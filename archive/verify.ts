@@ -1,7 +1,7 @@
 /** Verification of a whole archive from a consistent snapshot: the chain, the head, and the projection. */
 import { ChainVerifier } from './chain.ts';
 import { ProjectionDeriver } from './projection.ts';
-import type { ArchiveEntry, PlanRecord, VerifyReport } from './types.ts';
+import type { ArchiveEntry, PlanRecord, VerifyReport } from '../contract/archive-types.ts';
 
 /** A consistent (snapshot) view of a store, for verification. */
 export interface VerifySource {

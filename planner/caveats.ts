@@ -2,7 +2,7 @@
  * The caveat catalogue: stable codes (the archive, the console and reviewers key on them), a severity and
  * a plain-text message built from the numbers that triggered it. `PROPOSAL_REQUIRES_REVIEW` is on every plan.
  */
-import type { Caveat, CaveatSeverity } from './plan-types.ts';
+import type { Caveat, CaveatSeverity } from '../contract/plan-types.ts';
 
 export const CAVEAT_CODES = [
   'PROPOSAL_REQUIRES_REVIEW',

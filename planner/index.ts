@@ -1,19 +1,19 @@
 /** Public face of planner/: other rooms import from here only. */
-export { problemSchema, epochTextSchema, REFERENCE_PLANES } from './problem-schema.ts';
+export { problemSchema, epochTextSchema, REFERENCE_PLANES } from '../contract/problem-schema.ts';
 export type {
   PlanningProblem, PlanningProblemInput, ProblemBurn, ProblemTarget, TargetKind, ExecutionErrors, ReferencePlane,
-} from './problem-schema.ts';
+} from '../contract/problem-schema.ts';
 export { parseProblem, checkProblem, problemEpochs } from './problem-checks.ts';
 export type { ProblemEpochs } from './problem-checks.ts';
 export { canonicalJson, problemHash, targetSetKey } from './problem-hash.ts';
 export { CAVEAT_CODES, REVIEW_TEXT, caveat, reviewCaveat, orderCaveats } from './caveats.ts';
 export type { CaveatCode } from './caveats.ts';
-export type * from './plan-types.ts';
+export type * from '../contract/plan-types.ts';
 export { planManeuvers } from './plan/plan-maneuvers.ts';
 export type { PlanOptions } from './plan/plan-maneuvers.ts';
 export { runDispersionSamples, summariseDispersion, attachMonteCarlo } from './plan/monte-carlo.ts';
 export type { SampleRunOptions } from './plan/monte-carlo.ts';
-export { SOFTWARE_VERSION } from './plan/software-version.ts';
+export { SOFTWARE_VERSION } from '../contract/software-version.ts';
 export { solveLambert, LAMBERT_DEFAULTS } from './lambert/index.ts';
 export type { LambertDirection, LambertOptions, LambertSolution } from './lambert/index.ts';
 export {

@@ -7,8 +7,8 @@ import {
   BUILTIN_EPHEMERIS_SPAN, InvalidInputError, OutOfSpanError, formatEpoch, parseEpoch, RADIUS_KM, J2_EARTH,
 } from '../propagator/index.ts';
 import type { BodyName } from '../propagator/index.ts';
-import { problemSchema } from './problem-schema.ts';
-import type { PlanningProblem, ProblemTarget } from './problem-schema.ts';
+import { problemSchema } from '../contract/problem-schema.ts';
+import type { PlanningProblem, ProblemTarget } from '../contract/problem-schema.ts';
 
 /** Turns a zod issue path into `burns[0].epoch`. */
 export function issuePath(path: readonly PropertyKey[]): string {

@@ -5,7 +5,7 @@
  */
 import { createHash } from 'node:crypto';
 import { InvalidInputError } from '../propagator/index.ts';
-import type { PlanningProblem } from './problem-schema.ts';
+import type { PlanningProblem } from '../contract/problem-schema.ts';
 
 /** Canonical JSON text of plain data (objects, arrays, strings, finite numbers, booleans, null).
  * Undefined object members are dropped, as JSON.stringify does. */

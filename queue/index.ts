@@ -9,7 +9,7 @@ export {
   JOB_NAMES, JOB_STATES, PRIORITIES, RETARGET_QUEUE, BULL_PRIORITY, idempotencyKeySchema, jobRequestSchema,
   type JobProgress, type JobRequest, type JobRequestInput, type JobState, type JobStatus, type Priority,
   type RetargetJobData, type RetargetJobResult, type SampleBatchData, type SampleBatchResult,
-} from './job-types.ts';
+} from '../contract/job-types.ts';
 export { RetargetQueue, isIssuedJobId, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './retarget-queue.ts';
 export { JobEventHub, type JobEvent } from './job-events.ts';
 export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './retarget-worker.ts';
@@ -19,7 +19,7 @@ export { startWorkerFromConfig } from './worker-from-config.ts';
 export { PlannerPool, type PlannerPoolOptions } from './planner-pool.ts';
 export { isFinalFailure, sampleBatches } from './processor.ts';
 export { findProblemIssue, type ProblemIssue } from './job-request-check.ts';
-export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from './env-config.ts';
+export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from '../contract/env-config.ts';
 export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './worker-config.ts';
 export { createRedis } from './connection.ts';
 export { createLogger } from './logger.ts';

@@ -5,7 +5,7 @@
 import { EventEmitter } from 'node:events';
 import { QueueEvents } from 'bullmq';
 import { createRedis } from './connection.ts';
-import { RETARGET_QUEUE } from './job-types.ts';
+import { RETARGET_QUEUE } from '../contract/job-types.ts';
 
 export type JobEvent =
   | { type: 'active'; jobId: string }

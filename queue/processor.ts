@@ -14,7 +14,7 @@ import { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, readCancel } from '.
 import {
   BULL_PRIORITY, JOB_NAMES, type JobProgress, type RetargetJobData, type RetargetJobResult,
   type SampleBatchData, type SampleBatchResult,
-} from './job-types.ts';
+} from '../contract/job-types.ts';
 import type { PlanSink } from './plan-sink.ts';
 import type { PlannerPool } from './planner-pool.ts';
 

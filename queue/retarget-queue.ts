@@ -13,7 +13,7 @@ import { createRedis } from './connection.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
   type RetargetJobData, type RetargetJobResult,
-} from './job-types.ts';
+} from '../contract/job-types.ts';
 
 export interface RetargetQueueOptions {
   redisUrl: string;

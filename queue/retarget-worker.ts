@@ -7,7 +7,7 @@ import { Queue, Worker, type Job } from 'bullmq';
 import type { Logger } from 'pino';
 import { cancelChannel, readCancel } from './cancellation.ts';
 import { createRedis } from './connection.ts';
-import { JOB_NAMES, RETARGET_QUEUE, type RetargetJobData, type SampleBatchData } from './job-types.ts';
+import { JOB_NAMES, RETARGET_QUEUE, type RetargetJobData, type SampleBatchData } from '../contract/job-types.ts';
 import type { PlanSink } from './plan-sink.ts';
 import { PlannerPool } from './planner-pool.ts';
 import { processRetarget, processSamples, type ProcessorDeps } from './processor.ts';

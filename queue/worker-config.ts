@@ -3,7 +3,7 @@
  * Durations carry their unit in the name.
  */
 import { z } from 'zod';
-import { envInt, logLevelSchema, parseEnv, postgresUrlSchema, redisUrlSchema } from './env-config.ts';
+import { envInt, logLevelSchema, parseEnv, postgresUrlSchema, redisUrlSchema } from '../contract/env-config.ts';
 
 export const workerEnvSchema = z.object({
   REDIS_URL: redisUrlSchema.default('redis://127.0.0.1:6379'),

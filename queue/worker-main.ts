@@ -2,7 +2,7 @@
  * `npm run worker`: one worker process. Configuration from the environment (see README "Service");
  * SIGTERM/SIGINT stop taking jobs and let running ones finish (a second signal forces).
  */
-import { ConfigError } from './env-config.ts';
+import { ConfigError } from '../contract/env-config.ts';
 import { createLogger } from './logger.ts';
 import { loadWorkerConfig } from './worker-config.ts';
 import { startWorkerFromConfig } from './worker-from-config.ts';

@@ -1,5 +1,5 @@
 /** Identities and roles for api/: bearer tokens stored as hashes, `authenticate` and `requireRoles`. */
-export { ROLES, roleSchema, sameIdentityName, tokenNameSchema, type Identity, type Role } from './roles.ts';
+export { ROLES, roleSchema, sameIdentityName, tokenNameSchema, type Identity, type Role } from '../../contract/roles.ts';
 export type { TokenRecord, TokenStore } from './token-store.ts';
 export { SqliteTokenStore } from './sqlite-token-store.ts';
 export { PostgresTokenStore } from './postgres-token-store.ts';

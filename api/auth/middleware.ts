@@ -5,7 +5,7 @@
  * that writes goes without it.
  */
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
-import type { Identity, Role } from './roles.ts';
+import type { Identity, Role } from '../../contract/roles.ts';
 import type { TokenStore } from './token-store.ts';
 
 declare global {

@@ -4,7 +4,7 @@ import { migratePostgres } from '../../archive/index.ts';
 import { TOKEN_MIGRATIONS, identityFromRow, newToken, tokenFromRow, tokenInsertValues } from './token-table.ts';
 import { hashTokenSecret } from './token-secret.ts';
 import { UNSTATED_ACTOR, type TokenRecord, type TokenStore } from './token-store.ts';
-import type { Identity, Role } from './roles.ts';
+import type { Identity, Role } from '../../contract/roles.ts';
 
 const MIGRATION_LOCK_KEY = 7_335_002;
 

@@ -4,7 +4,7 @@ import { migrateSqlite, openSqliteDatabase } from '../../archive/index.ts';
 import { TOKEN_MIGRATIONS, identityFromRow, newToken, tokenFromRow, tokenInsertValues, type TokenRow as Row } from './token-table.ts';
 import { hashTokenSecret } from './token-secret.ts';
 import { UNSTATED_ACTOR, type TokenRecord, type TokenStore } from './token-store.ts';
-import type { Identity, Role } from './roles.ts';
+import type { Identity, Role } from '../../contract/roles.ts';
 
 export class SqliteTokenStore implements TokenStore {
   private readonly db: Database.Database;

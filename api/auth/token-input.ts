@@ -1,6 +1,6 @@
 /** Validation of token requests (name, roles), shared by the CLI, the API route and the stores. */
 import { z } from 'zod';
-import { roleSchema, tokenNameSchema, type Role } from './roles.ts';
+import { roleSchema, tokenNameSchema, type Role } from '../../contract/roles.ts';
 
 /** Bad token input; `name` matches the project's InvalidInputError so callers classify it the same way. */
 export class TokenInputError extends Error {

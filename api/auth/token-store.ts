@@ -1,5 +1,5 @@
 /** Where tokens live: only their hashes, with a name, roles, and creation/revocation times. */
-import type { Identity, Role } from './roles.ts';
+import type { Identity, Role } from '../../contract/roles.ts';
 
 export interface TokenRecord {
   id: string;

@@ -3,7 +3,7 @@ import type { Migration } from '../../archive/index.ts';
 import { parseNewToken } from './token-input.ts';
 import { generateTokenId, generateTokenSecret, hashTokenSecret } from './token-secret.ts';
 import type { TokenRecord } from './token-store.ts';
-import type { Identity, Role } from './roles.ts';
+import type { Identity, Role } from '../../contract/roles.ts';
 
 /** The same SQL serves both dialects (plain TEXT columns); append new versions, never edit a released one. */
 export const TOKEN_MIGRATIONS: readonly Migration[] = [{

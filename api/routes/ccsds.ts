@@ -13,7 +13,7 @@ import { jobRequestSchema } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { type FieldIssue, sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { planParamsSchema, REVIEW_NOTICE } from '../schemas.ts';
+import { planParamsSchema, REVIEW_NOTICE } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;

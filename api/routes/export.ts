@@ -5,9 +5,9 @@ import { buildPlanBundle } from '../../archive/index.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { archiveOf, sendArchiveError } from '../review/archive-http.ts';
-import { exportQuerySchema } from '../review/review-schemas.ts';
+import { exportQuerySchema } from '../../contract/review-schemas.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { planParamsSchema, REVIEW_NOTICE } from '../schemas.ts';
+import { planParamsSchema, REVIEW_NOTICE } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
 
 export function exportRoutes(routes: ApiRoutes, deps: AppDeps): void {

@@ -4,9 +4,9 @@ import { z } from 'zod';
 import { entryHash, type ArchiveEntry } from '../../archive/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { archiveOf } from '../review/archive-http.ts';
-import { entriesQuerySchema, entrySchema, historyResponseSchema } from '../review/review-schemas.ts';
+import { entriesQuerySchema, entrySchema, historyResponseSchema } from '../../contract/review-schemas.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { planParamsSchema, REVIEW_NOTICE } from '../schemas.ts';
+import { planParamsSchema, REVIEW_NOTICE } from '../../contract/http-schemas.ts';
 import { sendError } from '../errors.ts';
 import { validOf } from '../validate.ts';
 

@@ -10,7 +10,7 @@ import type { JobEvent, JobStatus } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { jobParamsSchema } from '../schemas.ts';
+import { jobParamsSchema } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
 
 const FINAL = new Set(['completed', 'failed', 'cancelled']);

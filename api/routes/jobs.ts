@@ -12,7 +12,7 @@ import type { ApiRoutes } from '../route-table.ts';
 import {
   cancelBodySchema, idempotencyKeySchema, jobListQuerySchema, jobParamsSchema, jobRequestSchema, jobStatusSchema,
   submitResponseSchema,
-} from '../schemas.ts';
+} from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;

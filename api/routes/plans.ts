@@ -3,7 +3,7 @@ import { z } from 'zod';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { REVIEW_NOTICE, planListQuerySchema, planParamsSchema, planResponseSchema, planSummarySchema } from '../schemas.ts';
+import { REVIEW_NOTICE, planListQuerySchema, planParamsSchema, planResponseSchema, planSummarySchema } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;

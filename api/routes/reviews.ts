@@ -5,9 +5,9 @@ import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { archiveOf, sendArchiveError } from '../review/archive-http.ts';
 import { reviewGuard } from '../review/review-rules.ts';
-import { reviewBodySchema, reviewResponseSchema, type ReviewBody } from '../review/review-schemas.ts';
+import { reviewBodySchema, reviewResponseSchema, type ReviewBody } from '../../contract/review-schemas.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { planParamsSchema, REVIEW_NOTICE } from '../schemas.ts';
+import { planParamsSchema, REVIEW_NOTICE } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
 
 export function reviewRoutes(routes: ApiRoutes, deps: AppDeps): void {

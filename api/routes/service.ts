@@ -3,7 +3,7 @@ import { z } from 'zod';
 import type { AppDeps } from '../deps.ts';
 import { buildOpenApi } from '../openapi.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { healthSchema, readySchema } from '../schemas.ts';
+import { healthSchema, readySchema } from '../../contract/http-schemas.ts';
 
 export function serviceRoutes(routes: ApiRoutes, deps: AppDeps): void {
   routes.add({

@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { identityOf, newTokenSchema } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
-import { tokenParamsSchema, tokenRecordSchema } from '../review/review-schemas.ts';
+import { tokenParamsSchema, tokenRecordSchema } from '../../contract/review-schemas.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { validOf } from '../validate.ts';
 

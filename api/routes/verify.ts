@@ -3,7 +3,7 @@ import type { Request, Response } from 'express';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { archiveOf } from '../review/archive-http.ts';
-import { verifyResponseSchema } from '../review/review-schemas.ts';
+import { verifyResponseSchema } from '../../contract/review-schemas.ts';
 import type { ApiRoutes } from '../route-table.ts';
 
 export function verifyRoutes(routes: ApiRoutes, deps: AppDeps): void {

@@ -13,7 +13,7 @@ import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
 import { verifySource, type VerifySource } from '../verify.ts';
 import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
-import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyReport } from '../types.ts';
+import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyReport } from '../../contract/archive-types.ts';
 
 export interface SqliteArchiveOptions {
   /** Path of the database file (created with its folder if missing). */

@@ -1,7 +1,7 @@
 /** The plan and API shapes the console reads (types only: nothing of the planner's code is bundled). */
 export type {
   ManeuverPlan, PlannedBurn, TargetResult, Caveat, PlanBPlane, BPlaneEllipse, TrajectoryPoint, PlanEpoch, CrossCheck,
-} from '../../planner/plan-types.ts';
+} from '../../contract/plan-types.ts';
 
 export type Role = 'submitter' | 'reviewer' | 'auditor' | 'admin';
 export interface Identity { name: string; roles: Role[] }

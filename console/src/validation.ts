@@ -3,7 +3,7 @@
  * checkProblem (relations between fields). Imported from their module files, not planner/index.ts, so the
  * bundle holds the schema and the epoch arithmetic only (no propagator numerics, no Node modules).
  */
-import { problemSchema, type PlanningProblem } from '../../planner/problem-schema.ts';
+import { problemSchema, type PlanningProblem } from '../../contract/problem-schema.ts';
 import { checkProblem, issuePath } from '../../planner/problem-checks.ts';
 import type { FieldIssue } from './api-client.ts';
 

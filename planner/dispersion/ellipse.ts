@@ -2,7 +2,7 @@
  * Error ellipses in the B-plane from a 2×2 covariance of (B·T, B·R).
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import type { BPlaneEllipse } from '../plan-types.ts';
+import type { BPlaneEllipse } from '../../contract/plan-types.ts';
 import { requireCovariance, type Matrix } from './linear-algebra.ts';
 
 /**

@@ -4,7 +4,7 @@
  * component differs by at most `crossCheckToleranceFraction` × its tolerance AND the re-propagation itself
  * meets every target. Same ephemeris and force model: it checks the numerics, not the models.
  */
-import type { CrossCheck } from '../plan-types.ts';
+import type { CrossCheck } from '../../contract/plan-types.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import type { PlanningContext } from './planning-context.ts';

@@ -9,7 +9,7 @@ import { gatesCovarianceKm2S2 } from '../dispersion/gates.ts';
 import { impactRadiusKm, probabilityInsideDisc } from '../dispersion/impact-probability.ts';
 import { linearTargetCovariance } from '../dispersion/linear-mapping.ts';
 import type { Matrix } from '../dispersion/linear-algebra.ts';
-import type { BPlaneEllipse, LinearDispersion } from '../plan-types.ts';
+import type { BPlaneEllipse, LinearDispersion } from '../../contract/plan-types.ts';
 import type { TrajectoryEvaluation } from '../targeting/evaluate-trajectory.ts';
 import { gmOf, radiusOf } from '../targeting/target-components.ts';
 import type { PlanningContext } from './planning-context.ts';

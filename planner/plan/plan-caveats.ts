@@ -3,7 +3,7 @@
  * can be recomputed when Monte Carlo results are attached later (queue fan-out).
  */
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
-import type { Caveat, ManeuverPlan } from '../plan-types.ts';
+import type { Caveat, ManeuverPlan } from '../../contract/plan-types.ts';
 
 /** Codes that depend on the dispersion results (recomputed by attachMonteCarlo). */
 export const DISPERSION_CAVEAT_CODES = new Set([

@@ -9,10 +9,10 @@ import { CancelledError } from '../../propagator/index.ts';
 import type { Vec3 } from '../../propagator/index.ts';
 import { finiteDifferenceJacobian, runCorrector } from '../corrector/differential-corrector.ts';
 import type { CorrectorResult } from '../corrector/differential-corrector.ts';
-import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from '../plan-types.ts';
+import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from '../../contract/plan-types.ts';
 import { parseProblem } from '../problem-checks.ts';
 import { problemHash, targetSetKey } from '../problem-hash.ts';
-import type { PlanningProblem } from '../problem-schema.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { burnSettings } from '../targeting/controls.ts';
 import { lambertSeeds } from '../targeting/lambert-seed.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
@@ -23,7 +23,7 @@ import { attachMonteCarlo, runDispersionSamplesWithContext, summariseDispersion 
 import { planCaveats } from './plan-caveats.ts';
 import { forceModelSummary, planEpoch, plannedBurns, targetResults, trajectoryPoints } from './plan-parts.ts';
 import { planningContext } from './planning-context.ts';
-import { SOFTWARE_VERSION } from './software-version.ts';
+import { SOFTWARE_VERSION } from '../../contract/software-version.ts';
 import { radiusOf } from '../targeting/target-components.ts';
 
 export interface PlanOptions {

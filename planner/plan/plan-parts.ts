@@ -6,8 +6,8 @@
 import { changeCentre, eclipticFromEquatorialJ2000, formatEpoch } from '../../propagator/index.ts';
 import type { Ephemeris, StateVector, Vec3 } from '../../propagator/index.ts';
 import { budgetBurns } from '../maneuver-math.ts';
-import type { ManeuverPlan, PlanEpoch, PlannedBurn, TargetResult, TrajectoryPoint } from '../plan-types.ts';
-import type { PlanningProblem } from '../problem-schema.ts';
+import type { ManeuverPlan, PlanEpoch, PlannedBurn, TargetResult, TrajectoryPoint } from '../../contract/plan-types.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { inertialToLocal, localAxes } from '../targeting/local-frames.ts';
 import type { BurnRecord } from '../targeting/evaluate-trajectory.ts';
 import type { TargetComponent } from '../targeting/target-components.ts';

@@ -10,7 +10,7 @@ import {
 import type { BodyName, Ephemeris, StateVector, Vec3 } from '../../propagator/index.ts';
 import { checkProblem } from '../problem-checks.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
-import type { PlanningProblem } from '../problem-schema.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { controlLayout } from '../targeting/controls.ts';
 import type { ControlLayout } from '../targeting/controls.ts';
 import type { EvaluationContext } from '../targeting/evaluate-trajectory.ts';

@@ -4,9 +4,9 @@
  * limits, finite-difference steps and bounds.
  */
 import type { Vec3 } from '../../propagator/index.ts';
-import type { ControlDescriptor } from '../plan-types.ts';
+import type { ControlDescriptor } from '../../contract/plan-types.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
-import type { PlanningProblem } from '../problem-schema.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 
 export interface ControlLayout {
   descriptors: ControlDescriptor[];

@@ -13,7 +13,7 @@ import type {
   BodyName, Ephemeris, EventSpec, ForceModelSpec, PropagationMethod, PropagationResult, StateVector, Vec3,
 } from '../../propagator/index.ts';
 import { exhaustVelocityKmS } from '../maneuver-math.ts';
-import type { PlanningProblem } from '../problem-schema.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { BurnSetting } from './controls.ts';
 import { localAxes, localToInertial } from './local-frames.ts';
 import type { Rotation3 } from './local-frames.ts';

@@ -8,7 +8,7 @@ import { GM_KM3_S2 } from '../../propagator/index.ts';
 import type { Vec3 } from '../../propagator/index.ts';
 import { solveLambert } from '../lambert/index.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
-import type { PlanningProblem } from '../problem-schema.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { burnSettings } from './controls.ts';
 import type { ControlLayout } from './controls.ts';
 import { evaluateTrajectory } from './evaluate-trajectory.ts';

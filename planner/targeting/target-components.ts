@@ -5,9 +5,9 @@
  */
 import { GM_KM3_S2, RADIUS_KM } from '../../propagator/index.ts';
 import type { BodyName } from '../../propagator/index.ts';
-import type { TargetResult } from '../plan-types.ts';
+import type { TargetResult } from '../../contract/plan-types.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
-import type { PlanningProblem, ProblemTarget } from '../problem-schema.ts';
+import type { PlanningProblem, ProblemTarget } from '../../contract/problem-schema.ts';
 
 export type ComponentQuantity =
   | { q: 'bdott' | 'bdotr'; body: BodyName; plane: 'ecliptic' | 'equator' }

@@ -1,7 +1,7 @@
 /** zod schemas of the review, history, export, verify and token routes (requests validate; responses document). */
 import { z } from 'zod';
-import { ENTRY_KINDS, PLAN_STATES } from '../../archive/index.ts';
-import { ROLES } from '../auth/index.ts';
+import { ENTRY_KINDS, PLAN_STATES } from './archive-types.ts';
+import { ROLES } from './roles.ts';
 
 const caveatCodeSchema = z.string().regex(/^[A-Z0-9_]{1,64}$/, { error: 'caveat codes are 1–64 of A-Z 0-9 _' });
 

@@ -3,7 +3,7 @@
  * could not be computed is null). Consumed by queue/, api/, archive/, the console and the CCSDS writers.
  * Vectors J2000 equatorial unless a field says otherwise; km, s, km/s, kg; epochs TDB s from J2000 plus text.
  */
-import type { BodyName, Vec3 } from '../propagator/index.ts';
+import type { BodyName, Vec3 } from './bodies.ts';
 import type { TargetKind } from './problem-schema.ts';
 
 /** Progress of planManeuvers; `fraction` is overall, in [0, 1]. */

@@ -8,7 +8,7 @@
  * No transforms here, so the schema converts to JSON Schema as-is.
  */
 import { z } from 'zod';
-import { BODY_NAMES, INERTIAL_FRAMES } from '../propagator/index.ts';
+import { BODY_NAMES, INERTIAL_FRAMES } from './bodies.ts';
 
 /** An ISO-8601 epoch with its time scale: `...Z` or `... UTC|TAI|TT|TDB`. Parsed in problem-checks.ts. */
 export const epochTextSchema = z.string().min(10).max(64)

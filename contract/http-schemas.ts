@@ -3,7 +3,7 @@
  * OpenAPI side). The problem itself is the planner's one schema, reached through queue/'s jobRequestSchema.
  */
 import { z } from 'zod';
-import { JOB_STATES, PRIORITIES, idempotencyKeySchema, jobRequestSchema, type JobStatus } from '../queue/index.ts';
+import { JOB_STATES, PRIORITIES, idempotencyKeySchema, jobRequestSchema, type JobStatus } from './job-types.ts';
 
 export { jobRequestSchema };
 

@@ -3,8 +3,9 @@
  * how urgent it is, and an optional idempotency key. Also the shapes of progress, results and status.
  */
 import { z } from 'zod';
-import { problemSchema } from '../planner/index.ts';
-import type { DispersionSample, ManeuverPlan, PlanningProblem, PlanProgress } from '../planner/index.ts';
+import { problemSchema } from './problem-schema.ts';
+import type { PlanningProblem } from './problem-schema.ts';
+import type { DispersionSample, ManeuverPlan, PlanProgress } from './plan-types.ts';
 
 /** Queue name (Redis keys are `<QUEUE_PREFIX>:retarget:*`). */
 export const RETARGET_QUEUE = 'retarget';
