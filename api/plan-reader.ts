@@ -4,10 +4,9 @@
  */
 import type { PlanArchive, PlanFilter, PlanRecord } from '../archive/index.ts';
 import type { RetargetQueue } from '../queue/index.ts';
-import type { z } from 'zod';
-import type { planSummarySchema } from '../contract/http-schemas.ts';
+import type { PlanSummary } from '../contract/http-schemas.ts';
 
-export type PlanSummary = z.infer<typeof planSummarySchema>;
+export type { PlanSummary };
 
 export interface PlanReader {
   get(planId: string): Promise<{ summary: PlanSummary; plan: Record<string, unknown> } | undefined>;

@@ -89,6 +89,9 @@ export const planSummarySchema = z.object({
   proposedAt: z.string(),
 });
 
+/** One plan in GET /v1/plans and GET /v1/plans/:id. */
+export type PlanSummary = z.infer<typeof planSummarySchema>;
+
 export const planResponseSchema = z.object({
   summary: planSummarySchema,
   /** The full plan document as the planner produced it (ManeuverPlan, planFormatVersion 1). */

@@ -96,6 +96,8 @@ export interface RetargetJobResult {
 /** Job states as clients see them: the queue library's own, plus cancelled. */
 export const JOB_STATES = ['waiting', 'delayed', 'active', 'waiting-children', 'completed', 'failed', 'cancelled', 'unknown'] as const;
 export type JobState = (typeof JOB_STATES)[number];
+/** States after which a job never changes again. */
+export const FINAL_JOB_STATES: ReadonlySet<string> = new Set<JobState>(['completed', 'failed', 'cancelled']);
 
 /** A job's status for clients. */
 export interface JobStatus {

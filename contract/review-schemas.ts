@@ -40,6 +40,9 @@ export const historyResponseSchema = z.object({
   notice: z.string(),
 });
 
+/** One archive entry as GET /v1/plans/:id/history returns it (with whether its stored hash recomputes). */
+export type HistoryEntryView = z.infer<typeof historyResponseSchema>['entries'][number];
+
 export const exportQuerySchema = z.object({
   toHead: z.enum(['true', 'false']).transform((v) => v === 'true').default(false),
 }).strict();

@@ -10,10 +10,9 @@ import type { JobEvent, JobStatus } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
+import { FINAL_JOB_STATES } from '../../contract/job-types.ts';
 import { jobParamsSchema } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
-
-const FINAL = new Set(['completed', 'failed', 'cancelled']);
 
 function write(res: Response, event: string, data: unknown): void {
   res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`);
@@ -52,13 +51,13 @@ export function jobEventRoutes(routes: ApiRoutes, deps: AppDeps): void {
       const s = await deps.queue.status(jobId);
       if (closed) return s;
       if (!s) { close(); return s; } // expired or removed meanwhile: nothing more will come
-      if (FINAL.has(s.state)) { write(res, 'end', s); close(); return s; }
+      if (FINAL_JOB_STATES.has(s.state)) { write(res, 'end', s); close(); return s; }
       if (s.state !== lastState) { lastState = s.state; write(res, 'status', s); }
       if (s.state === 'waiting-children' && s.progress) write(res, 'progress', s.progress);
       return s;
     };
     write(res, 'status', first);
-    if (FINAL.has(first.state)) { write(res, 'end', first); close(); return; }
+    if (FINAL_JOB_STATES.has(first.state)) { write(res, 'end', first); close(); return; }
     const onEvent = (e: JobEvent): void => {
       if (closed) return;
       if (e.type === 'progress') { write(res, 'progress', e.data); return; }

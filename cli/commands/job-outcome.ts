@@ -3,6 +3,7 @@
  * finished job means (exit codes). A completed job counts as a proposed plan only when the plan converged and
  * its independent cross-check passed — the plan's own summary is fetched to confirm both.
  */
+import { FINAL_JOB_STATES, type JobStatus, type PlanSummary } from '../../contract/index.ts';
 import { callApi, PROPOSAL_NOTICE, type Remote } from './review-http.ts';
 
 /** Exit codes of `veer watch` (and `veer submit --watch`). */
@@ -23,42 +24,14 @@ export const JOB_EXIT_USAGE = `Exit codes: 0 a converged, cross-checked plan was
 converged or cross-check failed (or not confirmed): no usable plan; 1 the job failed; 4 the job was cancelled;
 2 bad usage, invalid problem or a request the server refused.`;
 
-/** The API's job status (GET /v1/jobs/{jobId}); only the fields the CLI reads. */
-export interface JobStatusAnswer {
-  id: string;
-  state: string;
-  priority: string;
-  submittedBy: string;
-  submittedAt: string;
-  reason: string;
-  spacecraftName: string;
-  attemptsMade: number;
-  progress: ProgressAnswer | null;
-  startedAt: string | null;
-  finishedAt: string | null;
-  result: { planId: string; planStatus: string; storedIn: string } | null;
-  error: { name: string; field?: string; message: string } | null;
-  cancelRequested: boolean;
-}
+/** The API's job status (GET /v1/jobs/{jobId}) and its progress reports, as the contract defines them. */
+export type JobStatusAnswer = JobStatus;
+export type ProgressAnswer = JobStatus['progress'] & object;
+type PlanSummaryAnswer = { summary: PlanSummary };
 
-/** A progress report (the `progress` event and JobStatus.progress); fraction in [0, 1]. */
-export interface ProgressAnswer {
-  stage: string;
-  fraction: number;
-  message: string;
-  iteration?: number;
-  samplesDone?: number;
-  samplesTotal?: number;
-}
-
-interface PlanSummaryAnswer {
-  summary: { planId: string; state: string; converged: boolean; crossCheckPassed: boolean };
-}
-
-const FINAL_STATES = new Set(['completed', 'failed', 'cancelled']);
 
 export function isFinal(status: JobStatusAnswer): boolean {
-  return FINAL_STATES.has(status.state);
+  return FINAL_JOB_STATES.has(status.state);
 }
 
 export const jobPath = (jobId: string): string => `/v1/jobs/${encodeURIComponent(jobId)}`;
