@@ -1,6 +1,6 @@
 /** Public face of propagator/: other rooms import from here only. */
 export * from './types.ts';
-export * from './errors.ts';
+export * from '../contract/errors.ts';
 export * from './constants.ts';
 export * from './time/index.ts';
 export * from './ephemeris/index.ts';

@@ -2,7 +2,7 @@
  * Checks a PropagationRequest before any work (InvalidInputError / OutOfSpanError naming the field)
  * and resolves its defaults.
  */
-import { InvalidInputError, OutOfSpanError } from './errors.ts';
+import { InvalidInputError, OutOfSpanError } from '../contract/errors.ts';
 import { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
 import type { EventSpec, VelocityImpulse, PropagationMethod, PropagationRequest } from './propagation-types.ts';
 import { BODY_NAMES, INERTIAL_FRAMES } from './types.ts';

@@ -8,7 +8,7 @@ import { createCowellDynamics } from './cowell.ts';
 import { createEnckeOrFallback } from './encke/index.ts';
 import { needsSegmentedRun, segmentedSteps } from './switching/index.ts';
 import type { Ephemeris } from './ephemeris/ephemeris.ts';
-import { InvalidInputError } from './errors.ts';
+import { InvalidInputError } from '../contract/errors.ts';
 import { ForceModel } from './forces/index.ts';
 import { changeCentre, stateToFrame } from './frames/index.ts';
 import { Dop853Stepper } from './integrators/index.ts';

@@ -17,7 +17,7 @@
  * Partials: every quantity is computed once on forward-mode jets, so the derivatives are exact (chain
  * rule on these closed forms, no finite differences).
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import { Jet, type Jet3, cross3, dot3, scale3, stateJets } from '../kepler/jet.ts';
 import type { BodyName, Vec3 } from '../types.ts';
 import { type BPlaneReference, referencePole } from './reference-plane.ts';

@@ -3,7 +3,7 @@
  * run's events and computes the B-plane of the osculating conic there (any state on the hyperbola gives
  * the same S, B, θ; the time to periapsis is then ~0).
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { EventRecord } from '../propagation-types.ts';
 import type { BodyName } from '../types.ts';
 import { bPlanePartials, type BPlanePartials } from './b-plane.ts';

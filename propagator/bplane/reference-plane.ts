@@ -2,7 +2,7 @@
  * Reference planes for the B-plane axes: the pole k̂ that fixes T̂ = (Ŝ × k̂)/|Ŝ × k̂|.
  * All vectors J2000 equatorial (ICRF-aligned).
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import { OBLIQUITY_J2000_RAD } from '../frames/index.ts';
 import type { BodyName, Vec3 } from '../types.ts';
 

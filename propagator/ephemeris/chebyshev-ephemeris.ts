@@ -7,7 +7,7 @@
  * matches the source within `toleranceKm` at check points between the nodes (so the stated error is
  * measured, not assumed). Look-ups index the segment directly and evaluate by Clenshaw: no allocation.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { BodyName } from '../types.ts';
 import { BODY_NAMES } from '../types.ts';
 import type { BodyPositionsPlan, Ephemeris, TdbSpan } from './ephemeris.ts';

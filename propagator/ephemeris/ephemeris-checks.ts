@@ -2,7 +2,7 @@
  * Argument checks shared by every ephemeris source: known body, finite epoch inside the span.
  * Kept free of allocation on the success path so hot look-ups can call them.
  */
-import { InvalidInputError, OutOfSpanError } from '../errors.ts';
+import { InvalidInputError, OutOfSpanError } from '../../contract/errors.ts';
 import type { BodyName } from '../types.ts';
 import type { TdbSpan } from './ephemeris.ts';
 

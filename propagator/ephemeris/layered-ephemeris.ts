@@ -6,7 +6,7 @@
  * Everything else comes from the fallback. The span is the intersection of both spans, applied to every
  * request so one object has one span.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { BodyName } from '../types.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
 import { ComponentEphemeris } from './component-ephemeris.ts';

@@ -8,7 +8,7 @@
  *   returned is the derivative of the position polynomial.
  * Epochs outside [first record, last record] throw OutOfSpanError. Look-ups do not allocate.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { BodyName, Vec3 } from '../types.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
 import { ComponentEphemeris } from './component-ephemeris.ts';

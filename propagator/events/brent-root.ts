@@ -3,7 +3,7 @@
  * ch. 4, procedure zero): inverse quadratic interpolation and secant steps, falling back to bisection,
  * so the bracket always shrinks and the root is found to the requested tolerance.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 
 /** A root found by brentRoot and the iterations it took. */
 export interface RootResult {

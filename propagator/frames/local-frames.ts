@@ -6,7 +6,7 @@
  * Matrices are row-major and their rows are the local unit axes in inertial components, so
  * local = M · inertial and inertial = Mᵀ · local.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { LocalFrame, Vec3 } from '../types.ts';
 import type { Matrix3 } from './matrix3.ts';
 import { multiplyMatrixVector, multiplyTransposeVector } from './matrix3.ts';

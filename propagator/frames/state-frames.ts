@@ -1,7 +1,7 @@
 /**
  * Whole-state conversions: between the inertial frames, and between centres through an ephemeris.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { Ephemeris } from '../ephemeris/ephemeris.ts';
 import type { BodyName, InertialFrame, StateVector, Vec3 } from '../types.ts';
 import { INERTIAL_FRAMES } from '../types.ts';

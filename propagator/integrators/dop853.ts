@@ -4,7 +4,7 @@
  * combined 5th/3rd-order error estimate, safety 0.9, step ratio in [1/6, 3], no growth right after a
  * rejection). All buffers are allocated once; `step()` and `denseOutput()` do not allocate.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import * as K from './dop853-coefficients.ts';
 import type { Dop853Options, IntegratorCounts, RhsFunction, StepStatus } from './integrator-types.ts';
 

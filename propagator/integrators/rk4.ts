@@ -2,7 +2,7 @@
  * Classical fixed-step 4th-order Runge–Kutta (Hairer, Nørsett & Wanner, Solving ODE I, §II.1, Table 1.2),
  * for tests and cross-checks; no error control.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { IntegratorCounts, RhsFunction } from './integrator-types.ts';
 
 export interface Rk4Result {

@@ -10,7 +10,7 @@
  * and ω is measured from the x axis (longitude of periapsis); circular-equatorial: Ω = ω = 0 and ν is the
  * true longitude.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { Vec3 } from '../types.ts';
 
 /** Eccentricity (dimensionless) below which stateToConic treats an orbit as circular (ω = 0). */

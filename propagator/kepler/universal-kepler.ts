@@ -8,7 +8,7 @@
  * (dF/dχ = r > 0 for F(χ) = √μ·t(χ) − √μ·Δt), so a Newton step leaving the bracket is replaced by bisection and
  * convergence is guaranteed.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { Vec3 } from '../types.ts';
 import { stumpff23 } from './stumpff.ts';
 

@@ -6,7 +6,7 @@
  * integrates about the new centre with the same set of attracting bodies (old centre becomes a perturber).
  * J2 applies only while the originally requested central body is the centre.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import { PROPAGATION_DEFAULTS } from '../propagation-defaults.ts';
 import { buildEvents, EventWatcher, type CartesianSource, type DenseStepper, type EventStop } from '../events/index.ts';
 import { changeCentre, stateToFrame } from '../frames/index.ts';

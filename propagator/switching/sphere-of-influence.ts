@@ -3,7 +3,7 @@
  * from its primary and m/M the mass ratio (taken as the GM ratio of constants.ts).
  */
 import { GM_KM3_S2, KM_PER_AU } from '../constants.ts';
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { BodyName } from '../types.ts';
 
 /** The body each body orbits, for switching: planets orbit the Sun, the Moon orbits the Earth. */

@@ -5,7 +5,7 @@
  * `UTC|TAI|TT|TDB`; with neither, `defaultScale` applies (an error if none is given). `T` may be a space.
  * Leap seconds (`23:59:60.x` UTC) are accepted on days the table says end in one.
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import { calendarSecondsFromJ2000, civilFromDays, daysFromCivil, daysInMonth } from './calendar.ts';
 import { isLeapSecondDay, taiMinusUtcOnUtcDayS, taiSecondsFromUtcCalendar, utcFromTaiS } from './leap-seconds.ts';
 import { tdbFromTai, tdbFromTt, ttFromTdb, TT_MINUS_TAI_S } from './tdb.ts';

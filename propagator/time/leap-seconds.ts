@@ -9,7 +9,7 @@
  * known here, so UTC epochs from 2026-06-30T23:59:60 on throw OutOfSpanError. Extend the table (and the
  * date) when a newer Bulletin C is at hand.
  */
-import { OutOfSpanError } from '../errors.ts';
+import { OutOfSpanError } from '../../contract/errors.ts';
 import { calendarSecondsFromJ2000, civilFromDays, daysFromCivil } from './calendar.ts';
 
 /** [year, month (1-12), TAI − UTC in s from 00:00:00 UTC on the 1st of that month]. */

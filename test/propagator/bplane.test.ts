@@ -3,7 +3,7 @@ import {
   B_PLANE_PARTIAL_ROWS, bPlaneOfEncounter, bPlanePartials, computeBPlane, referencePole,
 } from '../../propagator/bplane/index.ts';
 import { GM_KM3_S2 } from '../../propagator/constants.ts';
-import { InvalidInputError } from '../../propagator/errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import { createBuiltinEphemeris, propagate, type Vec3 } from '../../propagator/index.ts';
 import { flybyEphemeris, flybyStart, forcesAbout, PERIAPSIS_EPOCH, PERIAPSIS_RADIUS_KM } from './flyby-fixture.ts';
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { Dop853Stepper, integrateDop853, integrateRk4, type RhsFunction } from '../../propagator/integrators/index.ts';
-import { InvalidInputError } from '../../propagator/errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 
 // Harmonic oscillator y'' = -y, y(0) = 1, y'(0) = 0: exact solution cos t, -sin t (analytic).
 const oscillator: RhsFunction = (_t, y, dydt) => {

@@ -3,7 +3,7 @@ import {
   addJ2, addPointMass, addSolarPressure, addThirdBody, battinF, ForceModel, SOLAR_PRESSURE_1AU_N_M2, solarPressureStrength,
 } from '../../propagator/forces/index.ts';
 import { GM_KM3_S2, J2_EARTH, J2_REFERENCE_RADIUS_EARTH_KM, KM_PER_AU } from '../../propagator/constants.ts';
-import { InvalidInputError } from '../../propagator/errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { ForceModelSpec } from '../../propagator/propagation-types.ts';
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { InvalidInputError } from '../../propagator/errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import {
   conicToState, keplerPropagate, keplerSolve, stateToConic, stumpff, type ConicElements,
 } from '../../propagator/kepler/index.ts';

@@ -6,7 +6,7 @@ import { ephemerisFor, propagateCommand } from '../../cli/commands/propagate.ts'
 import { parsePropagateRequest, requestSpan, toPropagationRequest } from '../../cli/propagate-request-schema.ts';
 import { createBuiltinEphemeris } from '../../propagator/ephemeris/index.ts';
 import { PROPAGATE_JSON_SCHEMA } from '../../cli/propagate-report.ts';
-import { InvalidInputError, OutOfSpanError } from '../../propagator/errors.ts';
+import { InvalidInputError, OutOfSpanError } from '../../contract/errors.ts';
 
 const base = {
   initial: { epoch: '2031-03-01T00:00:00 TDB', centre: 'earth', positionKm: [7000, 0, 1000], velocityKmS: [0, 7.6, 1.0] },
