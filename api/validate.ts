@@ -4,6 +4,7 @@
  */
 import type { RequestHandler, Response } from 'express';
 import type { z } from 'zod';
+import { issuePath } from '../contract/errors.ts';
 import { sendError, type FieldIssue } from './errors.ts';
 
 export interface RequestSchemas {
@@ -14,16 +15,9 @@ export interface RequestSchemas {
 
 export interface Valid<P = unknown, Q = unknown, B = unknown> { params: P; query: Q; body: B }
 
-/** Dotted path with [i] for array indices. */
-export function issuePath(root: string, path: readonly PropertyKey[]): string {
-  let out = root;
-  for (const part of path) out += typeof part === 'number' ? `[${part}]` : `.${String(part)}`;
-  return out;
-}
-
 /** Every issue of a zod error, flattened (unions report their branches' issues). */
 export function zodIssues(root: string, error: z.ZodError): FieldIssue[] {
-  return error.issues.map((i) => ({ path: issuePath(root, i.path), message: i.message, code: i.code }));
+  return error.issues.map((i) => ({ path: issuePath(i.path, root), message: i.message, code: i.code }));
 }
 
 export function validate(schemas: RequestSchemas): RequestHandler {

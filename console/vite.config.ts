@@ -1,7 +1,7 @@
 /**
  * Builds the ops console (console/src) into console/dist, served by the API under /console/.
- * `npm run console:build`. The planner's problem schema is bundled from its module file so the browser
- * validates with the same zod definition as the API.
+ * `npm run console:build`. The console imports only contract/ of the project, so the browser validates with
+ * the same zod problem schema as the API and bundles no numerics (test/e2e/bundle-contents.test.ts checks).
  */
 import { builtinModules } from 'node:module';
 import { fileURLToPath } from 'node:url';

@@ -16,7 +16,7 @@ export class ConfigError extends Error {
 }
 
 /** Parses `env` with `schema` (an object schema keyed by variable name); throws ConfigError listing every bad value. */
-export function parseEnv<S extends z.ZodObject>(schema: S, env: NodeJS.ProcessEnv = process.env): z.infer<S> {
+export function parseEnv<S extends z.ZodObject>(schema: S, env: Readonly<Record<string, string | undefined>>): z.infer<S> {
   // Empty strings count as unset, as shells and compose files often leave them that way.
   const cleaned: Record<string, string> = {};
   for (const key of Object.keys(schema.shape)) {

@@ -40,3 +40,14 @@ export function isFinalError(error: unknown): boolean {
   return error instanceof Error && (error.name === 'InvalidInputError' || error.name === 'OutOfSpanError'
     || error.name === 'CancelledError');
 }
+
+/** Dotted path of a field from a zod issue path: `burns[0].epoch`, or `body.problem.burns[0].epoch` under
+ * `root`; `(problem)` for the whole value. */
+export function issuePath(path: readonly PropertyKey[], root = ''): string {
+  let out = root;
+  for (const part of path) {
+    if (typeof part === 'number') out += `[${part}]`;
+    else out += out === '' ? String(part) : `.${String(part)}`;
+  }
+  return out === '' ? '(problem)' : out;
+}

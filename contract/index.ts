@@ -12,3 +12,4 @@ export * from './review-schemas.ts';
 export * from './http-schemas.ts';
 export * from './env-config.ts';
 export { SOFTWARE_VERSION } from './software-version.ts';
+export * from './errors.ts';

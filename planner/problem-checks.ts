@@ -7,18 +7,9 @@ import {
   BUILTIN_EPHEMERIS_SPAN, InvalidInputError, OutOfSpanError, formatEpoch, parseEpoch, RADIUS_KM, J2_EARTH,
 } from '../propagator/index.ts';
 import type { BodyName } from '../propagator/index.ts';
+import { issuePath } from '../contract/errors.ts';
 import { problemSchema } from '../contract/problem-schema.ts';
 import type { PlanningProblem, ProblemTarget } from '../contract/problem-schema.ts';
-
-/** Turns a zod issue path into `burns[0].epoch`. */
-export function issuePath(path: readonly PropertyKey[]): string {
-  let out = '';
-  for (const part of path) {
-    if (typeof part === 'number') out += `[${part}]`;
-    else out += out === '' ? String(part) : `.${String(part)}`;
-  }
-  return out === '' ? '(problem)' : out;
-}
 
 function fromZodError(error: z.ZodError): InvalidInputError {
   const issues = error.issues.map((i) => `${issuePath(i.path)}: ${i.message}`);

@@ -1,15 +1,16 @@
 /**
- * Problem validation in the browser with the planner's own definitions: the zod problemSchema (shape) and
- * checkProblem (relations between fields). Imported from their module files, not planner/index.ts, so the
- * bundle holds the schema and the epoch arithmetic only (no propagator numerics, no Node modules).
+ * Problem validation in the browser with the contract's own zod problemSchema: every shape issue is listed
+ * by field before anything is sent. The checks that relate fields to each other (epochs in the span and in
+ * order, bodies modelled, periapsis above the surface) need the epoch arithmetic and body constants of the
+ * numerics, which the console does not bundle: the service runs them at submission and answers 400 with the
+ * field, and the submit screen lists those issues beside the same fields.
  */
-import { problemSchema, type PlanningProblem } from '../../contract/problem-schema.ts';
-import { checkProblem, issuePath } from '../../planner/problem-checks.ts';
+import { issuePath, problemSchema, type PlanningProblem } from '../../contract/index.ts';
 import type { FieldIssue } from './api-client.ts';
 
 export interface ValidationResult {
   problem: PlanningProblem | null;
-  /** Every shape issue, or the first semantic issue; paths like `burns[0].epoch`. */
+  /** Every shape issue; paths like `burns[0].epoch`. */
   issues: FieldIssue[];
 }
 
@@ -18,15 +19,7 @@ export function validateProblem(input: unknown): ValidationResult {
   if (!parsed.success) {
     return { problem: null, issues: parsed.error.issues.map((i) => ({ path: issuePath(i.path), message: i.message })) };
   }
-  try {
-    checkProblem(parsed.data);
-    return { problem: parsed.data, issues: [] };
-  } catch (error) {
-    const e = error as Error & { field?: string };
-    const field = e.field ?? '(problem)';
-    const message = e.message.startsWith(`${field}: `) ? e.message.slice(field.length + 2) : e.message;
-    return { problem: null, issues: [{ path: field, message }] };
-  }
+  return { problem: parsed.data, issues: [] };
 }
 
 /** Turns a server issue path (`body.problem.burns[0].epoch`) into a problem path (`burns[0].epoch`). */

@@ -144,7 +144,7 @@ export const submitScreen: ScreenFactory = (ctx) => {
   return {
     title: 'New job',
     node: h('section', {}, h('h1', { tabindex: '-1' }, 'New retargeting job'),
-      h('p', { class: 'lede' }, 'The problem is checked here with the same rules the service applies, then queued. The result is a proposed plan for review — never a command.'),
+      h('p', { class: 'lede' }, 'The shape of the problem is checked here with the same schema the service uses; the service then checks how its fields relate and lists any issue beside its field. Once accepted it is queued. The result is a proposed plan for review — never a command.'),
       el),
   };
 };
