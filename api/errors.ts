@@ -4,6 +4,7 @@
  */
 import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
 import type { Logger } from 'pino';
+import { isQueueUnavailable, QUEUE_RETRY_AFTER_S } from '../queue/index.ts';
 
 /** One failing field: `path` is dotted with [i] for array items, rooted at body/query/params. */
 export interface FieldIssue { path: string; message: string; code?: string }
@@ -32,6 +33,11 @@ interface BodyParserError { type?: string; status?: number; expose?: boolean; li
 export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err: unknown, req: Request, res: Response, _next) => {
     if (err instanceof HttpError) { sendError(res, err.status, err.code, err.message, err.issues); return; }
+    if (isQueueUnavailable(err)) {
+      res.set('Retry-After', String(QUEUE_RETRY_AFTER_S));
+      sendError(res, 503, 'QUEUE_UNAVAILABLE', `the job queue (Redis) is not reachable; retry in ${QUEUE_RETRY_AFTER_S} s`);
+      return;
+    }
     const bp = (typeof err === 'object' && err !== null ? err : {}) as BodyParserError;
     if (bp.type === 'entity.too.large') {
       sendError(res, 413, 'PAYLOAD_TOO_LARGE', `request body larger than the limit of ${bp.limit ?? '?'} bytes`);

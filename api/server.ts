@@ -6,6 +6,7 @@ import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import type { Logger } from 'pino';
 import { openArchive, type PlanArchive } from '../archive/index.ts';
+import { maskConfigValue } from '../contract/env-config.ts';
 import { JobEventHub, RetargetQueue } from '../queue/index.ts';
 import { createApp } from './app.ts';
 import { openTokenStore, type TokenStore } from './auth/index.ts';
@@ -22,6 +23,19 @@ export interface ApiServer {
   close(): Promise<void>;
 }
 
+/** Logs whether Redis answers: once at start, then on every loss and every return of the connection. */
+function reportRedisState(queue: RetargetQueue, redisUrl: string, logger: Logger): void {
+  const where = maskConfigValue('REDIS_URL', redisUrl);
+  if (!queue.connected) logger.warn({ redis: where }, 'Redis not answering yet: API not ready (job routes answer 503) until it does');
+  let up = queue.connected;
+  queue.redis.on('ready', () => { up = true; logger.info({ redis: where }, 'Redis answers: API ready'); });
+  queue.redis.on('close', () => {
+    if (!up) return; // a failed reconnect attempt, not a new loss
+    up = false;
+    logger.warn({ redis: where }, 'Redis connection lost: job routes answer 503 until it returns');
+  });
+}
+
 export const SOFTWARE_VERSION = '0.1.0';
 
 /** Opens Redis, the archive and the token store, and listens on config.HOST:config.PORT (0 = any free port). */
@@ -29,8 +43,8 @@ export async function startApiServer(config: ApiConfig, logger: Logger, override
   const queue = new RetargetQueue({
     redisUrl: config.REDIS_URL, prefix: config.QUEUE_PREFIX, attempts: config.JOB_ATTEMPTS, retentionS: config.JOB_RETENTION_S,
   });
+  // Not awaited: the API listens at once and reports not-ready (/ready 503, job routes 503) until Redis answers.
   const events = new JobEventHub(config.REDIS_URL, config.QUEUE_PREFIX);
-  await events.ready();
   const store = { dataDir: config.DATA_DIR, ...(config.DATABASE_URL ? { databaseUrl: config.DATABASE_URL } : {}) };
   const archive = overrides.archive !== undefined ? overrides.archive
     : config.PLAN_SINK === 'archive' ? await openArchive(store) : null;
@@ -55,6 +69,7 @@ export async function startApiServer(config: ApiConfig, logger: Logger, override
   const address = server.address() as AddressInfo;
   const host = config.HOST === '0.0.0.0' ? '127.0.0.1' : config.HOST;
   logger.info({ port: address.port, planStore: archive ? archive.storeKind : 'job-result' }, 'API listening');
+  reportRedisState(queue, config.REDIS_URL, logger);
   return {
     server, deps, url: `http://${host}:${address.port}`,
     async close() {

@@ -11,6 +11,7 @@ export {
   type RetargetJobData, type RetargetJobResult, type SampleBatchData, type SampleBatchResult,
 } from '../contract/job-types.ts';
 export { RetargetQueue, isIssuedJobId, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './retarget-queue.ts';
+export { QueueUnavailableError, QUEUE_RETRY_AFTER_S, isQueueUnavailable } from './queue-unavailable.ts';
 export { JobEventHub, type JobEvent } from './job-events.ts';
 export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './retarget-worker.ts';
 export { ArchivePlanSink, JobResultSink, type ArchiveAppends, type PlanSink, type ProposedPlanInput } from './plan-sink.ts';

@@ -44,6 +44,13 @@ export class JobEventHub {
   }
 
   async close(): Promise<void> {
+    if (this.connection.status !== 'ready') {
+      // Redis out of reach: BullMQ's close would wait for a connection that may never come. Drop ours and
+      // let the listener's close finish in the background.
+      this.connection.disconnect();
+      void this.events.close().catch(() => {});
+      return;
+    }
     await this.events.close();
     this.connection.disconnect();
   }

@@ -10,6 +10,7 @@ import {
   CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
 } from './cancellation.ts';
 import { createRedis } from './connection.ts';
+import { QueueUnavailableError } from './queue-unavailable.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
   type RetargetJobData, type RetargetJobResult,
@@ -75,6 +76,7 @@ export class RetargetQueue {
 
   /** The job with this id, or undefined when there is none or the id is not one this queue issues. */
   async findJob(jobId: string): Promise<Job<RetargetJobData, RetargetJobResult> | undefined> {
+    this.assertConnected();
     if (!isIssuedJobId(jobId)) return undefined;
     return (await this.queue.getJob(jobId)) ?? undefined;
   }
@@ -84,6 +86,7 @@ export class RetargetQueue {
    * repeat finds the first job; the stored request hash tells a true repeat from a key reused for other work.
    */
   async submit(request: JobRequest, submittedBy: string): Promise<SubmitOutcome> {
+    this.assertConnected();
     const hashOfProblem = problemHash(request.problem as PlanningProblem);
     const requestHash = sha256(canonicalJson({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority }));
     const jobId = request.idempotencyKey
@@ -123,6 +126,7 @@ export class RetargetQueue {
 
   /** A retarget job's status, or undefined when unknown (never submitted, or expired). */
   async status(jobId: string): Promise<JobStatus | undefined> {
+    this.assertConnected();
     if (!isIssuedJobId(jobId)) return undefined;
     const { job, state } = await this.snapshot(jobId);
     const cancel = await readCancel(this.redis, this.prefix, jobId);
@@ -187,6 +191,7 @@ export class RetargetQueue {
    * (`cancelling`; it ends failed with a CancelledError reason, reported as `cancelled`).
    */
   async cancel(jobId: string, by: string, reason: string): Promise<CancelOutcome> {
+    this.assertConnected();
     if (!isIssuedJobId(jobId)) return { outcome: 'not-found', jobId };
     const job = await this.findJob(jobId);
     if (!job || job.name !== JOB_NAMES.retarget) {
@@ -220,6 +225,7 @@ export class RetargetQueue {
 
   /** Counts of jobs by state (both job kinds). */
   async counts(): Promise<JobCounts> {
+    this.assertConnected();
     const c = await this.queue.getJobCounts('waiting', 'prioritized', 'delayed', 'active', 'waiting-children', 'completed', 'failed');
     return {
       waiting: (c.waiting ?? 0) + (c.prioritized ?? 0), delayed: c.delayed ?? 0, active: c.active ?? 0,
@@ -229,11 +235,13 @@ export class RetargetQueue {
 
   /** Workers connected to the queue now (BullMQ lists them by their Redis client names). */
   async workerCount(): Promise<number> {
+    this.assertConnected();
     return (await this.queue.getWorkers()).length;
   }
 
   /** Round trip to Redis, ms; throws when Redis does not answer. */
   async ping(): Promise<number> {
+    this.assertConnected();
     const t0 = performance.now();
     await this.redis.ping();
     return performance.now() - t0;
@@ -241,6 +249,7 @@ export class RetargetQueue {
 
   /** Lists recent retarget jobs, newest first, in the given BullMQ states. */
   async list(states: BullState[], start: number, end: number): Promise<JobStatus[]> {
+    this.assertConnected();
     const jobs = await this.queue.getJobs(states, start, end, false);
     const out: JobStatus[] = [];
     for (const job of jobs) {
@@ -251,8 +260,18 @@ export class RetargetQueue {
   }
 
   async close(): Promise<void> {
+    // While Redis is out of reach a graceful close would wait for it: drop the connection first then.
+    if (!this.connected) this.redis.disconnect();
     await this.queue.close();
     this.redis.disconnect();
+  }
+
+  /** True while the connection to Redis is up. */
+  get connected(): boolean { return this.redis.status === 'ready'; }
+
+  /** Refuses at once while Redis is out of reach, rather than queueing the command until it times out. */
+  private assertConnected(): void {
+    if (!this.connected) throw new QueueUnavailableError(`Redis not reachable (connection ${this.redis.status})`);
   }
 
   /** Key of the cancel marker (for tests and tools). */

@@ -1,5 +1,6 @@
 /** Liveness, readiness (Redis answers, a worker is connected), Prometheus metrics, the OpenAPI document. */
 import { z } from 'zod';
+import { QUEUE_RETRY_AFTER_S } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { buildOpenApi } from '../openapi.ts';
 import type { ApiRoutes } from '../route-table.ts';
@@ -25,6 +26,7 @@ export function serviceRoutes(routes: ApiRoutes, deps: AppDeps): void {
       redis = { ok: false, latencyMs: null, error: e instanceof Error ? e.message : 'unreachable' };
     }
     const body = { ready: redis.ok && workers > 0, redis, workers: { ok: workers > 0, count: workers } };
+    if (!body.ready) res.set('Retry-After', String(QUEUE_RETRY_AFTER_S));
     res.status(body.ready ? 200 : 503).json(body);
   });
 

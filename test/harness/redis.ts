@@ -84,9 +84,10 @@ async function startContainer(): Promise<TestRedis | null> {
   }
 }
 
-async function startProcess(): Promise<TestRedis> {
+/** A `redis-server` process from PATH, on `port` (a free one when not given). */
+export async function startRedisProcess(port?: number): Promise<TestRedis> {
   const dir = mkdtempSync(join(tmpdir(), 'veer-redis-'));
-  const port = await freePort();
+  port ??= await freePort();
   let child: ChildProcess | null = null;
   const launch = async (): Promise<void> => {
     child = spawn('redis-server', [
@@ -132,5 +133,5 @@ export async function startRedis(): Promise<TestRedis> {
     const container = await startContainer();
     if (container) return container;
   }
-  return startProcess();
+  return startRedisProcess();
 }

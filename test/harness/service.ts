@@ -75,6 +75,7 @@ export async function startService(opts: ServiceOptions = {}): Promise<TestServi
     JOB_ATTEMPTS: '3', ...opts.apiEnv,
   });
   const api = await startApiServer(config, quietLogger, { tokens: tokenStore, archive });
+  await api.deps.events.ready(); // the API listens before Redis answers; tests want its event listener connected
   const workers: RetargetWorker[] = [];
   const processes: WorkerProcess[] = [];
   const workerEnv = { REDIS_URL: redis.url, QUEUE_PREFIX: prefix, DATA_DIR: dataDir, PLAN_SINK: planSink, LOG_LEVEL: 'info' };
