@@ -19,6 +19,10 @@ export const CAVEAT_CODES = [
   'NO_EXECUTION_ERROR_MODEL',
   'MONTE_CARLO_NOT_RUN',
   'UTC_BEYOND_LEAP_SECOND_TABLE',
+  'BUDGET_IS_A_STUDY',
+  'BUDGET_REPLAN_NOT_CONVERGED',
+  'BUDGET_PATHS_DISAGREE',
+  'BUDGET_LIMIT_CROSSING',
 ] as const;
 export type CaveatCode = (typeof CAVEAT_CODES)[number];
 
@@ -41,6 +45,10 @@ const SEVERITY: Readonly<Record<CaveatCode, CaveatSeverity>> = Object.freeze({
   NO_EXECUTION_ERROR_MODEL: 'info',
   MONTE_CARLO_NOT_RUN: 'info',
   UTC_BEYOND_LEAP_SECOND_TABLE: 'info',
+  BUDGET_IS_A_STUDY: 'warning',
+  BUDGET_REPLAN_NOT_CONVERGED: 'warning',
+  BUDGET_PATHS_DISAGREE: 'warning',
+  BUDGET_LIMIT_CROSSING: 'critical',
 });
 
 /** Builds one caveat with its catalogue severity. */

@@ -11,7 +11,8 @@ import { issuePath } from '../contract/errors.ts';
 import { problemSchema } from '../contract/problem-schema.ts';
 import type { PlanningProblem, ProblemTarget } from '../contract/problem-schema.ts';
 
-function fromZodError(error: z.ZodError): InvalidInputError {
+/** The first zod issue as an InvalidInputError naming its dotted path (all issues listed in the message). */
+export function fromZodError(error: z.ZodError): InvalidInputError {
   const issues = error.issues.map((i) => `${issuePath(i.path)}: ${i.message}`);
   const first = error.issues[0];
   const field = first ? issuePath(first.path) : '(problem)';

@@ -88,6 +88,16 @@ export function drawExecutedDeltaV(deltaVKmS: Vec3, errors: GatesErrors, random:
   const n0 = random.normal();
   const n1 = random.normal();
   const n2 = random.normal();
+  return executedDeltaV(deltaVKmS, errors, [n0, n1, n2]);
+}
+
+/**
+ * The executed Δv for three standard normals already drawn (along-burn, e1, e2): Δv + σ_mag·n0·û +
+ * σ_point·(n1·e1 + n2·e2); isotropic with the same trace for a zero Δv.
+ * @returns executed Δv, km/s, same frame as `deltaVKmS`.
+ */
+export function executedDeltaV(deltaVKmS: Vec3, errors: GatesErrors, normals: readonly [number, number, number]): Vec3 {
+  const [n0, n1, n2] = normals;
   const { magnitudeSigmaKmS: sm, pointingSigmaKmS: sp, directionUnit } = gatesSigmas(deltaVKmS, errors);
   if (directionUnit === null) {
     const s = Math.sqrt((sm * sm + 2 * sp * sp) / 3);

@@ -1,6 +1,6 @@
 /** Dispersion: Gates execution errors, linear covariance mapping, B-plane ellipses, impact probability,
  * seeded Monte Carlo sampling and the linear-versus-sample check. Internal to planner/. */
-export { gatesCovarianceKm2S2, gatesSigmas, drawExecutedDeltaV, transverseBasis } from './gates.ts';
+export { gatesCovarianceKm2S2, gatesSigmas, drawExecutedDeltaV, executedDeltaV, transverseBasis } from './gates.ts';
 export type { GatesErrors, GatesSigmas } from './gates.ts';
 export { mapCovariance, linearTargetCovariance, standardDeviations } from './linear-mapping.ts';
 export type { BurnCovarianceInput, InitialStateCovarianceInput, LinearTargetCovariance } from './linear-mapping.ts';

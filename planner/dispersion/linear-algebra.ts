@@ -54,31 +54,34 @@ export function requireCovariance(field: string, a: Matrix, n: number): void {
 }
 
 /**
- * Lower-triangular L with L·Lᵀ = A for a symmetric positive semi-definite A. Pivots within
- * 1e-12·max(diag) of zero are taken as zero (a degenerate direction gets no spread).
+ * Lower-triangular L with L·Lᵀ = A for a symmetric positive semi-definite A. The factorisation runs on the
+ * correlation form D⁻¹AD⁻¹ (D = sqrt(diag A)) and scales back, so variances in different units (km² next to
+ * km²/s²) are all kept; pivots within 1e-12 of zero in that form are taken as zero (a degenerate direction
+ * gets no spread), as is a zero variance.
  * @throws InvalidInputError naming `field` when A is not positive semi-definite.
  */
 export function choleskySemidefinite(a: Matrix, field = 'covariance'): Matrix {
   const n = a.length;
   const l = zeros(n, n);
-  const maxDiag = Math.max(...a.map((row, i) => Math.abs(row[i])), 0);
-  const floor = 1e-12 * maxDiag;
+  const d = a.map((row, i) => Math.sqrt(Math.max(0, row[i])));
+  const at = (i: number, j: number): number => (d[i] > 0 && d[j] > 0 ? a[i][j] / (d[i] * d[j]) : 0);
+  const floor = 1e-12;
   for (let j = 0; j < n; j += 1) {
-    let d = a[j][j];
-    for (let k = 0; k < j; k += 1) d -= l[j][k] * l[j][k];
-    if (d < -floor * 10 - 1e-300) {
-      throw new InvalidInputError(field, `is not positive semi-definite (pivot ${j} = ${d.toExponential(3)})`);
+    let p = at(j, j);
+    for (let k = 0; k < j; k += 1) p -= l[j][k] * l[j][k];
+    if (p < -floor * 10) {
+      throw new InvalidInputError(field, `is not positive semi-definite (pivot ${j} = ${p.toExponential(3)} in correlation form)`);
     }
-    if (d <= floor) continue; // zero column
-    const ljj = Math.sqrt(d);
+    if (p <= floor) continue; // zero column
+    const ljj = Math.sqrt(p);
     l[j][j] = ljj;
     for (let i = j + 1; i < n; i += 1) {
-      let s = a[i][j];
+      let s = at(i, j);
       for (let k = 0; k < j; k += 1) s -= l[i][k] * l[j][k];
       l[i][j] = s / ljj;
     }
   }
-  return l;
+  return l.map((row, i) => row.map((v) => v * d[i]));
 }
 
 /** Inverse of a symmetric positive definite matrix by Gauss–Jordan with partial pivoting.

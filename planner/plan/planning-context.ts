@@ -35,15 +35,17 @@ export interface PlanningContext {
 
 const MARGIN_S = 2 * 86400;
 
-function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | null {
-  const c = problem.initialState.covarianceKmKmS;
-  if (!c) return null;
-  if (problem.initialState.frame === 'J2000_EQUATORIAL') return c.map((row) => row.slice());
+/**
+ * A 6x6 [r, v] covariance (km², km²/s, km²/s²) given in the axes of an inertial `frame`, rotated to J2000
+ * equatorial: R·C·Rᵀ with R = diag(Q, Q).
+ */
+export function covarianceToEquatorial(c: readonly (readonly number[])[], frame: StateVector['frame']): number[][] {
+  if (frame === 'J2000_EQUATORIAL') return c.map((row) => row.slice());
   // Columns of the 6x6 block rotation R = diag(Q, Q): rotate unit vectors through stateToFrame.
   const unitState = (k: number): StateVector => {
     const v = [0, 0, 0, 0, 0, 0];
     v[k] = 1;
-    return { epochTdbS: 0, centre: 'sun', frame: problem.initialState.frame, positionKm: v.slice(0, 3) as Vec3, velocityKmS: v.slice(3) as Vec3 };
+    return { epochTdbS: 0, centre: 'sun', frame, positionKm: v.slice(0, 3) as Vec3, velocityKmS: v.slice(3) as Vec3 };
   };
   const cols = [0, 1, 2, 3, 4, 5].map((k) => {
     const s = stateToFrame(unitState(k), 'J2000_EQUATORIAL');
@@ -52,6 +54,11 @@ function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | nu
   const R = [0, 1, 2, 3, 4, 5].map((i) => cols.map((col) => col[i]));
   const RC = R.map((row) => [0, 1, 2, 3, 4, 5].map((j) => row.reduce((s, v, k) => s + v * c[k][j], 0)));
   return RC.map((row) => [0, 1, 2, 3, 4, 5].map((j) => row.reduce((s, v, k) => s + v * R[j][k], 0)));
+}
+
+function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | null {
+  const c = problem.initialState.covarianceKmKmS;
+  return c ? covarianceToEquatorial(c, problem.initialState.frame) : null;
 }
 
 /** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. */

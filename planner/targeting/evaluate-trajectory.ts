@@ -10,7 +10,7 @@
  */
 import { CancelledError, changeCentre, propagateAsync } from '../../propagator/index.ts';
 import type {
-  BodyName, Ephemeris, EventSpec, ForceModelSpec, PropagationMethod, PropagationResult, StateVector, Vec3,
+  BodyName, Ephemeris, EventSpec, PropagationMethod, PropagationResult, StateVector, Vec3,
 } from '../../propagator/index.ts';
 import { exhaustVelocityKmS } from '../maneuver-math.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
@@ -18,6 +18,7 @@ import type { BurnSetting } from './controls.ts';
 import { localAxes, localToInertial } from './local-frames.ts';
 import type { Rotation3 } from './local-frames.ts';
 import type { TargetComponent } from './target-components.ts';
+import { forcesFor } from './propagate-segment.ts';
 import { evaluateComponent } from './target-geometry.ts';
 
 type M = number[][];
@@ -112,17 +113,6 @@ function rowTimes(row: readonly number[], a: M): number[] {
 
 function vec(s: StateVector): number[] {
   return [...s.positionKm, ...s.velocityKmS];
-}
-
-function forcesFor(problem: PlanningProblem, massKg: number): ForceModelSpec {
-  const fm = problem.forceModel;
-  const sp = problem.spacecraft.solarPressure;
-  return {
-    centralBody: fm.centralBody,
-    perturbingBodies: [...fm.perturbingBodies],
-    centralJ2: fm.centralJ2,
-    solarPressure: fm.solarPressure && sp ? { areaM2: sp.areaM2, reflectivityCoefficient: sp.reflectivityCoefficient, massKg } : undefined,
-  };
 }
 
 /** Evaluates the trajectory for the given burn settings; see the file comment. */

@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   bPlaneEllipse, compareEllipses, createDispersionSampler, gatesCovarianceKm2S2, linearTargetCovariance, mergeSampleBatches,
-  runSampleRange, sampleCovariance, sampleMean, sampleRandom, type DrawnSample,
+  runSampleRange, sampleCovariance, sampleMean, sampleRandom, choleskySemidefinite, type DrawnSample,
 } from '../../planner/dispersion/index.ts';
 import type { Vec3 } from '../../propagator/index.ts';
 
@@ -217,6 +217,23 @@ describe('compareEllipses', () => {
       }
       const rms = Math.sqrt(errors.reduce((acc, x) => acc + x * x, 0) / errors.length);
       expect(Math.abs(rms / predicted - 1)).toBeLessThan(0.15);
+    });
+  });
+});
+
+describe('choleskySemidefinite', () => {
+  describe('when variances in different units differ by 14 orders of magnitude', () => {
+    // 3 km position σ next to 0.5 mm/s velocity σ (km²/s²), correlated: L·Lᵀ must give every entry back.
+    it('should keep the small velocity block instead of taking it as zero', () => {
+      const a = [
+        [9, 0, 0, 1e-6, 0, 0], [0, 9, 0, 0, 0, 0], [0, 0, 9, 0, 0, 0],
+        [1e-6, 0, 0, 2.5e-13, 0, 0], [0, 0, 0, 0, 2.5e-13, 0], [0, 0, 0, 0, 0, 2.5e-13],
+      ];
+      const l = choleskySemidefinite(a);
+      const back = a.map((row, i) => row.map((_, j) => l[i].reduce((acc, v, k) => acc + v * l[j][k], 0)));
+      a.forEach((row, i) => row.forEach((v, j) => {
+        expect(Math.abs(back[i][j] - v)).toBeLessThanOrEqual(1e-12 * Math.sqrt(a[i][i] * a[j][j]));
+      }));
     });
   });
 });

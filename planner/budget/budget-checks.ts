@@ -1,0 +1,41 @@
+/**
+ * parseBudgetRequest: the budget request's zod shape, then the problem's own checks, then what relates
+ * the budget's fields to the problem (one knowledge covariance per burn, each a covariance). Every failure
+ * is an InvalidInputError naming the dotted path of the first bad field.
+ */
+import { InvalidInputError } from '../../propagator/index.ts';
+import { budgetRequestSchema } from '../budget-schema.ts';
+import type { BudgetRequest } from '../budget-schema.ts';
+import { choleskySemidefinite, requireCovariance } from '../dispersion/linear-algebra.ts';
+import { checkProblem, fromZodError } from '../problem-checks.ts';
+
+/** Validates anything from outside as a budget request; returns it with defaults filled in. */
+export function parseBudgetRequest(input: unknown): BudgetRequest {
+  const parsed = budgetRequestSchema.safeParse(input);
+  if (!parsed.success) {
+    const e = fromZodError(parsed.error);
+    throw e;
+  }
+  const request = parsed.data;
+  try {
+    checkProblem(request.problem);
+  } catch (error) {
+    if (error instanceof InvalidInputError) throw new InvalidInputError(`problem.${error.field}`, error.message.slice(error.field.length + 2), error.code);
+    throw error;
+  }
+  const burns = request.problem.burns.length;
+  if (request.knowledge.length !== burns) {
+    throw new InvalidInputError('knowledge', `needs one entry per burn: ${burns} burns, ${request.knowledge.length} entries`);
+  }
+  request.knowledge.forEach((k, i) => {
+    const field = `knowledge[${i}].covarianceKmKmS`;
+    requireCovariance(field, k.covarianceKmKmS, 6);
+    choleskySemidefinite(k.covarianceKmKmS, field);
+  });
+  const initial = request.problem.initialState.covarianceKmKmS;
+  if (initial) choleskySemidefinite(initial, 'problem.initialState.covarianceKmKmS');
+  if (request.linearSamples === 0 && request.nonlinearSamples === 0) {
+    throw new InvalidInputError('linearSamples', 'linearSamples and nonlinearSamples are both 0: nothing to run');
+  }
+  return request;
+}

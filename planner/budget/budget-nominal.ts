@@ -1,0 +1,118 @@
+/**
+ * The nominal sequence of a Δv budget and its linear model, from the converged plan:
+ * - the nominal burns (inertial Δv, epochs) re-evaluated for their pre-burn states;
+ * - per burn k, J_k = d(components)/d(state just before burn k) with the later burns held at their nominal
+ *   inertial Δv (an STM evaluation started at that state), and the gain that re-plans burn k's free
+ *   components to null the target deviation: G_k = A_f·(W·J_k,v·A_f)⁺·W·J_k (W = 1/tolerance on the target
+ *   rows, A_f = the burn's free local axes; ⁺ = SVD pseudo-inverse: minimum norm when the free components
+ *   outnumber the targets, least squares otherwise — the corrector's own step);
+ * - the state transition matrices between burns (initial → first burn, burn k → burn k+1).
+ * Everything is plain data so sample batches on other threads or workers can use it.
+ * States J2000 equatorial, integration centre; km, s, km/s, kg; TDB s from J2000.
+ */
+import { InvalidInputError } from '../../propagator/index.ts';
+import type { StateVector, Vec3 } from '../../propagator/index.ts';
+import { pseudoSolve, svd } from '../corrector/linear-algebra.ts';
+import type { ManeuverPlan } from '../plan-types.ts';
+import { covarianceToEquatorial } from '../plan/planning-context.ts';
+import type { PlanningContext } from '../plan/planning-context.ts';
+import { approachImpactRadiusKm, vInfinityKmS } from '../plan/linear-dispersion.ts';
+import type { BudgetRequest } from '../budget-schema.ts';
+import type { BurnSetting } from '../targeting/controls.ts';
+import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
+import type { EvaluationContext, TrajectoryEvaluation } from '../targeting/evaluate-trajectory.ts';
+import { localAxes } from '../targeting/local-frames.ts';
+import { propagateSegment } from '../targeting/propagate-segment.ts';
+import { gmOf, radiusOf } from '../targeting/target-components.ts';
+import type { BudgetNominal, NominalBurn } from './budget-types.ts';
+
+const identity6 = (): number[][] => Array.from({ length: 6 }, (_, i) => Array.from({ length: 6 }, (__, j) => (i === j ? 1 : 0)));
+const toMatrix6 = (rowMajor: readonly number[]): number[][] => Array.from({ length: 6 }, (_, i) => rowMajor.slice(i * 6, i * 6 + 6));
+const vec = (s: StateVector): number[] => [...s.positionKm, ...s.velocityKmS];
+
+/** The evaluation context started at `state` (J2000 equatorial) with the spacecraft's mass there. */
+export function contextFrom(ctx: PlanningContext, state: StateVector, massKg: number, controlMap: EvaluationContext['controlMap'] = []): EvaluationContext {
+  const problem = { ...ctx.problem, spacecraft: { ...ctx.problem.spacecraft, massKg } };
+  return { ...ctx.evaluation, problem, initial: state, controlMap };
+}
+
+/** The plan's burns as inertial evaluator settings (epochs as planned, free windows already solved). */
+export function nominalSettings(plan: ManeuverPlan): BurnSetting[] {
+  return plan.burns.map((b) => ({ epochTdbS: b.epoch.tdbS, frame: 'inertial', deltaVLocalKmS: [...b.deltaVInertialKmS] as Vec3 }));
+}
+
+/** Burn k's re-plan gain (3x6, inertial km/s per unit state deviation); see the file comment. */
+function burnGain(ctx: PlanningContext, jacobian: number[][], axes: [Vec3, Vec3, Vec3], free: readonly boolean[]): number[][] {
+  const m = ctx.targetCount;
+  const freeAxes = axes.filter((_, j) => free[j]);
+  const w = ctx.components.slice(0, m).map((c) => 1 / c.tolerance);
+  // W·J_v·A_f: target rows scaled by 1/tolerance, columns = the free local axes.
+  const jv = jacobian.slice(0, m).map((row, i) => freeAxes.map((a) => w[i] * (row[3] * a[0] + row[4] * a[1] + row[5] * a[2])));
+  const d = svd(jv);
+  const columns = [0, 1, 2, 3, 4, 5].map((c) => {
+    const { x } = pseudoSolve(d, jacobian.slice(0, m).map((row, i) => w[i] * row[c]));
+    return [0, 1, 2].map((k) => freeAxes.reduce((acc, a, j) => acc + a[k] * x[j], 0));
+  });
+  return [0, 1, 2].map((k) => columns.map((col) => col[k]));
+}
+
+function requireOk(ev: Awaited<ReturnType<typeof evaluateTrajectory>>, what: string): TrajectoryEvaluation {
+  if (!ev.ok) throw new InvalidInputError('problem', `the nominal sequence could not be evaluated (${what}): ${ev.reason}`);
+  return ev;
+}
+
+/** Builds the nominal model of a converged plan; see the file comment. */
+export async function budgetNominal(request: BudgetRequest, ctx: PlanningContext, plan: ManeuverPlan, signal?: AbortSignal): Promise<BudgetNominal> {
+  if (plan.status !== 'converged') throw new InvalidInputError('problem', 'a Δv budget needs a converged nominal plan');
+  const fm = ctx.problem.forceModel;
+  const opts = { method: fm.method, relativeTolerance: fm.relativeTolerance, signal } as const;
+  const settings = nominalSettings(plan);
+  const whole = requireOk(await evaluateTrajectory({ ...ctx.evaluation, controlMap: [] }, settings, { ...opts, withStm: false }), 'whole sequence');
+  const burns: NominalBurn[] = [];
+  let last: TrajectoryEvaluation = whole;
+  for (let k = 0; k < settings.length; k++) {
+    const pre = whole.burns[k].preBurn;
+    const mass = plan.burns[k].massBeforeKg;
+    const fromK = requireOk(await evaluateTrajectory(contextFrom(ctx, pre, mass), settings.slice(k), { ...opts, withStm: true }), `from burn ${k + 1}`);
+    last = fromK;
+    const b = ctx.problem.burns[k];
+    const axes = localAxes(b.frame, pre.positionKm, pre.velocityKmS);
+    const pb = plan.burns[k];
+    const local = b.frame === 'RTN' ? pb.deltaVRtnKmS : b.frame === 'VNB' ? pb.deltaVVnbKmS : pb.deltaVInertialKmS;
+    let transitionToNext: number[][] | null = null;
+    if (k + 1 < settings.length) {
+      const dv = pb.deltaVInertialKmS;
+      const post: StateVector = { ...pre, velocityKmS: [pre.velocityKmS[0] + dv[0], pre.velocityKmS[1] + dv[1], pre.velocityKmS[2] + dv[2]] };
+      const seg = await propagateSegment(ctx.problem, ctx.ephemeris, post, pb.massAfterKg, settings[k + 1].epochTdbS, { ...opts, withStm: true });
+      if (seg.outcome !== 'finished' || !seg.stm) throw new InvalidInputError('problem', `propagation between burns ${k + 1} and ${k + 2} ended '${seg.outcome}'`);
+      transitionToNext = toMatrix6(seg.stm);
+    }
+    burns.push({
+      label: pb.label, epochTdbS: pb.epoch.tdbS, frame: b.frame, deltaVInertialKmS: [...pb.deltaVInertialKmS] as Vec3,
+      deltaVLocalKmS: [...local] as Vec3, freeComponents: [...b.freeComponents] as [boolean, boolean, boolean],
+      preBurnState: vec(pre), massBeforeKg: mass,
+      gain: burnGain(ctx, fromK.initialStateJacobian as number[][], axes, b.freeComponents), transitionToNext,
+    });
+  }
+  let transitionToFirst = identity6();
+  if (settings[0].epochTdbS > ctx.evaluation.initial.epochTdbS) {
+    const seg = await propagateSegment(ctx.problem, ctx.ephemeris, ctx.evaluation.initial, ctx.problem.spacecraft.massKg, settings[0].epochTdbS, { ...opts, withStm: true });
+    if (seg.outcome !== 'finished' || !seg.stm) throw new InvalidInputError('problem', `propagation to the first burn ended '${seg.outcome}'`);
+    transitionToFirst = toMatrix6(seg.stm);
+  }
+  const idx = ctx.bPlaneIndex;
+  const approach = idx ? whole.approaches.find((a) => a.body === idx.body) : undefined;
+  return {
+    plan, burns, transitionToFirst, nominalValues: whole.values.slice(),
+    deliveryJacobian: (last.initialStateJacobian as number[][]).map((row) => row.slice()),
+    components: ctx.components.map((c) => ({ name: c.component, unit: c.unit })),
+    targetCount: ctx.targetCount,
+    bPlane: idx ? {
+      body: idx.body, bDotT: idx.bDotT, bDotR: idx.bDotR, closestApproach: idx.closestApproach, bodyRadiusKm: radiusOf(idx.body),
+      impactRadiusKm: approachImpactRadiusKm(ctx, whole), gmKm3S2: gmOf(idx.body),
+      vInfinityKmS: approach ? vInfinityKmS(approach.stateRelBody, gmOf(idx.body)) : null,
+    } : null,
+    initialCovariance: ctx.initialCovariance,
+    knowledgeCovariances: request.knowledge.map((k) => covarianceToEquatorial(k.covarianceKmKmS, ctx.problem.initialState.frame)),
+  };
+}

@@ -1,0 +1,184 @@
+/**
+ * The Δv budget's plain-data shapes (JSON-serialisable, no NaN: a number that could not be computed is
+ * null). Vectors J2000 equatorial; km, s, km/s, kg, m/s where the name says MS.
+ */
+import type { Vec3 } from '../../propagator/index.ts';
+import type { BPlaneEllipse, Caveat, ManeuverPlan } from '../plan-types.ts';
+
+/** Which path produced a sample or a summary. */
+export type BudgetPath = 'linear' | 'nonlinear';
+
+/** One burn of the nominal sequence with what the linear path needs (plain data: crosses threads/jobs). */
+export interface NominalBurn {
+  label: string;
+  epochTdbS: number;
+  frame: 'inertial' | 'RTN' | 'VNB';
+  /** Nominal Δv, J2000 equatorial, km/s. */
+  deltaVInertialKmS: Vec3;
+  /** Nominal Δv in the burn's own frame, km/s (the re-plan's starting point). */
+  deltaVLocalKmS: Vec3;
+  /** Which components the re-plan may change (the problem's freeComponents). */
+  freeComponents: [boolean, boolean, boolean];
+  /** Nominal state just before the burn, [r km, v km/s], J2000 equatorial, integration centre. */
+  preBurnState: number[];
+  massBeforeKg: number;
+  /** Linear gain: commanded Δv correction (inertial, km/s) = −gain · (estimated state deviation), 3x6. */
+  gain: number[][];
+  /** State transition from just after this burn to just before the next (6x6); null for the last burn. */
+  transitionToNext: number[][] | null;
+}
+
+/** The nominal sequence: the converged plan the budget is made around, and the linear model. */
+export interface BudgetNominal {
+  plan: ManeuverPlan;
+  burns: NominalBurn[];
+  /** Initial state → first burn (6x6). */
+  transitionToFirst: number[][];
+  /** Every component (targets, then auxiliary) reached by the nominal sequence. */
+  nominalValues: number[];
+  /** d(components)/d(state just after the last burn), components x 6. */
+  deliveryJacobian: number[][];
+  /** Component names and units, in `nominalValues` order; the first `targetCount` are targets. */
+  components: { name: string; unit: string }[];
+  targetCount: number;
+  /** Index of B·T, B·R and closest-approach epoch among the components, when there is a B-plane target. */
+  bPlane: { body: string; bDotT: number; bDotR: number; closestApproach: number; bodyRadiusKm: number; impactRadiusKm: number | null; vInfinityKmS: number | null; gmKm3S2: number } | null;
+  /** Initial covariance (J2000 equatorial) and each burn's knowledge covariance, 6x6, or null when zero. */
+  initialCovariance: number[][] | null;
+  knowledgeCovariances: number[][][];
+}
+
+/** One burn of one sample. */
+export interface SampleBurn {
+  /** Commanded Δv (the re-plan's answer), J2000 equatorial, km/s. */
+  commandedKmS: Vec3;
+  /** |commanded Δv|, m/s: what the budget counts. */
+  magnitudeMS: number;
+  /** Propellant by the rocket equation on the executed Δv, from this sample's mass before the burn, kg. */
+  propellantKg: number;
+}
+
+/** One sample of either path. */
+export interface BudgetSample {
+  index: number;
+  /** Burns done, in order; shorter than the sequence when the sample stopped (impact, no convergence). */
+  burns: SampleBurn[];
+  /** Every component delivered (null when not reached). */
+  delivered: (number | null)[];
+  /** Closest-approach altitude over the B-plane / first approach body, km (null when not evaluated). */
+  closestApproachAltitudeKm: number | null;
+  impact: boolean;
+  /** Burn index whose re-plan did not converge, or null. */
+  notConvergedAt: number | null;
+  /** Why the sample stopped early (impact, re-plan failure, propagation failure), or null. */
+  stopReason: string | null;
+}
+
+/** Distribution of one scalar over the samples. */
+export interface Distribution {
+  count: number;
+  mean: number;
+  sigma: number;
+  p95: number;
+  p99: number;
+  /** Distribution-free 95 % interval of the 99th percentile (binomial order statistics). */
+  p99Interval: { lower: number; upper: number } | null;
+  max: number;
+}
+
+/** Budget of one burn over the samples. */
+export interface BurnBudgetSummary {
+  label: string;
+  epochTdbS: number;
+  nominalMagnitudeMS: number;
+  deltaVMS: Distribution;
+  propellantKg: Distribution;
+  /** Histogram of |Δv|, m/s: equal bins from 0 to the largest sample. */
+  histogram: { binWidthMS: number; counts: number[] };
+}
+
+export interface LimitCrossing {
+  /** Samples crossing, out of `evaluated`. */
+  count: number;
+  evaluated: number;
+  probability: number;
+  /** Wilson 95 % interval. */
+  lower95: number;
+  upper95: number;
+}
+
+/** Everything one path gives. */
+export interface BudgetSummary {
+  path: BudgetPath;
+  samples: number;
+  seed: number;
+  /** Samples in the Δv statistics (all burns done). */
+  used: number;
+  /** Samples whose re-plan did not converge: counted and listed (first 100 indices), left out of the
+   * Δv statistics. */
+  notConverged: { count: number; indices: number[] };
+  /** Samples that stopped for another reason (impact before the last burn, propagation failure). */
+  stopped: { count: number; indices: number[] };
+  burns: BurnBudgetSummary[];
+  /** From the per-sample totals (not summed percentiles). */
+  total: { deltaVMS: Distribution; propellantKg: Distribution };
+  delivery: {
+    components: { name: string; unit: string; mean: number | null; sigma: number | null }[];
+    bPlane: BPlaneEllipse | null;
+    meanBDotTKm: number | null;
+    meanBDotRKm: number | null;
+    closestApproachSigmaS: number | null;
+    /** Up to 500 delivered B-plane points, km. */
+    points: { bDotTKm: number; bDotRKm: number }[];
+  };
+  limits: { impact: LimitCrossing; belowSafeAltitude: LimitCrossing | null; safeAltitudeKm: number };
+}
+
+/** Linear vs non-linear, per burn, on the samples both paths ran. */
+export interface BurnAgreement {
+  label: string;
+  samples: number;
+  linear: { mean: number; sigma: number; p99: number };
+  nonlinear: { mean: number; sigma: number; p99: number };
+  /** |difference| / linear σ (mean, σ) and / linear Δv99. */
+  meanDifference: number;
+  sigmaDifference: number;
+  p99Difference: number;
+  /** RMS over the paired samples of |Δv_linear − Δv_nonlinear| / linear σ. */
+  pairedRms: number;
+  passed: boolean;
+}
+
+export interface BudgetAgreement {
+  passed: boolean;
+  limit: number;
+  burns: BurnAgreement[];
+  message: string;
+}
+
+/** The result: a study, never a plan to approve. */
+export interface BudgetResult {
+  budgetFormatVersion: 1;
+  kind: 'delta-v-budget';
+  problemHash: string;
+  /** SHA-256 of the canonical validated budget request. */
+  requestHash: string;
+  softwareVersion: string;
+  spacecraftName: string;
+  title: string | null;
+  nominal: { status: ManeuverPlan['status']; crossCheckPassed: boolean; burns: { label: string; epochTdbS: number; epochTdb: string; magnitudeMS: number }[]; totalDeltaVMS: number };
+  linear: BudgetSummary | null;
+  nonlinear: BudgetSummary | null;
+  agreement: BudgetAgreement | null;
+  caveats: Caveat[];
+  notes: string[];
+}
+
+/** Progress of a budget run; `fraction` in [0, 1]. */
+export interface BudgetProgress {
+  stage: 'nominal' | 'linear' | 'nonlinear' | 'summary' | 'done';
+  fraction: number;
+  message: string;
+  samplesDone?: number;
+  samplesTotal?: number;
+}

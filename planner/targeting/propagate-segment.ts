@@ -1,0 +1,44 @@
+/**
+ * The problem's force model for a given spacecraft mass, and one burn-free propagation segment with the
+ * problem's method, tolerance and switching (used by the trajectory evaluator and the Δv budget).
+ * States J2000 equatorial relative to the integration centre; km, s, km/s; TDB s from J2000.
+ */
+import { CancelledError, propagateAsync } from '../../propagator/index.ts';
+import type { Ephemeris, ForceModelSpec, PropagationMethod, PropagationResult, StateVector } from '../../propagator/index.ts';
+import type { PlanningProblem } from '../problem-schema.ts';
+
+/** Force model of the problem; SRP uses `massKg` (kg, the mass at that point of the trajectory). */
+export function forcesFor(problem: PlanningProblem, massKg: number): ForceModelSpec {
+  const fm = problem.forceModel;
+  const sp = problem.spacecraft.solarPressure;
+  return {
+    centralBody: fm.centralBody,
+    perturbingBodies: [...fm.perturbingBodies],
+    centralJ2: fm.centralJ2,
+    solarPressure: fm.solarPressure && sp ? { areaM2: sp.areaM2, reflectivityCoefficient: sp.reflectivityCoefficient, massKg } : undefined,
+  };
+}
+
+export interface SegmentOptions {
+  method: PropagationMethod;
+  relativeTolerance: number;
+  withStm: boolean;
+  signal?: AbortSignal;
+}
+
+/**
+ * Propagates `state` (J2000 equatorial, integration centre) to `endTdbS` (TDB s) with no burns and no
+ * events; the result's outcome says whether it finished (an impact ends it early).
+ * @throws CancelledError when `signal` fires.
+ */
+export async function propagateSegment(problem: PlanningProblem, ephemeris: Ephemeris, state: StateVector, massKg: number,
+  endTdbS: number, opts: SegmentOptions): Promise<PropagationResult> {
+  if (opts.signal?.aborted) throw new CancelledError();
+  const result = await propagateAsync({
+    initial: state, endEpochTdbS: endTdbS, forces: forcesFor(problem, massKg), ephemeris,
+    method: opts.method, relativeTolerance: opts.relativeTolerance, withStm: opts.withStm, events: [],
+    switching: problem.forceModel.switching ? { enabled: true } : undefined,
+  }, { signal: opts.signal });
+  if (result.outcome === 'cancelled') throw new CancelledError();
+  return result;
+}
