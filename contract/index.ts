@@ -13,3 +13,5 @@ export * from './http-schemas.ts';
 export * from './env-config.ts';
 export { SOFTWARE_VERSION } from './software-version.ts';
 export * from './errors.ts';
+export * from './budget-schema.ts';
+export type * from './budget-types.ts';

@@ -21,8 +21,8 @@ export {
   deltaVToInertialKmS, deltaVFromInertialKmS, deltaVInAllAxes, axesToInertialMatrix,
 } from './maneuver-math.ts';
 export type { BurnBudget, BurnAxes } from './maneuver-math.ts';
-export { budgetRequestSchema, BUDGET_DEFAULTS } from './budget-schema.ts';
-export type { BudgetRequest, BudgetRequestInput } from './budget-schema.ts';
+export { budgetRequestSchema, BUDGET_DEFAULTS } from '../contract/budget-schema.ts';
+export type { BudgetRequest, BudgetRequestInput } from '../contract/budget-schema.ts';
 export {
   parseBudgetRequest, prepareBudget, runBudgetSamples, assembleBudget, runBudget, budgetRequestHash, percentile, percentileInterval, distribution,
 } from './budget/index.ts';

@@ -4,9 +4,9 @@
  * RMS difference). A burn agrees when every measure is at most `agreementFraction` of the linear σ (mean,
  * σ, paired RMS) or of the linear Δv99.
  */
-import type { BudgetRequest } from '../budget-schema.ts';
+import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { distribution } from './budget-statistics.ts';
-import type { BudgetAgreement, BudgetNominal, BudgetSample, BurnAgreement } from './budget-types.ts';
+import type { BudgetAgreement, BudgetNominal, BudgetSample, BurnAgreement } from '../../contract/budget-types.ts';
 
 /** Compares the two paths' samples; see the file comment. */
 export function compareBudgetPaths(request: BudgetRequest, nominal: BudgetNominal, linear: readonly BudgetSample[], nonlinear: readonly BudgetSample[]): BudgetAgreement {

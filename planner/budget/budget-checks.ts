@@ -4,8 +4,8 @@
  * is an InvalidInputError naming the dotted path of the first bad field.
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import { budgetRequestSchema } from '../budget-schema.ts';
-import type { BudgetRequest } from '../budget-schema.ts';
+import { budgetRequestSchema } from '../../contract/budget-schema.ts';
+import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { choleskySemidefinite, requireCovariance } from '../dispersion/linear-algebra.ts';
 import { checkProblem, fromZodError } from '../problem-checks.ts';
 

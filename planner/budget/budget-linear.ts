@@ -10,9 +10,9 @@
  */
 import { executedDeltaV } from '../dispersion/gates.ts';
 import { exhaustVelocityKmS } from '../maneuver-math.ts';
-import type { BudgetRequest } from '../budget-schema.ts';
+import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import type { BudgetDraw } from './budget-draws.ts';
-import type { BudgetNominal, BudgetSample, SampleBurn } from './budget-types.ts';
+import type { BudgetNominal, BudgetSample, SampleBurn } from '../../contract/budget-types.ts';
 import type { Vec3 } from '../../propagator/index.ts';
 
 const matVec = (a: number[][], x: readonly number[]): number[] => a.map((row) => row.reduce((acc, v, j) => acc + v * x[j], 0));

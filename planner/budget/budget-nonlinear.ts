@@ -13,7 +13,7 @@ import { runCorrector } from '../corrector/differential-corrector.ts';
 import { executedDeltaV } from '../dispersion/gates.ts';
 import { exhaustVelocityKmS } from '../maneuver-math.ts';
 import type { PlanningContext } from '../plan/planning-context.ts';
-import type { BudgetRequest } from '../budget-schema.ts';
+import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import { localAxes, localToInertial } from '../targeting/local-frames.ts';
@@ -21,7 +21,7 @@ import { propagateSegment } from '../targeting/propagate-segment.ts';
 import { radiusOf } from '../targeting/target-components.ts';
 import type { BudgetDraw } from './budget-draws.ts';
 import { contextFrom } from './budget-nominal.ts';
-import type { BudgetNominal, BudgetSample, NominalBurn, SampleBurn } from './budget-types.ts';
+import type { BudgetNominal, BudgetSample, NominalBurn, SampleBurn } from '../../contract/budget-types.ts';
 
 const offsetState = (s: StateVector, d: readonly number[]): StateVector => ({
   ...s,

@@ -10,10 +10,10 @@
 import { bPlaneEllipse } from '../dispersion/ellipse.ts';
 import { binomialEstimate } from '../dispersion/impact-probability.ts';
 import { mergeSampleBatches, sampleCovariance, sampleMean } from '../dispersion/sample-statistics.ts';
-import type { BudgetRequest } from '../budget-schema.ts';
+import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import type {
   BudgetNominal, BudgetPath, BudgetSample, BudgetSummary, Distribution, LimitCrossing,
-} from './budget-types.ts';
+} from '../../contract/budget-types.ts';
 
 const Z95 = 1.959963984540054;
 const HISTOGRAM_BINS = 30;

@@ -4,4 +4,4 @@ export { parseBudgetRequest } from './budget-checks.ts';
 export { prepareBudget, runBudgetSamples, assembleBudget, runBudget, budgetRequestHash } from './run-budget.ts';
 export type { BudgetRunOptions, BudgetSampleOptions } from './run-budget.ts';
 export { percentile, percentileInterval, distribution } from './budget-statistics.ts';
-export type * from './budget-types.ts';
+export type * from '../../contract/budget-types.ts';

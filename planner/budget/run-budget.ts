@@ -10,12 +10,12 @@
  */
 import { CancelledError, InvalidInputError } from '../../propagator/index.ts';
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
-import type { Caveat, ManeuverPlan, PlanProgress } from '../plan-types.ts';
+import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-types.ts';
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
 import { planningContext } from '../plan/planning-context.ts';
-import { SOFTWARE_VERSION } from '../plan/software-version.ts';
+import { SOFTWARE_VERSION } from '../../contract/software-version.ts';
 import { canonicalJson, problemHash } from '../problem-hash.ts';
-import type { BudgetRequest } from '../budget-schema.ts';
+import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { createHash } from 'node:crypto';
 import { compareBudgetPaths } from './budget-agreement.ts';
 import { parseBudgetRequest } from './budget-checks.ts';
@@ -24,7 +24,7 @@ import { linearBudgetSample } from './budget-linear.ts';
 import { budgetNominal } from './budget-nominal.ts';
 import { nonlinearBudgetSample } from './budget-nonlinear.ts';
 import { summariseBudgetSamples } from './budget-statistics.ts';
-import type { BudgetNominal, BudgetPath, BudgetProgress, BudgetResult, BudgetSample, BudgetSummary } from './budget-types.ts';
+import type { BudgetNominal, BudgetPath, BudgetProgress, BudgetResult, BudgetSample, BudgetSummary } from '../../contract/budget-types.ts';
 
 export interface BudgetRunOptions {
   onProgress?: (p: BudgetProgress) => void;

@@ -5,7 +5,7 @@
  */
 import { CancelledError, propagateAsync } from '../../propagator/index.ts';
 import type { Ephemeris, ForceModelSpec, PropagationMethod, PropagationResult, StateVector } from '../../propagator/index.ts';
-import type { PlanningProblem } from '../problem-schema.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 
 /** Force model of the problem; SRP uses `massKg` (kg, the mass at that point of the trajectory). */
 export function forcesFor(problem: PlanningProblem, massKg: number): ForceModelSpec {

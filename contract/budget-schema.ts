@@ -3,7 +3,7 @@
  * correction burns, plus what the budget adds — the navigation knowledge covariance at each burn, the
  * sample count and seed, and which paths to run. The initial-state covariance (the true state's spread) is
  * the problem's `initialState.covarianceKmKmS`; the execution errors are its Gates `executionErrors`.
- * Shape checks only; parseBudgetRequest (budget/budget-checks.ts) relates fields to each other.
+ * Shape checks only; parseBudgetRequest (planner/budget/budget-checks.ts) relates fields to each other.
  */
 import { z } from 'zod';
 import { problemSchema } from './problem-schema.ts';

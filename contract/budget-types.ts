@@ -2,8 +2,8 @@
  * The Δv budget's plain-data shapes (JSON-serialisable, no NaN: a number that could not be computed is
  * null). Vectors J2000 equatorial; km, s, km/s, kg, m/s where the name says MS.
  */
-import type { Vec3 } from '../../propagator/index.ts';
-import type { BPlaneEllipse, Caveat, ManeuverPlan } from '../plan-types.ts';
+import type { Vec3 } from './bodies.ts';
+import type { BPlaneEllipse, Caveat, ManeuverPlan } from './plan-types.ts';
 
 /** Which path produced a sample or a summary. */
 export type BudgetPath = 'linear' | 'nonlinear';
