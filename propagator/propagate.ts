@@ -20,6 +20,7 @@ import type {
   EventRecord, PropagationOptions, PropagationOutcome, PropagationRequest, PropagationResult,
 } from './propagation-types.ts';
 import { resetStm, StmSegments } from './variational.ts';
+import { createThrustArcDynamics, finiteBurnSteps, type ThrustArc } from './finite-burn/index.ts';
 
 /** Ends a run inside the step just accepted (impact, a stopping event). */
 export interface WatchStop {
@@ -73,14 +74,15 @@ function finishProgress(result: PropagationResult, options: PropagationOptions):
 }
 
 /** Equations of motion for the requested method. */
-function createDynamics(checked: CheckedRequest, forces: ForceModel, cart: number[]): PropagationDynamics {
+function createDynamics(checked: CheckedRequest, forces: ForceModel, cart: number[], arc?: ThrustArc): PropagationDynamics {
+  if (arc !== undefined) return createThrustArcDynamics(forces, cart, checked.withStm, arc);
   if (checked.method === 'cowell') return createCowellDynamics(forces, cart, checked.withStm);
   if (checked.method === 'encke') return createEnckeOrFallback(checked, forces, cart, createCowellDynamics);
   throw new InvalidInputError('method', `'${checked.method}' is not available in this build`);
 }
 
 /** Validates, converts the initial state to the integration frame and centre, and builds the model. */
-function prepare(request: PropagationRequest): { checked: CheckedRequest; dynamics: PropagationDynamics } {
+function prepare(request: PropagationRequest, arc?: ThrustArc): { checked: CheckedRequest; dynamics: PropagationDynamics } {
   const checked = checkRequest(request);
   if ((request.events?.length ?? 0) > 0) throw new InvalidInputError('events', 'events are not available in this build');
   if (request.switching?.enabled === true) throw new InvalidInputError('switching', 'central-body switching is not available in this build');
@@ -90,7 +92,7 @@ function prepare(request: PropagationRequest): { checked: CheckedRequest; dynami
     || request.initial.centre !== forces.centralBody;
   if (needsEphemeris) checkEphemerisSpan(ephemeris.span, ephemeris.name, checked.startTdbS, checked.endTdbS);
   const state = changeCentre(stateToFrame(request.initial, 'J2000_EQUATORIAL'), forces.centralBody, ephemeris);
-  const dynamics = createDynamics(checked, forces, [...state.positionKm, ...state.velocityKmS]);
+  const dynamics = createDynamics(checked, forces, [...state.positionKm, ...state.velocityKmS], arc);
   const inside = new ImpactWatch(dynamics).inside(checked.startTdbS, dynamics.initialY);
   if (inside !== null) {
     throw new InvalidInputError('initial.positionKm', `the initial state lies inside ${inside.body} `
@@ -133,14 +135,16 @@ function impactWatcher(dynamics: PropagationDynamics): StepWatcher {
 
 /**
  * The propagation as a generator: yields the fraction of the span done after each accepted step and
- * returns the result. Validation errors throw on the first `next()`.
+ * returns the result. Validation errors throw on the first `next()`. `arc` (internal, from the finite-burn
+ * runner): the whole run is one thrust arc.
  */
 export function* propagationSteps(
-  request: PropagationRequest, options: PropagationOptions = {}, extraWatchers: StepWatcher[] = [],
+  request: PropagationRequest, options: PropagationOptions = {}, extraWatchers: StepWatcher[] = [], arc?: ThrustArc,
 ): Generator<number, PropagationResult, void> {
   checkEvents(request.events);
+  if ((request.finiteBurns?.length ?? 0) > 0) return yield* finiteBurnSteps(request, options, propagationSteps);
   if (needsSegmentedRun(request)) return yield* segmentedSteps(request, options, propagationSteps);
-  const { checked, dynamics } = prepare(request);
+  const { checked, dynamics } = prepare(request, arc);
   const { startTdbS: start, endTdbS: end, direction, burns } = checked;
   const central = dynamics.forces.centralBody;
   const stepper = new Dop853Stepper(dynamics.rhs, start, dynamics.initialY, direction, {
@@ -220,6 +224,7 @@ export function* propagationSteps(
     finalEpoch = stop.epochTdbS;
     if (stepper.hasDenseOutput && finalEpoch !== stepper.t) stepper.denseOutput(finalEpoch, yFinal);
   }
+  dynamics.onFinish?.(finalEpoch, yFinal);
   const cart = new Float64Array(6);
   dynamics.cartesianInto(finalEpoch, yFinal, cart);
   const final = stateVector(finalEpoch, central, cart);

@@ -41,6 +41,9 @@ export interface PropagationDynamics {
   /** The formulation these equations implement, reported as the result's `methodUsed`; absent means
    * Cowell (so a fallback from Encke says 'cowell' explicitly). */
   readonly method?: PropagationMethod;
+  /** Called once with the final integration vector when the run ends (a thrust arc reads its parameter
+   * sensitivities out of it). */
+  onFinish?(epochTdbS: number, y: Float64Array): void;
   /** Notes for the result's `warnings` (e.g. a fallback from Encke to Cowell). */
   readonly warnings?: readonly string[];
 }

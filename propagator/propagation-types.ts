@@ -37,6 +37,58 @@ export interface VelocityImpulse {
   deltaVKmS: Vec3;
 }
 
+/** Axes in which a finite burn's thrust direction is held fixed: J2000 equatorial ('inertial'), or the
+ * local RTN / VNB axes of the instantaneous state relative to the integration centre (they turn with it). */
+export type ThrustAxes = 'inertial' | 'RTN' | 'VNB';
+
+/**
+ * A constant-thrust burn of finite duration: thrust `thrustN` along a fixed direction in `axes` from
+ * `startTdbS` for `durationS`, the mass falling at `massFlowKgS` (ṁ = F/(Isp·g0) for an engine of
+ * specific impulse Isp). The integrator lands steps on ignition and cut-off.
+ */
+export interface FiniteBurnSpec {
+  /** Ignition, TDB s from J2000. */
+  startTdbS: number;
+  /** Burn duration, s (> 0). */
+  durationS: number;
+  /** Thrust, N (> 0). */
+  thrustN: number;
+  /** Mass flow, kg/s (≥ 0). */
+  massFlowKgS: number;
+  axes: ThrustAxes;
+  /** Unit thrust direction in `axes` components (|u| = 1 within 1e-9; used as given). */
+  direction: Vec3;
+}
+
+/** One finite burn as flown: epochs TDB s from J2000, masses kg, states J2000 equatorial relative to the
+ * integration centre (km, km/s). */
+export interface FiniteBurnRecord {
+  startTdbS: number;
+  endTdbS: number;
+  massBeforeKg: number;
+  massAfterKg: number;
+  /** Ideal Δv of the burn, (F/ṁ)·ln(m_before/m_after) (rocket equation), km/s; F/m·duration when ṁ = 0. */
+  idealDeltaVKmS: number;
+  /** Thrust direction at ignition and at cut-off, J2000 equatorial unit vectors. */
+  directionAtStartInertial: Vec3;
+  directionAtEndInertial: Vec3;
+  stateAtStart: StateVector;
+  stateAtEnd: StateVector;
+}
+
+/**
+ * Sensitivities of the final state (6: km, km/s, J2000 equatorial) to one finite burn's parameters, when
+ * withStm was set: the direction components as given in its axes (6x3 row-major), ignition epoch with the
+ * duration held (per s) and duration with the ignition held (per s). Mass couples later burns to this
+ * one's duration; the SRP term's dependence on mass is left out of these partials (it is ~1e-9 of the
+ * thrust acceleration for a spacecraft of ordinary area-to-mass).
+ */
+export interface FiniteBurnSensitivity {
+  direction: number[];
+  startTdbS: number[];
+  durationS: number[];
+}
+
 /** Events located on the dense output (time tolerance 1e-6 s or better). */
 export type EventSpec =
   | { kind: 'periapsis'; body: BodyName; stop?: boolean }
@@ -82,6 +134,11 @@ export interface PropagationRequest {
   absoluteTolerance?: number;
   maxSteps?: number;
   burns?: VelocityImpulse[];
+  /** Finite burns (forward propagations only; none may overlap another or contain an impulsive burn). */
+  finiteBurns?: FiniteBurnSpec[];
+  /** Spacecraft mass at the initial epoch, kg (> 0); needed with finite burns unless forces.solarPressure
+   * gives it (both given: they must agree). The mass falls during finite burns only; it scales SRP. */
+  initialMassKg?: number;
   /** When set, the result holds states every outputStepS seconds (plus start and end). */
   outputStepS?: number;
   /** Integrate the 6x6 state transition matrix alongside the state. */
@@ -125,6 +182,12 @@ export interface PropagationResult {
   stm?: number[];
   /** d(final state)/d(Δv) of each burn, 6x3 row-major (18 numbers), when withStm was set. */
   burnSensitivities?: number[][];
+  /** Per finite burn (request order), when the request had finite burns. */
+  finiteBurns?: FiniteBurnRecord[];
+  /** Per finite burn (request order), when the request had finite burns and withStm was set. */
+  finiteBurnSensitivities?: FiniteBurnSensitivity[];
+  /** Mass at the final epoch, kg, when the request had finite burns. */
+  finalMassKg?: number;
   /** States at the output step, when outputStepS was set. */
   samples: StateVector[];
   events: EventRecord[];

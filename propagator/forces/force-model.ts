@@ -25,6 +25,9 @@ export class ForceModel {
   readonly ephemeris: Ephemeris;
   /** Number of acceleration evaluations so far. */
   evaluations = 0;
+  /** Spec mass over current mass (dimensionless, > 0): scales the SRP term while a finite burn burns
+   * propellant (SRP acceleration goes as area over mass). 1 unless a thrust arc sets it. */
+  srpMassScale = 1;
   private readonly config: CheckedForceModel;
   private readonly sunPosition = new Float64Array(3);
   /** All perturbers relative to the central body in one call per epoch; the Sun alone when SRP needs it
@@ -105,7 +108,7 @@ export class ForceModel {
         sy = this.sunPosition[1];
         sz = this.sunPosition[2];
       }
-      addSolarPressure(srp.strength, rx, ry, rz, sx, sy, sz, srp.occulterRadiusKm, acc, partials);
+      addSolarPressure(srp.strength * this.srpMassScale, rx, ry, rz, sx, sy, sz, srp.occulterRadiusKm, acc, partials);
     }
   }
 }

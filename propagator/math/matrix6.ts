@@ -25,3 +25,17 @@ export function velocityColumns(m: ArrayLike<number>, sign = 1): number[] {
   for (let i = 0; i < 6; i++) for (let j = 3; j < 6; j++) out.push(sign * m[6 * i + j]);
   return out;
 }
+
+/** a · b for a 6x6 row-major `a` and a 6 x `columns` row-major `b` (a 6-vector when columns = 1), as a new
+ * array of 6·columns numbers. */
+export function multiply6Columns(a: ArrayLike<number>, b: ArrayLike<number>, columns: number): number[] {
+  const out = new Array<number>(6 * columns).fill(0);
+  for (let i = 0; i < 6; i++) {
+    for (let k = 0; k < 6; k++) {
+      const f = a[6 * i + k];
+      if (f === 0) continue;
+      for (let j = 0; j < columns; j++) out[columns * i + j] += f * b[columns * k + j];
+    }
+  }
+  return out;
+}
