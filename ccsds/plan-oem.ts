@@ -1,6 +1,7 @@
 /**
  * The predicted post-burn trajectory of a proposed plan as an Orbit Ephemeris Message: the problem's
- * initial state propagated with the plan's burns (the problem's force model, the built-in ephemeris),
+ * initial state propagated with the plan's burns (the problem's force model, the built-in ephemeris —
+ * through the caller's shared Chebyshev cache when one is given, as the planner does),
  * sampled at a chosen step, one segment per arc between burns (an ephemeris must not be interpolated
  * across a velocity jump). When the problem has an initial covariance, each segment ends with that
  * covariance mapped linearly through the state transition matrix — orbit-determination uncertainty only;
@@ -9,7 +10,8 @@
  */
 import type { ManeuverPlan, PlanningProblem } from '../planner/index.ts';
 import {
-  CancelledError, changeCentre, createBuiltinEphemeris, type Ephemeris, type ForceModelSpec, InvalidInputError,
+  type BodyName, CancelledError, changeCentre, createBuiltinEphemeris, type Ephemeris, type EphemerisCache,
+  type ForceModelSpec, InvalidInputError,
   parseEpoch, propagateAsync, type StateVector, stateToFrame,
 } from '../propagator/index.ts';
 import { rotateInertialCovariance } from './initial-state.ts';
@@ -23,12 +25,27 @@ export interface PlanOemOptions extends PlanExportOptions {
   stepS: number;
   /** Interpolation recommended in the metadata. @defaultValue { method: 'HERMITE', degree: 7 } */
   interpolation?: { method: InterpolationMethod; degree: number };
-  /** Source of body positions; the built-in one when absent. */
+  /** Source of body positions; when absent, the built-in one (through `ephemerisCache` when given). */
   ephemeris?: Ephemeris;
+  /** The process's shared ephemeris cache (propagator EphemerisCache); used when `ephemeris` is absent. */
+  ephemerisCache?: EphemerisCache;
   /** Write mapped covariance blocks when the problem has an initial covariance. @defaultValue true */
   covariance?: boolean;
   signal?: AbortSignal;
   onProgress?: (fraction: number) => void;
+}
+
+/** The built-in source, or a view of the shared cache over the span (±1 day) for the bodies the export uses. */
+function exportEphemeris(problem: PlanningProblem, startTdbS: number, endTdbS: number, cache?: EphemerisCache): Ephemeris {
+  const builtin = createBuiltinEphemeris();
+  const f = problem.forceModel;
+  const bodies = [...new Set<BodyName>([f.centralBody, ...f.perturbingBodies, problem.initialState.centre])];
+  if (cache === undefined || bodies.length === 1) return builtin;
+  const marginS = 86400;
+  return cache.ephemerisFor(builtin, bodies, {
+    startTdbS: Math.max(builtin.span.startTdbS, Math.min(startTdbS, endTdbS) - marginS),
+    endTdbS: Math.min(builtin.span.endTdbS, Math.max(startTdbS, endTdbS) + marginS),
+  });
 }
 
 /** Most lines one export may write (a guard against a step far too small for the span). */
@@ -59,7 +76,7 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
   }
   const scale = options.timeSystem ?? 'TDB';
   const frame: MessageFrame = 'J2000_EQUATORIAL';
-  const ephemeris = options.ephemeris ?? createBuiltinEphemeris();
+  const ephemeris = options.ephemeris ?? exportEphemeris(problem, startTdbS, endTdbS, options.ephemerisCache);
   const interpolation = options.interpolation ?? { method: 'HERMITE', degree: 7 };
   const f = problem.forceModel;
   const forces: ForceModelSpec = {

@@ -14,6 +14,8 @@ export type { PlanOptions } from './plan/plan-maneuvers.ts';
 export { runDispersionSamples, summariseDispersion, attachMonteCarlo } from './plan/monte-carlo.ts';
 export type { SampleRunOptions } from './plan/monte-carlo.ts';
 export { SOFTWARE_VERSION } from '../contract/software-version.ts';
+/** The process-wide ephemeris cache the owner of a planning process passes in PlanOptions.ephemerisCache. */
+export { EphemerisCache } from '../propagator/index.ts';
 export { solveLambert, LAMBERT_DEFAULTS } from './lambert/index.ts';
 export type { LambertDirection, LambertOptions, LambertSolution } from './lambert/index.ts';
 export {

@@ -5,6 +5,7 @@ import { dirname, resolve } from 'node:path';
 import { InvalidInputError } from '../../propagator/index.ts';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
 import type { ManeuverPlan, PlanProgress } from '../../planner/index.ts';
+import { cliEphemerisCache } from '../cli-ephemeris-cache.ts';
 import type { CliCommand } from '../command.ts';
 import { formatPlanReport } from '../report/plan-report.ts';
 import { readProblemFileWithOpmState } from './ccsds-cli.ts';
@@ -119,7 +120,7 @@ export const planCommand: CliCommand = {
     process.once('SIGINT', onSigint);
     let plan: ManeuverPlan;
     try {
-      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal });
+      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal, ephemerisCache: cliEphemerisCache });
     } finally {
       bar.end();
       process.removeListener('SIGINT', onSigint);

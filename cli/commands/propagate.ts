@@ -1,8 +1,9 @@
 /** `veer propagate <request.json> [--json]`: one propagation in-process; report or JSON on stdout. */
 import {
-  BUILTIN_EPHEMERIS_SPAN, buildChebyshevEphemeris, createBuiltinEphemeris, InvalidInputError, PROPAGATION_DEFAULTS,
+  BUILTIN_EPHEMERIS_SPAN, createBuiltinEphemeris, InvalidInputError, PROPAGATION_DEFAULTS,
   propagateAsync, type BodyName, type Ephemeris,
 } from '../../propagator/index.ts';
+import { cliEphemerisCache } from '../cli-ephemeris-cache.ts';
 import type { CliCommand } from '../command.ts';
 import {
   checkRequestSpan, parsePropagateRequest, requestSpan, toPropagationRequest, type PropagateRequestFile,
@@ -34,7 +35,7 @@ const CACHE_MARGIN_S = 86400;
  * The ephemeris a request asks for: the built-in series, or a Chebyshev cache of it over the span.
  * When any body other than the central one is consulted, the requested span is first checked against
  * the built-in span (OutOfSpanError naming `initial.epoch`, `endEpoch` or `durationS`); `beforeBuild`
- * runs once those checks pass, just before the (slower) cache build.
+ * runs once those checks pass; the cache's blocks are fitted as the propagation reaches them.
  */
 export function ephemerisFor(file: PropagateRequestFile, beforeBuild?: () => void): Ephemeris {
   const builtin = createBuiltinEphemeris();
@@ -46,18 +47,11 @@ export function ephemerisFor(file: PropagateRequestFile, beforeBuild?: () => voi
   if (file.ephemeris === 'builtin') return builtin;
   const { startTdbS, endTdbS } = requestSpan(file);
   beforeBuild?.();
-  try {
-    return buildChebyshevEphemeris(builtin, {
-      bodies: [...bodies],
-      startTdbS: Math.max(BUILTIN_EPHEMERIS_SPAN.startTdbS, Math.min(startTdbS, endTdbS) - CACHE_MARGIN_S),
-      endTdbS: Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, Math.max(startTdbS, endTdbS) + CACHE_MARGIN_S),
-    });
-  } catch (error) {
-    // The cache's own fields mean nothing to the author of the request: name the one they can change.
-    if (!(error instanceof InvalidInputError)) throw error;
-    throw new InvalidInputError('ephemeris', `the Chebyshev cache of ${builtin.name} over the requested span could not `
-      + `be built (${error.message}); set "ephemeris": "builtin" to evaluate the series directly`);
-  }
+  // Fitted block by block as the integration reaches it (the process's shared cache).
+  return cliEphemerisCache.ephemerisFor(builtin, [...bodies], {
+    startTdbS: Math.max(BUILTIN_EPHEMERIS_SPAN.startTdbS, Math.min(startTdbS, endTdbS) - CACHE_MARGIN_S),
+    endTdbS: Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, Math.max(startTdbS, endTdbS) + CACHE_MARGIN_S),
+  });
 }
 
 async function readRequestFile(path: string): Promise<PropagateRequestFile> {

@@ -5,7 +5,7 @@
  * B-plane covariance; attachMonteCarlo stores the summary and recomputes the dispersion caveats.
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import type { StateVector } from '../../propagator/index.ts';
+import type { EphemerisCache, StateVector } from '../../propagator/index.ts';
 import { bPlaneEllipse, compareEllipses } from '../dispersion/ellipse.ts';
 import { binomialEstimate } from '../dispersion/impact-probability.ts';
 import { createDispersionSampler, runSampleRange } from '../dispersion/monte-carlo.ts';
@@ -27,6 +27,8 @@ export interface SampleRunOptions {
   signal?: AbortSignal;
   /** Called after each sample with the number done in this batch. */
   onSample?: (done: number) => void;
+  /** The process's shared ephemeris cache (see PlanOptions.ephemerisCache). */
+  ephemerisCache?: EphemerisCache;
 }
 
 /** Runs samples [firstIndex, firstIndex + count) of a converged plan; see the file comment. */
@@ -86,7 +88,7 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
 
 /** Queue fan-out entry: runs samples [firstIndex, firstIndex + count) for a converged plan. */
 export async function runDispersionSamples(problem: PlanningProblem, plan: ManeuverPlan, options: SampleRunOptions): Promise<DispersionSample[]> {
-  return runDispersionSamplesWithContext(planningContext(problem), plan, options);
+  return runDispersionSamplesWithContext(planningContext(problem, options.ephemerisCache), plan, options);
 }
 
 function std(values: number[]): number | null {

@@ -6,7 +6,7 @@
  * status 'not-converged', no burns to execute and the diagnostics.
  */
 import { CancelledError } from '../../propagator/index.ts';
-import type { Vec3 } from '../../propagator/index.ts';
+import type { EphemerisCache, Vec3 } from '../../propagator/index.ts';
 import { finiteDifferenceJacobian, runCorrector } from '../corrector/differential-corrector.ts';
 import type { CorrectorResult } from '../corrector/differential-corrector.ts';
 import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from '../../contract/plan-types.ts';
@@ -36,6 +36,9 @@ export interface PlanOptions {
    * difference from the STM one in sensitivities.stmVersusFiniteDifference (2n extra propagations).
    * @defaultValue false */
   verifyJacobian?: boolean;
+  /** The process's shared ephemeris cache (propagator EphemerisCache), owned where plans are made (CLI,
+   * planner thread); without it the plan fits its own. The plan is the same either way. */
+  ephemerisCache?: EphemerisCache;
 }
 
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -49,7 +52,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   };
   progress({ stage: 'validating', fraction: 0, message: 'checking the problem' });
   const problem = parseProblem(input);
-  const ctx = planningContext(problem);
+  const ctx = planningContext(problem, options.ephemerisCache);
   checkAbort();
   await yieldToLoop();
   const fm = problem.forceModel;

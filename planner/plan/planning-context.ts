@@ -1,11 +1,12 @@
 /**
  * Everything a planning run derives from a validated problem before propagating: parsed epochs, target
- * components (plus auxiliary ones the dispersion needs), the control layout, the ephemeris (a Chebyshev
- * cache fitted to the built-in source over the span) and the initial state in J2000 equatorial axes
+ * components (plus auxiliary ones the dispersion needs), the control layout, the ephemeris (a view over
+ * the span of a Chebyshev cache of the built-in source: the caller's shared EphemerisCache, or one of its
+ * own; a block's fit never depends on which, so the plan does not either) and the initial state in J2000 equatorial axes
  * relative to the central body.
  */
 import {
-  BUILTIN_EPHEMERIS_SPAN, buildChebyshevEphemeris, changeCentre, createBuiltinEphemeris, stateToFrame,
+  BUILTIN_EPHEMERIS_SPAN, changeCentre, createBuiltinEphemeris, EphemerisCache, stateToFrame,
 } from '../../propagator/index.ts';
 import type { BodyName, Ephemeris, StateVector, Vec3 } from '../../propagator/index.ts';
 import { checkProblem } from '../problem-checks.ts';
@@ -61,8 +62,9 @@ function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | nu
   return c ? covarianceToEquatorial(c, problem.initialState.frame) : null;
 }
 
-/** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. */
-export function planningContext(problem: PlanningProblem): PlanningContext {
+/** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. `cache`: the
+ * process's shared ephemeris cache (a fresh one when absent). */
+export function planningContext(problem: PlanningProblem, cache?: EphemerisCache): PlanningContext {
   const epochs = checkProblem(problem);
   const components = targetComponents(problem, epochs);
   const targetCount = components.length;
@@ -90,7 +92,7 @@ export function planningContext(problem: PlanningProblem): PlanningContext {
   const end = Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, epochs.endTdbS + MARGIN_S);
   const ephemeris = bodies.length === 1 && bodies[0] === 'sun'
     ? source
-    : buildChebyshevEphemeris(source, { bodies, startTdbS: start, endTdbS: end });
+    : (cache ?? new EphemerisCache()).ephemerisFor(source, bodies, { startTdbS: start, endTdbS: end });
   let initial: StateVector = {
     epochTdbS: epochs.initialTdbS, centre: problem.initialState.centre, frame: problem.initialState.frame,
     positionKm: [...problem.initialState.positionKm] as Vec3, velocityKmS: [...problem.initialState.velocityKmS] as Vec3,

@@ -10,3 +10,5 @@ export type {
 } from './tabulated-ephemeris.ts';
 export { layerEphemerides } from './layered-ephemeris.ts';
 export { assertInSpan, assertBody, assertValidSpan } from './ephemeris-checks.ts';
+export { EphemerisCache, EPHEMERIS_CACHE_DEFAULTS } from './ephemeris-cache.ts';
+export type { EphemerisCacheOptions, EphemerisCacheStats } from './ephemeris-cache.ts';
