@@ -11,7 +11,7 @@
  * was cold or warm. Memory is bounded: past `maxBlocks` fitted blocks the least recently used one is
  * dropped (a view holding it keeps using it until it moves to another block).
  */
-import { InvalidInputError } from '../errors.ts';
+import { InvalidInputError } from '../../contract/errors.ts';
 import type { BodyName } from '../types.ts';
 import { buildChebyshevEphemeris, CHEBYSHEV_DEFAULTS, type ChebyshevEphemerisCache } from './chebyshev-ephemeris.ts';
 import { planBodyPositions } from './body-positions-plan.ts';
