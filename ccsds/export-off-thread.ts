@@ -40,7 +40,9 @@ export interface CcsdsExportThreadsOptions {
   timeLimitMs?: number;
 }
 
-const ENTRY = new URL('./export-thread-entry.mjs', import.meta.url);
+// Compiled (dist/, plain node) the thread runs the built module; from the TypeScript sources (tests, tsx) the .mjs
+// entry registers tsx in the fresh thread first.
+const ENTRY = new URL(import.meta.url.endsWith('.js') ? './export-thread.js' : './export-thread-entry.mjs', import.meta.url);
 
 /** Rebuilds the error kinds the callers tell apart (by class and `name`); others keep name and message. */
 function revive(e: Extract<ExportThreadOutput, { ok: false }>['error']): Error {

@@ -16,11 +16,12 @@ export async function main(args: string[]): Promise<number> {
     process.stdout.write(overview() + '\n');
     return name === undefined ? 2 : 0;
   }
-  const command = COMMANDS.find((c) => c.name === name);
-  if (!command) {
+  const entry = COMMANDS.find((c) => c.name === name);
+  if (!entry) {
     process.stderr.write(`veer: unknown command '${name}'\n\n${overview()}\n`);
     return 2;
   }
+  const command = await entry.load();
   if (rest.includes('--help') || rest.includes('-h')) {
     process.stdout.write(command.usage + '\n');
     return 0;

@@ -1,2 +1,2 @@
 /** Public face of console/ for Node: the express router that serves the built console. */
-export { consoleRouter, type ConsoleRouterOptions } from './server/console-router.ts';
+export { CONSOLE_DIST_DIR, consoleRouter, type ConsoleRouterOptions } from './server/console-router.ts';

@@ -6,7 +6,13 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync } from 'node:fs';
 import { createServer, Socket } from 'node:net';
 
-export interface LocalRedis { url: string; stop(): Promise<void> }
+export interface LocalRedis {
+  url: string;
+  /** Stops the server (SIGTERM: it writes its append-only file and exits) and resolves once it has exited. */
+  stop(): Promise<void>;
+  /** Last resort when there is no time to wait: SIGKILL, returns at once. */
+  kill(): void;
+}
 
 /** What to tell a user whose machine has no redis-server. */
 export const INSTALL_REDIS_HINT = 'redis-server was not found on PATH. Install it (Debian/Ubuntu: sudo apt-get install redis-server; '
@@ -41,7 +47,9 @@ export async function startLocalRedis(dir: string): Promise<LocalRedis> {
   const port = await freePort();
   const child: ChildProcess = spawn('redis-server', [
     '--port', String(port), '--bind', '127.0.0.1', '--dir', dir, '--appendonly', 'yes', '--save', '', '--loglevel', 'warning',
-  ], { stdio: ['ignore', 'ignore', 'pipe'] });
+  ], { stdio: ['ignore', 'ignore', 'pipe'], detached: true });
+  // detached: its own process group, so a Ctrl-C in the terminal reaches only us and we stop it last, after the
+  // worker has drained (not while jobs still write to it).
   // Forwarded rather than inherited, so the server does not hold our stderr open after we exit.
   child.stderr?.on('data', (d: Buffer) => process.stderr.write(d));
   const failed = new Promise<never>((_, reject) => {
@@ -60,10 +68,13 @@ export async function startLocalRedis(dir: string): Promise<LocalRedis> {
   return {
     url: `redis://127.0.0.1:${port}`,
     async stop() {
-      if (child.exitCode !== null) return;
+      if (child.exitCode !== null || child.signalCode !== null) return;
       const exited = new Promise<void>((r) => child.once('exit', () => r()));
       child.kill('SIGTERM');
       await exited;
+    },
+    kill() {
+      if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
     },
   };
 }

@@ -18,7 +18,9 @@ export interface PlannerPoolOptions {
 
 interface Slot { worker: Worker; ready: Promise<void>; busy: boolean; onMessage: ((m: FromThread) => void) | null; onExit: ((code: number) => void) | null }
 
-const ENTRY = new URL('./planner-thread-entry.mjs', import.meta.url);
+// Compiled (dist/, plain node) the thread runs the built module; from the TypeScript sources (tests, tsx) a fresh
+// thread has no loader yet, so the .mjs entry registers tsx first.
+const ENTRY = new URL(import.meta.url.endsWith('.js') ? './planner-thread.js' : './planner-thread-entry.mjs', import.meta.url);
 
 export class PlannerPool {
   private readonly slots: Slot[] = [];

@@ -16,7 +16,6 @@ token, role); 1 other failures.`;
 
 export const cancelCommand: CliCommand = {
   name: 'cancel',
-  summary: 'Cancel a waiting or running job',
   usage: USAGE,
   async run(args) {
     const { values, positionals } = parseArgs({

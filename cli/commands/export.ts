@@ -42,7 +42,6 @@ ${PROPOSAL_NOTICE}`;
 
 export const exportCommand: CliCommand = {
   name: 'export',
-  summary: 'Export a plan bundle (JSON) for audit or exchange',
   get usage() { return usage(); },
   async run(args) {
     const { values, positionals } = parseArgs({

@@ -32,7 +32,6 @@ function what(e: HistoryAnswer['entries'][number]): string {
 
 export const historyCommand: CliCommand = {
   name: 'history',
-  summary: 'Show a plan\'s archive history',
   usage: USAGE,
   async run(args) {
     const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { ...REMOTE_OPTIONS } });

@@ -81,7 +81,6 @@ export function planExitCode(plan: ManeuverPlan): number {
 
 export const planCommand: CliCommand = {
   name: 'plan',
-  summary: 'plan correction burns for a problem file (in-process) and print the proposed plan',
   usage: USAGE,
   async run(args: string[]): Promise<number> {
     let json = false;

@@ -61,7 +61,6 @@ async function readRequestFile(path: string): Promise<PropagateRequestFile> {
 /** The `veer propagate` command (see USAGE above and README). */
 export const propagateCommand: CliCommand = {
   name: 'propagate',
-  summary: 'propagate a state under a force model (burns, samples, STM) and print the final state',
   usage: USAGE,
   async run(args: string[]): Promise<number> {
     const json = args.includes('--json');

@@ -22,7 +22,6 @@ interface PlanAnswer {
 
 export const reviewCommand: CliCommand = {
   name: 'review',
-  summary: 'Show a plan\'s caveats, or approve / reject it (reviewer)',
   usage: USAGE,
   async run(args) {
     const { values, positionals } = parseArgs({

@@ -16,7 +16,6 @@ role); 1 other failures.`;
 
 export const statusCommand: CliCommand = {
   name: 'status',
-  summary: 'Show a job\'s state, progress and outcome',
   usage: USAGE,
   async run(args) {
     const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { ...REMOTE_OPTIONS } });

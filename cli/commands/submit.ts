@@ -46,7 +46,6 @@ async function readCheckedProblem(path: string): Promise<unknown> {
 
 export const submitCommand: CliCommand = {
   name: 'submit',
-  summary: 'Submit a retargeting problem to the service as a job (--watch to follow it)',
   usage: USAGE,
   async run(args) {
     const { values, positionals } = parseArgs({

@@ -28,7 +28,6 @@ function cliActor(): string {
 
 export const tokensCommand: CliCommand = {
   name: 'tokens',
-  summary: 'Add, list or revoke API tokens in the local store',
   usage: USAGE,
   async run(args) {
     const { values, positionals } = parseArgs({

@@ -38,7 +38,6 @@ function reportText(r: VerifyReport): string {
 
 export const verifyCommand: CliCommand = {
   name: 'verify',
-  summary: 'Verify the archive hash chain (API, local store, or an exported bundle)',
   usage: USAGE,
   async run(args) {
     const { values } = parseArgs({

@@ -126,7 +126,6 @@ export async function watchJob(remote: Remote, jobId: string, json: boolean): Pr
 
 export const watchCommand: CliCommand = {
   name: 'watch',
-  summary: 'Follow a job\'s progress until it ends (exit code tells the outcome)',
   usage: USAGE,
   async run(args) {
     const { values, positionals } = parseArgs({ args, allowPositionals: true, options: { ...REMOTE_OPTIONS } });

@@ -7,15 +7,17 @@ import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import express, { Router, type Request, type Response } from 'express';
 
-const DEFAULT_DIST = fileURLToPath(new URL('../dist', import.meta.url));
+// console/dist from console/server/ (sources), or from dist/console/server/ (compiled).
+/** Where the built console lives (`npm run build` or `npm run console:build` writes it; `npm ci` builds it). */
+export const CONSOLE_DIST_DIR = fileURLToPath(new URL(import.meta.url.endsWith('.js') ? '../../../console/dist' : '../dist', import.meta.url));
 
 export interface ConsoleRouterOptions {
-  /** Folder of the built assets. @defaultValue console/dist */
+  /** Folder of the built assets. @defaultValue CONSOLE_DIST_DIR (console/dist) */
   distDir?: string;
 }
 
 export function consoleRouter(options: ConsoleRouterOptions = {}): Router {
-  const distDir = options.distDir ?? DEFAULT_DIST;
+  const distDir = options.distDir ?? CONSOLE_DIST_DIR;
   const router = Router();
   router.get('/console/session', (req: Request, res: Response) => {
     res.set('Cache-Control', 'no-store');
@@ -27,7 +29,7 @@ export function consoleRouter(options: ConsoleRouterOptions = {}): Router {
   });
   router.use('/console', (req, res, next) => {
     if (existsSync(distDir)) { next(); return; }
-    res.status(503).type('text/plain').send('The console is not built: run `npm run console:build`.\n');
+    res.status(503).type('text/plain').send('The console is not built: run `npm run build` (or `npm run console:build`).\n');
   });
   // Hashed asset names never change content; index.html must be re-read so a new build is picked up.
   router.use('/console', express.static(distDir, {
