@@ -41,6 +41,9 @@ export function createCowellDynamics(model: ForceModel, state: ArrayLike<number>
     cartesianInto(_epochTdbS, y, out) {
       for (let i = 0; i < 6; i++) out[i] = y[i];
     },
+    translate(_epochTdbS, y, shift) {
+      for (let i = 0; i < 6; i++) y[i] -= shift[i];
+    },
     applyImpulse(_epochTdbS, y, dv) {
       y[3] += dv[0];
       y[4] += dv[1];

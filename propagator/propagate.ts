@@ -6,7 +6,7 @@
  */
 import { createCowellDynamics } from './cowell.ts';
 import { createEnckeOrFallback } from './encke/index.ts';
-import { needsSegmentedRun, segmentedSteps } from './switching/index.ts';
+import { MovingCentreDynamics, needsSegmentedRun, segmentedSteps } from './switching/index.ts';
 import type { Ephemeris } from './ephemeris/ephemeris.ts';
 import { InvalidInputError } from '../contract/errors.ts';
 import { ForceModel } from './forces/index.ts';
@@ -92,7 +92,10 @@ function prepare(request: PropagationRequest, arc?: ThrustArc): { checked: Check
     || request.initial.centre !== forces.centralBody;
   if (needsEphemeris) checkEphemerisSpan(ephemeris.span, ephemeris.name, checked.startTdbS, checked.endTdbS);
   const state = changeCentre(stateToFrame(request.initial, 'J2000_EQUATORIAL'), forces.centralBody, ephemeris);
-  const dynamics = createDynamics(checked, forces, [...state.positionKm, ...state.velocityKmS], arc);
+  // About a moving centre the shifted coordinate starts equal to the state (its offset is zero at the anchor).
+  forces.anchorMovingCentre(checked.startTdbS);
+  const inner = createDynamics(checked, forces, [...state.positionKm, ...state.velocityKmS], arc);
+  const dynamics = forces.movingCentre === null ? inner : new MovingCentreDynamics(inner);
   const inside = new ImpactWatch(dynamics).inside(checked.startTdbS, dynamics.initialY);
   if (inside !== null) {
     throw new InvalidInputError('initial.positionKm', `the initial state lies inside ${inside.body} `

@@ -25,6 +25,10 @@ export interface PropagationDynamics {
   /** Adds `dvKmS` (km/s, J2000 equatorial; already signed for the direction of time) to the velocity
    * held in `y` at `epochTdbS`, in place. */
   applyImpulse(epochTdbS: number, y: Float64Array, dvKmS: ArrayLike<number>): void;
+  /** Subtracts `shift` (km, km/s: position in [0..2], velocity in [3..5]) from the Cartesian state held
+   * in `y` at `epochTdbS`, in place; Φ is kept (a translation has identity Jacobian). Used when the
+   * origin of the integration coordinate moves (forces/moving-centre.ts). */
+  translate(epochTdbS: number, y: Float64Array, shift: ArrayLike<number>): void;
   /** Encke: after an accepted step, restarts the reference conic when the deviation is past its
    * threshold, rewriting `y` in place; true when it did (the loop then resets the stepper with y). */
   maybeRectify?(epochTdbS: number, y: Float64Array): boolean;

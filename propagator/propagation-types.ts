@@ -28,6 +28,14 @@ export interface ForceModelSpec {
   solarPressure?: SolarPressureSpec;
   /** Override GM (km^3/s^2, > 0) of some bodies; the rest come from GM_KM3_S2 in constants.ts. */
   gmOverridesKm3S2?: Partial<Record<BodyName, number>>;
+  /**
+   * The body whose equations the run keeps (the central body or a perturbing one): the frame's
+   * acceleration is this body's Newtonian acceleration from the model's bodies, and the central body
+   * moves relative to it as the ephemeris tabulates (forces/moving-centre.ts). Switching sets it to the
+   * request's central body in every segment, so a switched run reproduces the unswitched one.
+   * @defaultValue centralBody
+   */
+  referenceBody?: BodyName;
 }
 
 /** An impulsive Δv applied at an epoch; the integrator stops exactly there. */

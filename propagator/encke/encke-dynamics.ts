@@ -228,6 +228,16 @@ export class EnckeDynamics {
     y[this.clock] = 0;
   }
 
+  /** Subtracts `shift` (km, km/s) from the state at `epochTdbS`; the reference conic restarts at the
+   * new state (not counted as a rectification). */
+  translate(epochTdbS: number, y: Float64Array, shift: ArrayLike<number>): void {
+    for (let i = 0; i < 3; i++) {
+      y[i] -= shift[i] / this.lengthKm;
+      y[3 + i] -= shift[3 + i] / this.speedKmS;
+    }
+    this.restartAt(epochTdbS, y);
+  }
+
   /** Adds Δv (km/s, J2000 equatorial, signed for the direction of time) at `epochTdbS`; the reference
    * conic restarts at the new state (not counted as a rectification). */
   applyImpulse(epochTdbS: number, y: Float64Array, dvKmS: ArrayLike<number>): void {

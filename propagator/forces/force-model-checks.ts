@@ -19,6 +19,8 @@ export interface CheckedForceModel {
   perturbingRadiiKm: number[];
   j2: { j2: number; radiusKm: number } | null;
   solarPressure: { strength: number; sunIndex: number; occulterRadiusKm: number } | null;
+  /** Index of referenceBody among the perturbing bodies; -1 when it is the central body (or not given). */
+  referenceIndex: number;
 }
 
 function checkBody(name: unknown, field: string, ephemeris: Ephemeris): BodyName {
@@ -95,7 +97,16 @@ export function checkForceModel(spec: ForceModelSpec, ephemeris: Ephemeris): Che
       occulterRadiusKm: shadow === 'cylindrical' && central !== 'sun' ? RADIUS_KM[central] : 0,
     };
   }
+  let referenceIndex = -1;
+  if (spec.referenceBody !== undefined && spec.referenceBody !== central) {
+    referenceIndex = perturbing.indexOf(spec.referenceBody);
+    if (referenceIndex < 0) {
+      throw new InvalidInputError('forces.referenceBody', `${String(spec.referenceBody)} must be the central body `
+        + 'or one of the perturbing bodies');
+    }
+  }
   return {
+    referenceIndex,
     centralGm: positiveFinite(gmOf(central), `forces.gmOverridesKm3S2.${central}`),
     centralRadiusKm: RADIUS_KM[central],
     perturbingBodies: perturbing,

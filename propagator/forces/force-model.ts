@@ -12,6 +12,7 @@ import { addJ2 } from './zonal-j2.ts';
 import { addPointMass } from './point-mass.ts';
 import { addSolarPressure } from './solar-pressure.ts';
 import { addThirdBody } from './third-body.ts';
+import { MovingCentre } from './moving-centre.ts';
 
 export class ForceModel {
   readonly centralBody: BodyName;
@@ -23,6 +24,9 @@ export class ForceModel {
   /** Positions (km, from the central body) of the perturbing bodies at the last evaluated epoch. */
   readonly bodyPositionsKm: Float64Array;
   readonly ephemeris: Ephemeris;
+  /** Present when the spec's referenceBody differs from the central body: the state handed to
+   * accelerationInto is then the shifted coordinate y of moving-centre.ts, not the position from the centre. */
+  readonly movingCentre: MovingCentre | null;
   /** Number of acceleration evaluations so far. */
   evaluations = 0;
   /** Spec mass over current mass (dimensionless, > 0): scales the SRP term while a finite burn burns
@@ -51,6 +55,17 @@ export class ForceModel {
     const srp = this.config.solarPressure;
     this.sunPlan = srp !== null && srp.sunIndex < 0 && this.centralBody !== 'sun'
       ? planBodyPositions(ephemeris, ['sun'], this.centralBody) : null;
+    const ref = this.config.referenceIndex;
+    this.movingCentre = ref < 0 ? null
+      : new MovingCentre(ephemeris, this.centralBody, this.perturbingBodies[ref], this.centralGmKm3S2, ref, this.perturbingGmKm3S2);
+  }
+
+  /** Moving centre only: restarts its cubic at `epochTdbS` (TDB s from J2000); the caller shifts its
+   * integration vector by the offset d it had there (see moving-centre.ts). */
+  anchorMovingCentre(epochTdbS: number): void {
+    if (this.movingCentre === null) return;
+    this.movingCentre.anchorAt(epochTdbS);
+    this.lastEpoch = Number.NaN;
   }
 
   /** Looks up the perturbing bodies' positions at `epochTdbS` (cached for repeated calls at one epoch). */
@@ -58,6 +73,7 @@ export class ForceModel {
     if (epochTdbS === this.lastEpoch) return;
     if (this.perturbingBodies.length > 0) this.bodyPlan.positionsInto(epochTdbS, this.bodyPositionsKm, 0);
     if (this.sunPlan !== null) this.sunPlan.positionsInto(epochTdbS, this.sunPosition, 0);
+    this.movingCentre?.update(epochTdbS, this.bodyPositionsKm);
     this.lastEpoch = epochTdbS;
   }
 
@@ -74,17 +90,19 @@ export class ForceModel {
   /**
    * Acceleration at `epochTdbS` (TDB s from J2000) for the spacecraft at position state[0..2] (km,
    * J2000 equatorial, from the central body) into acc[0..2] (km/s^2); the 3x3 row-major ∂a/∂r into
-   * partials[0..8] (1/s^2) when given.
+   * partials[0..8] (1/s^2) when given. With a moving centre, state[0..2] is the shifted coordinate y and
+   * acc is y'' (moving-centre.ts); the partials are the same.
    */
   accelerationInto(epochTdbS: number, state: Float64Array, acc: Float64Array, partials: Float64Array | null): void {
     this.evaluations += 1;
     this.updateBodies(epochTdbS);
-    const rx = state[0];
-    const ry = state[1];
-    const rz = state[2];
-    acc[0] = 0;
-    acc[1] = 0;
-    acc[2] = 0;
+    const moving = this.movingCentre;
+    const rx = moving === null ? state[0] : state[0] - moving.shiftKm[0];
+    const ry = moving === null ? state[1] : state[1] - moving.shiftKm[1];
+    const rz = moving === null ? state[2] : state[2] - moving.shiftKm[2];
+    acc[0] = moving === null ? 0 : moving.frameAccelerationKmS2[0];
+    acc[1] = moving === null ? 0 : moving.frameAccelerationKmS2[1];
+    acc[2] = moving === null ? 0 : moving.frameAccelerationKmS2[2];
     if (partials !== null) partials.fill(0);
     addPointMass(this.centralGmKm3S2, rx, ry, rz, acc, partials);
     const pos = this.bodyPositionsKm;

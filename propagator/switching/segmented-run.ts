@@ -75,6 +75,7 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
   const span = Math.abs(end - start);
   const bodies: BodyName[] = [request.forces.centralBody, ...request.forces.perturbingBodies];
   const j2Body = request.forces.centralJ2 === true ? request.forces.centralBody : null;
+  const referenceBody = request.forces.referenceBody ?? request.forces.centralBody;
   const burns = (request.burns ?? []).map((b, i) => ({ ...b, index: i }));
   const maxSteps = request.maxSteps ?? PROPAGATION_DEFAULTS.maxSteps;
   const events: EventRecord[] = [];
@@ -105,8 +106,10 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
     const segBurns = burns.filter((b) => (b.epochTdbS - segStart) * direction > 0 && (b.epochTdbS - end) * direction <= 0);
     const segRequest: PropagationRequest = {
       ...request, initial: state, events: [], switching: undefined, burns: segBurns, outputStepS: undefined,
+      // Every segment keeps the equations of a run about the requested central body: switching changes
+      // the integration variable, not the physics (forces/moving-centre.ts).
       forces: { ...request.forces, centralBody: centre, perturbingBodies: bodies.filter((b) => b !== centre),
-        centralJ2: centre === j2Body },
+        centralJ2: centre === j2Body, referenceBody },
       maxSteps: Math.max(1, maxSteps - counts.steps),
     };
     let watcher: EventWatcher | null = null;

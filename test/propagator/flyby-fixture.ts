@@ -8,11 +8,11 @@ import { changeCentre, GM_KM3_S2, keplerPropagate, MEAN_SEMI_MAJOR_AXIS_KM, RADI
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 
 const A_MARS_KM = MEAN_SEMI_MAJOR_AXIS_KM.mars!;
+export const PERIAPSIS_EPOCH = 9.5e8;
 export const flybyEphemeris = circularEphemeris([{
-  body: 'mars', radiusKm: A_MARS_KM, phaseRad: 0.3,
+  body: 'mars', radiusKm: A_MARS_KM, phaseRad: 0.3, phaseEpochTdbS: PERIAPSIS_EPOCH,
   periodS: 2 * Math.PI * Math.sqrt(A_MARS_KM ** 3 / (GM_KM3_S2.sun + GM_KM3_S2.mars)),
 }]);
-export const PERIAPSIS_EPOCH = 9.5e8;
 export const PERIAPSIS_RADIUS_KM = RADIUS_KM.mars + 300;
 export const V_INFINITY_KMS = 3;
 

@@ -13,6 +13,10 @@ export interface CircularBody {
   radiusKm: number;
   periodS: number;
   phaseRad?: number;
+  /** Epoch (TDB s from J2000) at which the phase is phaseRad; the angle is n (t − epoch) + phase, so
+   * near this epoch it carries no rounding of a large n·t (at t ~ 1e9 s that rounding moves Mars by
+   * ~3e-6 km, noise a run that follows the tabulated planet would feel). @defaultValue 0 */
+  phaseEpochTdbS?: number;
 }
 
 export function circularEphemeris(orbits: CircularBody[], span = { startTdbS: -1e10, endTdbS: 1e10 }): Ephemeris {
@@ -21,7 +25,7 @@ export function circularEphemeris(orbits: CircularBody[], span = { startTdbS: -1
     const orbit = byName.get(body);
     if (orbit === undefined) return; // the Sun, at rest at the origin
     const n = (2 * Math.PI) / orbit.periodS;
-    const angle = n * t + (orbit.phaseRad ?? 0);
+    const angle = n * (t - (orbit.phaseEpochTdbS ?? 0)) + (orbit.phaseRad ?? 0);
     out[offset] += sign * orbit.radiusKm * Math.cos(angle);
     out[offset + 1] += sign * orbit.radiusKm * Math.sin(angle);
     if (withVelocity) {

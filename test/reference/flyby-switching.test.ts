@@ -9,11 +9,16 @@
  *
  * Measured (this machine, rtol = atol = 1e-12, 1.5 d before to 3 d after periapsis; position error at the
  * end against the Mars-centred run at rtol 1e-14):
- *   Mars-centred Cowell at the same tolerance   3.2e-6 km   (1932 evaluations)
- *   heliocentric with switching                 5.3e-6 km   (2039)
- *   heliocentric Cowell without switching       2.8e-4 km   (1836)
- * Starting outside the sphere (2.5 d before periapsis) the approach leg is heliocentric in both runs and its
- * error, amplified by the flyby, sets a floor: 2.2e-4 km with switching against 7.1e-4 km without.
+ *   Mars-centred Cowell at the same tolerance   3.2e-7 km   (1932 evaluations)
+ *   heliocentric with switching                 4.1e-6 km   (2027)
+ *   heliocentric Cowell without switching       2.7e-4 km   (1803)
+ * Starting outside the sphere (2.5 d before periapsis): 7.0e-6 km with switching against 2.4e-4 km without.
+ * A switched run keeps the heliocentric equations (forces/moving-centre.ts) and so follows Mars as
+ * tabulated: the float64 rounding of its heliocentric position (~1.5e-8 km at 1.5 au) enters every
+ * evaluation, which sets the switched run's floor (4e-6 km here; 9e-6 km at rtol 1e-14, where more
+ * evaluations add more of it) above the Mars-centred run's. Before the switched segments kept the
+ * heliocentric equations they took Mars's acceleration as Newtonian and reached 1.3e-6 km here, but
+ * disagreed with the unswitched run by hundreds of km on the real ephemeris (switching-consistency.test.ts).
  */
 import { describe, expect, it } from 'vitest';
 import { changeCentre, propagate, type StateVector } from '../../propagator/index.ts';
@@ -50,8 +55,6 @@ describe('flyby with central-body switching', () => {
     it('should agree with the Mars-centred reference far better than heliocentric Cowell (×20 at least)', () => {
       expect(e.switching).toBeLessThan(1e-5);
       expect(e.switching * 20).toBeLessThan(e.helio);
-      // The switching run's error stays within a few times the planet-centred run at the same tolerance.
-      expect(e.switching).toBeLessThan(10 * e.planet + 1e-6);
     });
   });
   describe('when the run starts outside the sphere of influence', () => {
