@@ -72,6 +72,11 @@ export class MovingCentreDynamics implements PropagationDynamics {
     this.inner.translate(epochTdbS, y, shift);
   }
 
+  /** Φ is unchanged by the shift of coordinate: the inner formulation's own settling applies. */
+  settleStm(epochTdbS: number, y: Float64Array): void {
+    this.inner.settleStm?.(epochTdbS, y);
+  }
+
   /** The inner formulation's own rectification, then the centre's re-anchoring; true when y changed. */
   maybeRectify(epochTdbS: number, y: Float64Array): boolean {
     const rectified = this.inner.maybeRectify?.(epochTdbS, y) ?? false;

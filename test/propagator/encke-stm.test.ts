@@ -62,7 +62,10 @@ describe("Encke's STM", () => {
       const cowell = run(helio, { method: 'cowell', relativeTolerance: 1e-13, absoluteTolerance: 1e-13 });
       const error = blockRelativeError(encke.stm!, cowell.stm!);
       console.info(`Encke STM vs Cowell STM: ${error.toExponential(2)} (block-relative)`);
-      expect(error).toBeLessThan(5e-10); // ~7x the 7.4e-11 measured
+      // Measured 7.4e-11 when the planet-centred segments took Mars's motion as Newtonian; 3.9e-10 since they
+      // follow Mars as tabulated (its heliocentric position's rounding, ~1.5e-8 km, now reaches the trajectory,
+      // and Φ follows the trajectory). Limit unchanged.
+      expect(error).toBeLessThan(5e-10);
     });
     it('should take no more than 1.5x the steps of the same run without the STM', () => {
       const without = run(helio, { withStm: false });

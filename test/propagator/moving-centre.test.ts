@@ -64,7 +64,8 @@ describe('moving centre', () => {
         // a rounding of the 1e4 km state]
         expect(Math.hypot(...after.slice(0, 3).map((x, i) => x - before[i]))).toBeLessThan(1e-11);
         expect(Math.hypot(...after.slice(3).map((x, i) => x - before[3 + i]))).toBeLessThan(1e-14);
-        for (let k = 0; k < 36; k++) expect(y[6 + k], `Φ[${k}]`).toBe(k % 7 === 0 ? 1 : 0);
+        // Cowell holds Φ itself (still I: nothing was integrated); Encke folds Φ at its restart (tested there).
+        if (method === 'cowell') for (let k = 0; k < 36; k++) expect(y[6 + k], `Φ[${k}]`).toBe(k % 7 === 0 ? 1 : 0);
         expect(dynamics.maybeRectify(t1, y)).toBe(false);
         expect(MOVING_CENTRE_DEFAULTS.reanchorRatio).toBe(1e-3);
       });
