@@ -116,6 +116,9 @@ export function createThrustArcDynamics(forces: ForceModel, state: ArrayLike<num
     applyImpulse() {
       throw new InvalidInputError('burns', 'an impulsive burn cannot be applied inside a finite burn');
     },
+    translate(_epochTdbS, y, shift) {
+      for (let i = 0; i < 6; i++) y[i] -= shift[i];
+    },
     onFinish(_epochTdbS, y) {
       forces.srpMassScale = 1;
       if (!withStm) return;

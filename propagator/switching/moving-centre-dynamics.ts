@@ -77,6 +77,10 @@ export class MovingCentreDynamics implements PropagationDynamics {
     this.inner.settleStm?.(epochTdbS, y);
   }
 
+  onFinish(epochTdbS: number, y: Float64Array): void {
+    this.inner.onFinish?.(epochTdbS, y);
+  }
+
   /** The inner formulation's own rectification, then the centre's re-anchoring; true when y changed. */
   maybeRectify(epochTdbS: number, y: Float64Array): boolean {
     const rectified = this.inner.maybeRectify?.(epochTdbS, y) ?? false;
