@@ -22,10 +22,10 @@ interface Run { code: number; out: string; err: string }
 /** Runs `veer ...args` in-process; captures stdout and stderr (`onErr` sees stderr as it is written). */
 const veer = runVeer;
 
-/** Runs `node bin/veer.js ...args` as a child process (the real exit code and streams). */
+/** Runs `veer ...args` from the sources (cli/run.ts, the process bin/veer.js runs compiled) as a child process (the real exit code and streams). */
 function veerProcess(args: string[], env: Record<string, string>): Promise<Run> {
   return new Promise((done, fail) => {
-    const child = spawn(process.execPath, [join(ROOT, 'bin/veer.js'), ...args], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'cli/run.ts'), ...args], { cwd: ROOT, env: { ...process.env, ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
     let out = '';
     let err = '';
     child.stdout.on('data', (c: Buffer) => { out += c.toString(); });
