@@ -3,6 +3,7 @@
  * OpenAPI side). The problem itself is the planner's one schema, reached through queue/'s jobRequestSchema.
  */
 import { z } from 'zod';
+import { freeTextSchema } from './free-text.ts';
 import { JOB_STATES, PRIORITIES, idempotencyKeySchema, jobRequestSchema, type JobStatus } from './job-types.ts';
 
 export { jobRequestSchema };
@@ -17,7 +18,7 @@ export const submitHeadersNote = 'An `Idempotency-Key` header may be given inste
 export { idempotencyKeySchema };
 
 export const cancelBodySchema = z.object({
-  reason: z.string().trim().min(1).max(500).default('cancelled on request'),
+  reason: freeTextSchema({ trim: true, min: 1, max: 500, multiline: true, visible: true }).default('cancelled on request'),
 }).strict();
 
 const progressSchema = z.object({
@@ -69,7 +70,7 @@ export const jobListQuerySchema = z.object({
 
 export const planListQuerySchema = z.object({
   state: z.enum(['proposed', 'approved', 'rejected', 'superseded']).optional(),
-  spacecraft: z.string().min(1).max(80).optional(),
+  spacecraft: freeTextSchema({ min: 1, max: 80 }).optional(),
   from: z.iso.datetime({ error: 'must be an ISO 8601 UTC time, e.g. 2030-01-01T00:00:00Z' }).optional(),
   to: z.iso.datetime({ error: 'must be an ISO 8601 UTC time, e.g. 2030-01-01T00:00:00Z' }).optional(),
   converged: z.enum(['true', 'false']).transform((v) => v === 'true').optional(),

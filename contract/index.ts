@@ -11,6 +11,7 @@ export * from './archive-types.ts';
 export * from './review-schemas.ts';
 export * from './http-schemas.ts';
 export * from './env-config.ts';
+export * from './free-text.ts';
 export { SOFTWARE_VERSION } from './software-version.ts';
 export * from './errors.ts';
 export * from './budget-schema.ts';

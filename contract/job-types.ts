@@ -3,6 +3,7 @@
  * how urgent it is, and an optional idempotency key. Also the shapes of progress, results and status.
  */
 import { z } from 'zod';
+import { freeTextSchema } from './free-text.ts';
 import { problemSchema } from './problem-schema.ts';
 import type { PlanningProblem } from './problem-schema.ts';
 import type { DispersionSample, ManeuverPlan, PlanProgress } from './plan-types.ts';
@@ -29,7 +30,7 @@ export const idempotencyKeySchema = z.string().min(8).max(128).regex(/^[A-Za-z0-
 export const jobRequestSchema = z.object({
   problem: problemSchema,
   /** Why this retargeting is needed (kept with the plan for reviewers). */
-  reason: z.string().trim().min(3).max(2000),
+  reason: freeTextSchema({ trim: true, min: 3, max: 2000, multiline: true, visible: true }),
   priority: z.enum(PRIORITIES).default('routine'),
   idempotencyKey: idempotencyKeySchema.optional(),
 }).strict();

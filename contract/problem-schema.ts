@@ -9,6 +9,7 @@
  */
 import { z } from 'zod';
 import { BODY_NAMES, INERTIAL_FRAMES } from './bodies.ts';
+import { freeTextSchema } from './free-text.ts';
 
 /** An ISO-8601 epoch with its time scale: `...Z` or `... UTC|TAI|TT|TDB`. Parsed in problem-checks.ts. */
 export const epochTextSchema = z.string().min(10).max(64)
@@ -24,7 +25,7 @@ export type ReferencePlane = (typeof REFERENCE_PLANES)[number];
 const referencePlaneSchema = z.enum(REFERENCE_PLANES);
 
 const spacecraftSchema = z.object({
-  name: z.string().min(1).max(80),
+  name: freeTextSchema({ min: 1, max: 80, visible: true }),
   /** Wet mass at the initial epoch, kg. */
   massKg: z.number().positive(),
   engine: z.object({
@@ -66,7 +67,7 @@ const forceModelSchema = z.object({
 
 const burnSchema = z.object({
   /** Short label for reports, e.g. `TCM-1`. */
-  label: z.string().min(1).max(40).optional(),
+  label: freeTextSchema({ min: 1, max: 40, visible: true }).optional(),
   /** Burn epoch (the initial one when epochWindow makes it free). */
   epoch: epochTextSchema,
   /** Axes of the Δv components: `inertial` = J2000 equatorial; RTN and VNB are taken at the burn state
@@ -186,7 +187,7 @@ const limitsSchema = z.object({
 
 export const problemSchema = z.object({
   /** Free text: what this retargeting is for. */
-  title: z.string().max(200).optional(),
+  title: freeTextSchema({ max: 200 }).optional(),
   spacecraft: spacecraftSchema,
   initialState: initialStateSchema,
   /** End of the propagation span. */

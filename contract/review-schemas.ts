@@ -1,6 +1,7 @@
 /** zod schemas of the review, history, export, verify and token routes (requests validate; responses document). */
 import { z } from 'zod';
 import { ENTRY_KINDS, PLAN_STATES } from './archive-types.ts';
+import { freeTextSchema } from './free-text.ts';
 import { ROLES } from './roles.ts';
 
 const caveatCodeSchema = z.string().regex(/^[A-Z0-9_]{1,64}$/, { error: 'caveat codes are 1–64 of A-Z 0-9 _' });
@@ -8,7 +9,7 @@ const caveatCodeSchema = z.string().regex(/^[A-Z0-9_]{1,64}$/, { error: 'caveat 
 export const reviewBodySchema = z.object({
   decision: z.enum(['approve', 'reject']),
   /** Required (non-empty) for a rejection. */
-  comment: z.string().trim().max(4000).default(''),
+  comment: freeTextSchema({ trim: true, max: 4000, multiline: true, visible: true }).default(''),
   /** Every caveat code of the plan, to approve. */
   acknowledgedCaveatCodes: z.array(caveatCodeSchema).max(200).default([]),
 }).strict().superRefine((value, ctx) => {

@@ -9,6 +9,7 @@
  */
 import type { PlanRecord, RecordReviewInput, ReviewGuard } from '../../archive/index.ts';
 import { sameIdentityName } from '../auth/index.ts';
+import { hasVisibleText } from '../../contract/free-text.ts';
 
 /** A review refused by a rule; `status` is the HTTP answer, `details` lists what was wrong. */
 export class ReviewRuleError extends Error {
@@ -33,7 +34,7 @@ export function caveatAcknowledgement(planCodes: readonly string[], acknowledged
 /** Throws ReviewRuleError when `input` breaks a rule for `plan`; returns quietly otherwise. */
 export function checkReviewRules(plan: PlanRecord, input: RecordReviewInput): void {
   if (input.decision === 'reject') {
-    if (input.comment.trim() === '') throw new ReviewRuleError(400, 'COMMENT_REQUIRED', 'a rejection needs a comment saying why');
+    if (!hasVisibleText(input.comment)) throw new ReviewRuleError(400, 'COMMENT_REQUIRED', 'a rejection needs a comment saying why (visible characters)');
     return;
   }
   // Case-insensitive: tokens made before names were lowercased may differ from the submitter only in case.

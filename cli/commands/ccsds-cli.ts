@@ -9,6 +9,7 @@ import { basename, extname } from 'node:path';
 import { exportPlanAsCcsds, readOpmAsInitialState } from '../../ccsds/index.ts';
 import { type ManeuverPlan, parseProblem, type PlanningProblem, problemHash } from '../../planner/index.ts';
 import { InvalidInputError } from '../../propagator/index.ts';
+import { printableText } from '../../contract/free-text.ts';
 import { ApiCallError, parseAnswer, PROPOSAL_NOTICE, type Remote, sendToApi, UsageError } from './review-http.ts';
 
 /**
@@ -61,7 +62,7 @@ async function fetchText(remote: Remote, path: string): Promise<string> {
   const res = await sendToApi(remote, path, { headers: {} });
   const text = await res.text();
   if (!res.ok) throw new ApiCallError(res.status, parseAnswer(text) as ApiCallError['body']);
-  return text;
+  return printableText(text, { keepLines: true });
 }
 
 function ccsdsFormat(kind: 'opm' | 'oem') {

@@ -3,6 +3,7 @@
  * VEER_URL/VEER_TOKEN) and a small JSON-over-HTTP call that turns API errors into readable messages.
  */
 import type { ParseArgsConfig } from 'node:util';
+import { printableJson, printableText } from '../../contract/free-text.ts';
 
 /** Options every remote command accepts (for util.parseArgs). */
 export const REMOTE_OPTIONS = {
@@ -58,9 +59,13 @@ export async function sendToApi(remote: Remote, path: string, init: Omit<Request
   }
 }
 
-/** An answer's body as JSON, or (not JSON) an error body carrying the first 200 characters of its text. */
+/**
+ * An answer's body as JSON, or (not JSON) an error body carrying the first 200 characters of its text. Every
+ * string is made printable (control characters shown as `\u{1b}` escapes): server text must never drive the
+ * user's terminal.
+ */
 export function parseAnswer(text: string): unknown {
-  try { return JSON.parse(text); } catch { return { error: { message: text.slice(0, 200) } }; }
+  try { return printableJson(JSON.parse(text) as unknown); } catch { return { error: { message: printableText(text.slice(0, 200)) } }; }
 }
 
 /** Calls the API; resolves to the parsed JSON body of a 2xx answer, rejects with ApiCallError otherwise. */

@@ -3,6 +3,7 @@
  * with the outcome and the plan id on stdout. The exit code says what happened (JOB_EXIT).
  */
 import { parseArgs } from 'node:util';
+import { printableJson } from '../../contract/free-text.ts';
 import type { CliCommand } from '../command.ts';
 import {
   describeOutcome, isFinal, JOB_EXIT, JOB_EXIT_USAGE, jobPath, progressText, type JobStatusAnswer, type ProgressAnswer,
@@ -45,7 +46,7 @@ async function* readEvents(remote: Remote, path: string): AsyncGenerator<SseEven
         if (field === 'event') event = value;
         else if (field === 'data') data.push(value);
       }
-      if (data.length > 0) yield { event, data: JSON.parse(data.join('\n')) as unknown };
+      if (data.length > 0) yield { event, data: printableJson(JSON.parse(data.join('\n')) as unknown) };
     }
   }
 }

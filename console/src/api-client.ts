@@ -1,4 +1,5 @@
 /** Calls to the veer API with the bearer token; failures become ApiError with the server's code and issues. */
+import { printableJson } from '../../contract/free-text.ts';
 import type { Session } from './session.ts';
 
 export interface FieldIssue { path: string; message: string }
@@ -16,7 +17,7 @@ export function setUnauthorisedHandler(handler: () => void): void { onUnauthoris
 
 async function toError(res: Response): Promise<ApiError> {
   let body: { error?: { code?: string; message?: string; issues?: FieldIssue[] } } = {};
-  try { body = await res.json() as typeof body; } catch { /* not JSON */ }
+  try { body = printableJson(await res.json() as typeof body); } catch { /* not JSON */ }
   const e = body.error ?? {};
   return new ApiError(res.status, e.code ?? `HTTP_${res.status}`, e.message ?? res.statusText, e.issues ?? []);
 }
@@ -30,7 +31,8 @@ export async function api<T>(session: Pick<Session, 'token'>, method: string, pa
     if (res.status === 401) onUnauthorised();
     throw error;
   }
-  return await res.json() as T;
+  // Server text is shown on screen: control and bidirectional-override characters become visible escapes.
+  return printableJson(await res.json() as T);
 }
 
 /** Fetches a file with the token and hands it to the browser as a download. */

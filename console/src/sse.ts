@@ -3,6 +3,8 @@
  * `event:` / `data:` blocks of the WHATWG event-stream format and reconnects after a dropped stream
  * until the server sends `end` or the caller aborts.
  */
+import { printableJson, printableText } from '../../contract/free-text.ts';
+
 export interface StreamHandlers {
   onEvent(event: string, data: unknown): void;
   /** The stream broke without `end`; the reader retries after `retryMs`. */
@@ -35,7 +37,7 @@ export function followEvents(url: string, token: string, handlers: StreamHandler
           }
           if (data.length === 0) continue;
           let parsed: unknown;
-          try { parsed = JSON.parse(data.join('\n')); } catch { parsed = data.join('\n'); }
+          try { parsed = printableJson(JSON.parse(data.join('\n')) as unknown); } catch { parsed = printableText(data.join('\n')); }
           if (event === 'end') ended = true;
           handlers.onEvent(event, parsed);
         }
