@@ -6,7 +6,7 @@ import { z } from 'zod';
 import { freeTextSchema } from './free-text.ts';
 import { problemSchema } from './problem-schema.ts';
 import type { PlanningProblem } from './problem-schema.ts';
-import type { DispersionSample, ManeuverPlan, PlanProgress } from './plan-types.ts';
+import type { DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanProgress } from './plan-types.ts';
 
 /** Queue name (Redis keys are `<QUEUE_PREFIX>:retarget:*`). */
 export const RETARGET_QUEUE = 'retarget';
@@ -45,8 +45,11 @@ export interface RetargetJobData {
   submittedBy: string;
   submittedAt: string;
   idempotencyKey?: string;
-  /** SHA-256 hex of the canonical problem (planner's problemHash). */
+  /** SHA-256 hex of the canonical problem with its leap-second table (planner's problemHash). */
   problemHash: string;
+  /** The leap-second table the API validated the problem with (absent in jobs queued before it was
+   * recorded: the worker's own table is used then). */
+  leapSeconds?: PlanLeapSeconds;
   /** SHA-256 of the canonical request (problem, reason, priority): tells a true repeat from a key reuse. */
   requestHash: string;
   /** Random per submission: tells the submission that created the job from later repeats. */

@@ -28,8 +28,28 @@ export interface PlanEpoch {
   tdbS: number;
   /** `...TDB` ISO text. */
   tdb: string;
-  /** ISO UTC text, or null where the leap-second table does not reach. */
+  /** ISO UTC text through the plan's leap-second table (past its expiry with the last TAI − UTC assumed and
+   * a caveat); null only before 1972, where UTC has no whole-second offset from TAI. */
   utc: string | null;
+}
+
+/** The leap-second table a plan used: where it came from and its content, so the plan can be re-read
+ * (UTC text, Monte Carlo children, CCSDS export) with exactly the same table. */
+export interface PlanLeapSeconds {
+  source: 'built-in' | 'file';
+  /** Path of the leap-seconds.list as given to the CLI or service (null for built-in). */
+  path: string | null;
+  /** SHA-256 (hex) of that file's bytes (null for built-in). */
+  sha256: string | null;
+  /** The table's expiry (`#@`), `YYYY-MM-DD` UTC: from that day on TAI − UTC is assumed, not known. */
+  expiresUtc: string;
+  /** The publisher's last update (`#$`), `YYYY-MM-DD` UTC, or null. */
+  updatedUtc: string | null;
+  /** TAI − UTC assumed past the expiry (the last step), s. */
+  taiMinusUtcAfterExpiryS: number;
+  description: string;
+  /** Steps: [UTC date `YYYY-MM-DD` from which it applies, TAI − UTC in s]. */
+  steps: [string, number][];
 }
 
 export interface PlannedBurn {
@@ -233,6 +253,8 @@ export interface ManeuverPlan {
   targetSetKey: string;
   title: string | null;
   createdFrom: { initialEpoch: PlanEpoch; endEpoch: PlanEpoch; centre: BodyName; frame: string; hasCovariance: boolean };
+  /** The leap-second table used for every UTC epoch read or written (the problem hash covers it). */
+  leapSeconds: PlanLeapSeconds;
   forceModel: { summary: string; centralBody: BodyName; perturbingBodies: BodyName[]; centralJ2: boolean; solarPressure: boolean; method: 'cowell' | 'encke'; relativeTolerance: number; switching: boolean; ephemeris: string };
   burns: PlannedBurn[];
   totalDeltaVMS: number;

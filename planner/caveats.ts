@@ -23,6 +23,7 @@ export const CAVEAT_CODES = [
   'BUDGET_REPLAN_NOT_CONVERGED',
   'BUDGET_PATHS_DISAGREE',
   'BUDGET_LIMIT_CROSSING',
+  'UTC_LEAP_SECONDS_ASSUMED',
 ] as const;
 export type CaveatCode = (typeof CAVEAT_CODES)[number];
 
@@ -49,6 +50,7 @@ const SEVERITY: Readonly<Record<CaveatCode, CaveatSeverity>> = Object.freeze({
   BUDGET_REPLAN_NOT_CONVERGED: 'warning',
   BUDGET_PATHS_DISAGREE: 'warning',
   BUDGET_LIMIT_CROSSING: 'critical',
+  UTC_LEAP_SECONDS_ASSUMED: 'warning',
 });
 
 /** Builds one caveat with its catalogue severity. */

@@ -6,6 +6,8 @@ export type {
 export { parseProblem, checkProblem, problemEpochs } from './problem-checks.ts';
 export type { ProblemEpochs } from './problem-checks.ts';
 export { canonicalJson, problemHash, targetSetKey } from './problem-hash.ts';
+export { planLeapSeconds, leapSecondTableOfPlan } from './leap-seconds.ts';
+export { leapSecondsFromFileBytes } from './leap-seconds-file.ts';
 export { CAVEAT_CODES, REVIEW_TEXT, caveat, reviewCaveat, orderCaveats } from './caveats.ts';
 export type { CaveatCode } from './caveats.ts';
 export type * from '../contract/plan-types.ts';

@@ -4,9 +4,9 @@
  */
 import type { z } from 'zod';
 import {
-  BUILTIN_EPHEMERIS_SPAN, InvalidInputError, OutOfSpanError, formatEpoch, parseEpoch, RADIUS_KM, J2_EARTH,
+  BUILTIN_EPHEMERIS_SPAN, BUILTIN_LEAP_SECONDS, InvalidInputError, OutOfSpanError, formatEpoch, parseEpoch, RADIUS_KM, J2_EARTH,
 } from '../propagator/index.ts';
-import type { BodyName } from '../propagator/index.ts';
+import type { BodyName, LeapSecondTable } from '../propagator/index.ts';
 import { issuePath } from '../contract/errors.ts';
 import { problemSchema } from '../contract/problem-schema.ts';
 import type { PlanningProblem, ProblemTarget } from '../contract/problem-schema.ts';
@@ -31,17 +31,17 @@ export interface ProblemEpochs {
   targetTdbS: (number | undefined)[];
 }
 
-/** Parses every epoch of the problem (names the field of a bad one). */
-export function problemEpochs(problem: PlanningProblem): ProblemEpochs {
-  const initialTdbS = parseEpoch(problem.initialState.epoch, undefined, 'initialState.epoch');
-  const endTdbS = parseEpoch(problem.endEpoch, undefined, 'endEpoch');
-  const burnTdbS = problem.burns.map((b, i) => parseEpoch(b.epoch, undefined, `burns[${i}].epoch`));
+/** Parses every epoch of the problem (names the field of a bad one); UTC through `leapSeconds`. */
+export function problemEpochs(problem: PlanningProblem, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): ProblemEpochs {
+  const epoch = (text: string, field: string): number => parseEpoch(text, undefined, field, leapSeconds);
+  const initialTdbS = epoch(problem.initialState.epoch, 'initialState.epoch');
+  const endTdbS = epoch(problem.endEpoch, 'endEpoch');
+  const burnTdbS = problem.burns.map((b, i) => epoch(b.epoch, `burns[${i}].epoch`));
   const burnWindowTdbS = problem.burns.map((b, i) => (b.epochWindow ? {
-    earliestTdbS: parseEpoch(b.epochWindow.earliest, undefined, `burns[${i}].epochWindow.earliest`),
-    latestTdbS: parseEpoch(b.epochWindow.latest, undefined, `burns[${i}].epochWindow.latest`),
+    earliestTdbS: epoch(b.epochWindow.earliest, `burns[${i}].epochWindow.earliest`),
+    latestTdbS: epoch(b.epochWindow.latest, `burns[${i}].epochWindow.latest`),
   } : undefined));
-  const targetTdbS = problem.targets.map((t, i) => ('epoch' in t
-    ? parseEpoch(t.epoch, undefined, `targets[${i}].epoch`) : undefined));
+  const targetTdbS = problem.targets.map((t, i) => ('epoch' in t ? epoch(t.epoch, `targets[${i}].epoch`) : undefined));
   return { initialTdbS, endTdbS, burnTdbS, burnWindowTdbS, targetTdbS };
 }
 
@@ -49,9 +49,10 @@ function targetBody(t: ProblemTarget): BodyName | undefined {
   return 'body' in t ? t.body : undefined;
 }
 
-/** The semantic checks; throws InvalidInputError naming the field. */
-export function checkProblem(problem: PlanningProblem): ProblemEpochs {
-  const e = problemEpochs(problem);
+/** The semantic checks; throws InvalidInputError naming the field. UTC epochs go through `leapSeconds`
+ * (the built-in table unless the door loaded a leap-seconds.list). */
+export function checkProblem(problem: PlanningProblem, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): ProblemEpochs {
+  const e = problemEpochs(problem, leapSeconds);
   const fm = problem.forceModel;
   const modelled = new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies]);
   if (e.endTdbS <= e.initialTdbS) {
@@ -175,10 +176,10 @@ function checkCovariance(problem: PlanningProblem): void {
  * the zod shape first (every issue listed, the first one's path as `field`), then the semantic checks.
  * Throws InvalidInputError; returns the problem with defaults filled in.
  */
-export function parseProblem(input: unknown): PlanningProblem {
+export function parseProblem(input: unknown, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): PlanningProblem {
   const parsed = problemSchema.safeParse(input);
   if (!parsed.success) throw fromZodError(parsed.error);
-  checkProblem(parsed.data);
+  checkProblem(parsed.data, leapSeconds);
   return parsed.data;
 }
 

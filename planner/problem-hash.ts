@@ -5,6 +5,8 @@
  */
 import { createHash } from 'node:crypto';
 import { InvalidInputError } from '../propagator/index.ts';
+import { leapSecondsIdentity } from './leap-seconds.ts';
+import type { PlanLeapSeconds } from '../contract/plan-types.ts';
 import type { PlanningProblem } from '../contract/problem-schema.ts';
 
 /** Canonical JSON text of plain data (objects, arrays, strings, finite numbers, booleans, null).
@@ -56,9 +58,15 @@ function write(value: unknown, parts: (string | number)[], out: string[], root: 
   }
 }
 
-/** SHA-256 (hex, 64 characters) of the canonical JSON of a validated problem. */
-export function problemHash(problem: PlanningProblem): string {
-  return createHash('sha256').update(canonicalJson(problem), 'utf8').digest('hex');
+/**
+ * SHA-256 (hex, 64 characters) of the canonical JSON of a validated problem together with the identity of
+ * the leap-second table its UTC epochs are read with (source, file SHA-256, expiry — not the path): the
+ * same problem re-planned with a newer table hashes differently, because its UTC epochs may mean other
+ * instants. `leapSeconds` is a plan's record (planLeapSeconds of the table the door loaded).
+ */
+export function problemHash(problem: PlanningProblem, leapSeconds: Pick<PlanLeapSeconds, 'source' | 'sha256' | 'expiresUtc'>): string {
+  const hashed = { leapSeconds: leapSecondsIdentity(leapSeconds), problem };
+  return createHash('sha256').update(canonicalJson(hashed), 'utf8').digest('hex');
 }
 
 /** Stable key naming the spacecraft and its target set (not the burns or the state): a newer plan with the

@@ -1,8 +1,8 @@
 /** Messages between the worker process and its planner threads (structured-clone plain data only). */
-import type { DispersionSample, ManeuverPlan, PlanningProblem, PlanProgress } from '../planner/index.ts';
+import type { DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress } from '../planner/index.ts';
 
 export type PlannerTask =
-  | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip' }
+  | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds }
   | { kind: 'samples'; problem: PlanningProblem; plan: ManeuverPlan; seed: number; firstIndex: number; count: number }
   | { kind: 'combine'; problem: PlanningProblem; plan: ManeuverPlan; samples: DispersionSample[] };
 

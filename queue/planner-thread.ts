@@ -5,8 +5,9 @@
 import { parentPort } from 'node:worker_threads';
 import * as plannerModule from '../planner/index.ts';
 import type {
-  DispersionSample, EphemerisCache, ManeuverPlan, MonteCarloSummary, PlanningProblem, PlanProgress,
+  DispersionSample, EphemerisCache, ManeuverPlan, MonteCarloSummary, PlanLeapSeconds, PlanningProblem, PlanProgress,
 } from '../planner/index.ts';
+import type { LeapSecondTable } from '../propagator/index.ts';
 import { serialiseError, type FromThread, type PlannerTask, type ToThread } from './planner-task.ts';
 
 /** The planner functions this thread calls (names and signatures fixed by the planner's contract). */
@@ -14,14 +15,18 @@ interface PlannerFunctions {
   planManeuvers(problem: PlanningProblem, options?: {
     onProgress?: (p: PlanProgress) => void; signal?: AbortSignal; monteCarlo?: 'in-process' | 'skip';
     ephemerisCache?: EphemerisCache;
+    leapSeconds?: LeapSecondTable;
   }): Promise<ManeuverPlan>;
+  leapSecondTableOfPlan(record: PlanLeapSeconds): LeapSecondTable;
   runDispersionSamples(problem: PlanningProblem, plan: ManeuverPlan, options: {
     seed: number; firstIndex: number; count: number; signal?: AbortSignal; ephemerisCache?: EphemerisCache;
   }): Promise<DispersionSample[]>;
   summariseDispersion(problem: PlanningProblem, plan: ManeuverPlan, samples: DispersionSample[]): MonteCarloSummary;
   attachMonteCarlo(plan: ManeuverPlan, summary: MonteCarloSummary): ManeuverPlan;
 }
-const { attachMonteCarlo, planManeuvers, runDispersionSamples, summariseDispersion } = plannerModule as unknown as PlannerFunctions;
+const {
+  attachMonteCarlo, leapSecondTableOfPlan, planManeuvers, runDispersionSamples, summariseDispersion,
+} = plannerModule as unknown as PlannerFunctions;
 
 // This thread's ephemeris cache, shared by every task it runs: a queue of jobs over the same span and
 // bodies fits each block once (bounded: EphemerisCache evicts the least recently used blocks).
@@ -36,7 +41,8 @@ async function run(taskId: number, task: PlannerTask, signal: AbortSignal): Prom
   switch (task.kind) {
     case 'plan':
       return planManeuvers(task.problem, {
-        signal, monteCarlo: task.monteCarlo, ephemerisCache, onProgress: (progress) => send({ type: 'progress', taskId, progress }),
+        signal, monteCarlo: task.monteCarlo, ephemerisCache, leapSeconds: leapSecondTableOfPlan(task.leapSeconds),
+        onProgress: (progress) => send({ type: 'progress', taskId, progress }),
       });
     case 'samples':
       return runDispersionSamples(task.problem, task.plan, {

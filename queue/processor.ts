@@ -9,7 +9,7 @@
 import { UnrecoverableError, WaitingChildrenError, type Job, type Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import type { Logger } from 'pino';
-import type { DispersionSample, ManeuverPlan, PlanProgress } from '../planner/index.ts';
+import type { DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanProgress } from '../planner/index.ts';
 import { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, readCancel } from './cancellation.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, type JobProgress, type RetargetJobData, type RetargetJobResult,
@@ -28,6 +28,8 @@ export interface ProcessorDeps {
   actor: string;
   logger: Logger;
   jobTimeLimitS: number;
+  /** The worker's own table (VEER_LEAP_SECONDS or built-in), for jobs queued without one. */
+  leapSeconds: PlanLeapSeconds;
   fanOutMinSamples: number;
   batchSize: number;
   retentionS: number;
@@ -167,7 +169,7 @@ export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobD
     if (job.data.step === 'plan') {
       const fanOut = problem.dispersion.samples >= deps.fanOutMinSamples && problem.executionErrors !== undefined;
       const planning = deps.pool.run(
-        { kind: 'plan', problem, monteCarlo: fanOut ? 'skip' : 'in-process' },
+        { kind: 'plan', problem, monteCarlo: fanOut ? 'skip' : 'in-process', leapSeconds: job.data.leapSeconds ?? deps.leapSeconds },
         { signal: control.signal, onProgress: report },
       );
       planning.catch(() => undefined); // handled below; avoids an unhandled rejection while the archive write runs

@@ -5,7 +5,8 @@
 import { createHash, randomUUID } from 'node:crypto';
 import { Queue, type Job, type JobState as BullState } from 'bullmq';
 import type { Redis } from 'ioredis';
-import { canonicalJson, problemHash, type PlanningProblem } from '../planner/index.ts';
+import { canonicalJson, planLeapSeconds, problemHash, type PlanningProblem } from '../planner/index.ts';
+import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../propagator/index.ts';
 import {
   CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
 } from './cancellation.ts';
@@ -23,6 +24,9 @@ export interface RetargetQueueOptions {
   attempts?: number;
   /** Seconds finished jobs are kept. @defaultValue 7 days */
   retentionS?: number;
+  /** The table the API validated problems with; it travels with each job so the worker plans with it.
+   * @defaultValue BUILTIN_LEAP_SECONDS */
+  leapSeconds?: LeapSecondTable;
 }
 
 /** `created`: a new job (HTTP 202). `existing`: same key, same request (200). `conflict`: same key, other request (409). */
@@ -87,7 +91,8 @@ export class RetargetQueue {
    */
   async submit(request: JobRequest, submittedBy: string): Promise<SubmitOutcome> {
     this.assertConnected();
-    const hashOfProblem = problemHash(request.problem as PlanningProblem);
+    const leapSeconds = planLeapSeconds(this.opts.leapSeconds ?? BUILTIN_LEAP_SECONDS);
+    const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
     const requestHash = sha256(canonicalJson({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority }));
     const jobId = request.idempotencyKey
       ? `k-${sha256(`${submittedBy}\n${request.idempotencyKey}`).slice(0, 40)}`
@@ -106,7 +111,7 @@ export class RetargetQueue {
     const data: RetargetJobData = {
       problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
       submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'plan',
-      problemHash: hashOfProblem,
+      problemHash: hashOfProblem, leapSeconds,
       ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
     };
     await this.queue.add(JOB_NAMES.retarget, data, {

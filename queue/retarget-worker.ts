@@ -5,6 +5,8 @@
 import { hostname } from 'node:os';
 import { Queue, Worker, type Job } from 'bullmq';
 import type { Logger } from 'pino';
+import { planLeapSeconds } from '../planner/index.ts';
+import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../propagator/index.ts';
 import { cancelChannel, readCancel } from './cancellation.ts';
 import { createRedis } from './connection.ts';
 import { JOB_NAMES, RETARGET_QUEUE, type RetargetJobData, type SampleBatchData } from '../contract/job-types.ts';
@@ -35,6 +37,8 @@ export interface RetargetWorkerOptions {
   retentionS?: number;
   /** Name shown in `getWorkers` and as the archive actor. @defaultValue `worker@<host>:<pid>` */
   name?: string;
+  /** Table for jobs queued without one (each job normally carries the API's). @defaultValue BUILTIN_LEAP_SECONDS */
+  leapSeconds?: LeapSecondTable;
 }
 
 export interface RetargetWorker {
@@ -58,7 +62,8 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
 
   const deps: ProcessorDeps = {
     pool, sink: opts.sink, redis: connection, prefix: opts.prefix, queue, actor: name, logger: opts.logger,
-    jobTimeLimitS: opts.jobTimeLimitS ?? 900, fanOutMinSamples: opts.fanOutMinSamples ?? 1_000,
+    jobTimeLimitS: opts.jobTimeLimitS ?? 900, leapSeconds: planLeapSeconds(opts.leapSeconds ?? BUILTIN_LEAP_SECONDS),
+    fanOutMinSamples: opts.fanOutMinSamples ?? 1_000,
     batchSize: opts.batchSize ?? 250, retentionS: opts.retentionS ?? 7 * 86_400,
     track: (jobId, parentId, cancel) => {
       running.set(jobId, { parentId, cancel });

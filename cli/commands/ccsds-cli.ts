@@ -7,8 +7,10 @@
 import { readFile, writeFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
 import { exportPlanAsCcsds, readOpmAsInitialState } from '../../ccsds/index.ts';
-import { type ManeuverPlan, parseProblem, type PlanningProblem, problemHash } from '../../planner/index.ts';
-import { InvalidInputError } from '../../propagator/index.ts';
+import {
+  leapSecondTableOfPlan, type ManeuverPlan, parseProblem, planLeapSeconds, type PlanningProblem, problemHash,
+} from '../../planner/index.ts';
+import { BUILTIN_LEAP_SECONDS, InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
 import { printableText } from '../../contract/free-text.ts';
 import { ApiCallError, parseAnswer, PROPOSAL_NOTICE, type Remote, sendToApi, UsageError } from './review-http.ts';
 
@@ -38,7 +40,7 @@ export async function problemWithOpmState(problemJson: unknown, opmPath: string)
 }
 
 /** Reads a problem file, replaces its initial state by the OPM's (notes to stderr) and validates it. */
-export async function readProblemFileWithOpmState(problemPath: string, opmPath: string): Promise<PlanningProblem> {
+export async function readProblemFileWithOpmState(problemPath: string, opmPath: string, leapSeconds: LeapSecondTable): Promise<PlanningProblem> {
   let json: unknown;
   try {
     json = JSON.parse(await readFile(problemPath, 'utf8'));
@@ -47,7 +49,7 @@ export async function readProblemFileWithOpmState(problemPath: string, opmPath: 
   }
   const { problem, notes } = await problemWithOpmState(json, opmPath);
   for (const note of notes) process.stderr.write(`veer plan: --state: ${note}\n`);
-  return parseProblem(problem);
+  return parseProblem(problem, leapSeconds);
 }
 
 /** Options the CCSDS export formats read from the command line. */
@@ -129,12 +131,14 @@ function planFromJson(json: unknown, path: string): ManeuverPlan {
  */
 export async function exportPlanFilesAsCcsds(o: OfflineCcsdsExport): Promise<{ text: string; defaultFileName: string }> {
   if (o.kind === 'oem' && o.stepS === undefined) throw new InvalidInputError('--step', 'an OEM export needs --step SECONDS');
-  const problem = o.statePath !== undefined ? await readProblemFileWithOpmState(o.problemPath, o.statePath)
-    : parseProblem(await readJson(o.problemPath, '--problem'));
   const plan = planFromJson(await readJson(o.planPath, '--plan'), o.planPath);
-  const hash = problemHash(problem);
+  // The plan's own leap-second table reads the problem's UTC epochs, as when it was planned.
+  const leapSeconds = plan.leapSeconds ? leapSecondTableOfPlan(plan.leapSeconds) : BUILTIN_LEAP_SECONDS;
+  const problem = o.statePath !== undefined ? await readProblemFileWithOpmState(o.problemPath, o.statePath, leapSeconds)
+    : parseProblem(await readJson(o.problemPath, '--problem'), leapSeconds);
+  const hash = problemHash(problem, planLeapSeconds(leapSeconds));
   if (plan.problemHash !== hash) {
-    throw new InvalidInputError('--problem', `the plan in '${o.planPath}' was made from another problem (its problem hash `
+    throw new InvalidInputError('--problem', `the plan in '${o.planPath}' was made from another problem or leap-second table (its problem hash `
       + `${String(plan.problemHash).slice(0, 12)}… differs from ${hash.slice(0, 12)}… of '${o.problemPath}'`
       + `${o.statePath === undefined ? '; if it was planned with --state, give the same --state' : ''})`);
   }

@@ -1,8 +1,8 @@
-/** `veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm]`: the whole planning job in-process, no server. */
+/** `veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm] [--leap-seconds FILE]`: the whole planning job in-process, no server. */
 import { constants } from 'node:fs';
 import { access, stat, writeFile } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
-import { InvalidInputError } from '../../propagator/index.ts';
+import { InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
 import type { ManeuverPlan, PlanProgress } from '../../planner/index.ts';
 import { cliEphemerisCache } from '../cli-ephemeris-cache.ts';
@@ -10,8 +10,9 @@ import type { CliCommand } from '../command.ts';
 import { formatPlanReport } from '../report/plan-report.ts';
 import { readProblemFileWithOpmState } from './ccsds-cli.ts';
 import { readJsonFile } from './read-json-file.ts';
+import { LEAP_SECONDS_USAGE, loadCliLeapSeconds } from '../leap-seconds-option.ts';
 
-const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm]
+const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm] [--leap-seconds FILE]
 
 Plans the correction burns of a retargeting problem in this process: differential correction, an
 independent cross-check (the other propagation method at a tighter tolerance), linear and Monte Carlo
@@ -21,6 +22,7 @@ dispersion, caveats. Progress goes to stderr; the readable report to stdout.
   --out FILE   also write the plan as JSON to FILE (checked for writability before planning)
   --state FILE.opm  take the initial state (and covariance) from a CCSDS OPM, KVN or XML, instead of the
                problem's initialState (the file is read strictly; errors name the keyword and line)
+${LEAP_SECONDS_USAGE}
 
 Exit codes: 0 converged and cross-check passed; 3 not converged or cross-check failed;
 2 bad usage or invalid problem (the field is named); 1 other failures.
@@ -52,8 +54,8 @@ function progressWriter(): { update: (p: PlanProgress) => void; end: () => void 
 }
 
 /** Reads and validates a problem file; InvalidInputError names the file or the field. */
-export async function readProblemFile(path: string): Promise<ReturnType<typeof parseProblem>> {
-  return parseProblem(await readJsonFile(path, 'problem', (field, message) => new InvalidInputError(field, message)));
+export async function readProblemFile(path: string, leapSeconds: LeapSecondTable): Promise<ReturnType<typeof parseProblem>> {
+  return parseProblem(await readJsonFile(path, 'problem', (field, message) => new InvalidInputError(field, message)), leapSeconds);
 }
 
 /**
@@ -86,6 +88,7 @@ export const planCommand: CliCommand = {
     let json = false;
     let out: string | undefined;
     let state: string | undefined;
+    let leapPath: string | undefined;
     const files: string[] = [];
     for (let i = 0; i < args.length; i++) {
       const a = args[i];
@@ -102,6 +105,12 @@ export const planCommand: CliCommand = {
           process.stderr.write(`veer plan: --state needs an OPM file name\n\n${USAGE}\n`);
           return 2;
         }
+      } else if (a === '--leap-seconds') {
+        leapPath = args[++i];
+        if (!leapPath) {
+          process.stderr.write(`veer plan: --leap-seconds needs a file name\n\n${USAGE}\n`);
+          return 2;
+        }
       } else if (a.startsWith('-')) {
         process.stderr.write(`veer plan: unknown option '${a}'\n\n${USAGE}\n`);
         return 2;
@@ -111,7 +120,8 @@ export const planCommand: CliCommand = {
       process.stderr.write(`veer plan: give exactly one problem file\n\n${USAGE}\n`);
       return 2;
     }
-    const problem = state ? await readProblemFileWithOpmState(files[0], state) : await readProblemFile(files[0]);
+    const leapSeconds = await loadCliLeapSeconds(leapPath);
+    const problem = state ? await readProblemFileWithOpmState(files[0], state, leapSeconds) : await readProblemFile(files[0], leapSeconds);
     if (out) await checkOutputPath(out);
     const bar = progressWriter();
     const controller = new AbortController();
@@ -119,7 +129,7 @@ export const planCommand: CliCommand = {
     process.once('SIGINT', onSigint);
     let plan: ManeuverPlan;
     try {
-      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal, ephemerisCache: cliEphemerisCache });
+      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal, ephemerisCache: cliEphemerisCache, leapSeconds });
     } finally {
       bar.end();
       process.removeListener('SIGINT', onSigint);

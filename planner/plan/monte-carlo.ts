@@ -18,6 +18,7 @@ import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import { evaluateComponent } from '../targeting/target-geometry.ts';
 import { planCaveats } from './plan-caveats.ts';
 import { planningContext } from './planning-context.ts';
+import { leapSecondTableOfPlan } from '../leap-seconds.ts';
 import type { PlanningContext } from './planning-context.ts';
 
 export interface SampleRunOptions {
@@ -88,7 +89,7 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
 
 /** Queue fan-out entry: runs samples [firstIndex, firstIndex + count) for a converged plan. */
 export async function runDispersionSamples(problem: PlanningProblem, plan: ManeuverPlan, options: SampleRunOptions): Promise<DispersionSample[]> {
-  return runDispersionSamplesWithContext(planningContext(problem, options.ephemerisCache), plan, options);
+  return runDispersionSamplesWithContext(planningContext(problem, leapSecondTableOfPlan(plan.leapSeconds), options.ephemerisCache), plan, options);
 }
 
 function std(values: number[]): number | null {

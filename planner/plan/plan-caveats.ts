@@ -3,7 +3,7 @@
  * can be recomputed when Monte Carlo results are attached later (queue fan-out).
  */
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
-import type { Caveat, ManeuverPlan } from '../../contract/plan-types.ts';
+import type { Caveat, ManeuverPlan, PlanEpoch } from '../../contract/plan-types.ts';
 
 /** Codes that depend on the dispersion results (recomputed by attachMonteCarlo). */
 export const DISPERSION_CAVEAT_CODES = new Set([
@@ -33,6 +33,35 @@ export function dispersionCaveats(plan: ManeuverPlan): Caveat[] {
   }
   if (d.executionModel && !d.monteCarlo) {
     out.push(caveat('MONTE_CARLO_NOT_RUN', 'No Monte Carlo run is attached yet: the dispersion and impact probability are linear estimates only.'));
+  }
+  return out;
+}
+
+/** Every epoch of a plan a person reads. */
+function planEpochs(plan: ManeuverPlan): PlanEpoch[] {
+  return [plan.createdFrom.initialEpoch, plan.createdFrom.endEpoch, ...plan.burns.map((b) => b.epoch),
+    ...plan.approaches.map((a) => a.epoch),
+    ...plan.targets.flatMap((t) => [t.requestedEpoch, t.achievedEpoch].filter((e): e is PlanEpoch => e !== undefined && e !== null))];
+}
+
+/** Caveats on the UTC readings: past the leap-second table's expiry (assumed offset) or before 1972 (none). */
+function utcCaveats(plan: ManeuverPlan): Caveat[] {
+  const out: Caveat[] = [];
+  const epochs = planEpochs(plan);
+  const leap = plan.leapSeconds;
+  // ISO dates compare as text; a UTC reading on or after the expiry date uses an assumed TAI − UTC.
+  const past = epochs.filter((e) => e.utc !== null && e.utc.slice(0, 10) >= leap.expiresUtc);
+  if (past.length > 0) {
+    const lastStep = leap.steps[leap.steps.length - 1][0];
+    const source = leap.source === 'built-in' ? 'the built-in table' : `${leap.path} (SHA-256 ${leap.sha256 ?? 'not computed'})`;
+    out.push(caveat('UTC_LEAP_SECONDS_ASSUMED', `${past.length} epoch(s) of this plan, from ${past.map((e) => e.utc).sort()[0]} on, `
+      + `lie past the expiry ${leap.expiresUtc} of the leap-second table (${source}); TAI − UTC = ${leap.taiMinusUtcAfterExpiryS} s `
+      + `is assumed there (no leap second after ${lastStep}). A leap second announced after that table would shift every UTC `
+      + 'time from its date on by 1 s (a UTC-written input epoch would move by 1 s in TDB). Give a current leap-seconds.list '
+      + 'through VEER_LEAP_SECONDS (or --leap-seconds on the CLI) and re-plan.'));
+  }
+  if (epochs.some((e) => e.utc === null)) {
+    out.push(caveat('UTC_BEYOND_LEAP_SECOND_TABLE', 'Some epochs lie before 1972, where UTC had no whole-second offset from TAI: they are given in TDB only.'));
   }
   return out;
 }
@@ -70,10 +99,7 @@ export function planCaveats(plan: ManeuverPlan): Caveat[] {
   if (!plan.createdFrom.hasCovariance) {
     out.push(caveat('NO_INITIAL_STATE_COVARIANCE', 'The initial state has no covariance: the dispersion covers burn execution errors only, not orbit-determination uncertainty.'));
   }
-  const epochs = [plan.createdFrom.initialEpoch, plan.createdFrom.endEpoch, ...plan.burns.map((b) => b.epoch)];
-  if (epochs.some((e) => e.utc === null)) {
-    out.push(caveat('UTC_BEYOND_LEAP_SECOND_TABLE', 'Some epochs lie beyond the leap-second table: they are given in TDB only.'));
-  }
+  out.push(...utcCaveats(plan));
   out.push(...dispersionCaveats(plan));
   return orderCaveats(out);
 }

@@ -5,13 +5,14 @@
  * AbortSignal flow; cancellation rejects with CancelledError. Not converging resolves to a plan with
  * status 'not-converged', no burns to execute and the diagnostics.
  */
-import { CancelledError } from '../../propagator/index.ts';
-import type { EphemerisCache, Vec3 } from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, CancelledError } from '../../propagator/index.ts';
+import type { EphemerisCache, LeapSecondTable, Vec3 } from '../../propagator/index.ts';
 import { finiteDifferenceJacobian, runCorrector } from '../corrector/differential-corrector.ts';
 import type { CorrectorResult } from '../corrector/differential-corrector.ts';
 import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from '../../contract/plan-types.ts';
 import { parseProblem } from '../problem-checks.ts';
 import { problemHash, targetSetKey } from '../problem-hash.ts';
+import { planLeapSeconds } from '../leap-seconds.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { burnSettings } from '../targeting/controls.ts';
 import { lambertSeeds } from '../targeting/lambert-seed.ts';
@@ -39,6 +40,10 @@ export interface PlanOptions {
   /** The process's shared ephemeris cache (propagator EphemerisCache), owned where plans are made (CLI,
    * planner thread); without it the plan fits its own. The plan is the same either way. */
   ephemerisCache?: EphemerisCache;
+  /** The leap-second table for every UTC epoch read or written (the door loads a leap-seconds.list from
+   * VEER_LEAP_SECONDS or --leap-seconds); recorded in the plan and covered by its problem hash.
+   * @defaultValue BUILTIN_LEAP_SECONDS */
+  leapSeconds?: LeapSecondTable;
 }
 
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -51,8 +56,11 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
     if (signal?.aborted) throw new CancelledError();
   };
   progress({ stage: 'validating', fraction: 0, message: 'checking the problem' });
-  const problem = parseProblem(input);
-  const ctx = planningContext(problem, options.ephemerisCache);
+  const leapSeconds = options.leapSeconds ?? BUILTIN_LEAP_SECONDS;
+  const problem = parseProblem(input, leapSeconds);
+  const ctx = planningContext(problem, leapSeconds, options.ephemerisCache);
+  const leapRecord = planLeapSeconds(leapSeconds);
+  const epochOf = (tdbS: number): ReturnType<typeof planEpoch> => planEpoch(tdbS, leapSeconds);
   checkAbort();
   await yieldToLoop();
   const fm = problem.forceModel;
@@ -129,21 +137,22 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   const plan: ManeuverPlan = {
     planFormatVersion: 1,
     status: converged && ok ? 'converged' : 'not-converged',
-    problemHash: problemHash(problem),
+    problemHash: problemHash(problem, leapRecord),
     softwareVersion: SOFTWARE_VERSION,
     spacecraftName: problem.spacecraft.name,
     targetSetKey: targetSetKey(problem),
     title: problem.title ?? null,
     createdFrom: {
-      initialEpoch: planEpoch(ctx.epochs.initialTdbS), endEpoch: planEpoch(ctx.epochs.endTdbS),
+      initialEpoch: epochOf(ctx.epochs.initialTdbS), endEpoch: epochOf(ctx.epochs.endTdbS),
       centre: problem.initialState.centre, frame: problem.initialState.frame,
       hasCovariance: problem.initialState.covarianceKmKmS !== undefined,
     },
+    leapSeconds: leapRecord,
     forceModel: forceModelSummary(problem, ctx.ephemerisName),
-    burns: converged && ok ? plannedBurns(problem, ok.burns, freeEpoch, after) : [],
+    burns: converged && ok ? plannedBurns(problem, ok.burns, freeEpoch, after, leapSeconds) : [],
     totalDeltaVMS: 0,
     totalPropellantKg: 0,
-    targets: targetResults(ctx.components, m, ok ? ok.values : ctx.components.slice(0, m).map(() => null)),
+    targets: targetResults(ctx.components, m, ok ? ok.values : ctx.components.slice(0, m).map(() => null), leapSeconds),
     iterations,
     convergence: {
       outcome: converged && !ok ? 'evaluation-failed' : result.outcome,
@@ -163,7 +172,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
     caveats: [],
     trajectory: ok ? trajectoryPoints(ok.samples, fm.centralBody, ctx.ephemeris) : [],
     bPlane: null,
-    approaches: ok ? ok.approaches.map((a) => ({ body: a.body, epoch: planEpoch(a.epochTdbS), distanceKm: a.distanceKm, altitudeKm: a.distanceKm - radiusOf(a.body) })) : [],
+    approaches: ok ? ok.approaches.map((a) => ({ body: a.body, epoch: epochOf(a.epochTdbS), distanceKm: a.distanceKm, altitudeKm: a.distanceKm - radiusOf(a.body) })) : [],
     limits: { ...problem.limits },
     effort: { propagations: 0, evaluations: 0 },
   };

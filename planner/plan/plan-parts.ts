@@ -4,7 +4,7 @@
  * down-sampled trajectory, and the force-model summary.
  */
 import { changeCentre, eclipticFromEquatorialJ2000, formatEpoch } from '../../propagator/index.ts';
-import type { Ephemeris, StateVector, Vec3 } from '../../propagator/index.ts';
+import type { Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import { budgetBurns } from '../maneuver-math.ts';
 import type { ManeuverPlan, PlanEpoch, PlannedBurn, TargetResult, TrajectoryPoint } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
@@ -12,11 +12,12 @@ import { inertialToLocal, localAxes } from '../targeting/local-frames.ts';
 import type { BurnRecord } from '../targeting/evaluate-trajectory.ts';
 import type { TargetComponent } from '../targeting/target-components.ts';
 
-/** An epoch as TDB seconds and text; UTC is null beyond the leap-second table. */
-export function planEpoch(tdbS: number): PlanEpoch {
+/** An epoch as TDB seconds and text; UTC through `leapSeconds` (past its expiry with the last TAI − UTC,
+ * which the plan's caveat states), null only before the table's first step (1972). */
+export function planEpoch(tdbS: number, leapSeconds: LeapSecondTable): PlanEpoch {
   let utc: string | null;
   try {
-    utc = formatEpoch(tdbS, 'UTC', 3);
+    utc = formatEpoch(tdbS, 'UTC', 3, leapSeconds);
   } catch {
     utc = null;
   }
@@ -25,7 +26,7 @@ export function planEpoch(tdbS: number): PlanEpoch {
 
 /** Burn table rows from the evaluated burns (J2000 equatorial Δv). `firstTargetTdbS` after each burn. */
 export function plannedBurns(problem: PlanningProblem, burns: BurnRecord[], freeEpoch: boolean[],
-  targetEpochAfter: (tdbS: number) => number | null): PlannedBurn[] {
+  targetEpochAfter: (tdbS: number) => number | null, leapSeconds: LeapSecondTable): PlannedBurn[] {
   const budget = budgetBurns(burns.map((b) => Math.hypot(...b.deltaVInertialKmS)), problem.spacecraft.massKg,
     problem.spacecraft.engine.ispS, problem.spacecraft.engine.thrustN);
   return burns.map((b, i) => {
@@ -36,7 +37,7 @@ export function plannedBurns(problem: PlanningProblem, burns: BurnRecord[], free
     return {
       index: i,
       label: problem.burns[i].label ?? `burn ${i + 1}`,
-      epoch: planEpoch(b.epochTdbS),
+      epoch: planEpoch(b.epochTdbS, leapSeconds),
       epochWasFree: freeEpoch[i],
       frame: problem.burns[i].frame,
       deltaVInertialKmS: [...dv] as Vec3,
@@ -53,7 +54,8 @@ export function plannedBurns(problem: PlanningProblem, burns: BurnRecord[], free
 }
 
 /** Requested vs achieved for the target components (auxiliary ones are left out). */
-export function targetResults(components: TargetComponent[], targetCount: number, values: (number | null)[]): TargetResult[] {
+export function targetResults(components: TargetComponent[], targetCount: number, values: (number | null)[],
+  leapSeconds: LeapSecondTable): TargetResult[] {
   return components.slice(0, targetCount).map((c, i) => {
     const achieved = values[i];
     const residual = achieved === null ? null : achieved - c.requested;
@@ -63,8 +65,8 @@ export function targetResults(components: TargetComponent[], targetCount: number
       met: residual !== null && Math.abs(residual) <= c.tolerance,
     };
     if (c.quantity.q === 'ca-epoch') {
-      result.requestedEpoch = planEpoch(c.requested);
-      result.achievedEpoch = achieved === null ? null : planEpoch(achieved);
+      result.requestedEpoch = planEpoch(c.requested, leapSeconds);
+      result.achievedEpoch = achieved === null ? null : planEpoch(achieved, leapSeconds);
     }
     return result;
   });

@@ -8,7 +8,7 @@
 import {
   BUILTIN_EPHEMERIS_SPAN, changeCentre, createBuiltinEphemeris, EphemerisCache, stateToFrame,
 } from '../../propagator/index.ts';
-import type { BodyName, Ephemeris, StateVector, Vec3 } from '../../propagator/index.ts';
+import type { BodyName, Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import { checkProblem } from '../problem-checks.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
@@ -20,6 +20,8 @@ import type { TargetComponent } from '../targeting/target-components.ts';
 
 export interface PlanningContext {
   problem: PlanningProblem;
+  /** The table every UTC epoch of this run is read and written with. */
+  leapSeconds: LeapSecondTable;
   epochs: ProblemEpochs;
   /** Target components first (the corrector's residuals), then auxiliary ones (dispersion only). */
   components: TargetComponent[];
@@ -62,10 +64,10 @@ function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | nu
   return c ? covarianceToEquatorial(c, problem.initialState.frame) : null;
 }
 
-/** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. `cache`: the
- * process's shared ephemeris cache (a fresh one when absent). */
-export function planningContext(problem: PlanningProblem, cache?: EphemerisCache): PlanningContext {
-  const epochs = checkProblem(problem);
+/** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. UTC epochs go
+ * through `leapSeconds`; `cache`: the process's shared ephemeris cache (a fresh one when absent). */
+export function planningContext(problem: PlanningProblem, leapSeconds: LeapSecondTable, cache?: EphemerisCache): PlanningContext {
+  const epochs = checkProblem(problem, leapSeconds);
   const components = targetComponents(problem, epochs);
   const targetCount = components.length;
   let bPlaneIndex: PlanningContext['bPlaneIndex'] = null;
@@ -100,7 +102,7 @@ export function planningContext(problem: PlanningProblem, cache?: EphemerisCache
   initial = stateToFrame(initial, 'J2000_EQUATORIAL');
   if (initial.centre !== fm.centralBody) initial = changeCentre(initial, fm.centralBody, ephemeris);
   return {
-    problem, epochs, components, targetCount, layout, ephemeris, ephemerisName: source.name,
+    problem, leapSeconds, epochs, components, targetCount, layout, ephemeris, ephemerisName: source.name,
     evaluation: {
       problem, initial, endTdbS: epochs.endTdbS, components, ephemeris,
       controlMap: layout.descriptors.map((d) => ({ burnIndex: d.burnIndex, kind: d.kind })),

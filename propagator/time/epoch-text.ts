@@ -3,11 +3,16 @@
  *
  * Accepted forms: `YYYY-MM-DDThh:mm:ss[.fff…]` followed by `Z` (UTC) or a space and one of
  * `UTC|TAI|TT|TDB`; with neither, `defaultScale` applies (an error if none is given). `T` may be a space.
- * Leap seconds (`23:59:60.x` UTC) are accepted on days the table says end in one.
+ * Leap seconds (`23:59:60.x` UTC) are accepted on days the table says end in one. UTC goes through the
+ * leap-second table the caller passes (the built-in one by default); past its expiry the last TAI − UTC is
+ * assumed, and the caller must say so where the epoch is shown (see isUtcPastLeapSecondExpiry).
  */
 import { InvalidInputError } from '../../contract/errors.ts';
 import { calendarSecondsFromJ2000, civilFromDays, daysFromCivil, daysInMonth } from './calendar.ts';
-import { isLeapSecondDay, taiMinusUtcOnUtcDayS, taiSecondsFromUtcCalendar, utcFromTaiS } from './leap-seconds.ts';
+import {
+  BUILTIN_LEAP_SECONDS, isLeapSecondDay, isPastExpiry, type LeapSecondTable, taiMinusUtcOnUtcDayS, utcDateText, utcFromTaiS,
+} from './leap-second-table.ts';
+import { taiSecondsFromUtcCalendar } from './leap-seconds.ts';
 import { tdbFromTai, tdbFromTt, ttFromTdb, TT_MINUS_TAI_S } from './tdb.ts';
 
 /** Time scales epochs can be written in. */
@@ -20,10 +25,12 @@ const EPOCH_PATTERN =
 /**
  * Parses an epoch written in ISO-8601 with a named scale and returns TDB seconds from J2000.
  * Example: `2026-03-14T05:06:07.123Z`, `2026-03-14T05:06:07.123 TDB`. Valid years [1000, 9999] for TAI,
- * TT and TDB; UTC within the leap-second table's span (OutOfSpanError outside). Throws
+ * TT and TDB; UTC from the table's first step (1972-01-01) on, OutOfSpanError before. Throws
  * InvalidInputError naming `field` for malformed text or impossible dates.
  */
-export function parseEpoch(text: string, defaultScale?: TimeScale, field = 'epoch'): number {
+export function parseEpoch(
+  text: string, defaultScale?: TimeScale, field = 'epoch', leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS,
+): number {
   if (typeof text !== 'string') throw new InvalidInputError(field, 'epoch must be a string');
   const m = EPOCH_PATTERN.exec(text.trim());
   if (!m) {
@@ -45,15 +52,17 @@ export function parseEpoch(text: string, defaultScale?: TimeScale, field = 'epoc
   if (whole > 60 || (whole === 60 && !(scale === 'UTC' && hour === 23 && minute === 59))) {
     throw new InvalidInputError(field, `second ${m[6]} outside 00-59 (60 only for a UTC leap second at 23:59)`);
   }
-  if (whole === 60 && !isLeapSecondDay(daysFromCivil(year, month, day))) {
-    // The table cannot say whether its last day ends in a leap second: that is its span, not bad text.
-    taiMinusUtcOnUtcDayS(daysFromCivil(year, month, day) + 1, field);
-    throw new InvalidInputError(field, `no leap second is known at the end of ${m[1]}-${m[2]}-${m[3]} UTC`);
+  const utcDay = daysFromCivil(year, month, day);
+  if (whole === 60 && !isLeapSecondDay(leapSeconds, utcDay)) {
+    taiMinusUtcOnUtcDayS(leapSeconds, utcDay, field); // before 1972: the span, not the text, is wrong
+    const past = isPastExpiry(leapSeconds, utcDay + 1)
+      ? ` (the leap-second table expires ${leapSeconds.expiresUtc}: give a newer leap-seconds.list through VEER_LEAP_SECONDS)` : '';
+    throw new InvalidInputError(field, `no leap second is known at the end of ${utcDateText(utcDay)} UTC${past}`);
   }
   // Whole seconds first, fraction last: keeps the float64 sum within one rounding of the text.
   switch (scale) {
     case 'UTC':
-      return tdbFromTai(taiSecondsFromUtcCalendar(year, month, day, hour, minute, whole, field)) + fraction;
+      return tdbFromTai(taiSecondsFromUtcCalendar(leapSeconds, year, month, day, hour, minute, whole, field)) + fraction;
     case 'TAI':
       return tdbFromTai(calendarSecondsFromJ2000(year, month, day, hour, minute, whole)) + fraction;
     case 'TT':
@@ -92,10 +101,13 @@ function toUnits(secondsFromMidnight: number, digits: number): bigint {
 
 /**
  * Formats a TDB epoch (TDB seconds from J2000) as `YYYY-MM-DDThh:mm:ss.fff SCALE` in the given scale,
- * rounded to `fractionDigits` in [0, 6] (float64 resolves ~1e-7 s near 2030). UTC shows leap seconds as
- * 23:59:60 and throws OutOfSpanError outside the leap-second table's span.
+ * rounded to `fractionDigits` in [0, 6] (float64 resolves ~1e-7 s near 2030). UTC goes through `leapSeconds`
+ * (built-in by default), shows leap seconds as 23:59:60, assumes the last TAI − UTC past the table's expiry
+ * and throws OutOfSpanError before its first step (1972).
  */
-export function formatEpoch(tdbS: number, scale: TimeScale, fractionDigits = 3): string {
+export function formatEpoch(
+  tdbS: number, scale: TimeScale, fractionDigits = 3, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS,
+): string {
   if (!Number.isFinite(tdbS)) throw new InvalidInputError('tdbS', `epoch ${tdbS} is not finite`);
   if (!Number.isInteger(fractionDigits) || fractionDigits < 0 || fractionDigits > 6) {
     throw new InvalidInputError('fractionDigits', `${fractionDigits} is not an integer in [0, 6]`);
@@ -106,7 +118,7 @@ export function formatEpoch(tdbS: number, scale: TimeScale, fractionDigits = 3):
   if (scale === 'TT') return writeCalendar(toUnits(tt + 43200, fractionDigits), fractionDigits, scale);
   const tai = tt - TT_MINUS_TAI_S;
   if (scale === 'TAI') return writeCalendar(toUnits(tai + 43200, fractionDigits), fractionDigits, scale);
-  const utc = utcFromTaiS(tai, 'tdbS');
+  const utc = utcFromTaiS(leapSeconds, tai, 'tdbS');
   const perSecond = 10n ** BigInt(fractionDigits);
   if (utc.inLeapSecond) {
     const into = BigInt(Math.round(utc.leapSecondFractionS * 10 ** fractionDigits));
@@ -119,7 +131,7 @@ export function formatEpoch(tdbS: number, scale: TimeScale, fractionDigits = 3):
   // Rounded up onto midnight that follows a leap second: the honest reading is 23:59:60.000.
   const perDay = 86400n * perSecond;
   if (units % perDay === 0n && utc.utcCalendarS + 43200 < Number(units / perSecond)
-    && isLeapSecondDay(Number(units / perDay) - 1)) {
+    && isLeapSecondDay(leapSeconds, Number(units / perDay) - 1)) {
     return writeCalendar(units - perSecond, fractionDigits, scale).replace(/T23:59:59/, 'T23:59:60');
   }
   return writeCalendar(units, fractionDigits, scale);

@@ -5,7 +5,8 @@ export {
   tdbMinusTtS, tdbFromTt, ttFromTdb, tdbFromTai, taiFromTdb, TT_MINUS_TAI_S,
   tdbSecondsToJulianDateTdb, julianDateTdbToSeconds,
 } from './tdb.ts';
-export {
-  taiMinusUtcS, LEAP_TABLE_VALID_FROM_UTC, LEAP_TABLE_VALID_UNTIL_UTC, LEAP_TABLE_SOURCE,
-} from './leap-seconds.ts';
+export { taiMinusUtcS, isUtcPastLeapSecondExpiry } from './leap-seconds.ts';
+export { BUILTIN_LEAP_SECONDS, buildLeapSecondTable, lastTaiMinusUtcS, utcDateText } from './leap-second-table.ts';
+export type { LeapSecondTable, LeapSecondStep, LeapSecondOrigin, LeapSecondTableInput } from './leap-second-table.ts';
+export { parseLeapSecondsList } from './leap-seconds-list.ts';
 export { daysFromCivil, civilFromDays } from './calendar.ts';

@@ -12,7 +12,8 @@ import { mkdirSync, readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { parseProblem, problemHash } from '../../planner/index.ts';
+import { parseProblem, planLeapSeconds, problemHash } from '../../planner/index.ts';
+import { BUILTIN_LEAP_SECONDS } from '../../propagator/index.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
 import { reachableProblem, submission } from '../queue/fixtures.ts';
 import { launchChromium, type TestBrowser } from './browser.ts';
@@ -139,7 +140,7 @@ describe('ops console', () => {
       const status = await svc.request('GET', `/v1/jobs/${jobId}`, { token: svc.tokens.auditor });
       expect(status.body.submittedBy).toBe('sam');
       // The form kept what it does not show (covariance, solar pressure, limits): same canonical problem hash.
-      const expected = problemHash(parseProblem(JSON.parse(readFileSync(DEMO, 'utf8'))));
+      const expected = problemHash(parseProblem(JSON.parse(readFileSync(DEMO, 'utf8'))), planLeapSeconds(BUILTIN_LEAP_SECONDS));
       expect(status.body.problemHash).toBe(expected);
     });
   });
@@ -164,7 +165,7 @@ describe('ops console', () => {
       planId = decodeURIComponent(((await link.getAttribute('href')) ?? '').replace('#/plans/', ''));
       const plan = await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.auditor });
       expect(plan.status).toBe(200);
-      expect(plan.body.plan.problemHash).toBe(problemHash(parseProblem(JSON.parse(readFileSync(DEMO, 'utf8')))));
+      expect(plan.body.plan.problemHash).toBe(problemHash(parseProblem(JSON.parse(readFileSync(DEMO, 'utf8'))), planLeapSeconds(BUILTIN_LEAP_SECONDS)));
       await link.click();
       await page.waitForURL(new RegExp(`#/plans/${planId}$`));
     });

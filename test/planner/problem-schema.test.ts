@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { canonicalJson, parseProblem, problemHash, problemSchema } from '../../planner/index.ts';
+import { canonicalJson, parseProblem, planLeapSeconds, problemHash, problemSchema } from '../../planner/index.ts';
+import { BUILTIN_LEAP_SECONDS } from '../../propagator/index.ts';
 import { z } from 'zod';
 import { twoBodyProblem } from './two-body-fixture.ts';
 
@@ -85,10 +86,13 @@ describe('problem schema', () => {
       const a = parseProblem(twoBodyProblem());
       const reordered = JSON.parse(canonicalJson(a)) as unknown;
       const b = parseProblem({ ...twoBodyProblem(), forceModel: { relativeTolerance: 1e-12, centralBody: 'earth', method: 'cowell' } });
-      expect(problemHash(a)).toMatch(/^[0-9a-f]{64}$/);
-      expect(problemHash(parseProblem(reordered))).toBe(problemHash(a));
-      expect(problemHash(b)).toBe(problemHash(a));
-      expect(problemHash(parseProblem({ ...twoBodyProblem(), title: 'other' }))).not.toBe(problemHash(a));
+      const leap = planLeapSeconds(BUILTIN_LEAP_SECONDS);
+      expect(problemHash(a, leap)).toMatch(/^[0-9a-f]{64}$/);
+      expect(problemHash(parseProblem(reordered), leap)).toBe(problemHash(a, leap));
+      expect(problemHash(b, leap)).toBe(problemHash(a, leap));
+      expect(problemHash(parseProblem({ ...twoBodyProblem(), title: 'other' }), leap)).not.toBe(problemHash(a, leap));
+      // Another leap-second table (here: a later expiry) makes it another problem: its UTC epochs may differ.
+      expect(problemHash(a, { ...leap, expiresUtc: '2026-12-28' })).not.toBe(problemHash(a, leap));
     });
     it('should sort keys in canonical JSON', () => {
       expect(canonicalJson({ b: 1, a: [true, null, 'x'], c: undefined })).toBe('{"a":[true,null,"x"],"b":1}');

@@ -56,8 +56,9 @@ describe('parseEpoch', () => {
     it('should refuse 23:59:60 on a day without a leap second', () => {
       expect(() => parseEpoch('2017-12-31T23:59:60Z')).toThrow(/no leap second/);
     });
-    it('should call 23:59:60 on the table\'s last day out of span (the next Bulletin C is not known)', () => {
-      expect(() => parseEpoch('2026-06-30T23:59:60Z')).toThrow(OutOfSpanError);
+    it('should refuse 23:59:60 past the table\'s expiry, pointing to a newer list, and read :59.5 as usual', () => {
+      expect(() => parseEpoch('2026-06-30T23:59:60Z')).toThrow(InvalidInputError);
+      expect(() => parseEpoch('2026-06-30T23:59:60Z')).toThrow(/expires 2026-06-28.*VEER_LEAP_SECONDS/);
       expect(parseEpoch('2026-06-30T23:59:59.5Z')).toBeGreaterThan(parseEpoch('2026-06-30T23:59:59Z'));
     });
   });
@@ -82,9 +83,14 @@ describe('parseEpoch', () => {
     }
   });
   describe('when a UTC epoch is outside the leap-second table', () => {
-    it('should throw OutOfSpanError before 1972 and after the table end', () => {
+    it('should throw OutOfSpanError before 1972', () => {
       expect(() => parseEpoch('1971-12-31T23:59:59Z')).toThrow(OutOfSpanError);
-      expect(() => parseEpoch('2026-07-01T00:00:00Z')).toThrow(OutOfSpanError);
+      expect(() => parseEpoch('1971-12-31T23:59:59Z')).toThrow(/before 1972-01-01 UTC/);
+    });
+    it('should read a date past the expiry with the last TAI − UTC (37 s), not refuse it', () => {
+      // TAI − UTC = 37 s assumed: the UTC reading lies 37 s before the same reading in TAI.
+      expect(parseEpoch('2027-08-11T00:00:00Z')).toBe(parseEpoch('2027-08-11T00:00:37 TAI'));
+      expect(formatEpoch(parseEpoch('2027-08-11T10:20:30.250Z'), 'UTC')).toBe('2027-08-11T10:20:30.250 UTC');
     });
     it('should still accept the same readings in TDB, TT and TAI (no table needed)', () => {
       expect(Number.isFinite(parseEpoch('1960-01-01T00:00:00 TAI'))).toBe(true);
@@ -153,9 +159,9 @@ describe('scale conversions', () => {
       expect(taiMinusUtcS(new Date(Date.UTC(2012, 5, 30, 12)))).toBe(34);
       expect(taiMinusUtcS(new Date(Date.UTC(2012, 6, 1)))).toBe(35);
     });
-    it('should throw OutOfSpanError outside the table', () => {
+    it('should throw OutOfSpanError before the table and keep the last offset past its expiry', () => {
       expect(() => taiMinusUtcS('1971-12-31')).toThrow(OutOfSpanError);
-      expect(() => taiMinusUtcS('2027-01-01')).toThrow(/2026-07-01/);
+      expect(taiMinusUtcS('2027-01-01')).toBe(37);
     });
   });
   describe('when using Julian dates', () => {
