@@ -8,7 +8,7 @@
  * 3. assembleBudget: statistics of both paths, their per-burn agreement, caveats.
  * runBudget does all three in this process. A budget is a study: never a plan to approve.
  */
-import { CancelledError, InvalidInputError } from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError } from '../../propagator/index.ts';
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
 import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-types.ts';
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
@@ -40,6 +40,9 @@ export interface BudgetSampleOptions {
   onSample?: (done: number) => void;
 }
 
+/** Budget studies read UTC through the built-in leap-second table (the nominal plan records it). */
+const BUDGET_LEAP_SECONDS = BUILTIN_LEAP_SECONDS;
+
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
 
 /** Step 1: the nominal plan, and its linear model when it converged (null otherwise). */
@@ -49,7 +52,7 @@ export async function prepareBudget(request: BudgetRequest, options: BudgetRunOp
     onProgress: (p: PlanProgress) => options.onProgress?.({ stage: 'nominal', fraction: 0.1 * p.fraction, message: `nominal plan: ${p.message}` }),
   });
   if (plan.status !== 'converged') return { plan, nominal: null };
-  return { plan, nominal: await budgetNominal(request, planningContext(request.problem), plan, options.signal) };
+  return { plan, nominal: await budgetNominal(request, planningContext(request.problem, BUDGET_LEAP_SECONDS), plan, options.signal) };
 }
 
 /** Step 2: samples of one path; see the file comment. Checks `signal` before each sample. */
@@ -58,7 +61,7 @@ export async function runBudgetSamples(request: BudgetRequest, nominal: BudgetNo
   if (!Number.isInteger(firstIndex) || firstIndex < 0) throw new InvalidInputError('firstIndex', `must be an integer >= 0, got ${firstIndex}`);
   if (!Number.isInteger(count) || count < 0) throw new InvalidInputError('count', `must be an integer >= 0, got ${count}`);
   const sampler = createBudgetSampler(nominal.burns.length, nominal.initialCovariance, nominal.knowledgeCovariances);
-  const ctx = options.path === 'nonlinear' ? planningContext(request.problem) : null;
+  const ctx = options.path === 'nonlinear' ? planningContext(request.problem, BUDGET_LEAP_SECONDS) : null;
   const out: BudgetSample[] = [];
   for (let k = 0; k < count; k++) {
     if (signal?.aborted) throw new CancelledError(`budget cancelled after ${k} of ${count} ${options.path} samples`);
@@ -105,7 +108,7 @@ export function assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nomin
   if (!nominal) notes.push(`no budget: the nominal plan did not converge (${plan.convergence.message})`);
   if (!agreement) notes.push('no linear/non-linear comparison: only one path ran');
   return {
-    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem), requestHash: budgetRequestHash(request),
+    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem, plan.leapSeconds), requestHash: budgetRequestHash(request),
     softwareVersion: SOFTWARE_VERSION, spacecraftName: request.problem.spacecraft.name, title: request.problem.title ?? null,
     nominal: {
       status: plan.status, crossCheckPassed: plan.crossCheck.passed,
