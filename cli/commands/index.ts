@@ -26,4 +26,5 @@ export const COMMANDS: readonly CliCommandEntry[] = [
   { name: 'status', summary: 'Show a job\'s state, progress and outcome', load: async () => (await import('./status.ts')).statusCommand },
   { name: 'watch', summary: 'Follow a job\'s progress until it ends (exit code tells the outcome)', load: async () => (await import('./watch.ts')).watchCommand },
   { name: 'cancel', summary: 'Cancel a waiting or running job', load: async () => (await import('./cancel.ts')).cancelCommand },
+  { name: 'budget', summary: 'statistical Δv budget of a correction-burn sequence (in-process study, never a plan)', load: async () => (await import('./budget.ts')).budgetCommand },
 ];

@@ -4,13 +4,15 @@ import { access, stat, writeFile } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
 import { InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
-import type { ManeuverPlan, PlanProgress } from '../../planner/index.ts';
+import type { ManeuverPlan } from '../../planner/index.ts';
 import { cliEphemerisCache } from '../cli-ephemeris-cache.ts';
+import { progressBar } from '../progress-bar.ts';
 import type { CliCommand } from '../command.ts';
 import { formatPlanReport } from '../report/plan-report.ts';
 import { readProblemFileWithOpmState } from './ccsds-cli.ts';
 import { readJsonFile } from './read-json-file.ts';
 import { LEAP_SECONDS_USAGE, loadCliLeapSeconds } from '../leap-seconds-option.ts';
+import { parseFileCommandArgs } from './file-command-args.ts';
 
 const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm] [--leap-seconds FILE]
 
@@ -28,30 +30,6 @@ Exit codes: 0 converged and cross-check passed; 3 not converged or cross-check f
 2 bad usage or invalid problem (the field is named); 1 other failures.
 Every plan is a PROPOSAL: it requires review and approval by qualified flight-dynamics staff and
 independent verification before any commanding; follow the mission's own procedures.`;
-
-function progressWriter(): { update: (p: PlanProgress) => void; end: () => void } {
-  const tty = process.stderr.isTTY === true;
-  let lastStage = '';
-  let lastLen = 0;
-  return {
-    update(p) {
-      const pct = Math.round(p.fraction * 100);
-      if (tty) {
-        const width = 30;
-        const filled = Math.round(p.fraction * width);
-        const text = `[${'#'.repeat(filled)}${'.'.repeat(width - filled)}] ${String(pct).padStart(3)}% ${p.stage}: ${p.message}`.slice(0, 110);
-        process.stderr.write(`\r${text.padEnd(lastLen)}`);
-        lastLen = text.length;
-      } else if (p.stage !== lastStage) {
-        process.stderr.write(`veer plan: ${String(pct).padStart(3)}% ${p.stage}: ${p.message}\n`);
-      }
-      lastStage = p.stage;
-    },
-    end() {
-      if (tty && lastLen > 0) process.stderr.write('\n');
-    },
-  };
-}
 
 /** Reads and validates a problem file; InvalidInputError names the file or the field. */
 export async function readProblemFile(path: string, leapSeconds: LeapSecondTable): Promise<ReturnType<typeof parseProblem>> {
@@ -85,45 +63,15 @@ export const planCommand: CliCommand = {
   name: 'plan',
   usage: USAGE,
   async run(args: string[]): Promise<number> {
-    let json = false;
-    let out: string | undefined;
-    let state: string | undefined;
-    let leapPath: string | undefined;
-    const files: string[] = [];
-    for (let i = 0; i < args.length; i++) {
-      const a = args[i];
-      if (a === '--json') json = true;
-      else if (a === '--out') {
-        out = args[++i];
-        if (!out) {
-          process.stderr.write(`veer plan: --out needs a file name\n\n${USAGE}\n`);
-          return 2;
-        }
-      } else if (a === '--state') {
-        state = args[++i];
-        if (!state) {
-          process.stderr.write(`veer plan: --state needs an OPM file name\n\n${USAGE}\n`);
-          return 2;
-        }
-      } else if (a === '--leap-seconds') {
-        leapPath = args[++i];
-        if (!leapPath) {
-          process.stderr.write(`veer plan: --leap-seconds needs a file name\n\n${USAGE}\n`);
-          return 2;
-        }
-      } else if (a.startsWith('-')) {
-        process.stderr.write(`veer plan: unknown option '${a}'\n\n${USAGE}\n`);
-        return 2;
-      } else files.push(a);
-    }
-    if (files.length !== 1) {
-      process.stderr.write(`veer plan: give exactly one problem file\n\n${USAGE}\n`);
-      return 2;
-    }
-    const leapSeconds = await loadCliLeapSeconds(leapPath);
-    const problem = state ? await readProblemFileWithOpmState(files[0], state, leapSeconds) : await readProblemFile(files[0], leapSeconds);
+    const parsed = parseFileCommandArgs(args, 'plan', USAGE, { '--out': 'a file name', '--state': 'an OPM file name', '--leap-seconds': 'a file name' });
+    if (!parsed) return 2;
+    const { json, file } = parsed;
+    const out = parsed.values['--out'];
+    const state = parsed.values['--state'];
+    const leapSeconds = await loadCliLeapSeconds(parsed.values['--leap-seconds']);
+    const problem = state ? await readProblemFileWithOpmState(file, state, leapSeconds) : await readProblemFile(file, leapSeconds);
     if (out) await checkOutputPath(out);
-    const bar = progressWriter();
+    const bar = progressBar('veer plan');
     const controller = new AbortController();
     const onSigint = (): void => controller.abort();
     process.once('SIGINT', onSigint);

@@ -14,14 +14,16 @@ function ms(kmS: number): string {
   return /^-0\.0+$/.test(text) ? text.slice(1) : text;
 }
 
-function num(x: number | null | undefined, digits = 3): string {
+/** A number for a report: fixed digits, exponential when very large or small, 'n/a' when absent. */
+export function num(x: number | null | undefined, digits = 3): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
   const a = Math.abs(x);
   if (a !== 0 && (a >= 1e7 || a < 1e-3)) return x.toExponential(digits);
   return x.toFixed(digits);
 }
 
-function caveatBlock(plan: ManeuverPlan, heading: string): string[] {
+/** The caveat block that opens and closes every report (plans and budget studies). */
+export function caveatBlock(plan: Pick<ManeuverPlan, 'caveats'>, heading: string): string[] {
   return [RULE, heading, ...plan.caveats.map((c) => `  [${c.severity.toUpperCase()}] ${c.code}: ${c.text}`), RULE];
 }
 
