@@ -5,6 +5,7 @@
  * InvalidInputError naming the field path (e.g. `burns[1].epoch`).
  */
 import { z } from 'zod';
+import { RELATIVE_TOLERANCE_RANGE } from '../contract/problem-bounds.ts';
 import {
   BODY_NAMES, formatEpoch, INERTIAL_FRAMES, InvalidInputError, OutOfSpanError, parseEpoch,
   type EventSpec, type VelocityImpulse, type PropagationRequest, type Ephemeris, type TdbSpan, type Vec3,
@@ -51,7 +52,7 @@ export const propagateRequestSchema = z.object({
     }).strict().optional(),
   }).strict(),
   method: z.enum(['cowell', 'encke']).optional(),
-  relativeTolerance: z.number().min(1e-14).max(1e-3).optional(),
+  relativeTolerance: z.number().min(RELATIVE_TOLERANCE_RANGE.min).max(RELATIVE_TOLERANCE_RANGE.max).optional(),
   absoluteTolerance: z.number().positive().max(1).optional(),
   maxSteps: z.number().int().positive().optional(),
   burns: z.array(z.object({ epoch, deltaVKmS: vec3 }).strict()).default([]),

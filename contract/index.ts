@@ -4,6 +4,7 @@
  */
 export * from './bodies.ts';
 export * from './problem-schema.ts';
+export * from './problem-bounds.ts';
 export type * from './plan-types.ts';
 export * from './job-types.ts';
 export * from './roles.ts';

@@ -10,13 +10,22 @@
 import { z } from 'zod';
 import { BODY_NAMES, INERTIAL_FRAMES } from './bodies.ts';
 import { freeTextSchema } from './free-text.ts';
+import { PROBLEM_BOUNDS as BOUNDS, RELATIVE_TOLERANCE_RANGE } from './problem-bounds.ts';
 
 /** An ISO-8601 epoch with its time scale: `...Z` or `... UTC|TAI|TT|TDB`. Parsed in problem-checks.ts. */
 export const epochTextSchema = z.string().min(10).max(64)
   .describe("ISO-8601 epoch with the scale named: '2030-05-01T00:00:00Z' (UTC) or '2030-05-01T00:00:00 TDB'");
 
 const bodySchema = z.enum(BODY_NAMES);
-const vec3Schema = z.tuple([z.number(), z.number(), z.number()]);
+/** A number in [-limit, limit]. */
+const within = (limit: number) => z.number().min(-limit).max(limit);
+/** Three numbers, each in [-limit, limit]. */
+const vec3Within = (limit: number) => z.tuple([within(limit), within(limit), within(limit)]);
+/** A number in [range.min, range.max]. */
+const inRange = (range: { min: number; max: number }) => z.number().min(range.min).max(range.max);
+const positionKmSchema = vec3Within(BOUNDS.positionKm);
+const velocityKmSSchema = vec3Within(BOUNDS.velocityKmS);
+const deltaVKmSSchema = vec3Within(BOUNDS.deltaVKmS);
 
 /** Reference plane of a B-plane or inclination target: the J2000 mean ecliptic or the J2000 mean Earth
  * equator (ICRF-aligned). */
@@ -27,16 +36,16 @@ const referencePlaneSchema = z.enum(REFERENCE_PLANES);
 const spacecraftSchema = z.object({
   name: freeTextSchema({ min: 1, max: 80, visible: true }),
   /** Wet mass at the initial epoch, kg. */
-  massKg: z.number().positive(),
+  massKg: z.number().positive().max(BOUNDS.massKg),
   engine: z.object({
     /** Specific impulse, s. */
-    ispS: z.number().positive(),
+    ispS: z.number().positive().max(BOUNDS.ispS),
     /** Thrust, N. */
-    thrustN: z.number().positive(),
+    thrustN: z.number().positive().max(BOUNDS.thrustN),
   }).strict(),
   /** Cannonball solar radiation pressure model (used when forceModel.solarPressure is true). */
   solarPressure: z.object({
-    areaM2: z.number().positive(),
+    areaM2: z.number().positive().max(BOUNDS.areaM2),
     reflectivityCoefficient: z.number().min(1).max(2),
   }).strict().optional(),
 }).strict();
@@ -45,10 +54,10 @@ const initialStateSchema = z.object({
   epoch: epochTextSchema,
   centre: bodySchema,
   frame: z.enum(INERTIAL_FRAMES),
-  positionKm: vec3Schema,
-  velocityKmS: vec3Schema,
+  positionKm: positionKmSchema,
+  velocityKmS: velocityKmSSchema,
   /** Optional 6x6 orbit-determination covariance of [r, v] in the state's frame: km², km²/s, km²/s². */
-  covarianceKmKmS: z.array(z.array(z.number()).length(6)).length(6).optional(),
+  covarianceKmKmS: z.array(z.array(within(BOUNDS.covarianceEntry)).length(6)).length(6).optional(),
 }).strict();
 
 const forceModelSchema = z.object({
@@ -60,7 +69,7 @@ const forceModelSchema = z.object({
   solarPressure: z.boolean().default(false),
   method: z.enum(['cowell', 'encke']).default('cowell'),
   /** Relative tolerance of the integrator's step control. */
-  relativeTolerance: z.number().positive().max(1e-3).default(1e-11),
+  relativeTolerance: inRange(RELATIVE_TOLERANCE_RANGE).default(1e-11),
   /** Switch the integration centre inside a perturbing body's sphere of influence. */
   switching: z.boolean().default(false),
 }).strict();
@@ -74,11 +83,11 @@ const burnSchema = z.object({
    * relative to the integration centre. */
   frame: z.enum(['inertial', 'RTN', 'VNB']),
   /** Initial guess of the Δv, km/s, in `frame`. */
-  deltaVGuessKmS: vec3Schema,
+  deltaVGuessKmS: deltaVKmSSchema,
   /** Which of the three components the corrector may change. */
   freeComponents: z.tuple([z.boolean(), z.boolean(), z.boolean()]).default([true, true, true]),
   /** Optional per-component bounds, km/s, in `frame`. */
-  boundsKmS: z.object({ lower: vec3Schema, upper: vec3Schema }).strict().optional(),
+  boundsKmS: z.object({ lower: deltaVKmSSchema, upper: deltaVKmSSchema }).strict().optional(),
   /** Replace the free components' initial guess by a Lambert transfer (Izzo 2015, two-body about the
    * central body) from the burn point to the first position or state target after it. */
   guessFromLambert: z.boolean().default(false),
@@ -86,7 +95,7 @@ const burnSchema = z.object({
   epochWindow: z.object({ earliest: epochTextSchema, latest: epochTextSchema }).strict().optional(),
 }).strict();
 
-const toleranceKm = z.number().positive();
+const toleranceKm = inRange(BOUNDS.toleranceKm);
 
 const targetSchema = z.discriminatedUnion('kind', [
   z.object({
@@ -94,26 +103,26 @@ const targetSchema = z.discriminatedUnion('kind', [
     /** Flyby body; the B-plane is taken at closest approach to it after the last burn. */
     body: bodySchema,
     referencePlane: referencePlaneSchema.default('ecliptic'),
-    bDotTKm: z.number(),
-    bDotRKm: z.number(),
+    bDotTKm: within(BOUNDS.distanceKm),
+    bDotRKm: within(BOUNDS.distanceKm),
     toleranceKm,
   }).strict(),
   z.object({
     kind: z.literal('closest-approach-epoch'),
     body: bodySchema,
     epoch: epochTextSchema,
-    toleranceS: z.number().positive(),
+    toleranceS: inRange(BOUNDS.toleranceS),
   }).strict(),
   z.object({
     kind: z.literal('periapsis-radius'),
     body: bodySchema,
-    radiusKm: z.number().positive(),
+    radiusKm: z.number().positive().max(BOUNDS.distanceKm),
     toleranceKm,
   }).strict(),
   z.object({
     kind: z.literal('periapsis-altitude'),
     body: bodySchema,
-    altitudeKm: z.number(),
+    altitudeKm: within(BOUNDS.distanceKm),
     toleranceKm,
   }).strict(),
   z.object({
@@ -121,14 +130,14 @@ const targetSchema = z.discriminatedUnion('kind', [
     body: bodySchema,
     referencePlane: referencePlaneSchema.default('equator'),
     inclinationDeg: z.number().min(0).max(180),
-    toleranceDeg: z.number().positive(),
+    toleranceDeg: inRange(BOUNDS.toleranceDeg),
   }).strict(),
   z.object({
     kind: z.literal('position'),
     epoch: epochTextSchema,
     centre: bodySchema,
     /** J2000 equatorial position relative to `centre`, km. */
-    positionKm: vec3Schema,
+    positionKm: positionKmSchema,
     toleranceKm,
   }).strict(),
   z.object({
@@ -136,21 +145,21 @@ const targetSchema = z.discriminatedUnion('kind', [
     epoch: epochTextSchema,
     centre: bodySchema,
     /** J2000 equatorial position and velocity relative to `centre`. */
-    positionKm: vec3Schema,
-    velocityKmS: vec3Schema,
+    positionKm: positionKmSchema,
+    velocityKmS: velocityKmSSchema,
     toleranceKm,
-    velocityToleranceKmS: z.number().positive(),
+    velocityToleranceKmS: inRange(BOUNDS.velocityToleranceKmS),
   }).strict(),
 ]);
 
 /** Gates (1963) execution-error model, all 1σ: fixed and proportional magnitude, fixed and proportional
  * pointing. */
 const executionErrorsSchema = z.object({
-  fixedMagnitudeMS: z.number().min(0),
+  fixedMagnitudeMS: z.number().min(0).max(BOUNDS.executionErrorMS),
   /** Fraction of |Δv| (e.g. 0.005 for 0.5 %). */
   proportionalMagnitudeFraction: z.number().min(0).max(0.5),
   /** Fixed pointing error expressed as a velocity per transverse axis, m/s. */
-  fixedPointingMS: z.number().min(0),
+  fixedPointingMS: z.number().min(0).max(BOUNDS.executionErrorMS),
   /** Proportional pointing error: angle per transverse axis, deg. */
   proportionalPointingDeg: z.number().min(0).max(30),
 }).strict();
@@ -165,14 +174,14 @@ const dispersionSchema = z.object({
 const correctorSchema = z.object({
   maxIterations: z.number().int().min(1).max(100).default(15),
   /** Largest change of any Δv component in one iteration, km/s. */
-  maxStepKmS: z.number().positive().default(0.05),
+  maxStepKmS: z.number().positive().max(BOUNDS.deltaVKmS).default(0.05),
   /** Largest change of a free burn epoch in one iteration, s. */
-  maxEpochStepS: z.number().positive().default(3600),
+  maxEpochStepS: z.number().positive().max(BOUNDS.maxEpochStepS).default(3600),
 }).strict();
 
 const limitsSchema = z.object({
   /** Closest approach below this altitude over the target body raises a critical caveat, km. */
-  safeAltitudeKm: z.number().min(0).default(300),
+  safeAltitudeKm: z.number().min(0).max(BOUNDS.distanceKm).default(300),
   /** Impact probability above this raises a critical caveat. */
   impactProbabilityLimit: z.number().min(0).max(1).default(1e-4),
   /** Burn duration above this fraction of the time from the burn to its first target flags the impulsive
@@ -182,7 +191,7 @@ const limitsSchema = z.object({
    * tolerance. */
   crossCheckToleranceFraction: z.number().positive().max(10).default(0.5),
   /** Jacobian condition numbers above this raise the ill-conditioning caveat. */
-  conditionNumberLimit: z.number().positive().default(1e8),
+  conditionNumberLimit: inRange(BOUNDS.conditionNumberLimit).default(1e8),
 }).strict();
 
 export const problemSchema = z.object({

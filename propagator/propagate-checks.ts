@@ -3,6 +3,7 @@
  * and resolves its defaults.
  */
 import { InvalidInputError, OutOfSpanError } from '../contract/errors.ts';
+import { RELATIVE_TOLERANCE_RANGE } from '../contract/problem-bounds.ts';
 import { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
 import type { EventSpec, VelocityImpulse, PropagationMethod, PropagationRequest } from './propagation-types.ts';
 import { BODY_NAMES, INERTIAL_FRAMES } from './types.ts';
@@ -99,7 +100,7 @@ export function checkRequest(request: PropagationRequest): CheckedRequest {
   if (method !== 'cowell' && method !== 'encke') {
     throw new InvalidInputError('method', `must be 'cowell' or 'encke', got ${JSON.stringify(method)}`);
   }
-  const relativeTolerance = inRange(request.relativeTolerance ?? PROPAGATION_DEFAULTS.relativeTolerance, 1e-14, 1e-3, 'relativeTolerance');
+  const relativeTolerance = inRange(request.relativeTolerance ?? PROPAGATION_DEFAULTS.relativeTolerance, RELATIVE_TOLERANCE_RANGE.min, RELATIVE_TOLERANCE_RANGE.max, 'relativeTolerance');
   const absoluteTolerance = inRange(request.absoluteTolerance ?? PROPAGATION_DEFAULTS.absoluteTolerance, 0, 1, 'absoluteTolerance', true);
   const maxSteps = request.maxSteps ?? PROPAGATION_DEFAULTS.maxSteps;
   if (!Number.isInteger(maxSteps) || maxSteps < 1) throw new InvalidInputError('maxSteps', `must be an integer >= 1, got ${maxSteps}`);
