@@ -1,6 +1,6 @@
 /** Public face of api/: other rooms import from here only. */
 export { createApp } from './app.ts';
-export { startApiServer, SOFTWARE_VERSION, type ApiServer } from './server.ts';
+export { startApiServer, type ApiServer } from './server.ts';
 export { loadApiConfig, apiEnvSchema, type ApiConfig } from './config.ts';
 export { DEFAULT_LIMITS, type AppDeps, type AppLimits } from './deps.ts';
 export { ApiRoutes, type RouteSpec, type ResponseSpec } from './route-table.ts';

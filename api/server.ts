@@ -2,6 +2,7 @@
  * Builds the API's dependencies from configuration and listens. `startApiServer` is used by `npm run api`
  * (api/main.ts) and by the test harness.
  */
+import { PACKAGE_VERSION } from '../contract/software-version.ts';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import type { Logger } from 'pino';
@@ -36,8 +37,6 @@ function reportRedisState(queue: RetargetQueue, redisUrl: string, logger: Logger
   });
 }
 
-export const SOFTWARE_VERSION = '0.1.0';
-
 /** Opens Redis, the archive and the token store, and listens on config.HOST:config.PORT (0 = any free port). */
 export async function startApiServer(config: ApiConfig, logger: Logger, overrides: { tokens?: TokenStore; archive?: PlanArchive | null } = {}): Promise<ApiServer> {
   const queue = new RetargetQueue({
@@ -52,7 +51,7 @@ export async function startApiServer(config: ApiConfig, logger: Logger, override
   const metrics = new ServiceMetrics(queue);
   metrics.watch(events);
   const deps: AppDeps = {
-    queue, events, tokens, archive, metrics, logger, version: SOFTWARE_VERSION,
+    queue, events, tokens, archive, metrics, logger, version: PACKAGE_VERSION,
     plans: archive ? new ArchivePlanReader(archive) : new JobResultPlanReader(queue),
     limits: {
       bodyLimitBytes: config.BODY_LIMIT_KB * 1024, rateLimitMax: config.RATE_LIMIT_MAX,

@@ -3,7 +3,7 @@
  * them (from the first of those entries to the last, or to the head), so anyone can check offline — with
  * SHA-256 and the canonical form below — that the entries are unchanged and sit in one unbroken chain.
  */
-import { canonicalJson } from './canonical-json.ts';
+import { canonicalJson } from '../contract/canonical-json.ts';
 import { entryHash, entryHeader, headerHash, payloadHash, type EntryHeader } from './chain.ts';
 import { ArchiveNotFoundError } from './errors.ts';
 import { applyToPlan, planFromProposal } from './projection.ts';

@@ -2,8 +2,19 @@
  * The hash chain: how an entry's hash is computed, and a streaming verifier that walks entries in
  * sequence order and stops at the first one that does not match.
  */
-import { canonicalJson, sha256Hex } from './canonical-json.ts';
+import { createHash } from 'node:crypto';
+import { canonicalJson } from '../contract/canonical-json.ts';
 import { ENTRY_KINDS, GENESIS_HASH, type ArchiveEntry, type VerifyFailure } from '../contract/archive-types.ts';
+
+/** SHA-256 of the UTF-8 bytes of `text`, as 64 lowercase hex digits. */
+export function sha256Hex(text: string): string {
+  return createHash('sha256').update(text, 'utf8').digest('hex');
+}
+
+/** SHA-256 hex of the canonical JSON of `value` (contract/canonical-json.ts). */
+export function canonicalHash(value: unknown): string {
+  return sha256Hex(canonicalJson(value));
+}
 
 /** An entry before its hash is known. */
 export type UnhashedEntry = Omit<ArchiveEntry, 'hash'>;

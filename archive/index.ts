@@ -1,8 +1,8 @@
 /** Public face of archive/: other rooms import from here only. */
 export * from '../contract/archive-types.ts';
 export { ArchiveConflictError, ArchiveInputError, ArchiveIntegrityError, ArchiveNotFoundError } from './errors.ts';
-export { canonicalJson, canonicalHash, sha256Hex } from './canonical-json.ts';
-export { entryHash, entryHeader, headerHash, payloadHash, ChainVerifier, type EntryHeader } from './chain.ts';
+export { canonicalJson } from '../contract/canonical-json.ts';
+export { canonicalHash, sha256Hex, entryHash, entryHeader, headerHash, payloadHash, ChainVerifier, type EntryHeader } from './chain.ts';
 export type { ManeuverPlanIsArchivable } from './plan-compat.ts';
 export { openArchive, SQLITE_ARCHIVE_FILE, type OpenArchiveOptions } from './open-archive.ts';
 export { verifyPostgresReadOnly, verifySqliteReadOnly } from './verify-store.ts';

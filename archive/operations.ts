@@ -5,7 +5,8 @@
  * see one consistent state even with many processes appending.
  */
 import { randomUUID } from 'node:crypto';
-import { canonicalHash, canonicalJson } from './canonical-json.ts';
+import { canonicalJson } from '../contract/canonical-json.ts';
+import { canonicalHash } from './chain.ts';
 import { sealEntry } from './chain.ts';
 import { ArchiveConflictError, ArchiveInputError, ArchiveIntegrityError, ArchiveNotFoundError } from './errors.ts';
 import { applyToJob, applyToPlan, planFromProposal } from './projection.ts';

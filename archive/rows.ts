@@ -1,5 +1,5 @@
 /** Row ↔ record mapping shared by both stores (same column names; PostgreSQL returns BIGINT as text). */
-import { canonicalJson } from './canonical-json.ts';
+import { canonicalJson } from '../contract/canonical-json.ts';
 import { parsePayload } from './verify.ts';
 import type { ArchiveEntry, EntryKind, JobArchiveState, JobRecord, PlanRecord, PlanState } from '../contract/archive-types.ts';
 

@@ -70,3 +70,21 @@ export const postgresUrlSchema = z.string()
 export const logLevelSchema = z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'], {
   error: 'must be one of fatal, error, warn, info, debug, trace, silent',
 }).default('info');
+
+/** Variables the API and the worker both read, with one meaning: where the queue lives, where plans go, how
+ * long finished jobs stay, how much is logged. Each service's schema spreads this shape into its own. */
+export const sharedServiceEnvShape = {
+  REDIS_URL: redisUrlSchema.default('redis://127.0.0.1:6379'),
+  /** Prefix of every Redis key of the queues (lets several deployments share one Redis). */
+  QUEUE_PREFIX: z.string().regex(/^[a-z0-9_-]{1,32}$/, { error: 'must be 1–32 of a-z 0-9 _ -' }).default('veer'),
+  /** Folder of the SQLite archive (archive.sqlite) and token files when DATABASE_URL is unset. */
+  DATA_DIR: z.string().min(1).default('./data'),
+  /** PostgreSQL archive; when unset the archive is a SQLite file in DATA_DIR. */
+  DATABASE_URL: postgresUrlSchema.optional(),
+  /** Where plans go and are read from: `archive` (appended to the archive) or `job-result` (kept only in the
+   * job's result); the API and the workers must agree. */
+  PLAN_SINK: z.enum(['archive', 'job-result'], { error: 'must be archive or job-result' }).default('archive'),
+  /** Seconds finished jobs are kept in Redis (status, result, cancellation records). */
+  JOB_RETENTION_S: envInt(60, 90 * 86_400, 7 * 86_400),
+  LOG_LEVEL: logLevelSchema,
+};

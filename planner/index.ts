@@ -5,7 +5,8 @@ export type {
 } from '../contract/problem-schema.ts';
 export { parseProblem, checkProblem, problemEpochs } from './problem-checks.ts';
 export type { ProblemEpochs } from './problem-checks.ts';
-export { canonicalJson, problemHash, targetSetKey } from './problem-hash.ts';
+export { canonicalJson } from '../contract/canonical-json.ts';
+export { problemHash, targetSetKey } from './problem-hash.ts';
 export { planLeapSeconds, leapSecondTableOfPlan } from './leap-seconds.ts';
 export { leapSecondsFromFileBytes } from './leap-seconds-file.ts';
 export { CAVEAT_CODES, REVIEW_TEXT, caveat, reviewCaveat, orderCaveats } from './caveats.ts';

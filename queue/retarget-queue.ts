@@ -2,10 +2,11 @@
  * The producer side of the retarget queue, used by the API: submit (idempotent), status, cancel, counts.
  * Knows nothing of HTTP; returns outcomes the API maps to status codes.
  */
-import { createHash, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
 import { Queue, type Job, type JobState as BullState } from 'bullmq';
 import type { Redis } from 'ioredis';
-import { canonicalJson, planLeapSeconds, problemHash, type PlanningProblem } from '../planner/index.ts';
+import { canonicalHash, sha256Hex } from '../archive/index.ts';
+import { planLeapSeconds, problemHash, type PlanningProblem } from '../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../propagator/index.ts';
 import {
   CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
@@ -93,9 +94,9 @@ export class RetargetQueue {
     this.assertConnected();
     const leapSeconds = planLeapSeconds(this.opts.leapSeconds ?? BUILTIN_LEAP_SECONDS);
     const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
-    const requestHash = sha256(canonicalJson({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority }));
+    const requestHash = canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
     const jobId = request.idempotencyKey
-      ? `k-${sha256(`${submittedBy}\n${request.idempotencyKey}`).slice(0, 40)}`
+      ? `k-${sha256Hex(`${submittedBy}\n${request.idempotencyKey}`).slice(0, 40)}`
       : `j-${randomUUID()}`;
     if (request.idempotencyKey) {
       const existing = await this.findJob(jobId);
@@ -313,8 +314,4 @@ export function parseFailure(reason: string | undefined, cancel: CancelRecord | 
   const m = /^([A-Za-z]+)(?: \[([^\]]+)\])?: ([\s\S]*)$/.exec(reason ?? '');
   if (!m) return { name: 'Error', message: reason ?? 'unknown failure' };
   return { name: m[1] ?? 'Error', ...(m[2] ? { field: m[2] } : {}), message: m[3] ?? '' };
-}
-
-function sha256(text: string): string {
-  return createHash('sha256').update(text, 'utf8').digest('hex');
 }

@@ -3,12 +3,10 @@
  * Durations carry their unit in the name.
  */
 import { z } from 'zod';
-import { envInt, logLevelSchema, parseEnv, postgresUrlSchema, redisUrlSchema } from '../contract/env-config.ts';
+import { envInt, parseEnv, sharedServiceEnvShape } from '../contract/env-config.ts';
 
 export const workerEnvSchema = z.object({
-  REDIS_URL: redisUrlSchema.default('redis://127.0.0.1:6379'),
-  /** Prefix of every Redis key of the queues (lets several deployments share one Redis). */
-  QUEUE_PREFIX: z.string().regex(/^[a-z0-9_-]{1,32}$/, { error: 'must be 1–32 of a-z 0-9 _ -' }).default('veer'),
+  ...sharedServiceEnvShape,
   /** Jobs one worker process runs at once (each on its own planner thread). */
   WORKER_CONCURRENCY: envInt(1, 64, 1),
   /** Wall-clock limit of a job from its first start, s: covers retries, take-overs and fanned-out sample batches. */
@@ -23,15 +21,6 @@ export const workerEnvSchema = z.object({
   MC_FANOUT_MIN_SAMPLES: envInt(1, 1_000_000, 1_000),
   /** Samples per child job of a fanned-out Monte Carlo run. */
   MC_BATCH_SIZE: envInt(1, 100_000, 250),
-  /** Folder of the SQLite archive (archive.sqlite) when DATABASE_URL is unset. */
-  DATA_DIR: z.string().min(1).default('./data'),
-  /** PostgreSQL archive; when unset the archive is a SQLite file in DATA_DIR. */
-  DATABASE_URL: postgresUrlSchema.optional(),
-  /** `job-result` keeps plans only in the job's result (no archive); `archive` appends them to the archive. */
-  PLAN_SINK: z.enum(['archive', 'job-result'], { error: 'must be archive or job-result' }).default('archive'),
-  /** Seconds finished jobs are kept in Redis (status, result, cancellation records). */
-  JOB_RETENTION_S: envInt(60, 90 * 86_400, 7 * 86_400),
-  LOG_LEVEL: logLevelSchema,
 });
 
 export type WorkerConfig = z.infer<typeof workerEnvSchema>;

@@ -1,19 +1,12 @@
 /**
  * An independent re-check, in the browser, of the archive entries the server returns: each entry's hash is
- * recomputed with WebCrypto SHA-256 following the archive's published rule (archive/chain.ts: SHA-256 hex of
- * the canonical JSON of {actor, at, jobId, kind, payloadHash, planId, previousHash, sequence}, where
- * payloadHash is SHA-256 hex of the payload's canonical JSON; canonical = keys sorted by UTF-16 code units,
- * no whitespace, JSON.stringify scalars — RFC 8785 for this data). Adjacent sequences are also checked to link.
+ * recomputed with WebCrypto SHA-256 (not the server's digest) following the archive's published rule
+ * (archive/chain.ts: SHA-256 hex of the canonical JSON of {actor, at, jobId, kind, payloadHash, planId,
+ * previousHash, sequence}, where payloadHash is SHA-256 hex of the payload's canonical JSON; the canonical
+ * rule is the contract's one, contract/canonical-json.ts). Adjacent sequences are also checked to link.
  */
+import { canonicalJson } from '../../contract/index.ts';
 import type { HistoryEntry } from './plan-types.ts';
-
-export function canonical(value: unknown): string {
-  if (value === null || typeof value !== 'object') return JSON.stringify(value);
-  if (Array.isArray(value)) return `[${value.map(canonical).join(',')}]`;
-  const record = value as Record<string, unknown>;
-  const keys = Object.keys(record).filter((k) => record[k] !== undefined).sort();
-  return `{${keys.map((k) => `${JSON.stringify(k)}:${canonical(record[k])}`).join(',')}}`;
-}
 
 async function sha256Hex(text: string): Promise<string> {
   const digest = await crypto.subtle.digest('SHA-256', new TextEncoder().encode(text));
@@ -34,8 +27,8 @@ export async function checkEntries(entries: HistoryEntry[]): Promise<EntryCheck[
   const bySequence = new Map(entries.map((e) => [e.sequence, e]));
   const out: EntryCheck[] = [];
   for (const e of entries) {
-    const payloadHash = await sha256Hex(canonical(e.payload));
-    const hash = await sha256Hex(canonical({
+    const payloadHash = await sha256Hex(canonicalJson(e.payload));
+    const hash = await sha256Hex(canonicalJson({
       sequence: e.sequence, at: e.at, actor: e.actor, kind: e.kind, planId: e.planId, jobId: e.jobId, payloadHash, previousHash: e.previousHash,
     }));
     const before = bySequence.get(e.sequence - 1);

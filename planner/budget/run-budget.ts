@@ -14,7 +14,8 @@ import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-typ
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
 import { planningContext } from '../plan/planning-context.ts';
 import { SOFTWARE_VERSION } from '../../contract/software-version.ts';
-import { canonicalJson, problemHash } from '../problem-hash.ts';
+import { canonicalJson } from '../../contract/canonical-json.ts';
+import { problemHash } from '../problem-hash.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { createHash } from 'node:crypto';
 import { compareBudgetPaths } from './budget-agreement.ts';

@@ -34,7 +34,7 @@ export function describeArchiveBehaviour(factory: StoreFactory): void {
         expect(first.sequence).toBe(1);
         expect(first.previousHash).toBe(GENESIS_HASH);
         expect(first.at).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z$/);
-        // Independent computation: keys sorted, no whitespace, SHA-256 over UTF-8 (archive/canonical-json.ts).
+        // Independent computation: keys sorted, no whitespace, SHA-256 over UTF-8 (contract/canonical-json.ts).
         const problemHash = createHash('sha256').update('{"a":[1.5,"x"],"b":2}').digest('hex');
         expect(first.payload.problemHash).toBe(problemHash);
         const payloadHash = createHash('sha256').update(`{"problem":{"a":[1.5,"x"],"b":2},"problemHash":"${problemHash}"}`).digest('hex');

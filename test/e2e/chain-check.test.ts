@@ -1,11 +1,12 @@
 /**
  * The console's in-browser re-hash of archive entries (console/src/chain-check.ts, WebCrypto) against the
- * archive's own hashing (archive/chain.ts, node:crypto) — two implementations of the rule in DEVELOPERS.md
- * (SHA-256 over RFC 8785-style canonical JSON). Node 20 provides the same WebCrypto API as the browser.
+ * archive's own hashing (archive/chain.ts, node:crypto) — two digests over the one canonical JSON rule
+ * (contract/canonical-json.ts, RFC 8785-style). Node 20 provides the same WebCrypto API as the browser.
  */
 import { describe, expect, it } from 'vitest';
 import { entryHash } from '../../archive/index.ts';
-import { canonical, checkEntries } from '../../console/src/chain-check.ts';
+import { checkEntries } from '../../console/src/chain-check.ts';
+import { canonicalJson } from '../../contract/index.ts';
 import type { HistoryEntry } from '../../console/src/plan-types.ts';
 
 function chain(): HistoryEntry[] {
@@ -37,7 +38,7 @@ describe('console chain check', () => {
     });
 
     it('should sort keys and drop undefined members like the archive (RFC 8785 key order)', () => {
-      expect(canonical({ b: 1, a: { d: undefined, c: [true, null] }, A: 'x' })).toBe('{"A":"x","a":{"c":[true,null]},"b":1}');
+      expect(canonicalJson({ b: 1, a: { d: undefined, c: [true, null] }, A: 'x' })).toBe('{"A":"x","a":{"c":[true,null]},"b":1}');
     });
   });
 
