@@ -136,6 +136,10 @@ export interface CrossCheck {
   /** Method used for the plan and for the check. */
   primaryMethod: 'cowell' | 'encke';
   method: 'cowell' | 'encke';
+  /** Central-body switching in the plan's runs and in the check's (the check flips it, so a formulation
+   * error of either shows as a disagreement). Absent in plans made before the check varied it. */
+  primarySwitching?: boolean;
+  switching?: boolean;
   relativeTolerance: number;
   /** Allowed |difference| per component as a fraction of its target tolerance. */
   toleranceFraction: number;

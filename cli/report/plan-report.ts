@@ -76,10 +76,15 @@ function targetTable(plan: ManeuverPlan): string[] {
   return ['Targets (requested vs achieved):', ...table(['target', 'component', 'requested', 'achieved', 'residual', 'tolerance', 'met'], rows)];
 }
 
+/** ", switching on/off" when the plan says (plans made before the check varied switching do not). */
+function switchingText(on: boolean | undefined): string {
+  return on === undefined ? '' : on ? ' with switching' : ' without switching';
+}
+
 function crossCheckTable(plan: ManeuverPlan): string[] {
   const cc = plan.crossCheck;
   if (cc.differences.length === 0) return [];
-  return [`Cross-check (${cc.primaryMethod} vs ${cc.method} at relative tolerance ${cc.relativeTolerance}):`,
+  return [`Cross-check (${cc.primaryMethod}${switchingText(cc.primarySwitching)} vs ${cc.method}${switchingText(cc.switching)} at relative tolerance ${cc.relativeTolerance}):`,
     ...table(['component', 'plan', 'check', 'difference', 'allowed', 'ok'], cc.differences.map((d) => [
       d.component, num(d.primary, 6), num(d.check, 6), num(d.difference), num(d.allowed), d.withinTolerance && d.metByCheck ? 'yes' : 'NO',
     ]))];

@@ -1,8 +1,10 @@
 /**
  * The independent cross-check: the final burns re-propagated with the other method (Encke if the plan
- * used Cowell and vice versa) at a tolerance 100 times tighter, every target compared. It passes when each
+ * used Cowell and vice versa) AND the other central-body treatment (switching on if the plan ran without
+ * it, off if with it) at a tolerance 100 times tighter, every target compared. It passes when each
  * component differs by at most `crossCheckToleranceFraction` × its tolerance AND the re-propagation itself
- * meets every target. Same ephemeris and force model: it checks the numerics, not the models.
+ * meets every target. Same ephemeris and force model: it checks the numerics and the formulation (an error
+ * in either method or in the switched equations disagrees), not the models.
  */
 import type { CrossCheck } from '../../contract/plan-types.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
@@ -14,20 +16,24 @@ export async function runCrossCheck(ctx: PlanningContext, settings: BurnSetting[
   const fm = ctx.problem.forceModel;
   const method = fm.method === 'cowell' ? 'encke' : 'cowell';
   const relativeTolerance = Math.max(1e-13, fm.relativeTolerance / 100);
+  const switching = !fm.switching;
   const fraction = ctx.problem.limits.crossCheckToleranceFraction;
   let ev: Awaited<ReturnType<typeof evaluateTrajectory>>;
   try {
-    ev = await evaluateTrajectory(ctx.evaluation, settings, { withStm: false, method, relativeTolerance, signal });
+    ev = await evaluateTrajectory(ctx.evaluation, settings, { withStm: false, method, switching, relativeTolerance, signal });
   } catch (error) {
     if ((error as Error).name === 'CancelledError') throw error;
     ev = { ok: false, reason: `${(error as Error).name}: ${(error as Error).message}`, impact: null, burns: [] };
   }
-  const base = { primaryMethod: fm.method, method, relativeTolerance, toleranceFraction: fraction } as const;
+  const base = {
+    primaryMethod: fm.method, method, primarySwitching: fm.switching, switching, relativeTolerance, toleranceFraction: fraction,
+  } as const;
+  const how = `${method}${switching ? ' with' : ' without'} central-body switching`;
   const comps = ctx.components.slice(0, ctx.targetCount);
   if (!ev.ok) {
     return {
       check: {
-        ...base, passed: false, message: `the ${method} re-propagation failed: ${ev.reason}`,
+        ...base, passed: false, message: `the ${how} re-propagation failed: ${ev.reason}`,
         differences: comps.map((c, i) => ({
           component: c.component, targetIndex: c.targetIndex, primary: primary[i], check: null, difference: null,
           allowed: fraction * c.tolerance, withinTolerance: false, metByCheck: false,
@@ -52,7 +58,7 @@ export async function runCrossCheck(ctx: PlanningContext, settings: BurnSetting[
   const message = fallback.length > 0
     ? `not independent: ${fallback.join('; ')}`
     : passed
-    ? `${method} at relative tolerance ${relativeTolerance} agrees on every target within ${fraction} × its tolerance and meets every target`
-    : `${method} at relative tolerance ${relativeTolerance} disagrees: ${bad.map((d) => `${d.component} differs by ${d.difference?.toPrecision(3)} (allowed ${d.allowed.toPrecision(3)})${d.metByCheck ? '' : ', target not met'}`).join('; ')}`;
+    ? `${how} at relative tolerance ${relativeTolerance} agrees on every target within ${fraction} × its tolerance and meets every target`
+    : `${how} at relative tolerance ${relativeTolerance} disagrees: ${bad.map((d) => `${d.component} differs by ${d.difference?.toPrecision(3)} (allowed ${d.allowed.toPrecision(3)})${d.metByCheck ? '' : ', target not met'}`).join('; ')}`;
   return { check: { ...base, passed, message, differences }, propagations: ev.propagations, evaluations: ev.evaluations };
 }

@@ -165,6 +165,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
     sensitivities,
     crossCheck: {
       passed: false, primaryMethod: fm.method, method: fm.method === 'cowell' ? 'encke' : 'cowell',
+      primarySwitching: fm.switching, switching: !fm.switching,
       relativeTolerance: Math.max(1e-13, fm.relativeTolerance / 100), toleranceFraction: problem.limits.crossCheckToleranceFraction,
       differences: [], message: 'not run: the plan did not converge',
     },

@@ -37,6 +37,8 @@ export interface EvaluationContext {
 export interface EvaluationOptions {
   withStm: boolean;
   method: PropagationMethod;
+  /** Central-body switching; @defaultValue the problem's forceModel.switching (the cross-check flips it). */
+  switching?: boolean;
   relativeTolerance: number;
   /** Collect states every this many seconds for the plot. */
   outputStepS?: number;
@@ -148,7 +150,7 @@ export async function evaluateTrajectory(
     const result = await propagateAsync({
       initial: state, endEpochTdbS: endTdbS, forces: forcesFor(problem, mass), ephemeris: ctx.ephemeris,
       method: opts.method, relativeTolerance: opts.relativeTolerance, withStm: stm, events,
-      switching: problem.forceModel.switching ? { enabled: true } : undefined,
+      switching: (opts.switching ?? problem.forceModel.switching) ? { enabled: true } : undefined,
       outputStepS: opts.outputStepS,
     }, { signal: opts.signal });
     propagations += 1;

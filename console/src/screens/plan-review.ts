@@ -71,11 +71,17 @@ function targetTable(plan: ManeuverPlan): HTMLElement {
       h('td', { class: 'nowrap' }, t.met ? h('span', { class: 'ok' }, '✓ met') : h('span', { class: 'bad' }, '✗ not met'))))));
 }
 
+/** " with/without central-body switching" when the plan records it (older plans do not). */
+function switchingText(on: boolean | undefined): string {
+  return on === undefined ? '' : on ? ' with central-body switching' : ' without central-body switching';
+}
+
 function crossCheckSection(plan: ManeuverPlan): HTMLElement {
   const cc = plan.crossCheck;
   return h('section', { class: 'card', 'aria-labelledby': 'cc-heading', 'data-testid': 'cross-check' },
     h('h2', { id: 'cc-heading' }, 'Independent cross-check ', cc.passed ? h('span', { class: 'badge ok-badge' }, 'passed') : h('span', { class: 'badge bad-badge' }, 'failed')),
-    h('p', {}, `Planned with ${cc.primaryMethod}; re-propagated with ${cc.method} at relative tolerance ${sig(cc.relativeTolerance, 2)}. ${cc.message}`),
+    h('p', {}, `Planned with ${cc.primaryMethod}${switchingText(cc.primarySwitching)}; re-propagated with ${cc.method}`
+      + `${switchingText(cc.switching)} at relative tolerance ${sig(cc.relativeTolerance, 2)}. ${cc.message}`),
     cc.differences.length ? h('table', { class: 'data' },
       h('caption', { class: 'sr-only' }, 'Cross-check differences per target component'),
       h('thead', {}, h('tr', {}, ['Component', 'Plan', 'Check', 'Difference', 'Allowed', 'Within'].map((c) => h('th', { scope: 'col' }, c)))),
