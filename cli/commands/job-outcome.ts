@@ -10,7 +10,7 @@ import { callApi, PROPOSAL_NOTICE, type Remote } from './review-http.ts';
 export const JOB_EXIT = {
   /** Completed: a converged plan whose cross-check passed was proposed (it still needs review). */
   proposed: 0,
-  /** The job failed (error named), or the CLI could not follow it. */
+  /** The job failed (error named). */
   failed: 1,
   /** Bad usage, invalid problem, or a request the server refused (4xx). */
   refused: 2,
@@ -18,11 +18,14 @@ export const JOB_EXIT = {
   notUsable: 3,
   /** The job was cancelled. */
   cancelled: 4,
+  /** Contact with the server was lost while following the job: its state is unknown (it may still run). */
+  lostContact: 5,
 } as const;
 
 export const JOB_EXIT_USAGE = `Exit codes: 0 a converged, cross-checked plan was proposed (still only a proposal); 3 completed but not
 converged or cross-check failed (or not confirmed): no usable plan; 1 the job failed; 4 the job was cancelled;
-2 bad usage, invalid problem or a request the server refused.`;
+5 contact with the server lost, job state unknown (it may still run: resume with veer watch <jobId>; do not
+resubmit); 2 bad usage, invalid problem or a request the server refused.`;
 
 /** The API's job status (GET /v1/jobs/{jobId}) and its progress reports, as the contract defines them. */
 export type JobStatusAnswer = JobStatus;

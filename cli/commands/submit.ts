@@ -85,7 +85,7 @@ export const submitCommand: CliCommand = {
     } catch (error) {
       if (!(error instanceof ApiCallError)) throw error;
       process.stderr.write(`veer submit: following job ${answer.jobId}: ${error.message}\n`);
-      return error.status < 500 ? exitCodeFor(error) : JOB_EXIT.failed;
+      return error.status < 500 ? exitCodeFor(error) : JOB_EXIT.lostContact;
     }
   },
 };

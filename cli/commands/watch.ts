@@ -82,6 +82,23 @@ function progressDisplay(jobId: string): { state(s: JobStatusAnswer): void; upda
 const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
 
 /**
+ * Contact lost: the job's state is unknown, which is not a failure — it may still run and complete. Says so
+ * with the job id and how to resume, so a script does not resubmit a running job (exit JOB_EXIT.lostContact).
+ */
+function lostContact(jobId: string, lastError: string, json: boolean): number {
+  const lines = [
+    `veer watch: lost contact with the server while following job ${jobId} (${lastError}).`,
+    `The job's state is UNKNOWN: it may still be running or have finished. Do not resubmit it.`,
+    `Resume with: veer watch ${jobId}   (or check once: veer status ${jobId})`,
+  ];
+  process.stderr.write(`${lines.join('\n')}\n`);
+  if (json) {
+    process.stdout.write(JSON.stringify({ jobId, status: null, exitCode: JOB_EXIT.lostContact, outcome: lines }, null, 2) + '\n');
+  }
+  return JOB_EXIT.lostContact;
+}
+
+/**
  * Follows `jobId` to its end and prints the outcome; resolves to the exit code (JOB_EXIT). API refusals
  * (401/403/404…) reject with ApiCallError.
  */
@@ -108,8 +125,7 @@ export async function watchJob(remote: Remote, jobId: string, json: boolean): Pr
       failures += 1;
       if (failures > MAX_RECONNECTS) {
         display.end();
-        process.stderr.write(`veer watch: gave up following job ${jobId}: ${lastError}. The job itself may still be running (veer status ${jobId}).\n`);
-        return JOB_EXIT.failed;
+        return lostContact(jobId, lastError, json);
       }
       display.end();
       process.stderr.write(`veer watch: ${lastError}; reopening in ${RECONNECT_DELAY_MS / 1000} s (${failures}/${MAX_RECONNECTS})\n`);
