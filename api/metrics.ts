@@ -3,7 +3,7 @@
  * (read from Redis at scrape time), job run duration (observed from queue events), HTTP request durations.
  */
 import { Counter, Gauge, Histogram, Registry, collectDefaultMetrics } from 'prom-client';
-import { JOB_NAMES, type JobEventHub, type RetargetQueue } from '../queue/index.ts';
+import { JOB_NAMES, leapSecondsExpired, leapSecondsExpiryMs, type JobEventHub, type RetargetQueue } from '../queue/index.ts';
 
 export class ServiceMetrics {
   readonly registry = new Registry();
@@ -32,6 +32,17 @@ export class ServiceMetrics {
     new Gauge({
       name: 'veer_workers', help: 'Worker connections seen on the queue', registers,
       collect: async function collect(this: Gauge) { this.set(await queue.workerCount()); },
+    });
+    new Gauge({
+      name: 'veer_leap_seconds_expiry_timestamp_seconds', help: 'Expiry of the leap-second table in use (Unix seconds, 00:00 UTC of its #@ day)',
+      labelNames: ['source'], registers,
+      collect: function collect(this: Gauge<'source'>) {
+        this.set({ source: queue.leapSeconds.origin }, leapSecondsExpiryMs(queue.leapSeconds) / 1000);
+      },
+    });
+    new Gauge({
+      name: 'veer_leap_seconds_expired', help: '1 when the leap-second table in use has expired (UTC past it is assumed, with a plan caveat)', registers,
+      collect: function collect(this: Gauge) { this.set(leapSecondsExpired(queue.leapSeconds, new Date()) ? 1 : 0); },
     });
     this.jobDuration = new Histogram({
       name: 'veer_job_duration_seconds', help: 'Run time of finished retarget jobs (processing start to end)',

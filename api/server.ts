@@ -8,7 +8,7 @@ import type { AddressInfo } from 'node:net';
 import type { Logger } from 'pino';
 import { openArchive, type PlanArchive } from '../archive/index.ts';
 import { maskConfigValue } from '../contract/env-config.ts';
-import { JobEventHub, RetargetQueue } from '../queue/index.ts';
+import { JobEventHub, loadServiceLeapSeconds, logLeapSecondsAtStart, RetargetQueue } from '../queue/index.ts';
 import { createApp } from './app.ts';
 import { openTokenStore, type TokenStore } from './auth/index.ts';
 import type { ApiConfig } from './config.ts';
@@ -39,8 +39,11 @@ function reportRedisState(queue: RetargetQueue, redisUrl: string, logger: Logger
 
 /** Opens Redis, the archive and the token store, and listens on config.HOST:config.PORT (0 = any free port). */
 export async function startApiServer(config: ApiConfig, logger: Logger, overrides: { tokens?: TokenStore; archive?: PlanArchive | null } = {}): Promise<ApiServer> {
+  const leapSeconds = await loadServiceLeapSeconds(config.VEER_LEAP_SECONDS);
+  logLeapSecondsAtStart(leapSeconds, logger, new Date());
   const queue = new RetargetQueue({
     redisUrl: config.REDIS_URL, prefix: config.QUEUE_PREFIX, attempts: config.JOB_ATTEMPTS, retentionS: config.JOB_RETENTION_S,
+    leapSeconds,
   });
   // Not awaited: the API listens at once and reports not-ready (/ready 503, job routes 503) until Redis answers.
   const events = new JobEventHub(config.REDIS_URL, config.QUEUE_PREFIX);

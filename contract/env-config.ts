@@ -86,5 +86,8 @@ export const sharedServiceEnvShape = {
   PLAN_SINK: z.enum(['archive', 'job-result'], { error: 'must be archive or job-result' }).default('archive'),
   /** Seconds finished jobs are kept in Redis (status, result, cancellation records). */
   JOB_RETENTION_S: envInt(60, 90 * 86_400, 7 * 86_400),
+  /** A leap-seconds.list (IERS / tz format) to read UTC epochs with; the built-in table when unset. The API's
+   * table travels with each job; a worker uses its own only for jobs queued without one. */
+  VEER_LEAP_SECONDS: z.string().min(1).optional(),
   LOG_LEVEL: logLevelSchema,
 };

@@ -105,6 +105,12 @@ export const readySchema = z.object({
   ready: z.boolean(),
   redis: z.object({ ok: z.boolean(), latencyMs: z.number().nullable(), error: z.string().optional() }),
   workers: z.object({ ok: z.boolean(), count: z.number().int() }),
+  /** The leap-second table UTC epochs are read with; `expired` never makes the service unready (past the
+   * expiry plans carry a caveat instead). */
+  leapSeconds: z.object({
+    source: z.enum(['built-in', 'file']), path: z.string().nullable(), sha256: z.string().nullable(),
+    expiresUtc: z.string(), expired: z.boolean(),
+  }),
 });
 
 /** Shown with every plan. */

@@ -20,6 +20,7 @@ export { startWorkerFromConfig } from './worker-from-config.ts';
 export { PlannerPool, type PlannerPoolOptions } from './planner-pool.ts';
 export { isFinalFailure, sampleBatches } from './processor.ts';
 export { findProblemIssue, type ProblemIssue } from './job-request-check.ts';
+export { loadServiceLeapSeconds, leapSecondsExpired, leapSecondsExpiryMs, logLeapSecondsAtStart } from './leap-seconds-file.ts';
 export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from '../contract/env-config.ts';
 export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './worker-config.ts';
 export { createRedis } from './connection.ts';

@@ -3,14 +3,16 @@
  * the caller hears about them at once (HTTP 400 with the field) instead of from a failed job.
  */
 import { checkProblem, type PlanningProblem } from '../planner/index.ts';
+import type { LeapSecondTable } from '../propagator/index.ts';
 
 /** A semantic problem with a submitted problem: `field` is the dotted path inside the problem. */
 export interface ProblemIssue { field: string; message: string }
 
-/** Returns the first semantic issue of a schema-valid problem, or null when it passes. */
-export function findProblemIssue(problem: PlanningProblem): ProblemIssue | null {
+/** Returns the first semantic issue of a schema-valid problem, or null when it passes; UTC epochs are read
+ * through `leapSeconds` (the table the job will carry to the worker). */
+export function findProblemIssue(problem: PlanningProblem, leapSeconds: LeapSecondTable): ProblemIssue | null {
   try {
-    checkProblem(problem);
+    checkProblem(problem, leapSeconds);
     return null;
   } catch (error) {
     const e = error as Error & { field?: unknown };

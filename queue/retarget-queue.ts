@@ -79,6 +79,9 @@ export class RetargetQueue {
 
   get prefix(): string { return this.opts.prefix; }
 
+  /** The leap-second table problems are validated with and that each job carries to the worker. */
+  get leapSeconds(): LeapSecondTable { return this.opts.leapSeconds ?? BUILTIN_LEAP_SECONDS; }
+
   /** The job with this id, or undefined when there is none or the id is not one this queue issues. */
   async findJob(jobId: string): Promise<Job<RetargetJobData, RetargetJobResult> | undefined> {
     this.assertConnected();
@@ -92,7 +95,7 @@ export class RetargetQueue {
    */
   async submit(request: JobRequest, submittedBy: string): Promise<SubmitOutcome> {
     this.assertConnected();
-    const leapSeconds = planLeapSeconds(this.opts.leapSeconds ?? BUILTIN_LEAP_SECONDS);
+    const leapSeconds = planLeapSeconds(this.leapSeconds);
     const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
     const requestHash = canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
     const jobId = request.idempotencyKey

@@ -4,16 +4,19 @@ import type { PlanSink } from './plan-sink.ts';
 import { startRetargetWorker, type RetargetWorker } from './retarget-worker.ts';
 import { createPlanSink } from './sink-from-config.ts';
 import type { WorkerConfig } from './worker-config.ts';
+import { loadServiceLeapSeconds, logLeapSecondsAtStart } from './leap-seconds-file.ts';
 
 /** Opens the configured plan sink, then starts a worker that writes to it; the caller closes both (worker first). */
 export async function startWorkerFromConfig(config: WorkerConfig, logger: Logger): Promise<{ worker: RetargetWorker; sink: PlanSink }> {
+  const leapSeconds = await loadServiceLeapSeconds(config.VEER_LEAP_SECONDS);
+  logLeapSecondsAtStart(leapSeconds, logger, new Date());
   const sink = await createPlanSink(config);
   const worker = await startRetargetWorker({
     redisUrl: config.REDIS_URL, prefix: config.QUEUE_PREFIX, sink, logger,
     concurrency: config.WORKER_CONCURRENCY, jobTimeLimitS: config.JOB_TIME_LIMIT_S,
     lockDurationMs: config.LOCK_DURATION_MS, stalledIntervalMs: config.STALLED_INTERVAL_MS,
     maxStalledCount: config.MAX_STALLED_COUNT, fanOutMinSamples: config.MC_FANOUT_MIN_SAMPLES,
-    batchSize: config.MC_BATCH_SIZE, retentionS: config.JOB_RETENTION_S,
+    batchSize: config.MC_BATCH_SIZE, retentionS: config.JOB_RETENTION_S, leapSeconds,
   });
   return { worker, sink };
 }

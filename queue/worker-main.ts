@@ -36,5 +36,5 @@ async function main(): Promise<void> {
 
 main().catch((err: unknown) => {
   process.stderr.write(`veer worker: ${err instanceof Error ? err.message : String(err)}\n`);
-  process.exit(1);
+  process.exit(err instanceof ConfigError ? 2 : 1); // e.g. a VEER_LEAP_SECONDS file that fails its checks
 });

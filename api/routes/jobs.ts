@@ -43,7 +43,7 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
       }
       request.idempotencyKey = parsed.data;
     }
-    const issue = findProblemIssue(request.problem);
+    const issue = findProblemIssue(request.problem, deps.queue.leapSeconds);
     if (issue) {
       deps.metrics.submissions.inc({ outcome: 'invalid' });
       throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.problem.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);

@@ -1,6 +1,6 @@
 /** Liveness, readiness (Redis answers, a worker is connected), Prometheus metrics, the OpenAPI document. */
 import { z } from 'zod';
-import { QUEUE_RETRY_AFTER_S } from '../../queue/index.ts';
+import { leapSecondsExpired, QUEUE_RETRY_AFTER_S } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { buildOpenApi } from '../openapi.ts';
 import type { ApiRoutes } from '../route-table.ts';
@@ -13,7 +13,7 @@ export function serviceRoutes(routes: ApiRoutes, deps: AppDeps): void {
   }, (_req, res) => { res.json({ status: 'ok' }); });
 
   routes.add({
-    method: 'get', path: '/ready', tags: ['service'], summary: 'Readiness: Redis reachable and at least one worker seen',
+    method: 'get', path: '/ready', tags: ['service'], summary: 'Readiness: Redis reachable and at least one worker seen (with the leap-second table in use and its expiry)',
     responses: { 200: { description: 'Ready', schema: readySchema }, 503: { description: 'Not ready', schema: readySchema } },
   }, async (_req, res) => {
     let redis: z.infer<typeof readySchema>['redis'];
@@ -25,7 +25,12 @@ export function serviceRoutes(routes: ApiRoutes, deps: AppDeps): void {
     } catch (e) {
       redis = { ok: false, latencyMs: null, error: e instanceof Error ? e.message : 'unreachable' };
     }
-    const body = { ready: redis.ok && workers > 0, redis, workers: { ok: workers > 0, count: workers } };
+    const table = deps.queue.leapSeconds;
+    const leapSeconds = {
+      source: table.origin, path: table.path, sha256: table.sha256, expiresUtc: table.expiresUtc,
+      expired: leapSecondsExpired(table, new Date()),
+    };
+    const body = { ready: redis.ok && workers > 0, redis, workers: { ok: workers > 0, count: workers }, leapSeconds };
     if (!body.ready) res.set('Retry-After', String(QUEUE_RETRY_AFTER_S));
     res.status(body.ready ? 200 : 503).json(body);
   });

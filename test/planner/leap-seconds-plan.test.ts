@@ -7,28 +7,13 @@ import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { leapSecondsFromFileBytes, parseProblem, planManeuvers, problemHash } from '../../planner/index.ts';
-import type { ManeuverPlan, PlanningProblemInput } from '../../planner/index.ts';
+import type { ManeuverPlan } from '../../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS, formatEpoch, parseEpoch } from '../../propagator/index.ts';
-import { T0_TEXT, twoBodyProblem } from './two-body-fixture.ts';
+import { twoBodyProblemInUtc as utcProblem } from './two-body-fixture.ts';
 
 const INVENTED_PATH = 'test/fixtures/leap-seconds/invented-2027.list';
 const INVENTED_BYTES = readFileSync(INVENTED_PATH);
 const INVENTED = leapSecondsFromFileBytes(INVENTED_BYTES, INVENTED_PATH);
-
-/** The two-body fixture moved to `startUtc`, every epoch written in UTC (two-body: the answer does not
- * depend on the date). */
-function utcProblem(startUtc: string): PlanningProblemInput {
-  const p = twoBodyProblem({ dispersion: { samples: 0, seed: 1 } });
-  const shift = parseEpoch(startUtc) - parseEpoch(T0_TEXT);
-  const utc = (text: string): string => formatEpoch(parseEpoch(text) + shift, 'UTC', 6).replace(' UTC', 'Z');
-  return {
-    ...p,
-    initialState: { ...p.initialState, epoch: utc(p.initialState.epoch) },
-    endEpoch: utc(p.endEpoch),
-    burns: p.burns.map((b) => ({ ...b, epoch: utc(b.epoch) })),
-    targets: p.targets.map((t) => ('epoch' in t ? { ...t, epoch: utc(t.epoch) } : t)),
-  } as PlanningProblemInput;
-}
 
 describe('plans and the leap-second table', () => {
   describe('when a UTC problem is dated after the built-in table\'s expiry (2026-06-28)', () => {

@@ -33,3 +33,18 @@ export function twoBodyProblem(overrides: Partial<PlanningProblemInput> = {}): P
     ...overrides,
   };
 }
+
+/** The same problem moved to start at `startUtc`, every epoch written in UTC to the microsecond (two-body
+ * about the Earth alone: the answer does not depend on the date). For leap-second tests. */
+export function twoBodyProblemInUtc(startUtc: string): PlanningProblemInput {
+  const p = twoBodyProblem({ dispersion: { samples: 0, seed: 1 } });
+  const shift = parseEpoch(startUtc) - parseEpoch(T0_TEXT);
+  const utc = (text: string): string => formatEpoch(parseEpoch(text) + shift, 'UTC', 6).replace(' UTC', 'Z');
+  return {
+    ...p,
+    initialState: { ...p.initialState, epoch: utc(p.initialState.epoch) },
+    endEpoch: utc(p.endEpoch),
+    burns: p.burns.map((b) => ({ ...b, epoch: utc(b.epoch) })),
+    targets: p.targets.map((t) => ('epoch' in t ? { ...t, epoch: utc(t.epoch) } : t)),
+  } as PlanningProblemInput;
+}
