@@ -6,7 +6,7 @@ import * as ops from './operations.ts';
 import type { ArchiveTx } from './operations.ts';
 import type {
   AppendResult, ArchiveEntry, PlanRecord, RecordJobCancelledInput, RecordJobFailedInput, RecordJobSubmittedInput,
-  RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, ReviewGuard,
+  RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, RecordStudyInput, ReviewGuard, StudyRecord,
 } from '../contract/archive-types.ts';
 
 export abstract class ArchiveWrites {
@@ -29,5 +29,12 @@ export abstract class ArchiveWrites {
   }
   recordReview(input: RecordReviewInput, guard?: ReviewGuard): Promise<{ entry: ArchiveEntry; plan: PlanRecord }> {
     return this.write((tx) => ops.recordReview(tx, this.now, input, guard));
+  }
+  recordStudy(input: RecordStudyInput): Promise<AppendResult> {
+    return this.write((tx) => ops.recordStudy(tx, this.now, input));
+  }
+  /** Read under the write transaction (both stores offer entriesOfJob there); studies are read rarely. */
+  getStudyByJob(jobId: string): Promise<StudyRecord | undefined> {
+    return this.write((tx) => ops.studyOfJob(tx, jobId));
   }
 }

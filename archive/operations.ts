@@ -12,7 +12,8 @@ import { ArchiveConflictError, ArchiveInputError, ArchiveIntegrityError, Archive
 import { applyToJob, applyToPlan, planFromProposal } from './projection.ts';
 import type {
   AppendResult, ArchiveEntry, EntryKind, JobRecord, PlanRecord, RecordJobCancelledInput, RecordJobFailedInput,
-  RecordJobSubmittedInput, RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, ReviewGuard,
+  RecordJobSubmittedInput, RecordPlanProposedInput, RecordPlanProposedResult, RecordReviewInput, RecordStudyInput, ReviewGuard,
+  StudyRecord, StudyRecordedPayload,
 } from '../contract/archive-types.ts';
 
 /** What a store offers inside its write transaction. Reads see the locked, current state. */
@@ -124,6 +125,43 @@ export function recordJobFailed(tx: ArchiveTx, now: () => Date, input: RecordJob
 
 export function recordJobCancelled(tx: ArchiveTx, now: () => Date, input: RecordJobCancelledInput): Promise<AppendResult> {
   return recordJobEnd(tx, now, 'job-cancelled', input.jobId, input.actor, { reason: input.reason ?? 'cancelled' });
+}
+
+/**
+ * Records a job's study once (idempotent by jobId). A study entry names no plan: it can never be reviewed.
+ * A job that already ended (failed, cancelled) or produced a plan gets no study.
+ */
+export async function recordStudy(tx: ArchiveTx, now: () => Date, input: RecordStudyInput): Promise<AppendResult> {
+  requireText('jobId', input.jobId);
+  requireText('actor', input.actor);
+  requireText('submittedBy', input.submittedBy);
+  const study = input.study;
+  if (study === null || typeof study !== 'object') throw new ArchiveInputError('study', 'must be an object');
+  requireText('study.kind', study.kind);
+  requireText('study.problemHash', study.problemHash);
+  requireText('study.spacecraftName', study.spacecraftName);
+  if (!Array.isArray(study.caveats) || study.caveats.length === 0) throw new ArchiveInputError('study.caveats', 'must be a non-empty list');
+  const already = await tx.entriesOfJob(input.jobId, ['study-recorded']);
+  if (already.length > 0) return { created: false, entries: already };
+  const [ended] = await tx.entriesOfJob(input.jobId, ['job-failed', 'job-cancelled', 'plan-proposed']);
+  if (ended) {
+    const state = ended.kind === 'job-failed' ? 'failed' : ended.kind === 'job-cancelled' ? 'cancelled' : 'proposed';
+    throw new ArchiveConflictError(`job ${input.jobId} already ended (${ended.kind}, entry ${ended.sequence}); no study is recorded for it`, state);
+  }
+  const payload: StudyRecordedPayload = {
+    studyKind: study.kind, study, studyHash: canonicalHash(study), problemHash: study.problemHash, submittedBy: input.submittedBy,
+  };
+  const entry = await append(tx, now, { actor: input.actor, kind: 'study-recorded', planId: null, jobId: input.jobId,
+    payload: payload as unknown as Record<string, unknown> });
+  return { created: true, entries: [entry] };
+}
+
+/** The study a job recorded, from its `study-recorded` entry. */
+export async function studyOfJob(tx: ArchiveTx, jobId: string): Promise<StudyRecord | undefined> {
+  const [entry] = await tx.entriesOfJob(jobId, ['study-recorded']);
+  if (!entry) return undefined;
+  const p = entry.payload as unknown as StudyRecordedPayload;
+  return { jobId, sequence: entry.sequence, at: entry.at, submittedBy: p.submittedBy, studyHash: p.studyHash, study: p.study };
 }
 
 /** Plan-record fields the review rules or the decision depend on. */

@@ -4,7 +4,7 @@
  */
 
 /** The kinds of entry. Every transition of a job or plan is exactly one entry. */
-export const ENTRY_KINDS = ['job-submitted', 'plan-proposed', 'review', 'plan-superseded', 'job-failed', 'job-cancelled'] as const;
+export const ENTRY_KINDS = ['job-submitted', 'plan-proposed', 'review', 'plan-superseded', 'job-failed', 'job-cancelled', 'study-recorded'] as const;
 export type EntryKind = (typeof ENTRY_KINDS)[number];
 
 /** Plan states, in plain words. A not-converged plan stays `proposed` but is flagged and can never be approved. */
@@ -52,6 +52,27 @@ export interface PlanSupersededPayload { supersededBy: string; reason: string }
 export interface JobFailedPayload { errorName: string; message: string }
 /** Payload of `job-cancelled`. */
 export interface JobCancelledPayload { reason: string }
+/** Payload of `study-recorded`: a study (e.g. a Δv budget) with its kind, problem hash and canonical hash.
+ * A study is never a plan: its entry has no planId, so no review can ever name it. */
+export interface StudyRecordedPayload { studyKind: string; study: ArchivableStudy; studyHash: string; problemHash: string; submittedBy: string }
+
+/** What the archive needs to know about a study; the whole study object is stored. */
+export interface ArchivableStudy {
+  kind: string;
+  problemHash: string;
+  softwareVersion: string;
+  spacecraftName: string;
+  caveats: ReadonlyArray<{ code: string; severity: string; text: string }>;
+}
+export interface RecordStudyInput {
+  jobId: string;
+  /** Who writes it (usually the worker's name). */
+  actor: string;
+  submittedBy: string;
+  study: ArchivableStudy;
+}
+/** A recorded study: its entry and the study document. */
+export interface StudyRecord { jobId: string; sequence: number; at: string; submittedBy: string; studyHash: string; study: ArchivableStudy }
 
 /**
  * What the archive needs to know about a plan. The planner's ManeuverPlan is structurally assignable to it
@@ -194,6 +215,14 @@ export interface PlanArchive {
    * (ArchiveConflictError otherwise — so of two concurrent reviews exactly one wins); then `guard` runs.
    */
   recordReview(input: RecordReviewInput, guard?: ReviewGuard): Promise<{ entry: ArchiveEntry; plan: PlanRecord }>;
+  /**
+   * Records the study a job produced, exactly once per job (idempotent by jobId). A study is never a plan:
+   * its entry names no plan, so it can never be reviewed or approved. A job already recorded as failed or
+   * cancelled gets no study (ArchiveConflictError).
+   */
+  recordStudy(input: RecordStudyInput): Promise<AppendResult>;
+  /** The study a job recorded, if any. */
+  getStudyByJob(jobId: string): Promise<StudyRecord | undefined>;
   getPlan(planId: string): Promise<PlanRecord | undefined>;
   getPlanByJob(jobId: string): Promise<PlanRecord | undefined>;
   /** The full plan document as archived in its plan-proposed entry. */

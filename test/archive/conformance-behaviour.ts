@@ -28,6 +28,36 @@ export function describeArchiveBehaviour(factory: StoreFactory): void {
       return (await archive.recordPlanProposed({ jobId, actor: 'worker-1', submittedBy, plan: makePlan(options) })).planId;
     }
 
+    describe('when a job records a study', () => {
+      const study = { kind: 'delta-v-budget', problemHash: 'f'.repeat(64), softwareVersion: 'veer test', spacecraftName: 'Kestrel-7',
+        caveats: [{ code: 'PROPOSAL_REQUIRES_REVIEW', severity: 'critical', text: 'review' }], totals: { p99MS: 7.3 } };
+      it('should record it once, with no plan, and give it back whole', async () => {
+        await archive.recordJobSubmitted({ jobId: 's1', actor: 'ann', problem: PROBLEM });
+        const first = await archive.recordStudy({ jobId: 's1', actor: 'worker-1', submittedBy: 'ann', study });
+        expect(first.created).toBe(true);
+        expect(first.entries[0].kind).toBe('study-recorded');
+        expect(first.entries[0].planId).toBeNull();
+        const again = await archive.recordStudy({ jobId: 's1', actor: 'worker-2', submittedBy: 'ann', study });
+        expect(again.created).toBe(false);
+        expect(again.entries[0].sequence).toBe(first.entries[0].sequence);
+        const stored = await archive.getStudyByJob('s1');
+        expect(stored?.study).toEqual(study);
+        expect(stored?.studyHash).toBe(createHash('sha256').update(JSON.stringify({
+          caveats: study.caveats, kind: study.kind, problemHash: study.problemHash, softwareVersion: study.softwareVersion,
+          spacecraftName: study.spacecraftName, totals: study.totals,
+        })).digest('hex'));
+        expect(await archive.getPlanByJob('s1')).toBeUndefined();
+        expect((await archive.verify()).ok).toBe(true);
+      });
+
+      it('should refuse a study for a job that already failed', async () => {
+        await archive.recordJobSubmitted({ jobId: 's2', actor: 'ann', problem: PROBLEM });
+        await archive.recordJobFailed({ jobId: 's2', actor: 'worker-1', errorName: 'Error', message: 'x' });
+        await expect(archive.recordStudy({ jobId: 's2', actor: 'worker-1', submittedBy: 'ann', study })).rejects.toBeInstanceOf(ArchiveConflictError);
+        expect(await archive.getStudyByJob('s2')).toBeUndefined();
+      });
+    });
+
     describe('when entries are appended', () => {
       it('should chain them from the genesis hash with hashes over the canonical form', async () => {
         const first = (await archive.recordJobSubmitted({ jobId: 'j1', actor: 'ann', problem: { b: 2, a: [1.5, 'x'] } })).entries[0];
