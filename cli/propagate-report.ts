@@ -1,5 +1,8 @@
 /** Output of `veer propagate`: the readable report and the stable JSON contract (documented in README). */
-import { formatEpoch, type PropagationResult, type StateVector } from '../propagator/index.ts';
+import {
+  formatEpoch, isUtcPastLeapSecondExpiry, lastTaiMinusUtcS, type LeapSecondTable, type PropagationResult, type StateVector,
+  utcTextOrNull,
+} from '../propagator/index.ts';
 
 /** Version tag of the JSON contract; bump on any incompatible change. */
 export const PROPAGATE_JSON_SCHEMA = 'veer.propagate.result/1';
@@ -16,13 +19,33 @@ export interface PropagateRunInfo {
   centralBody: string;
   perturbingBodies: string[];
   wallTimeMs: number;
+  /** The table UTC epochs were read and are shown through. */
+  leapSeconds: LeapSecondTable;
 }
 
-function stateJson(s: StateVector): Record<string, unknown> {
+/** `<UTC> = <TDB>` (TDB alone before 1972, where UTC has no whole-second offset). */
+function epochText(tdbS: number, table: LeapSecondTable, digits: number): string {
+  const utc = utcTextOrNull(tdbS, table, digits);
+  return utc === null ? formatEpoch(tdbS, 'TDB', digits) : `${utc} = ${formatEpoch(tdbS, 'TDB', digits)}`;
+}
+
+function stateJson(s: StateVector, table: LeapSecondTable): Record<string, unknown> {
   return {
-    epochTdbS: s.epochTdbS, epoch: formatEpoch(s.epochTdbS, 'TDB', 6), centre: s.centre, frame: s.frame,
-    positionKm: s.positionKm, velocityKmS: s.velocityKmS,
+    epochTdbS: s.epochTdbS, epoch: formatEpoch(s.epochTdbS, 'TDB', 6), utc: utcTextOrNull(s.epochTdbS, table, 6),
+    centre: s.centre, frame: s.frame, positionKm: s.positionKm, velocityKmS: s.velocityKmS,
   };
+}
+
+/** The `run.leapSeconds` block and, past the table's expiry, the note that UTC there is assumed. */
+function leapSecondsJson(table: LeapSecondTable): Record<string, unknown> {
+  return { source: table.origin, path: table.path, sha256: table.sha256, expiresUtc: table.expiresUtc };
+}
+
+/** The warning shown when epochs lie past the table's expiry (null otherwise). */
+function pastExpiryNote(table: LeapSecondTable, tdbS: number[]): string | null {
+  if (!tdbS.some((t) => isUtcPastLeapSecondExpiry(t, table))) return null;
+  return `UTC past the leap-second table's expiry ${table.expiresUtc} assumes TAI − UTC = ${lastTaiMinusUtcS(table)} s; a leap `
+    + 'second announced later would shift those UTC times by 1 s (give a current leap-seconds.list: VEER_LEAP_SECONDS or --leap-seconds)';
 }
 
 /** The JSON contract: field names and meanings are stable within one schema tag. */
@@ -31,18 +54,20 @@ export function propagateResultJson(result: PropagationResult, info: PropagateRu
     schema: PROPAGATE_JSON_SCHEMA,
     outcome: result.outcome,
     message: result.message ?? null,
-    final: stateJson(result.final),
+    final: stateJson(result.final, info.leapSeconds),
     stm: result.stm ?? null,
     burnSensitivities: result.burnSensitivities ?? null,
-    samples: result.samples.map(stateJson),
+    samples: result.samples.map((s) => stateJson(s, info.leapSeconds)),
     events: result.events.map((e) => ({ kind: e.kind, body: e.body ?? null, epochTdbS: e.epochTdbS,
-      epoch: formatEpoch(e.epochTdbS, 'TDB', 6), distanceKm: e.distanceKm ?? null, state: stateJson(e.state) })),
+      epoch: formatEpoch(e.epochTdbS, 'TDB', 6), utc: utcTextOrNull(e.epochTdbS, info.leapSeconds, 6),
+      distanceKm: e.distanceKm ?? null, state: stateJson(e.state, info.leapSeconds) })),
     stats: result.stats,
-    warnings: result.warnings,
+    warnings: [...result.warnings, ...[pastExpiryNote(info.leapSeconds, [result.final.epochTdbS])].filter((w): w is string => w !== null)],
     run: {
       requestFile: info.requestFile, method: info.method, methodUsed: result.methodUsed, ephemeris: info.ephemerisName,
       relativeTolerance: info.relativeTolerance, absoluteTolerance: info.absoluteTolerance,
       centralBody: info.centralBody, perturbingBodies: info.perturbingBodies, wallTimeMs: Math.round(info.wallTimeMs),
+      leapSeconds: leapSecondsJson(info.leapSeconds),
     },
   };
 }
@@ -56,8 +81,8 @@ export function formatPropagateReport(result: PropagationResult, info: Propagate
     `veer propagate: ${info.requestFile}`,
     `  method ${info.method}${result.methodUsed === info.method ? '' : ` (used: ${result.methodUsed}; see warnings)`}; central body ${info.centralBody}; perturbers ${info.perturbingBodies.join(', ') || 'none'}`,
     `  tolerance rel ${info.relativeTolerance} / abs ${info.absoluteTolerance}; ephemeris ${info.ephemerisName}`,
-    `  start   ${formatEpoch(startTdbS, 'TDB', 3)}`,
-    `  reached ${formatEpoch(f.epochTdbS, 'TDB', 3)}   outcome: ${result.outcome}${result.message ? ` (${result.message})` : ''}`,
+    `  start   ${epochText(startTdbS, info.leapSeconds, 3)}`,
+    `  reached ${epochText(f.epochTdbS, info.leapSeconds, 3)}   outcome: ${result.outcome}${result.message ? ` (${result.message})` : ''}`,
     '',
     `final state (${f.frame}, relative to ${f.centre}):`,
     `  position km   ${f.positionKm.map((v) => fixed(v, 6)).join('')}   |r| ${Math.hypot(...f.positionKm).toFixed(6)}`,
@@ -68,13 +93,14 @@ export function formatPropagateReport(result: PropagationResult, info: Propagate
       + `${result.samples.length} samples, ${Math.round(info.wallTimeMs)} ms`,
   ];
   for (const e of result.events) {
-    lines.push(`event: ${e.kind}${e.body ? ` ${e.body}` : ''} at ${formatEpoch(e.epochTdbS, 'TDB', 6)}`
+    lines.push(`event: ${e.kind}${e.body ? ` ${e.body}` : ''} at ${epochText(e.epochTdbS, info.leapSeconds, 6)}`
       + `${e.distanceKm !== undefined ? `, distance ${e.distanceKm.toFixed(3)} km` : ''}`);
   }
   for (const sw of result.stats.switches) {
-    lines.push(`centre switch: ${sw.from} -> ${sw.to} at ${formatEpoch(sw.epochTdbS, 'TDB', 6)}`);
+    lines.push(`centre switch: ${sw.from} -> ${sw.to} at ${epochText(sw.epochTdbS, info.leapSeconds, 6)}`);
   }
-  for (const w of result.warnings) lines.push(`warning: ${w}`);
+  const note = pastExpiryNote(info.leapSeconds, [startTdbS, f.epochTdbS]);
+  for (const w of [...result.warnings, ...(note === null ? [] : [note])]) lines.push(`warning: ${w}`);
   if (result.stm) {
     lines.push('', 'state transition matrix d(final)/d(initial) (rows x,y,z,vx,vy,vz; km, km/s):');
     for (let i = 0; i < 6; i++) lines.push(`  ${result.stm.slice(6 * i, 6 * i + 6).map((v) => v.toExponential(6).padStart(15)).join('')}`);

@@ -7,8 +7,8 @@
 import { z } from 'zod';
 import { RELATIVE_TOLERANCE_RANGE } from '../contract/problem-bounds.ts';
 import {
-  BODY_NAMES, formatEpoch, INERTIAL_FRAMES, InvalidInputError, OutOfSpanError, parseEpoch,
-  type EventSpec, type VelocityImpulse, type PropagationRequest, type Ephemeris, type TdbSpan, type Vec3,
+  BODY_NAMES, BUILTIN_LEAP_SECONDS, formatEpoch, INERTIAL_FRAMES, InvalidInputError, OutOfSpanError, parseEpoch,
+  type LeapSecondTable, type EventSpec, type VelocityImpulse, type PropagationRequest, type Ephemeris, type TdbSpan, type Vec3,
 } from '../propagator/index.ts';
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()]);
@@ -69,27 +69,29 @@ export const propagateRequestSchema = z.object({
   ephemeris: z.enum(['chebyshev', 'builtin']).default('chebyshev'),
 }).strict();
 
-/** A parsed request file (epochs still as given: ISO text with a scale, or TDB s from J2000). */
-export type PropagateRequestFile = z.infer<typeof propagateRequestSchema>;
+/** A parsed request file (epochs still as given: ISO text with a scale, or TDB s from J2000) with the
+ * leap-second table its UTC epochs are read through. */
+export type PropagateRequestFile = z.infer<typeof propagateRequestSchema> & { leapSeconds: LeapSecondTable };
 
 /** Dotted field path of a zod issue: ['burns', 1, 'epoch'] -> 'burns[1].epoch'. */
 function fieldPath(path: readonly PropertyKey[]): string {
   return path.reduce<string>((acc, key) => (typeof key === 'number' ? `${acc}[${key}]` : acc === '' ? String(key) : `${acc}.${String(key)}`), '') || 'request';
 }
 
-function epochSeconds(value: string | number, field: string): number {
-  return typeof value === 'number' ? value : parseEpoch(value, undefined, field);
+function epochSeconds(file: PropagateRequestFile, value: string | number, field: string): number {
+  return typeof value === 'number' ? value : parseEpoch(value, undefined, field, file.leapSeconds);
 }
 
-/** Validates parsed JSON against the schema; throws InvalidInputError naming the first bad field. */
-export function parsePropagateRequest(json: unknown): PropagateRequestFile {
+/** Validates parsed JSON against the schema; throws InvalidInputError naming the first bad field. UTC epochs
+ * will be read through `leapSeconds` (--leap-seconds, VEER_LEAP_SECONDS or the built-in table). */
+export function parsePropagateRequest(json: unknown, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): PropagateRequestFile {
   const result = propagateRequestSchema.safeParse(json);
   if (!result.success) {
     const issue = result.error.issues[0];
     const others = result.error.issues.length > 1 ? ` (and ${result.error.issues.length - 1} more issue(s))` : '';
     throw new InvalidInputError(fieldPath(issue.path), `${issue.message}${others}`);
   }
-  const file = result.data;
+  const file = { ...result.data, leapSeconds };
   if ((file.endEpoch === undefined) === (file.durationS === undefined)) {
     throw new InvalidInputError('endEpoch', 'give exactly one of endEpoch and durationS');
   }
@@ -98,8 +100,8 @@ export function parsePropagateRequest(json: unknown): PropagateRequestFile {
 
 /** Start and end epochs of a request file, TDB s from J2000. */
 export function requestSpan(file: PropagateRequestFile): { startTdbS: number; endTdbS: number } {
-  const startTdbS = epochSeconds(file.initial.epoch, 'initial.epoch');
-  const endTdbS = file.endEpoch !== undefined ? epochSeconds(file.endEpoch, 'endEpoch') : startTdbS + (file.durationS ?? 0);
+  const startTdbS = epochSeconds(file, file.initial.epoch, 'initial.epoch');
+  const endTdbS = file.endEpoch !== undefined ? epochSeconds(file, file.endEpoch, 'endEpoch') : startTdbS + (file.durationS ?? 0);
   return { startTdbS, endTdbS };
 }
 
@@ -127,7 +129,7 @@ export function checkRequestSpan(file: PropagateRequestFile, span: TdbSpan, sour
 export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephemeris): PropagationRequest {
   const { startTdbS, endTdbS } = requestSpan(file);
   const burns: VelocityImpulse[] = file.burns.map((b, i) => ({
-    epochTdbS: epochSeconds(b.epoch, `burns[${i}].epoch`),
+    epochTdbS: epochSeconds(file, b.epoch, `burns[${i}].epoch`),
     deltaVKmS: b.deltaVKmS as Vec3,
   }));
   return {
@@ -149,7 +151,7 @@ export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephe
     outputStepS: file.outputStepS,
     withStm: file.withStm,
     events: file.events.map((e, i): EventSpec => (e.kind === 'epoch'
-      ? { kind: 'epoch', epochTdbS: epochSeconds(e.epoch, `events[${i}].epoch`), stop: e.stop }
+      ? { kind: 'epoch', epochTdbS: epochSeconds(file, e.epoch, `events[${i}].epoch`), stop: e.stop }
       : e)),
     switching: file.switching,
   };

@@ -1,7 +1,7 @@
-/** `veer propagate <request.json> [--json]`: one propagation in-process; report or JSON on stdout. */
+/** `veer propagate <request.json> [--json] [--leap-seconds FILE]`: one propagation in-process; report or JSON on stdout. */
 import {
   BUILTIN_EPHEMERIS_SPAN, createBuiltinEphemeris, InvalidInputError, PROPAGATION_DEFAULTS,
-  propagateAsync, type BodyName, type Ephemeris,
+  propagateAsync, type BodyName, type Ephemeris, type LeapSecondTable,
 } from '../../propagator/index.ts';
 import { cliEphemerisCache } from '../cli-ephemeris-cache.ts';
 import type { CliCommand } from '../command.ts';
@@ -11,8 +11,9 @@ import {
 import { PropagateProgress } from '../propagate-progress.ts';
 import { formatPropagateReport, propagateResultJson, type PropagateRunInfo } from '../propagate-report.ts';
 import { readJsonFile } from './read-json-file.ts';
+import { LEAP_SECONDS_USAGE, loadCliLeapSeconds } from '../leap-seconds-option.ts';
 
-const USAGE = `usage: veer propagate <request.json> [--json]
+const USAGE = `usage: veer propagate <request.json> [--json] [--leap-seconds FILE]
 
 Propagates an initial state (epoch, centre, frame, position, velocity) under a force model (central
 body, perturbing bodies in Battin's f(q) form, optional J2 and solar radiation pressure) over a span,
@@ -21,6 +22,7 @@ described in README.md ("veer propagate"); see examples/propagate-two-body.json 
 examples/propagate-cruise.json. Progress goes to stderr.
 
   --json   print the stable JSON contract (schema veer.propagate.result/1, see README) instead of the report
+${LEAP_SECONDS_USAGE}
 
 Exit codes: 0 finished; 3 ended early (impact, step-size underflow, max steps, stopped by event,
 cancelled); 2 bad usage or invalid request (the field is named); 1 other failures.
@@ -54,8 +56,26 @@ export function ephemerisFor(file: PropagateRequestFile, beforeBuild?: () => voi
   });
 }
 
-async function readRequestFile(path: string): Promise<PropagateRequestFile> {
-  return parsePropagateRequest(await readJsonFile(path, 'request', (field, message) => new InvalidInputError(field, message)));
+async function readRequestFile(path: string, leapSeconds: LeapSecondTable): Promise<PropagateRequestFile> {
+  return parsePropagateRequest(await readJsonFile(path, 'request', (field, message) => new InvalidInputError(field, message)), leapSeconds);
+}
+
+/** Splits the arguments: the request file, --json, --leap-seconds FILE; a usage message when they do not fit. */
+function readArgs(args: string[]): { file: string; json: boolean; leapPath?: string } | string {
+  let json = false;
+  let leapPath: string | undefined;
+  const files: string[] = [];
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i];
+    if (a === '--json') json = true;
+    else if (a === '--leap-seconds') {
+      leapPath = args[++i];
+      if (!leapPath) return '--leap-seconds needs a file name';
+    } else if (a.startsWith('-')) return `unknown option '${a}'`;
+    else files.push(a);
+  }
+  if (files.length !== 1) return 'give exactly one request file';
+  return { file: files[0], json, ...(leapPath !== undefined ? { leapPath } : {}) };
 }
 
 /** The `veer propagate` command (see USAGE above and README). */
@@ -63,14 +83,15 @@ export const propagateCommand: CliCommand = {
   name: 'propagate',
   usage: USAGE,
   async run(args: string[]): Promise<number> {
-    const json = args.includes('--json');
-    const unknown = args.find((a) => a.startsWith('-') && a !== '--json');
-    const files = args.filter((a) => !a.startsWith('-'));
-    if (unknown !== undefined || files.length !== 1) {
-      process.stderr.write(`veer propagate: ${unknown ? `unknown option '${unknown}'` : 'give exactly one request file'}\n\n${USAGE}\n`);
+    const parsed = readArgs(args);
+    if (typeof parsed === 'string') {
+      process.stderr.write(`veer propagate: ${parsed}\n\n${USAGE}\n`);
       return 2;
     }
-    const file = await readRequestFile(files[0]);
+    const { json } = parsed;
+    const files = [parsed.file];
+    const leapSeconds = await loadCliLeapSeconds(parsed.leapPath);
+    const file = await readRequestFile(files[0], leapSeconds);
     const progress = new PropagateProgress({ write: (line) => process.stderr.write(line), now: () => performance.now() });
     // 0 % as soon as the request is known good enough to start: before the cache build, after the span check.
     const ephemeris = ephemerisFor(file, () => progress.start());
@@ -94,6 +115,7 @@ export const propagateCommand: CliCommand = {
         centralBody: request.forces.centralBody,
         perturbingBodies: [...request.forces.perturbingBodies],
         wallTimeMs: performance.now() - started,
+        leapSeconds,
       };
       process.stdout.write(json
         ? `${JSON.stringify(propagateResultJson(result, info), null, 2)}\n`

@@ -3,7 +3,7 @@
  * closest approaches, dispersion, iterations. A plan that did not converge shows NO burn table — only
  * the last iterate, marked as diagnostics.
  */
-import type { BPlaneEllipse, ManeuverPlan } from '../../planner/index.ts';
+import type { BPlaneEllipse, ManeuverPlan, PlanEpoch } from '../../planner/index.ts';
 import { table } from './text-table.ts';
 
 const RULE = '='.repeat(100);
@@ -20,6 +20,19 @@ export function num(x: number | null | undefined, digits = 3): string {
   const a = Math.abs(x);
   if (a !== 0 && (a >= 1e7 || a < 1e-3)) return x.toExponential(digits);
   return x.toFixed(digits);
+}
+
+/** An epoch as a person reads it: UTC beside TDB (UTC is absent only before 1972). */
+export function epochText(e: PlanEpoch): string {
+  return e.utc === null ? `${e.tdb} (no UTC before 1972)` : `${e.utc} = ${e.tdb}`;
+}
+
+/** Which leap-second table the plan's UTC epochs use (plans made before it was recorded say so). */
+function leapSecondsLine(plan: ManeuverPlan): string {
+  const l = plan.leapSeconds as ManeuverPlan['leapSeconds'] | undefined;
+  if (!l) return 'Leap seconds: not recorded (plan made before the table was recorded)';
+  const where = l.source === 'built-in' ? 'built-in table' : `${l.path} (SHA-256 ${l.sha256 ?? 'not computed'})`;
+  return `Leap seconds: ${where}, expires ${l.expiresUtc}; TAI − UTC ${l.taiMinusUtcAfterExpiryS} s from ${l.steps[l.steps.length - 1][0]}`;
 }
 
 /** The caveat block that opens and closes every report (plans and budget studies). */
@@ -53,7 +66,7 @@ function burnTable(plan: ManeuverPlan): string[] {
       ...li.burnsInertialKmS.map((dv, i) => `  burn ${i + 1}: Δv J2000 [${dv.map((v) => (v * 1000).toFixed(4)).join(', ')}] m/s`)];
   }
   const rows = plan.burns.map((b) => [
-    b.label, b.epoch.utc ?? '(beyond leap table)', b.epoch.tdb, b.magnitudeMS.toFixed(4),
+    b.label, b.epoch.utc ?? 'n/a (before 1972)', b.epoch.tdb, b.magnitudeMS.toFixed(4),
     b.deltaVRtnKmS.map(ms).join(' '), b.deltaVVnbKmS.map(ms).join(' '),
     b.propellantKg.toFixed(3), b.durationS.toFixed(1),
   ]);
@@ -69,8 +82,8 @@ function burnTable(plan: ManeuverPlan): string[] {
 function targetTable(plan: ManeuverPlan): string[] {
   const rows = plan.targets.map((t) => [
     `${t.targetIndex}:${t.kind}`, `${t.component}${t.body ? ` @${t.body}` : ''}`,
-    t.requestedEpoch ? t.requestedEpoch.tdb : num(t.requested),
-    t.achievedEpoch ? t.achievedEpoch.tdb : num(t.achieved), num(t.residual),
+    t.requestedEpoch ? epochText(t.requestedEpoch) : num(t.requested),
+    t.achievedEpoch ? epochText(t.achievedEpoch) : num(t.achieved), num(t.residual),
     `${num(t.tolerance)} ${t.unit}`, t.met ? 'yes' : 'NO',
   ]);
   return ['Targets (requested vs achieved):', ...table(['target', 'component', 'requested', 'achieved', 'residual', 'tolerance', 'met'], rows)];
@@ -170,7 +183,8 @@ export function formatPlanReport(plan: ManeuverPlan): string {
     ...caveatBlock(plan, openingHeadline(plan)),
     `Spacecraft: ${plan.spacecraftName}${plan.title ? ` — ${plan.title}` : ''}`,
     `Problem hash (SHA-256): ${plan.problemHash}   software: ${plan.softwareVersion}`,
-    `Initial state: ${plan.createdFrom.initialEpoch.tdb} (${plan.createdFrom.initialEpoch.utc ?? 'UTC n/a'}), centre ${plan.createdFrom.centre}, ${plan.createdFrom.frame}; span to ${plan.createdFrom.endEpoch.tdb}`,
+    `Initial state: ${epochText(plan.createdFrom.initialEpoch)}, centre ${plan.createdFrom.centre}, ${plan.createdFrom.frame}; span to ${epochText(plan.createdFrom.endEpoch)}`,
+    leapSecondsLine(plan),
     `Force model: ${plan.forceModel.summary}; ephemeris ${plan.forceModel.ephemeris}`,
     '',
     ...statusLines(plan),
@@ -179,7 +193,7 @@ export function formatPlanReport(plan: ManeuverPlan): string {
     '',
     ...targetTable(plan),
     '',
-    ...(plan.approaches.length ? ['Closest approaches:', ...plan.approaches.map((a) => `  ${a.body}: ${a.epoch.tdb}, distance ${num(a.distanceKm)} km, altitude ${num(a.altitudeKm)} km`), ''] : []),
+    ...(plan.approaches.length ? ['Closest approaches:', ...plan.approaches.map((a) => `  ${a.body}: ${epochText(a.epoch)}, distance ${num(a.distanceKm)} km, altitude ${num(a.altitudeKm)} km`), ''] : []),
     ...crossCheckTable(plan),
     '',
     ...dispersionLines(plan),

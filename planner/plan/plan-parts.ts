@@ -3,7 +3,7 @@
  * frame, propellant by the rocket equation, duration at thrust), targets requested vs achieved, the
  * down-sampled trajectory, and the force-model summary.
  */
-import { changeCentre, eclipticFromEquatorialJ2000, formatEpoch } from '../../propagator/index.ts';
+import { changeCentre, eclipticFromEquatorialJ2000, formatEpoch, utcTextOrNull } from '../../propagator/index.ts';
 import type { Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import { budgetBurns } from '../maneuver-math.ts';
 import type { ManeuverPlan, PlanEpoch, PlannedBurn, TargetResult, TrajectoryPoint } from '../../contract/plan-types.ts';
@@ -15,13 +15,7 @@ import type { TargetComponent } from '../targeting/target-components.ts';
 /** An epoch as TDB seconds and text; UTC through `leapSeconds` (past its expiry with the last TAI − UTC,
  * which the plan's caveat states), null only before the table's first step (1972). */
 export function planEpoch(tdbS: number, leapSeconds: LeapSecondTable): PlanEpoch {
-  let utc: string | null;
-  try {
-    utc = formatEpoch(tdbS, 'UTC', 3, leapSeconds);
-  } catch {
-    utc = null;
-  }
-  return { tdbS, tdb: formatEpoch(tdbS, 'TDB', 3), utc };
+  return { tdbS, tdb: formatEpoch(tdbS, 'TDB', 3), utc: utcTextOrNull(tdbS, leapSeconds, 3) };
 }
 
 /** Burn table rows from the evaluated burns (J2000 equatorial Δv). `firstTargetTdbS` after each burn. */

@@ -136,3 +136,17 @@ export function formatEpoch(
   }
   return writeCalendar(units, fractionDigits, scale);
 }
+
+/**
+ * UTC text of an epoch (TDB s from J2000) through `leapSeconds`, or null before the table's first step
+ * (1972), where UTC has no whole-second offset from TAI. Past the table's expiry the last TAI − UTC is
+ * assumed (check isUtcPastLeapSecondExpiry to say so).
+ */
+export function utcTextOrNull(tdbS: number, leapSeconds: LeapSecondTable, fractionDigits = 3): string | null {
+  try {
+    return formatEpoch(tdbS, 'UTC', fractionDigits, leapSeconds);
+  } catch (error) {
+    if (error instanceof Error && error.name === 'OutOfSpanError') return null;
+    throw error;
+  }
+}

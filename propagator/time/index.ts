@@ -1,5 +1,5 @@
 /** Time scales (UTC, TAI, TT, TDB), leap seconds, epoch text and Julian dates. */
-export { parseEpoch, formatEpoch, TIME_SCALES } from './epoch-text.ts';
+export { parseEpoch, formatEpoch, utcTextOrNull, TIME_SCALES } from './epoch-text.ts';
 export type { TimeScale } from './epoch-text.ts';
 export {
   tdbMinusTtS, tdbFromTt, ttFromTdb, tdbFromTai, taiFromTdb, TT_MINUS_TAI_S,
