@@ -18,6 +18,7 @@ import {
   buildChebyshevEphemeris, CHEBYSHEV_DEFAULTS, createBuiltinEphemeris, parseEpoch, planBodyPositions, type BodyName, type Ephemeris,
 } from '../propagator/index.ts';
 import { alternate, codeVersion, cpuMs, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
+import { sharedCacheSection } from './shared-cache-bench.ts';
 
 const ROUNDS = 15;
 const T0 = parseEpoch('2031-03-01T00:00:00 TDB');
@@ -120,11 +121,24 @@ const bytes = heapBytesPerLookUp();
 if (sink === 42) console.log('');
 
 const fromSun = rows[4];
+
+/** The propagator benchmark's latest headline look-up figures, read from its stored results file (never
+ * restated here): the last row of its run history. */
+function propagatorFileFigure(): string {
+  const rows = historyRows(new URL('./results/propagator.md', import.meta.url), '## Run history', '');
+  const last = rows.length >= 2 ? rows[rows.length - 2] : null;
+  if (last === null) return 'no stored run found';
+  const cells = last.split('|').map((c) => c.trim());
+  return `run ${cells[1]} (code ${cells[2]}): look-up ratio ${cells[4]}×, ${cells[5]} ns per cached look-up`;
+}
+
+const shared = await sharedCacheSection();
 const resultsFile = new URL('./results/ephemeris.md', import.meta.url);
 const HISTORY = '## Run history';
 const history = historyRows(resultsFile, HISTORY,
   `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${machineLine().split('; ').find((l) => l.startsWith('load')) ?? ''} | `
-  + `${formatSpread(fromSun.ratio, 0)} | ${formatSpread(fromSun.cacheNs, 0)} | ${formatSpread(rows[6].ratio, 0)} |`);
+  + `${formatSpread(fromSun.ratio, 0)} | ${formatSpread(fromSun.cacheNs, 0)} | ${formatSpread(rows[6].ratio, 0)} | `
+  + `${formatSpread(shared.coldRatio, 2)} | ${(100 * shared.secondShare).toFixed(1)} % |`);
 const lines = [
   '# Ephemeris look-up benchmark (npm run bench:ephemeris)',
   '',
@@ -144,19 +158,10 @@ const lines = [
   '',
   'How to read the rows:',
   '- "9 perturbers from the Sun, batch" is the call and body list of the propagator benchmark\'s look-up target',
-  '  (issue 2: ≥ 50× less time in look-ups with the cache). That target is judged in bench/results/propagator.md, on',
-  '  the epochs one propagation actually asks for; this row checks it on epochs spread over the year. The built-in',
-  '  source has no batch call, so its side is one `positionInto` per body there too. On 2026-12-02 this row came out',
-  '  higher (≈ 75–93×) than the propagator file\'s figure (≈ 58–64×): the cache side ran slower there (≈ 55–70 ns',
-  '  per look-up against ≈ 40–47 ns here) while the built-in side cost about the same. The epoch pattern is not the',
-  '  cause (in one process, the recorded and the scattered epochs cost the cache the same, 54 ns per look-up); the',
-  '  cause was not pinned down beyond "what else ran earlier in the process". The target is judged on the propagator',
-  '  file\'s lower figure.',
-  '- Why the two files used to disagree (59× here, 22× there): they timed different look-ups in different ways. This',
-  '  file timed Earth-centred look-ups (built-in 9.1 µs each: the Earth\'s series again for every body) as a median',
-  '  over scattered epochs; the propagator file timed Sun-centred look-ups (built-in ≈ 2.9 µs each) replayed once per',
-  '  batch, best of 5. Both now use bench/bench-stats.ts and the same batch call, and both tables carry both centres',
-  '  or say which one they use.',
+  '  (≥ 50× less time in look-ups with the cache). That target is judged in bench/results/propagator.md, on the epochs',
+  '  one propagation actually asks for; this row checks it on epochs spread over the year. The built-in source has no',
+  '  batch call, so its side is one `positionInto` per body there too.',
+  `- The same row in the latest stored bench/results/propagator.md: ${propagatorFileFigure()}.`,
   '- Single calls include per-call argument checks; the batch call checks bodies once, when the plan is made, and',
   '  only the epoch per call.',
   '',
@@ -172,12 +177,14 @@ const lines = [
   ...cache.fitReport().map((f) => `| ${f.body} | ${f.parent} | ${(f.segmentS / 86400).toFixed(2)} | ${f.segments} | ${f.positionTerms} | `
     + `${(f.maxErrorKm * 1000).toFixed(4)} | ${(f.maxErrorKmS * 1e6).toFixed(6)} |`),
   '',
+  ...shared.lines,
+  '',
   HISTORY,
   '',
   'Headline figures of this run and the previous ones (medians, min–max over rounds in brackets).',
   '',
-  '| run (UTC) | code | load | 9 from the Sun, batch: ratio | 9 from the Sun, batch: cache ns per look-up | 9 from the Earth, batch: ratio |',
-  '|---|---|---|---|---|---|',
+  '| run (UTC) | code | load | 9 from the Sun, batch: ratio | 9 from the Sun, batch: cache ns per look-up | 9 from the Earth, batch: ratio | cold one-year run: veer / peer CPU | second plan\'s fit time / first\'s |',
+  '|---|---|---|---|---|---|---|---|',
   ...history,
   '',
 ];
