@@ -148,9 +148,19 @@ describe('demo flyby retargeting (examples/flyby-demo.json)', () => {
       }
       const ca = g(tb);
       const bp = bPlane(ca.rel);
+      const achieved = (kind: string, component?: string) => plan.targets.find((t) => t.kind === kind && (component === undefined || t.component.includes(component)))?.achieved as number;
+      console.info(`independent re-flight vs requested: B·T ${(bp.bDotTKm - bTarget.bDotTKm).toExponential(2)} km, B·R ${(bp.bDotRKm - bTarget.bDotRKm).toExponential(2)} km, `
+        + `approach ${(tb - tGuess).toExponential(2)} s; vs the plan's achieved: B·T ${(bp.bDotTKm - achieved('b-plane', 'T')).toExponential(2)} km, `
+        + `B·R ${(bp.bDotRKm - achieved('b-plane', 'R')).toExponential(2)} km, approach ${(tb - achieved('closest-approach-epoch')).toExponential(2)} s`);
       expect(Math.abs(bp.bDotTKm - bTarget.bDotTKm)).toBeLessThan(bTarget.toleranceKm);
       expect(Math.abs(bp.bDotRKm - bTarget.bDotRKm)).toBeLessThan(bTarget.toleranceKm);
       expect(Math.abs(tb - tGuess)).toBeLessThan(caTarget.toleranceS);
+      // Agreement of the two propagations (independent re-flight against the plan's own achieved values):
+      // measured 0.022 km (B·T), 0.010 km (B·R) and 0.013 s (2026-12-03, printed above on every run); limits
+      // about 5x that (the two differ in ephemeris evaluation — cache versus direct — and integrator).
+      expect(Math.abs(bp.bDotTKm - achieved('b-plane', 'T'))).toBeLessThan(0.1);
+      expect(Math.abs(bp.bDotRKm - achieved('b-plane', 'R'))).toBeLessThan(0.1);
+      expect(Math.abs(tb - achieved('closest-approach-epoch'))).toBeLessThan(0.07);
     });
   });
 });
