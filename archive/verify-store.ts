@@ -12,13 +12,13 @@ import { SQLITE_ARCHIVE_FILE } from './open-archive.ts';
 import { inTransaction } from './postgres/pg-transaction.ts';
 import { postgresVerifySource } from './postgres/postgres-archive.ts';
 import { sqliteVerifySource } from './sqlite/sqlite-archive.ts';
-import type { VerifyReport } from '../contract/archive-types.ts';
+import type { VerifyOptions, VerifyReport } from '../contract/archive-types.ts';
 import { verifySource } from './verify.ts';
 
 type Row = Record<string, unknown>;
 
 /** Verifies the SQLite archive in `dataDir` read-only; ArchiveNotFoundError (naming --data-dir) if it is not there. */
-export async function verifySqliteReadOnly(dataDir: string): Promise<VerifyReport> {
+export async function verifySqliteReadOnly(dataDir: string, options: VerifyOptions = {}): Promise<VerifyReport> {
   const file = join(dataDir, SQLITE_ARCHIVE_FILE);
   if (!existsSync(file)) {
     throw new ArchiveNotFoundError(`--data-dir ${dataDir}: no archive file ${resolve(file)} (check the folder name; nothing was created)`);
@@ -29,7 +29,7 @@ export async function verifySqliteReadOnly(dataDir: string): Promise<VerifyRepor
     if (!table) throw new ArchiveNotFoundError(`--data-dir ${dataDir}: ${resolve(file)} holds no archive tables`);
     db.exec('BEGIN DEFERRED');
     try {
-      return await verifySource(sqliteVerifySource(db));
+      return await verifySource(sqliteVerifySource(db), options);
     } finally {
       db.exec('COMMIT');
     }
@@ -39,14 +39,14 @@ export async function verifySqliteReadOnly(dataDir: string): Promise<VerifyRepor
 }
 
 /** Verifies the PostgreSQL archive read-only in one snapshot; ArchiveNotFoundError (naming --database-url) if it has no archive. */
-export async function verifyPostgresReadOnly(connectionString: string): Promise<VerifyReport> {
+export async function verifyPostgresReadOnly(connectionString: string, options: VerifyOptions = {}): Promise<VerifyReport> {
   const client = new pg.Client({ connectionString });
   await client.connect();
   try {
     return await inTransaction(client, 'BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY', async () => {
       const found = (await client.query("SELECT to_regclass('archive_entries') IS NOT NULL AS present")).rows[0] as Row;
       if (found.present !== true) throw new ArchiveNotFoundError('--database-url: that database holds no archive tables (nothing was created)');
-      return verifySource(postgresVerifySource(client));
+      return verifySource(postgresVerifySource(client), options);
     });
   } finally {
     await client.end();

@@ -180,6 +180,17 @@ export interface VerifyFailure {
   found?: string;
 }
 export interface ProjectionMismatch { planId: string; field: string; derived: unknown; stored: unknown }
+/** A head recorded earlier (outside the database), to compare the chain with. */
+export interface ExpectedHead { sequence: number; hash: string }
+/**
+ * The comparison with a recorded head: `found` is the hash the chain now holds at that sequence (null when the
+ * chain ends before it: entries were cut). It matches only when the entry is still there, unchanged.
+ */
+export interface ExpectedHeadCheck extends ExpectedHead { found: string | null; matches: boolean }
+export interface VerifyOptions {
+  /** Also require the chain to hold this entry unchanged (detects cut-and-reappended newest entries). */
+  expectHead?: ExpectedHead;
+}
 export interface VerifyReport {
   ok: boolean;
   entriesChecked: number;
@@ -191,6 +202,8 @@ export interface VerifyReport {
   firstFailure: VerifyFailure | null;
   /** Plan states in the projection table that differ from what the entries say. */
   projectionMismatches: ProjectionMismatch[];
+  /** Present when an expected head was given; `ok` is false unless it matches. */
+  expectedHead?: ExpectedHeadCheck;
   durationMs: number;
 }
 
@@ -236,6 +249,6 @@ export interface PlanArchive {
   /** The newest entry's sequence and hash (0 and GENESIS_HASH for an empty archive). */
   head(): Promise<{ sequence: number; hash: string }>;
   /** Walks the whole chain; names the first entry that does not match. */
-  verify(): Promise<VerifyReport>;
+  verify(options?: VerifyOptions): Promise<VerifyReport>;
   close(): Promise<void>;
 }

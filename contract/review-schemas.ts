@@ -53,11 +53,22 @@ export const entriesQuerySchema = z.object({
   limit: z.coerce.number().int().min(1).max(1000).default(1000),
 }).strict();
 
+/** `SEQ:HASH`, a head recorded earlier (as `veer verify` prints it: sequence, then the 64-hex SHA-256). */
+export const expectedHeadSchema = z.string()
+  .regex(/^[1-9][0-9]{0,14}:[0-9a-f]{64}$/, { error: 'must be SEQ:HASH, e.g. 42:<64 lowercase hex digits>' })
+  .transform((text) => {
+    const [sequence, hash] = text.split(':');
+    return { sequence: Number(sequence), hash: hash ?? '' };
+  });
+
+export const verifyQuerySchema = z.object({ expectHead: expectedHeadSchema.optional() }).strict();
+
 export const verifyResponseSchema = z.object({
   ok: z.boolean(), entriesChecked: z.number().int(), lastGoodSequence: z.number().int(), lastGoodHash: z.string(),
   head: z.object({ sequence: z.number().int(), hash: z.string() }),
   firstFailure: z.object({ sequence: z.number().int(), reason: z.string(), likelyEditedSequence: z.number().int().optional(), message: z.string(), expected: z.string().optional(), found: z.string().optional() }).nullable(),
   projectionMismatches: z.array(z.object({ planId: z.string(), field: z.string(), derived: z.unknown(), stored: z.unknown() })),
+  expectedHead: z.object({ sequence: z.number().int(), hash: z.string(), found: z.string().nullable(), matches: z.boolean() }).optional(),
   durationMs: z.number(),
   verifiedBy: z.string(),
   verifiedAt: z.string(),

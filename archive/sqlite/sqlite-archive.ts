@@ -5,7 +5,7 @@
  * Inside one process the connection is shared, so a small queue keeps one transaction at a time on it.
  */
 import Database from 'better-sqlite3';
-import { mkdirSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { MIGRATION_HISTORY_COLUMNS, pendingMigrations } from '../migrations.ts';
 import { ArchiveWrites } from '../archive-writes.ts';
@@ -13,7 +13,7 @@ import type { ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
 import { verifySource, type VerifySource } from '../verify.ts';
 import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
-import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyReport } from '../../contract/archive-types.ts';
+import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyOptions, VerifyReport } from '../../contract/archive-types.ts';
 
 export interface SqliteArchiveOptions {
   /** Path of the database file (created with its folder if missing). */
@@ -60,9 +60,16 @@ export function sqliteVerifySource(db: Database.Database): VerifySource {
   };
 }
 
-/** Opens (creating if needed) a SQLite database file in WAL mode with a busy timeout. */
+/**
+ * Opens (creating if needed) a SQLite database file in WAL mode with a busy timeout. A new file is created
+ * mode 0600 in a folder created 0700 (plans, reviews and token hashes are for the service's user only); SQLite
+ * gives its -wal and -shm files the database file's mode.
+ */
 export function openSqliteDatabase(file: string, busyTimeoutMs = 15_000): Database.Database {
-  if (file !== ':memory:') mkdirSync(dirname(file), { recursive: true });
+  if (file !== ':memory:') {
+    mkdirSync(dirname(file), { recursive: true, mode: 0o700 });
+    closeSync(openSync(file, 'a', 0o600)); // an empty file is a new database to SQLite
+  }
   const db = new Database(file, { timeout: busyTimeoutMs });
   db.pragma('journal_mode = WAL');
   db.pragma('synchronous = FULL');
@@ -166,11 +173,11 @@ export class SqliteArchive extends ArchiveWrites implements PlanArchive {
   }
 
   /** Verifies inside one read transaction (a WAL snapshot), so concurrent appends do not disturb it. */
-  verify(): Promise<VerifyReport> {
+  verify(options: VerifyOptions = {}): Promise<VerifyReport> {
     return this.serial(async () => {
       this.db.exec('BEGIN DEFERRED');
       try {
-        return await verifySource(sqliteVerifySource(this.db));
+        return await verifySource(sqliteVerifySource(this.db), options);
       } finally {
         this.db.exec('COMMIT');
       }

@@ -104,6 +104,40 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
         expect((await archive.verify()).firstFailure).toMatchObject({ sequence: 6, reason: 'missing-entry' });
       });
 
+      it('should fail a recorded head once the newest entries are cut and others appended (a cut alone too)', async () => {
+        const [, , plan3] = await fill();
+        const recorded = (await archive.verify()).head; // entry 6: job j3's plan
+        const entry4 = (await archive.entries(4, 1))[0]!;
+        for (const s of handle.dropGuardsSql) await handle.sql(s);
+        // Cut entries 5 and 6 with every trace of them, so the store alone looks whole.
+        await handle.sql('DELETE FROM archive_entries WHERE sequence >= 5');
+        await handle.sql(`UPDATE archive_head SET sequence = 4, hash = '${entry4.hash}'`);
+        await handle.sql(`DELETE FROM archive_plans WHERE plan_id = '${plan3}'`);
+        await handle.sql("DELETE FROM archive_jobs WHERE job_id = 'j3'");
+        const cut = await archive.verify({ expectHead: recorded });
+        expect(cut).toMatchObject({ ok: false, firstFailure: null, projectionMismatches: [] });
+        expect(cut.expectedHead).toEqual({ ...recorded, found: null, matches: false });
+        await archive.recordJobSubmitted({ jobId: 'j9', actor: 'mallory', problem: { ...PROBLEM, i: 9 } });
+        await archive.recordPlanProposed({ jobId: 'j9', actor: 'w', submittedBy: 'mallory', plan: makePlan({ targetSetKey: 'k9' }) });
+        // Without the recorded head the chain is sound again; with it, entry 6 differs.
+        expect((await archive.verify()).ok).toBe(true);
+        for (const report of [await archive.verify({ expectHead: recorded }), await handle.verifyReadOnly({ expectHead: recorded })]) {
+          expect(report.ok).toBe(false);
+          expect(report.head.sequence).toBe(6);
+          expect(report.expectedHead).toMatchObject({ ...recorded, matches: false });
+          expect(report.expectedHead?.found).toMatch(/^[0-9a-f]{64}$/);
+          expect(report.expectedHead?.found).not.toBe(recorded.hash);
+        }
+      });
+
+      it('should pass a recorded head that is still in the chain, unchanged, after later appends', async () => {
+        await fill();
+        const recorded = (await archive.verify()).head;
+        await archive.recordJobSubmitted({ jobId: 'j7', actor: 'ann', problem: { ...PROBLEM, i: 7 } });
+        const report = await handle.verifyReadOnly({ expectHead: recorded });
+        expect(report).toMatchObject({ ok: true, expectedHead: { ...recorded, found: recorded.hash, matches: true } });
+      });
+
       it('should report a plan state changed in the projection table', async () => {
         const [planId] = await fill();
         await handle.sql(`UPDATE archive_plans SET state = 'approved', decided_by = 'mallory' WHERE plan_id = '${planId}'`);

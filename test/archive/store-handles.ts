@@ -4,7 +4,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import pg from 'pg';
-import { PostgresArchive, SqliteArchive, verifyPostgresReadOnly, verifySqliteReadOnly, type PlanArchive, type VerifyReport } from '../../archive/index.ts';
+import { PostgresArchive, SqliteArchive, verifyPostgresReadOnly, verifySqliteReadOnly, type PlanArchive, type VerifyOptions, type VerifyReport } from '../../archive/index.ts';
 import type { TestPostgres } from '../harness/postgres.ts';
 
 export interface StoreHandle {
@@ -16,7 +16,7 @@ export interface StoreHandle {
   /** SQL that removes the append-only triggers (what someone editing the database by hand would do first). */
   dropGuardsSql: string[];
   /** The auditor's read-only verification (what `veer verify --data-dir | --database-url` runs). */
-  verifyReadOnly(): Promise<VerifyReport>;
+  verifyReadOnly(options?: VerifyOptions): Promise<VerifyReport>;
   dispose(): Promise<void>;
 }
 
@@ -39,7 +39,7 @@ export function sqliteFactory(): StoreFactory {
           try { db.exec(statement); } finally { db.close(); }
         },
         dropGuardsSql: ['DROP TRIGGER archive_entries_no_update', 'DROP TRIGGER archive_entries_no_delete'],
-        verifyReadOnly: () => verifySqliteReadOnly(dir),
+        verifyReadOnly: (options) => verifySqliteReadOnly(dir, options),
         dispose: async () => rmSync(dir, { recursive: true, force: true }),
       };
     },
@@ -60,7 +60,7 @@ export function postgresFactory(server: () => TestPostgres): StoreFactory {
           try { await client.query(statement); } finally { await client.end(); }
         },
         dropGuardsSql: ['DROP TRIGGER archive_entries_no_change ON archive_entries'],
-        verifyReadOnly: () => verifyPostgresReadOnly(url),
+        verifyReadOnly: (options) => verifyPostgresReadOnly(url, options),
         dispose: async () => undefined,
       };
     },
