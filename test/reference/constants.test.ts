@@ -1,7 +1,7 @@
 /**
  * propagator/constants.ts against independent sources.
  * - astronomy-engine 2.1.19: its GM values (MassProduct, au^3/day^2) come from the JPL DE405 memorandum;
- *   its KM_PER_AU and C_AUDAY constants.
+ *   its KM_PER_AU and C_AUDAY constants. Our GMs are DE440's, from memory: see the note above the GM checks.
  * - IAU 2009 system of astronomical constants ("current best estimates"; Luzum et al. 2011,
  *   Celestial Mechanics and Dynamical Astronomy 110:293): mass ratios, from memory.
  * - IERS Conventions (2010), Table 1.1: Earth's J2 (zero-tide system), from memory.
@@ -24,18 +24,28 @@ function astronomyEngineGm(body: BodyName): number {
   return (Astronomy.MassProduct(AE_BODY[body]) * Astronomy.KM_PER_AU ** 3) / 86400 ** 2;
 }
 
+/**
+ * Our GMs are the DE440 values (Park et al. 2021, AJ 161:105, Table 8) WRITTEN FROM MEMORY: no source carrying
+ * DE440's own digits is available to this test (no npm package ships them). The check below is against the
+ * DE405 values astronomy-engine carries, so it can catch a wrong digit only down to the size of each body's
+ * DE405→DE440 revision. Limits per body: about 3x the difference measured here on 2026-12-03 (relative):
+ * Sun 1.8e-10, Mercury 9.6e-6, Venus 2.1e-8, Earth 6.6e-9, Moon 9.5e-8, Mars 1.4e-6, Jupiter 3.0e-8,
+ * Saturn 1.1e-6, Uranus 1.3e-6, Neptune 1.0e-6. Digits below those limits are unverified (from memory).
+ * (astronomy-engine's Mercury value is DE405's Mercury-system value; the Earth and Moon are their own.)
+ */
+const DE405_REVISION_LIMIT: Record<BodyName, number> = {
+  sun: 6e-10, mercury: 3e-5, venus: 7e-8, earth: 2e-8, moon: 3e-7, mars: 5e-6, jupiter: 1e-7, saturn: 4e-6,
+  uranus: 4e-6, neptune: 3e-6,
+};
+
 describe('gravitational parameters', () => {
-  describe('when compared with astronomy-engine (DE405 values) — DE405→DE440 revisions are ≤ 1e-5', () => {
-    // Largest revision: Mercury (~1e-5, MESSENGER tracking); outer systems ~1e-6; Sun ~2e-10.
+  describe('when compared with astronomy-engine (DE405 values), per-body limits ~3x the revision measured', () => {
     for (const body of Object.keys(AE_BODY) as BodyName[]) {
-      it(`should agree for ${body} within 2e-5 relative`, () => {
+      it(`should agree for ${body} within ${DE405_REVISION_LIMIT[body]} relative`, () => {
         const relative = Math.abs(GM_KM3_S2[body] - astronomyEngineGm(body)) / astronomyEngineGm(body);
-        expect(relative).toBeLessThan(2e-5);
+        expect(relative).toBeLessThan(DE405_REVISION_LIMIT[body]);
       });
     }
-    it('should agree for the Sun within 1e-9 relative (GM_sun changed only ~2e-10 between DE405 and DE440)', () => {
-      expect(Math.abs(GM_KM3_S2.sun / astronomyEngineGm('sun') - 1)).toBeLessThan(1e-9);
-    });
   });
   describe('when forming mass ratios (IAU 2009 current best estimates, from memory)', () => {
     it('should give GM_sun / GM_earth = 332946.0487 ± 0.0007', () => {
