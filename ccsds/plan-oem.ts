@@ -12,12 +12,12 @@ import type { ManeuverPlan, PlanningProblem } from '../planner/index.ts';
 import {
   type BodyName, CancelledError, changeCentre, createBuiltinEphemeris, type Ephemeris, type EphemerisCache,
   type ForceModelSpec, InvalidInputError,
-  parseEpoch, propagateAsync, type StateVector, stateToFrame,
+  type LeapSecondTable, leapSecondTableOfPlan, parseEpoch, propagateAsync, type StateVector, stateToFrame,
 } from '../propagator/index.ts';
 import { rotateInertialCovariance } from './initial-state.ts';
 import { CENTRE_NAME_OF_BODY, type MessageFrame, WRITTEN_FRAME_NAME } from './frames.ts';
 import type { InterpolationMethod, Oem, OemCovariance, OemSegment, OemState } from './odm-types.ts';
-import { assertExportable, type PlanExportOptions, planHeader } from './plan-opm.ts';
+import { assertExportable, type PlanExportOptions, planEpochComment, planHeader } from './plan-opm.ts';
 import { formatCcsdsEpoch } from './values.ts';
 
 export interface PlanOemOptions extends PlanExportOptions {
@@ -67,8 +67,9 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
     throw new InvalidInputError('stepS', `step ${options.stepS} s must be a finite number > 0`);
   }
   const s = problem.initialState;
-  const startTdbS = parseEpoch(s.epoch, undefined, 'initialState.epoch');
-  const endTdbS = parseEpoch(problem.endEpoch, undefined, 'endEpoch');
+  const leap = leapSecondTableOfPlan(plan.leapSeconds);
+  const startTdbS = parseEpoch(s.epoch, undefined, 'initialState.epoch', leap);
+  const endTdbS = parseEpoch(problem.endEpoch, undefined, 'endEpoch', leap);
   const lines = Math.abs(endTdbS - startTdbS) / options.stepS + plan.burns.length * 2 + 2;
   if (lines > MAX_OEM_LINES) {
     throw new InvalidInputError('stepS', `step ${options.stepS} s gives about ${Math.round(lines)} lines `
@@ -117,12 +118,12 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
       const covariances: OemCovariance[] = [];
       if (withCovariance && covariance && result.stm) {
         const phi = Array.from({ length: 6 }, (_, i) => result.stm!.slice(6 * i, 6 * i + 6));
-        if (arc === 0) covariances.push(covarianceBlock(startTdbS, covariance, scale, 'Initial-state covariance'));
+        if (arc === 0) covariances.push(covarianceBlock(startTdbS, covariance, scale, leap, 'Initial-state covariance'));
         covariance = multiply(multiply(phi, covariance), transpose(phi));
-        covariances.push(covarianceBlock(arcEnd, covariance, scale,
+        covariances.push(covarianceBlock(arcEnd, covariance, scale, leap,
           'Initial-state covariance mapped linearly (STM); burn execution errors not included'));
       }
-      segments.push(segment(plan, options, samples, covariances, arc, interpolation, frame, scale));
+      segments.push(segment(plan, options, samples, covariances, arc, interpolation, frame, scale, leap));
       state = result.final;
     }
     const burn = burns[arc];
@@ -138,19 +139,20 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
 }
 
 /** A covariance block; `matrix` is in J2000 equatorial axes, written as EME2000. */
-function covarianceBlock(epochTdbS: number, matrix: number[][], scale: PlanOemOptions['timeSystem'], comment: string): OemCovariance {
+function covarianceBlock(epochTdbS: number, matrix: number[][], scale: PlanOemOptions['timeSystem'], leap: LeapSecondTable,
+  comment: string): OemCovariance {
   return {
-    comments: [comment], epoch: formatCcsdsEpoch(epochTdbS, scale ?? 'TDB'), epochTdbS,
+    comments: [comment], epoch: formatCcsdsEpoch(epochTdbS, scale ?? 'TDB', 6, leap), epochTdbS,
     covRefFrame: WRITTEN_FRAME_NAME, matrix: matrix.map((row) => [...row]),
   };
 }
 
 function segment(plan: ManeuverPlan, options: PlanOemOptions, samples: StateVector[], covariances: OemCovariance[],
   arc: number, interpolation: { method: InterpolationMethod; degree: number }, frame: MessageFrame,
-  scale: PlanOemOptions['timeSystem']): OemSegment {
+  scale: PlanOemOptions['timeSystem'], leap: LeapSecondTable): OemSegment {
   const ts = scale ?? 'TDB';
   const written: OemState[] = samples.map((x) => ({
-    epoch: formatCcsdsEpoch(x.epochTdbS, ts), epochTdbS: x.epochTdbS,
+    epoch: formatCcsdsEpoch(x.epochTdbS, ts, 6, leap), epochTdbS: x.epochTdbS,
     positionKm: [...x.positionKm], velocityKmS: [...x.velocityKmS], line: 0,
   }));
   // Epochs are printed to the microsecond: a sample that would print like its successor is dropped (the
@@ -166,7 +168,8 @@ function segment(plan: ManeuverPlan, options: PlanOemOptions, samples: StateVect
   const burnBefore = arc > 0 ? plan.burns[arc - 1] : undefined;
   return {
     metadata: {
-      comments: [burnBefore ? `Arc ${arc + 1}: after ${burnBefore.label}` : `Arc 1: from the initial state`],
+      comments: [burnBefore ? `Arc ${arc + 1}: after ${burnBefore.label} at ${planEpochComment(plan, burnBefore.epoch.tdbS)}`
+        : `Arc 1: from the initial state`, `from ${planEpochComment(plan, first.epochTdbS)} to ${planEpochComment(plan, last.epochTdbS)}`],
       objectName: plan.spacecraftName,
       objectId: options.objectId ?? 'UNKNOWN',
       centerName: CENTRE_NAME_OF_BODY[centre],

@@ -5,7 +5,9 @@
  * covariance), since the standard's frame table has no ecliptic frame.
  */
 import type { ManeuverPlan, PlanningProblem } from '../planner/index.ts';
-import { InvalidInputError, parseEpoch, stateToFrame, type TimeScale } from '../propagator/index.ts';
+import {
+  InvalidInputError, leapSecondTableOfPlan, parseEpoch, stateToFrame, type TimeScale, utcTextOrNull,
+} from '../propagator/index.ts';
 import { CENTRE_NAME_OF_BODY, tnwFromVnb, WRITTEN_FRAME_NAME } from './frames.ts';
 import { rotateInertialCovariance } from './initial-state.ts';
 import type { OdmHeader, Opm, OpmManeuver } from './odm-types.ts';
@@ -44,9 +46,25 @@ export function assertExportable(plan: ManeuverPlan): void {
   }
 }
 
-/** Header with the review statement, the plan's identity and its critical caveats as comments. */
+/** `<UTC> = <TDB>` of a TDB epoch through the plan's leap-second table (TDB alone before 1972). */
+export function planEpochComment(plan: ManeuverPlan, epochTdbS: number): string {
+  const utc = utcTextOrNull(epochTdbS, leapSecondTableOfPlan(plan.leapSeconds), 3);
+  const tdb = formatCcsdsEpoch(epochTdbS, 'TDB', 3);
+  return utc === null ? `${tdb} TDB` : `${utc} = ${tdb} TDB`;
+}
+
+/** Which leap-second table the message's UTC readings use. */
+function leapSecondsComment(plan: ManeuverPlan): string {
+  const l = plan.leapSeconds;
+  if (!l) return 'UTC readings: built-in leap-second table (the plan does not record its table)';
+  const where = l.source === 'built-in' ? 'the built-in table' : `${l.path} (SHA-256 ${l.sha256 ?? 'not computed'})`;
+  return `UTC readings: leap seconds from ${where}, expires ${l.expiresUtc}`;
+}
+
+/** Header with the review statement, the plan's identity, its leap-second table, and its critical caveats
+ * and the leap-second one (UTC past the table's expiry) as comments. */
 export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmHeader {
-  const critical = plan.caveats.filter((c) => c.severity === 'critical');
+  const critical = plan.caveats.filter((c) => c.severity === 'critical' || c.code === 'UTC_LEAP_SECONDS_ASSUMED');
   return {
     version: '2.0',
     creationDate: options.creationDateUtc.replace(/Z$/, ''),
@@ -55,7 +73,8 @@ export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmH
       ...REVIEW_COMMENTS,
       `problem hash ${plan.problemHash}; software ${plan.softwareVersion}; status ${plan.status}; cross-check `
         + `${plan.crossCheck.passed ? 'passed' : 'NOT passed'}`,
-      ...critical.map((c) => `CRITICAL ${c.code}: ${c.text}`),
+      leapSecondsComment(plan),
+      ...critical.map((c) => `${c.severity.toUpperCase()} ${c.code}: ${c.text}`),
     ],
   };
 }
@@ -64,15 +83,16 @@ export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmH
 export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options: PlanExportOptions): Opm {
   assertExportable(plan);
   const scale = options.timeSystem ?? 'TDB';
+  const leap = leapSecondTableOfPlan(plan.leapSeconds);
   const s = problem.initialState;
-  const epochTdbS = parseEpoch(s.epoch, undefined, 'initialState.epoch');
+  const epochTdbS = parseEpoch(s.epoch, undefined, 'initialState.epoch', leap);
   const written = stateToFrame({ epochTdbS, centre: s.centre, frame: s.frame, positionKm: s.positionKm, velocityKmS: s.velocityKmS },
     'J2000_EQUATORIAL');
   const local = problem.forceModel.centralBody === s.centre && !problem.forceModel.switching;
   const frameChoice = local ? options.maneuverFrame ?? 'RTN' : 'inertial';
   const maneuvers: OpmManeuver[] = plan.burns.map((b) => {
     const comments = [`${b.label}: ${b.magnitudeMS.toFixed(4)} m/s, impulsive as planned; at the engine's thrust it `
-      + `lasts about ${b.durationS.toFixed(1)} s`];
+      + `lasts about ${b.durationS.toFixed(1)} s`, `ignition ${planEpochComment(plan, b.epoch.tdbS)}`];
     if (!local && options.maneuverFrame && options.maneuverFrame !== 'inertial') {
       comments.push('components are inertial: the plan\'s local frames are relative to the integration centre, '
         + 'which is not the CENTER_NAME here');
@@ -82,7 +102,7 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
       : [WRITTEN_FRAME_NAME, b.deltaVInertialKmS];
     return {
       comments,
-      epochIgnition: formatCcsdsEpoch(b.epoch.tdbS, scale),
+      epochIgnition: formatCcsdsEpoch(b.epoch.tdbS, scale, 6, leap),
       epochIgnitionTdbS: b.epoch.tdbS,
       durationS: 0,
       deltaMassKg: b.propellantKg === 0 ? 0 : -b.propellantKg,
@@ -103,8 +123,8 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
       timeSystem: scale,
     },
     state: {
-      comments: ['Initial state of the plan (orbit determination input)'],
-      epoch: formatCcsdsEpoch(epochTdbS, scale),
+      comments: ['Initial state of the plan (orbit determination input)', `epoch ${planEpochComment(plan, epochTdbS)}`],
+      epoch: formatCcsdsEpoch(epochTdbS, scale, 6, leap),
       epochTdbS,
       positionKm: [...written.positionKm],
       velocityKmS: [...written.velocityKmS],

@@ -3,7 +3,7 @@
  * converted with the propagator's time scales. Every function names the keyword and line on failure.
  */
 import {
-  civilFromDays, daysFromCivil, formatEpoch, parseEpoch, type TimeScale,
+  BUILTIN_LEAP_SECONDS, civilFromDays, daysFromCivil, formatEpoch, type LeapSecondTable, parseEpoch, type TimeScale,
 } from '../propagator/index.ts';
 import { CcsdsFormatError, withLine } from './errors.ts';
 
@@ -72,9 +72,10 @@ export function checkCreationDate(line: number, text: string): string {
 }
 
 /** Writes TDB seconds from J2000 as a CCSDS epoch `YYYY-MM-DDThh:mm:ss.ffffff` in `scale` (no suffix),
- * with `fractionDigits` in [0, 6]. */
-export function formatCcsdsEpoch(epochTdbS: number, scale: TimeScale, fractionDigits = 6): string {
-  return formatEpoch(epochTdbS, scale, fractionDigits).replace(/ (UTC|TAI|TT|TDB)$/, '');
+ * with `fractionDigits` in [0, 6]; UTC through `leapSeconds` (a plan's own table when writing a plan). */
+export function formatCcsdsEpoch(epochTdbS: number, scale: TimeScale, fractionDigits = 6,
+  leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): string {
+  return formatEpoch(epochTdbS, scale, fractionDigits, leapSeconds).replace(/ (UTC|TAI|TT|TDB)$/, '');
 }
 
 /** Writes a number with `decimals` digits after the point (fixed notation). */

@@ -257,8 +257,9 @@ export interface ManeuverPlan {
   targetSetKey: string;
   title: string | null;
   createdFrom: { initialEpoch: PlanEpoch; endEpoch: PlanEpoch; centre: BodyName; frame: string; hasCovariance: boolean };
-  /** The leap-second table used for every UTC epoch read or written (the problem hash covers it). */
-  leapSeconds: PlanLeapSeconds;
+  /** The leap-second table used for every UTC epoch read or written (the problem hash covers it); absent in
+   * plans made before it was recorded (they used the built-in table of their software version). */
+  leapSeconds?: PlanLeapSeconds;
   forceModel: { summary: string; centralBody: BodyName; perturbingBodies: BodyName[]; centralJ2: boolean; solarPressure: boolean; method: 'cowell' | 'encke'; relativeTolerance: number; switching: boolean; ephemeris: string };
   burns: PlannedBurn[];
   totalDeltaVMS: number;

@@ -7,7 +7,7 @@ export { parseProblem, checkProblem, problemEpochs } from './problem-checks.ts';
 export type { ProblemEpochs } from './problem-checks.ts';
 export { canonicalJson } from '../contract/canonical-json.ts';
 export { problemHash, targetSetKey } from './problem-hash.ts';
-export { planLeapSeconds, leapSecondTableOfPlan } from './leap-seconds.ts';
+export { planLeapSeconds, leapSecondTableOfPlan } from '../propagator/index.ts';
 export { leapSecondsFromFileBytes } from './leap-seconds-file.ts';
 export { CAVEAT_CODES, REVIEW_TEXT, caveat, reviewCaveat, orderCaveats } from './caveats.ts';
 export type { CaveatCode } from './caveats.ts';

@@ -133,7 +133,7 @@ export async function exportPlanFilesAsCcsds(o: OfflineCcsdsExport): Promise<{ t
   if (o.kind === 'oem' && o.stepS === undefined) throw new InvalidInputError('--step', 'an OEM export needs --step SECONDS');
   const plan = planFromJson(await readJson(o.planPath, '--plan'), o.planPath);
   // The plan's own leap-second table reads the problem's UTC epochs, as when it was planned.
-  const leapSeconds = plan.leapSeconds ? leapSecondTableOfPlan(plan.leapSeconds) : BUILTIN_LEAP_SECONDS;
+  const leapSeconds = leapSecondTableOfPlan(plan.leapSeconds);
   const problem = o.statePath !== undefined ? await readProblemFileWithOpmState(o.problemPath, o.statePath, leapSeconds)
     : parseProblem(await readJson(o.problemPath, '--problem'), leapSeconds);
   const hash = problemHash(problem, planLeapSeconds(leapSeconds));

@@ -29,7 +29,7 @@ export function epochText(e: PlanEpoch): string {
 
 /** Which leap-second table the plan's UTC epochs use (plans made before it was recorded say so). */
 function leapSecondsLine(plan: ManeuverPlan): string {
-  const l = plan.leapSeconds as ManeuverPlan['leapSeconds'] | undefined;
+  const l = plan.leapSeconds;
   if (!l) return 'Leap seconds: not recorded (plan made before the table was recorded)';
   const where = l.source === 'built-in' ? 'built-in table' : `${l.path} (SHA-256 ${l.sha256 ?? 'not computed'})`;
   return `Leap seconds: ${where}, expires ${l.expiresUtc}; TAI − UTC ${l.taiMinusUtcAfterExpiryS} s from ${l.steps[l.steps.length - 1][0]}`;

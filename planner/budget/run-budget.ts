@@ -8,7 +8,7 @@
  * 3. assembleBudget: statistics of both paths, their per-burn agreement, caveats.
  * runBudget does all three in this process. A budget is a study: never a plan to approve.
  */
-import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError } from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, planLeapSeconds } from '../../propagator/index.ts';
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
 import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-types.ts';
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
@@ -109,7 +109,7 @@ export function assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nomin
   if (!nominal) notes.push(`no budget: the nominal plan did not converge (${plan.convergence.message})`);
   if (!agreement) notes.push('no linear/non-linear comparison: only one path ran');
   return {
-    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem, plan.leapSeconds), requestHash: budgetRequestHash(request),
+    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem, planLeapSeconds(BUDGET_LEAP_SECONDS)), requestHash: budgetRequestHash(request),
     softwareVersion: SOFTWARE_VERSION, spacecraftName: request.problem.spacecraft.name, title: request.problem.title ?? null,
     nominal: {
       status: plan.status, crossCheckPassed: plan.crossCheck.passed,

@@ -4,7 +4,7 @@
  * gives exactly the single-process result. summariseDispersion compares the samples with the plan's linear
  * B-plane covariance; attachMonteCarlo stores the summary and recomputes the dispersion caveats.
  */
-import { InvalidInputError } from '../../propagator/index.ts';
+import { InvalidInputError, leapSecondTableOfPlan } from '../../propagator/index.ts';
 import type { EphemerisCache, StateVector } from '../../propagator/index.ts';
 import { bPlaneEllipse, compareEllipses } from '../dispersion/ellipse.ts';
 import { binomialEstimate } from '../dispersion/impact-probability.ts';
@@ -18,7 +18,6 @@ import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import { evaluateComponent } from '../targeting/target-geometry.ts';
 import { planCaveats } from './plan-caveats.ts';
 import { planningContext } from './planning-context.ts';
-import { leapSecondTableOfPlan } from '../leap-seconds.ts';
 import type { PlanningContext } from './planning-context.ts';
 
 export interface SampleRunOptions {

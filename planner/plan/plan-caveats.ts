@@ -50,8 +50,8 @@ function utcCaveats(plan: ManeuverPlan): Caveat[] {
   const epochs = planEpochs(plan);
   const leap = plan.leapSeconds;
   // ISO dates compare as text; a UTC reading on or after the expiry date uses an assumed TAI − UTC.
-  const past = epochs.filter((e) => e.utc !== null && e.utc.slice(0, 10) >= leap.expiresUtc);
-  if (past.length > 0) {
+  const past = leap ? epochs.filter((e) => e.utc !== null && e.utc.slice(0, 10) >= leap.expiresUtc) : [];
+  if (leap && past.length > 0) {
     const lastStep = leap.steps[leap.steps.length - 1][0];
     const source = leap.source === 'built-in' ? 'the built-in table' : `${leap.path} (SHA-256 ${leap.sha256 ?? 'not computed'})`;
     out.push(caveat('UTC_LEAP_SECONDS_ASSUMED', `${past.length} epoch(s) of this plan, from ${past.map((e) => e.utc).sort()[0]} on, `

@@ -5,14 +5,13 @@
  * AbortSignal flow; cancellation rejects with CancelledError. Not converging resolves to a plan with
  * status 'not-converged', no burns to execute and the diagnostics.
  */
-import { BUILTIN_LEAP_SECONDS, CancelledError } from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, CancelledError, planLeapSeconds } from '../../propagator/index.ts';
 import type { EphemerisCache, LeapSecondTable, Vec3 } from '../../propagator/index.ts';
 import { finiteDifferenceJacobian, runCorrector } from '../corrector/differential-corrector.ts';
 import type { CorrectorResult } from '../corrector/differential-corrector.ts';
 import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from '../../contract/plan-types.ts';
 import { parseProblem } from '../problem-checks.ts';
 import { problemHash, targetSetKey } from '../problem-hash.ts';
-import { planLeapSeconds } from '../leap-seconds.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { burnSettings } from '../targeting/controls.ts';
 import { lambertSeeds } from '../targeting/lambert-seed.ts';

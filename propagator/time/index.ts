@@ -9,4 +9,5 @@ export { taiMinusUtcS, isUtcPastLeapSecondExpiry } from './leap-seconds.ts';
 export { BUILTIN_LEAP_SECONDS, buildLeapSecondTable, lastTaiMinusUtcS, utcDateText } from './leap-second-table.ts';
 export type { LeapSecondTable, LeapSecondStep, LeapSecondOrigin, LeapSecondTableInput } from './leap-second-table.ts';
 export { parseLeapSecondsList } from './leap-seconds-list.ts';
+export { planLeapSeconds, leapSecondTableOfPlan } from './leap-second-record.ts';
 export { daysFromCivil, civilFromDays } from './calendar.ts';
