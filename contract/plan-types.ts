@@ -72,6 +72,43 @@ export interface PlannedBurn {
   durationS: number;
   /** Time from this burn to the first target after it, s (null when unknown). */
   timeToTargetS: number | null;
+  /** Absent or 'impulsive': Δv at `epoch`. 'finite': `epoch` is the ignition, `deltaVInertialKmS` the ideal
+   * (rocket-equation) Δv along the thrust direction at ignition, and `finite` holds the burn as flown. */
+  model?: 'impulsive' | 'finite';
+  finite?: PlannedFiniteBurn;
+}
+
+/** A finite burn as planned: enough to fly it again independently. Epochs TDB s from J2000 (+ text);
+ * directions unit vectors; masses kg. */
+export interface PlannedFiniteBurn {
+  startTdbS: number;
+  durationS: number;
+  thrustN: number;
+  massFlowKgS: number;
+  /** Thrust direction at ignition, J2000 equatorial. For inertial steering it holds for the whole burn. */
+  directionInertial: Vec3;
+  /** Axes the direction is held fixed in ('inertial', or RTN / VNB of the instantaneous state relative to
+   * the integration centre) and its components there. */
+  axes: 'inertial' | 'RTN' | 'VNB';
+  directionLocal: Vec3;
+  /** The local axes at ignition (rows: the three axes of `axes` in J2000 equatorial components; the
+   * identity for inertial). Pointing errors of the dispersion turn the direction in these axes. */
+  axesAtStart: [Vec3, Vec3, Vec3];
+  /** Thrust direction at cut-off, J2000 equatorial (differs from ignition for local-axis steering). */
+  directionAtEndInertial: Vec3;
+  start: PlanEpoch;
+  end: PlanEpoch;
+  propellantKg: number;
+  massBeforeKg: number;
+  massAfterKg: number;
+  /** Ideal Δv of the burn, (F/ṁ)·ln(m_before/m_after), m/s. */
+  idealDeltaVMS: number;
+  /** The impulsive Δv that met the same targets, m/s, and the finite-burn loss: ideal − impulsive, m/s. */
+  impulsiveDeltaVMS: number;
+  finiteBurnLossMS: number;
+  /** Events inside the arc, with the numbers (closest approach to a planned body, SOI crossing); empty
+   * when none. Each raises a caveat. */
+  insideArc: string[];
 }
 
 /** One scalar target component, e.g. B·T of a b-plane target. */
@@ -109,12 +146,16 @@ export interface IterationRecord {
   note?: string;
 }
 
+/** Controls of a finite burn: two pointing offsets (rad, across the seed direction), duration and ignition
+ * shift (s). */
+export type FiniteControlKind = 'point0' | 'point1' | 'duration' | 'ignition';
+
 export interface ControlDescriptor {
   burnIndex: number;
   /** 'dv0'..'dv2' (component in the burn's frame) or 'epoch'. */
-  kind: 'dv0' | 'dv1' | 'dv2' | 'epoch';
+  kind: 'dv0' | 'dv1' | 'dv2' | 'epoch' | FiniteControlKind;
   name: string;
-  unit: 'km/s' | 's';
+  unit: 'km/s' | 's' | 'rad';
 }
 
 export interface Sensitivities {
@@ -264,6 +305,8 @@ export interface ManeuverPlan {
   burns: PlannedBurn[];
   totalDeltaVMS: number;
   totalPropellantKg: number;
+  /** spacecraft.propellantKg of the problem (usable propellant on board, kg), when given. */
+  propellantLoadKg?: number | null;
   targets: TargetResult[];
   iterations: IterationRecord[];
   convergence: {

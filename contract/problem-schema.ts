@@ -37,6 +37,8 @@ const spacecraftSchema = z.object({
   name: freeTextSchema({ min: 1, max: 80, visible: true }),
   /** Wet mass at the initial epoch, kg. */
   massKg: z.number().positive().max(BOUNDS.massKg),
+  /** Usable propellant on board at the initial epoch, kg; when given, burns needing more are flagged. */
+  propellantKg: z.number().positive().max(BOUNDS.massKg).optional(),
   engine: z.object({
     /** Specific impulse, s. */
     ispS: z.number().positive().max(BOUNDS.ispS),
@@ -93,6 +95,13 @@ const burnSchema = z.object({
   guessFromLambert: z.boolean().default(false),
   /** When given, the burn epoch is also free within [earliest, latest]. */
   epochWindow: z.object({ earliest: epochTextSchema, latest: epochTextSchema }).strict().optional(),
+  /** `impulsive` (absent means impulsive): an instantaneous Δv at `epoch`. `finite`: the engine fires at its
+   * thrust for a duration along a direction held fixed in `frame` axes (inertial = J2000 equatorial; RTN /
+   * VNB turn with the instantaneous state). The corrector first solves the impulsive problem, then the
+   * finite burn (pointing and duration; ignition too when epochWindow is given, the window bounding the
+   * ignition) starting from a burn centred on the impulsive epoch. A finite burn frees all three
+   * components (freeComponents all true, no boundsKmS). */
+  model: z.enum(['impulsive', 'finite']).optional(),
 }).strict();
 
 const toleranceKm = inRange(BOUNDS.toleranceKm);

@@ -24,6 +24,8 @@ export const CAVEAT_CODES = [
   'BUDGET_PATHS_DISAGREE',
   'BUDGET_LIMIT_CROSSING',
   'UTC_LEAP_SECONDS_ASSUMED',
+  'FINITE_BURN_OVERLAPS_EVENT',
+  'PROPELLANT_EXCEEDS_LOAD',
 ] as const;
 export type CaveatCode = (typeof CAVEAT_CODES)[number];
 
@@ -51,6 +53,8 @@ const SEVERITY: Readonly<Record<CaveatCode, CaveatSeverity>> = Object.freeze({
   BUDGET_PATHS_DISAGREE: 'warning',
   BUDGET_LIMIT_CROSSING: 'critical',
   UTC_LEAP_SECONDS_ASSUMED: 'warning',
+  FINITE_BURN_OVERLAPS_EVENT: 'critical',
+  PROPELLANT_EXCEEDS_LOAD: 'critical',
 });
 
 /** Builds one caveat with its catalogue severity. */

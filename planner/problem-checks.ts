@@ -102,6 +102,11 @@ export function checkProblem(problem: PlanningProblem, leapSeconds: LeapSecondTa
       freeCount += 1;
     }
     freeCount += b.freeComponents.filter(Boolean).length;
+    if (b.model === 'finite') {
+      // The finite stage solves for pointing and duration: all three components move.
+      if (b.freeComponents.some((f) => !f)) throw new InvalidInputError(`burns[${i}].freeComponents`, 'a finite burn needs all three components free (its direction and duration are solved for)');
+      if (b.boundsKmS) throw new InvalidInputError(`burns[${i}].boundsKmS`, 'not available for a finite burn (bound its ignition with epochWindow)');
+    }
     if (b.guessFromLambert) {
       const ok = problem.targets.some((tg, k) => (tg.kind === 'position' || tg.kind === 'state')
         && tg.centre === fm.centralBody && (e.targetTdbS[k] as number) > t);

@@ -194,6 +194,9 @@ export interface PropagationResult {
   finiteBurns?: FiniteBurnRecord[];
   /** Per finite burn (request order), when the request had finite burns and withStm was set. */
   finiteBurnSensitivities?: FiniteBurnSensitivity[];
+  /** ∂(final state)/∂(initial mass), 6 numbers (km/kg, km/s/kg), when the request had finite burns and
+   * withStm was set. */
+  initialMassSensitivity?: number[];
   /** Mass at the final epoch, kg, when the request had finite burns. */
   finalMassKg?: number;
   /** States at the output step, when outputStepS was set. */

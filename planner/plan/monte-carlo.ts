@@ -16,6 +16,7 @@ import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import { evaluateComponent } from '../targeting/target-geometry.ts';
+import { dispersedSetting } from './finite-stage.ts';
 import { planCaveats } from './plan-caveats.ts';
 import { planningContext } from './planning-context.ts';
 import type { PlanningContext } from './planning-context.ts';
@@ -49,7 +50,7 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
       velocityKmS: [base.velocityKmS[0] + d[3], base.velocityKmS[1] + d[4], base.velocityKmS[2] + d[5]],
     } : base;
     const applied = drawn.burnDeltaVKmS;
-    const settings: BurnSetting[] = plan.burns.map((b, i) => ({ epochTdbS: b.epoch.tdbS, frame: 'inertial', deltaVLocalKmS: applied[i] }));
+    const settings: BurnSetting[] = plan.burns.map((b, i) => dispersedSetting(b, applied[i], ctx.problem.spacecraft.engine.ispS));
     const ev = await evaluateTrajectory({ ...ctx.evaluation, initial }, settings, {
       withStm: false, method: ctx.problem.forceModel.method, relativeTolerance: ctx.problem.forceModel.relativeTolerance,
       signal: options.signal,

@@ -77,7 +77,11 @@ export function planCaveats(plan: ManeuverPlan): Caveat[] {
     out.push(caveat('CROSS_CHECK_FAILED', `Independent cross-check failed: ${plan.crossCheck.message}`));
   }
   for (const b of plan.burns) {
-    if (b.timeToTargetS !== null && b.durationS > lim.impulsiveDurationFraction * b.timeToTargetS) {
+    for (const note of b.finite?.insideArc ?? []) {
+      out.push(caveat('FINITE_BURN_OVERLAPS_EVENT', `${b.label}: ${note}. The burn arc must not straddle a closest approach or a sphere-of-influence crossing; move or split the burn.`));
+    }
+    // A finite burn is modelled as flown: the impulsive approximation does not apply to it.
+    if (b.model !== 'finite' && b.timeToTargetS !== null && b.durationS > lim.impulsiveDurationFraction * b.timeToTargetS) {
       out.push(caveat('IMPULSIVE_APPROXIMATION_QUESTIONABLE', `${b.label}: burn duration ${b.durationS.toFixed(1)} s is ${pct(b.durationS / b.timeToTargetS)} of the ${(b.timeToTargetS / 86400).toFixed(2)} d to its target (limit ${pct(lim.impulsiveDurationFraction)}); model it as a finite burn before use.`));
     }
   }
@@ -85,6 +89,10 @@ export function planCaveats(plan: ManeuverPlan): Caveat[] {
     if (a.altitudeKm < lim.safeAltitudeKm) {
       out.push(caveat('CLOSEST_APPROACH_BELOW_SAFE_ALTITUDE', `Closest approach to ${a.body} at ${a.altitudeKm.toFixed(1)} km altitude is below the safe altitude ${lim.safeAltitudeKm} km.`));
     }
+  }
+  const load = plan.propellantLoadKg;
+  if (load !== undefined && load !== null && plan.totalPropellantKg > load) {
+    out.push(caveat('PROPELLANT_EXCEEDS_LOAD', `The burns need ${plan.totalPropellantKg.toFixed(2)} kg of propellant but the spacecraft carries ${load.toFixed(2)} kg (spacecraft.propellantKg): the plan cannot be flown as proposed.`));
   }
   const cond = plan.convergence.maxConditionNumber;
   if (cond !== null && cond > lim.conditionNumberLimit) {

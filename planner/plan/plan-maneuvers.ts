@@ -13,7 +13,9 @@ import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from 
 import { parseProblem } from '../problem-checks.ts';
 import { problemHash, targetSetKey } from '../problem-hash.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
-import { burnSettings } from '../targeting/controls.ts';
+import { controlSettings, finiteControlLayout } from '../targeting/finite-controls.ts';
+import type { FiniteSeed } from '../targeting/finite-types.ts';
+import { attachFiniteDetails, finiteSeeds, hasFiniteBurns } from './finite-stage.ts';
 import { lambertSeeds } from '../targeting/lambert-seed.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import type { TrajectoryEvaluation } from '../targeting/evaluate-trajectory.ts';
@@ -57,7 +59,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   progress({ stage: 'validating', fraction: 0, message: 'checking the problem' });
   const leapSeconds = options.leapSeconds ?? BUILTIN_LEAP_SECONDS;
   const problem = parseProblem(input, leapSeconds);
-  const ctx = planningContext(problem, leapSeconds, options.ephemerisCache);
+  let ctx = planningContext(problem, leapSeconds, options.ephemerisCache);
   const leapRecord = planLeapSeconds(leapSeconds);
   const epochOf = (tdbS: number): ReturnType<typeof planEpoch> => planEpoch(tdbS, leapSeconds);
   checkAbort();
@@ -76,28 +78,46 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   const seeded = await lambertSeeds(problem, ctx.epochs, ctx.layout, ctx.evaluation, signal);
   const maxIter = problem.corrector.maxIterations;
   progress({ stage: 'correcting', fraction: 0.02, message: 'differential correction', iteration: 0 });
-  const result: CorrectorResult = await runCorrector({
-    initial: seeded.initial, tolerances: ctx.components.slice(0, m).map((c) => c.tolerance),
+  const correct = (initial: number[], stage: string): Promise<CorrectorResult> => runCorrector({
+    initial, tolerances: ctx.components.slice(0, m).map((c) => c.tolerance),
     controlScales: ctx.layout.scales, maxStep: ctx.layout.maxStep, finiteDifferenceStep: ctx.layout.finiteDifferenceStep,
     lower: ctx.layout.lower, upper: ctx.layout.upper, maxIterations: maxIter,
     evaluate: async (x, withJacobian) => {
-      const ev = await evaluateTrajectory(ctx.evaluation, burnSettings(problem, ctx.epochs, ctx.layout, x), { ...primary, withStm: withJacobian });
+      const ev = await evaluateTrajectory(ctx.evaluation, controlSettings(problem, ctx.epochs, ctx.layout, x), { ...primary, withStm: withJacobian });
       if (!ev.ok) return { ok: false, reason: ev.reason };
       count(ev);
       return { ok: true, residuals: ev.values.slice(0, m).map((v, i) => v - ctx.components[i].requested), jacobian: ev.jacobian ? ev.jacobian.slice(0, m) : undefined };
     },
     onIteration: (rec) => progress({
       stage: 'correcting', fraction: 0.02 + 0.5 * Math.min(1, (rec.iteration + 1) / Math.min(maxIter, 8)),
-      message: `iteration ${rec.iteration}: largest |residual|/tolerance ${rec.maxScaledResidual.toPrecision(3)}`, iteration: rec.iteration,
+      message: `${stage}iteration ${rec.iteration}: largest |residual|/tolerance ${rec.maxScaledResidual.toPrecision(3)}`, iteration: rec.iteration,
     }),
   });
+  let result: CorrectorResult = await correct(seeded.initial, '');
+  // 1b. Finite burns: from the converged impulsive solution, solve for pointing, duration (and ignition).
+  let seeds: (FiniteSeed | undefined)[] = problem.burns.map(() => undefined);
+  const earlierIterations: CorrectorResult['iterations'] = [];
+  if (hasFiniteBurns(problem) && result.outcome === 'converged') {
+    const impulsive = await evaluateTrajectory(ctx.evaluation, controlSettings(problem, ctx.epochs, ctx.layout, result.controls), { ...primary, withStm: false });
+    const seeded2 = impulsive.ok ? finiteSeeds(problem, impulsive.burns) : { seeds, error: impulsive.ok ? null : impulsive.reason };
+    if (seeded2.error !== null) {
+      result = { ...result, outcome: 'evaluation-failed', message: `finite-burn stage not started: ${seeded2.error}` };
+    } else {
+      seeds = seeded2.seeds;
+      const layout = finiteControlLayout(problem, ctx.epochs, ctx.layout, result.controls, seeds);
+      ctx = { ...ctx, layout, evaluation: { ...ctx.evaluation, controlMap: layout.descriptors.map((d) => ({ burnIndex: d.burnIndex, kind: d.kind })) } };
+      earlierIterations.push(...result.iterations.map((it) => ({ ...it, note: `impulsive stage${it.note ? `: ${it.note}` : ''}` })));
+      const finite = await correct(layout.initial, 'finite burns: ');
+      result = { ...finite, iterations: [...earlierIterations, ...finite.iterations], message: `finite burns: ${finite.message}` };
+    }
+  }
   checkAbort();
   const iterations: IterationRecord[] = result.iterations.map((it) => ({
     ...it, jacobianSource: it.jacobianSource === 'analytic' ? 'stm' : it.jacobianSource,
   }));
   const conds = iterations.flatMap((it) => (it.conditionNumber === null ? [] : [it.conditionNumber]));
   const converged = result.outcome === 'converged';
-  const settings = burnSettings(problem, ctx.epochs, ctx.layout, result.controls);
+  const settings = controlSettings(problem, ctx.epochs, ctx.layout, result.controls);
 
   // 2. The solution (or last iterate) evaluated with sensitivities and samples for the plot.
   const spanS = ctx.epochs.endTdbS - ctx.epochs.initialTdbS;
@@ -118,7 +138,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   } : null;
   if (sensitivities && options.verifyJacobian && converged) {
     const fd = await finiteDifferenceJacobian(async (x) => {
-      const ev = await evaluateTrajectory(ctx.evaluation, burnSettings(problem, ctx.epochs, ctx.layout, x), { ...primary, withStm: false });
+      const ev = await evaluateTrajectory(ctx.evaluation, controlSettings(problem, ctx.epochs, ctx.layout, x), { ...primary, withStm: false });
       if (!ev.ok) return { ok: false, reason: ev.reason };
       count(ev);
       return { ok: true, residuals: ev.values.slice(0, m) };
@@ -151,6 +171,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
     burns: converged && ok ? plannedBurns(problem, ok.burns, freeEpoch, after, leapSeconds) : [],
     totalDeltaVMS: 0,
     totalPropellantKg: 0,
+    propellantLoadKg: problem.spacecraft.propellantKg ?? null,
     targets: targetResults(ctx.components, m, ok ? ok.values : ctx.components.slice(0, m).map(() => null), leapSeconds),
     iterations,
     convergence: {
@@ -176,6 +197,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
     limits: { ...problem.limits },
     effort: { propagations: 0, evaluations: 0 },
   };
+  if (ok) attachFiniteDetails(problem, plan.burns, ok.burns, seeds, ctx.ephemeris, leapSeconds);
   plan.totalDeltaVMS = plan.burns.reduce((s, b) => s + b.magnitudeMS, 0);
   plan.totalPropellantKg = plan.burns.reduce((s, b) => s + b.propellantKg, 0);
   if (idx && ok) {

@@ -7,6 +7,7 @@ import type { Vec3 } from '../../propagator/index.ts';
 import type { ControlDescriptor } from '../../contract/plan-types.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
+import type { FiniteSeed, FiniteSetting } from './finite-types.ts';
 
 export interface ControlLayout {
   descriptors: ControlDescriptor[];
@@ -16,6 +17,8 @@ export interface ControlLayout {
   finiteDifferenceStep: number[];
   lower: number[];
   upper: number[];
+  /** The finite stage only: per burn, the seed of a finite burn (undefined for impulsive burns). */
+  finiteSeeds?: (FiniteSeed | undefined)[];
 }
 
 /** A burn as the evaluator uses it: epoch and Δv in the burn's frame. */
@@ -23,6 +26,8 @@ export interface BurnSetting {
   epochTdbS: number;
   frame: 'inertial' | 'RTN' | 'VNB';
   deltaVLocalKmS: Vec3;
+  /** A finite burn (then `epochTdbS` is its ignition and `deltaVLocalKmS` is not used). */
+  finite?: FiniteSetting;
 }
 
 const AXIS_NAMES: Record<'inertial' | 'RTN' | 'VNB', [string, string, string]> = {
@@ -74,7 +79,7 @@ export function burnSettings(problem: PlanningProblem, epochs: ProblemEpochs, la
   layout.descriptors.forEach((d, j) => {
     const s = settings[d.burnIndex];
     if (d.kind === 'epoch') s.epochTdbS = epochs.burnTdbS[d.burnIndex] + x[j];
-    else s.deltaVLocalKmS[Number(d.kind[2])] = x[j];
+    else if (d.kind === 'dv0' || d.kind === 'dv1' || d.kind === 'dv2') s.deltaVLocalKmS[Number(d.kind[2])] = x[j];
   });
   return settings;
 }

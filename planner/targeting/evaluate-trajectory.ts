@@ -10,11 +10,13 @@
  */
 import { CancelledError, changeCentre, propagateAsync } from '../../propagator/index.ts';
 import type {
-  BodyName, Ephemeris, EventSpec, PropagationMethod, PropagationResult, StateVector, Vec3,
+  BodyName, Ephemeris, EventSpec, FiniteBurnRecord, FiniteBurnSpec, PropagationMethod, PropagationRequest, PropagationResult, StateVector, Vec3,
 } from '../../propagator/index.ts';
 import { exhaustVelocityKmS } from '../maneuver-math.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
+import type { ControlDescriptor } from '../../contract/plan-types.ts';
 import type { BurnSetting } from './controls.ts';
+import { chainFiniteArc, equivalentDeltaVKmS, finiteSpec, type ChainState } from './finite-arc.ts';
 import { localAxes, localToInertial } from './local-frames.ts';
 import type { Rotation3 } from './local-frames.ts';
 import type { TargetComponent } from './target-components.ts';
@@ -31,7 +33,7 @@ export interface EvaluationContext {
   components: TargetComponent[];
   ephemeris: Ephemeris;
   /** Number of controls and, per control, which burn and what it is. */
-  controlMap: { burnIndex: number; kind: 'dv0' | 'dv1' | 'dv2' | 'epoch' }[];
+  controlMap: { burnIndex: number; kind: ControlDescriptor['kind'] }[];
 }
 
 export interface EvaluationOptions {
@@ -50,8 +52,11 @@ export interface BurnRecord {
   /** State just before the burn (J2000 equatorial, integration centre). */
   preBurn: StateVector;
   axes: Rotation3;
+  /** Impulsive: the Δv. Finite: the ideal (rocket-equation) Δv along the thrust direction at ignition. */
   deltaVInertialKmS: Vec3;
   deltaVLocalKmS: Vec3;
+  /** A finite burn as flown (epochTdbS is its ignition, preBurn the state there). */
+  finite?: { spec: FiniteBurnSpec; record: FiniteBurnRecord };
 }
 
 export interface ApproachRecord {
@@ -130,6 +135,9 @@ export async function evaluateTrajectory(
   let G = stm ? zeros(6, n) : [];
   let P = stm ? identity6() : [];
   let B: M[] = [];
+  // d(mass)/d(controls) and d(mass)/d(Δv) of each burn: a finite burn's acceleration depends on the mass.
+  let massRow = new Array<number>(n).fill(0);
+  let massB: number[][] = [];
   const burns: BurnRecord[] = [];
   const samples: StateVector[] = [];
   let propagations = 0;
@@ -145,9 +153,10 @@ export async function evaluateTrajectory(
     if (ev && body) rel = ev.state.centre === body ? vec(ev.state) : vec(changeCentre(ev.state, body, ctx.ephemeris));
     return { body, epochTdbS: res.final.epochTdbS, stateRelBody: rel };
   };
-  const run = async (endTdbS: number, events: EventSpec[]): Promise<PropagationResult> => {
+  const run = async (endTdbS: number, events: EventSpec[], extra: Partial<PropagationRequest> = {}): Promise<PropagationResult> => {
     if (opts.signal?.aborted) throw new CancelledError();
     const result = await propagateAsync({
+      ...extra,
       initial: state, endEpochTdbS: endTdbS, forces: forcesFor(problem, mass), ephemeris: ctx.ephemeris,
       method: opts.method, relativeTolerance: opts.relativeTolerance, withStm: stm, events,
       switching: (opts.switching ?? problem.forceModel.switching) ? { enabled: true } : undefined,
@@ -181,18 +190,41 @@ export async function evaluateTrajectory(
       advance(res);
     }
     const axes = localAxes(s.frame, state.positionKm, state.velocityKmS);
+    if (s.finite) {
+      const spec = finiteSpec(s);
+      const res = await run(spec.startTdbS + spec.durationS, [], { finiteBurns: [spec], initialMassKg: mass });
+      if (res.outcome !== 'finished') return fail(`finite burn ${i + 1} ended '${res.outcome}': ${res.message ?? ''}`.trim(), impactOf(res));
+      const record = res.finiteBurns![0];
+      const eq = equivalentDeltaVKmS(record, s);
+      burns.push({ epochTdbS: spec.startTdbS, preBurn: state, axes, deltaVInertialKmS: eq.inertial, deltaVLocalKmS: eq.local, finite: { spec, record } });
+      if (stm) {
+        const chain: ChainState = { G, P, B, massRow, massB };
+        chainFiniteArc(chain, res, s, axes, ctx.controlMap, i);
+        ({ G, P, B, massRow, massB } = chain);
+      }
+      state = res.final;
+      mass = res.finalMassKg!;
+      continue;
+    }
     const dv = localToInertial(axes, s.deltaVLocalKmS);
     burns.push({ epochTdbS: s.epochTdbS, preBurn: state, axes, deltaVInertialKmS: dv, deltaVLocalKmS: [...s.deltaVLocalKmS] as Vec3 });
     state = { ...state, velocityKmS: [state.velocityKmS[0] + dv[0], state.velocityKmS[1] + dv[1], state.velocityKmS[2] + dv[2]] };
-    mass *= Math.exp(-Math.hypot(...dv) / exhaust);
+    const massFactor = Math.exp(-Math.hypot(...dv) / exhaust);
+    mass *= massFactor;
+    // m_after = m·exp(−|Δv|/v_e): dm_after = exp(·)·dm − (m_after/v_e)·Δv̂·dΔv.
+    const dvHat = dv.map((x) => x / Math.max(Math.hypot(...dv), 1e-300));
+    massRow = massRow.map((v) => v * massFactor);
+    massB = massB.map((row) => row.map((v) => v * massFactor));
+    massB.push(dvHat.map((x) => (-mass / exhaust) * x));
     if (stm) {
       ctx.controlMap.forEach((c, j) => {
         if (c.burnIndex !== i) return;
         if (c.kind === 'epoch') {
           for (let k = 0; k < 3; k++) G[k][j] -= dv[k];
-        } else {
+        } else if (c.kind === 'dv0' || c.kind === 'dv1' || c.kind === 'dv2') {
           const axis = axes[Number(c.kind[2])];
           for (let k = 0; k < 3; k++) G[3 + k][j] += axis[k];
+          massRow[j] += (-mass / exhaust) * (dvHat[0] * axis[0] + dvHat[1] * axis[1] + dvHat[2] * axis[2]);
         }
       });
       const b = zeros(6, 3);

@@ -54,6 +54,8 @@ class Chain {
   impulsive: (number[] | undefined)[];
   finite: (Carried | undefined)[];
   records: (FiniteBurnRecord | null)[];
+  /** ∂(current state)/∂(initial mass): every arc's ignition mass moves one for one with it. */
+  initialMass = new Array<number>(6).fill(0);
   constructor(impulsiveCount: number, finiteCount: number) {
     this.impulsive = new Array<number[] | undefined>(impulsiveCount).fill(undefined);
     this.finite = new Array<Carried | undefined>(finiteCount).fill(undefined);
@@ -64,6 +66,8 @@ class Chain {
   through(phi: number[], massSensitivity: number[] | null): void {
     this.stm = this.stm === null ? phi : multiply6Columns(phi, this.stm, 6);
     this.impulsive = this.impulsive.map((s) => (s === undefined ? s : multiply6Columns(phi, s, 3)));
+    this.initialMass = multiply6Columns(phi, this.initialMass, 1);
+    if (massSensitivity !== null) this.initialMass = addInto(this.initialMass, massSensitivity);
     this.finite = this.finite.map((c) => {
       if (c === undefined) return c;
       let duration = multiply6Columns(phi, c.duration, 1);
@@ -200,6 +204,7 @@ function combine(results: PropagationResult[], chain: Chain, warnings: string[],
   };
   if (withStm && chain.stm !== null) {
     result.stm = chain.stm;
+    result.initialMassSensitivity = chain.initialMass;
     result.burnSensitivities = chain.impulsive.map((s) => s ?? new Array<number>(18).fill(0));
     const zero = (): FiniteBurnSensitivity => ({ direction: new Array<number>(18).fill(0), startTdbS: new Array<number>(6).fill(0), durationS: new Array<number>(6).fill(0) });
     result.finiteBurnSensitivities = chain.finite.map((c) => (c === undefined ? zero() : { direction: c.direction, startTdbS: c.start, durationS: c.duration }));

@@ -27,10 +27,10 @@ const BURNS: FiniteBurnSpec[] = [
 ];
 const IMPULSE = { epochTdbS: T0 + 3000, deltaVKmS: [0.002, -0.001, 0.0005] as Vec3 };
 
-function run(state: number[], burns: FiniteBurnSpec[], withStm = false) {
+function run(state: number[], burns: FiniteBurnSpec[], withStm = false, massKg = 900) {
   const request: PropagationRequest = {
     initial: { epochTdbS: T0, centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: state.slice(0, 3) as Vec3, velocityKmS: state.slice(3) as Vec3 },
-    endEpochTdbS: T0 + 12000, forces, ephemeris, finiteBurns: burns, burns: [IMPULSE], initialMassKg: 900, withStm,
+    endEpochTdbS: T0 + 12000, forces, ephemeris, finiteBurns: burns, burns: [IMPULSE], initialMassKg: massKg, withStm,
     relativeTolerance: 1e-13, absoluteTolerance: 1e-13,
   };
   const result = propagate(request);
@@ -87,6 +87,13 @@ describe('finite-burn sensitivities', () => {
         const fd = fp.map((v, i) => (v - fm[i]) / (2 * h));
         expect(relativeDifference([0, 1, 2, 3, 4, 5].map((i) => sens[3 * i + j]), fd), `Δv ${j}`).toBeLessThan(LIMIT);
       }
+    });
+
+    it('should give the sensitivity to the initial mass (every arc acceleration scales with it)', () => {
+      const h = 1;
+      const fp = finalOf(run(x0, BURNS, false, 900 + h));
+      const fm = finalOf(run(x0, BURNS, false, 900 - h));
+      expect(relativeDifference(nominal.initialMassSensitivity!, fp.map((v, i) => (v - fm[i]) / (2 * h)))).toBeLessThan(LIMIT);
     });
 
     BURNS.forEach((burn, k) => {
