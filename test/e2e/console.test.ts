@@ -233,9 +233,12 @@ describe('ops console', () => {
       expect(await page.getByTestId('reject').isDisabled()).toBe(true); // a rejection needs a comment
       await page.getByLabel('Comment').fill('Burn and B-plane aim point checked against the mission team’s own solution.');
       // Text contrast of the main kinds of text on this screen: at least 4.5:1 (WCAG 2.2 SC 1.4.3, level AA).
+      // A severity badge is sampled when the plan carries a caveat of that severity (a missing sample fails).
+      const shown = (await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.auditor })).body.plan.caveats as { severity: string }[];
+      const badges = ['critical', 'warning', 'info'].filter((s) => shown.some((c) => c.severity === s)).map((s) => `.badge.sev-${s}`);
       const samples = await contrastSamples(page, [
         '.notice', '.topbar nav a', '.who-roles', 'h1', '.help', 'table.data caption', 'table.data thead th', '.small', 'dl.meta dt',
-        '.badge.sev-critical', '.badge.sev-warning', '.badge.sev-info', '.badge.plan-proposed', 'button.primary', '.legend li', '.footer', '.ok',
+        ...badges, '.badge.plan-proposed', 'button.primary', '.legend li', '.footer', '.ok',
       ]);
       for (const s of samples) expect(s.ratio, `${s.selector} “${s.text}” ${JSON.stringify(s)}`).toBeGreaterThanOrEqual(4.5);
       expect(contrastRatio([0, 0, 0], [255, 255, 255])).toBeCloseTo(21, 6); // the formula's end point (WCAG 2.2)
