@@ -28,6 +28,12 @@ export function isoShort(iso: string | null | undefined): string {
   return iso.replace('T', ' ').replace(/\.\d+Z$/, 'Z').replace(/Z$/, ' UTC');
 }
 
+/** A plan epoch as a person reads it: UTC beside TDB (TDB alone before 1972, where UTC has no
+ * whole-second offset). */
+export function epochText(e: { utc: string | null; tdb: string }): string {
+  return e.utc ? `${isoShort(e.utc)} · ${e.tdb.replace('T', ' ')}` : e.tdb.replace('T', ' ');
+}
+
 /** Seconds → `2 d 03:04:05` or `160.4 s`. */
 export function duration(seconds: number | null | undefined): string {
   if (seconds === null || seconds === undefined || !Number.isFinite(seconds)) return '—';

@@ -4,7 +4,7 @@
  * end marked (positions at those epochs by cubic Hermite interpolation of the tabulated states), and a scale bar.
  */
 import { h, svg, uid } from '../dom.ts';
-import { fixed } from '../format.ts';
+import { epochText, fixed } from '../format.ts';
 import type { ManeuverPlan, TrajectoryPoint } from '../plan-types.ts';
 import { View, clipTo, niceStep } from './svg-kit.ts';
 
@@ -111,10 +111,10 @@ export function trajectoryFigure(plan: ManeuverPlan): HTMLElement {
   const holder = h('div', { class: 'plot-holder' }, trajectorySvg(plan, 'ecliptic (X–Y)'));
   select.addEventListener('change', () => holder.replaceChildren(trajectorySvg(plan, select.value as Projection)));
   const legend = h('ul', { class: 'legend' },
-    h('li', {}, h('span', { class: 'sw sw-start', 'aria-hidden': 'true' }), `Start ${plan.createdFrom.initialEpoch.tdb}`),
-    plan.burns.map((b) => h('li', {}, h('span', { class: 'sw sw-burn', 'aria-hidden': 'true' }), `${b.label} ${b.epoch.tdb} (${fixed(b.magnitudeMS, 3)} m/s)`)),
-    plan.approaches.map((a) => h('li', {}, h('span', { class: 'sw sw-approach', 'aria-hidden': 'true' }), `Closest approach to ${a.body} ${a.epoch.tdb}: ${fixed(a.altitudeKm, 1)} km altitude`)),
-    h('li', {}, h('span', { class: 'sw sw-end', 'aria-hidden': 'true' }), `End ${plan.createdFrom.endEpoch.tdb}`));
+    h('li', {}, h('span', { class: 'sw sw-start', 'aria-hidden': 'true' }), `Start ${epochText(plan.createdFrom.initialEpoch)}`),
+    plan.burns.map((b) => h('li', {}, h('span', { class: 'sw sw-burn', 'aria-hidden': 'true' }), `${b.label} ${epochText(b.epoch)} (${fixed(b.magnitudeMS, 3)} m/s)`)),
+    plan.approaches.map((a) => h('li', {}, h('span', { class: 'sw sw-approach', 'aria-hidden': 'true' }), `Closest approach to ${a.body} ${epochText(a.epoch)}: ${fixed(a.altitudeKm, 1)} km altitude`)),
+    h('li', {}, h('span', { class: 'sw sw-end', 'aria-hidden': 'true' }), `End ${epochText(plan.createdFrom.endEpoch)}`));
   return h('figure', { class: 'figure', 'data-testid': 'trajectory-plot' },
     h('figcaption', {}, h('strong', {}, 'Trajectory'), ` relative to ${plan.forceModel.centralBody}, J2000 ecliptic axes (X toward the vernal equinox), km.`),
     h('div', { class: 'field inline' }, h('label', { for: selectId }, 'Projection'), select),

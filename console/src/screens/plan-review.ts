@@ -5,7 +5,7 @@
 import { api } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
 import { h, replaceChildren } from '../dom.ts';
-import { duration, fixed, isoShort, kmsToMs, sig } from '../format.ts';
+import { duration, epochText, fixed, isoShort, kmsToMs, sig } from '../format.ts';
 import type { ManeuverPlan, PlanSummary, TargetResult } from '../plan-types.ts';
 import { bPlaneFigure } from '../plots/b-plane-plot.ts';
 import { trajectoryFigure } from '../plots/trajectory-plot.ts';
@@ -33,7 +33,7 @@ function burnTable(plan: ManeuverPlan): HTMLElement {
         const dv = local === 'RTN' ? b.deltaVRtnKmS : b.deltaVVnbKmS;
         return h('tr', {},
           h('th', { scope: 'row' }, b.label, b.epochWasFree ? h('div', { class: 'small' }, 'epoch moved by the corrector') : null),
-          h('td', { class: 'small' }, h('div', {}, 'UTC ', b.epoch.utc ? isoShort(b.epoch.utc) : '— (beyond leap-second table)'), h('div', {}, 'TDB ', b.epoch.tdb.replace(' TDB', ''))),
+          h('td', { class: 'small' }, h('div', {}, 'UTC ', b.epoch.utc ? isoShort(b.epoch.utc) : '— (before 1972)'), h('div', {}, 'TDB ', b.epoch.tdb.replace(' TDB', ''))),
           dv.map((c) => h('td', { class: 'num' }, kmsToMs(c))),
           b.deltaVInertialKmS.map((c) => h('td', { class: 'num' }, kmsToMs(c))),
           h('td', { class: 'num strong' }, fixed(b.magnitudeMS, 3)),
@@ -48,10 +48,18 @@ function burnTable(plan: ManeuverPlan): HTMLElement {
   return h('div', {}, h('div', { class: 'field inline' }, h('label', { for: 'burn-frame' }, 'Local axes'), frameSelect), h('div', { class: 'scroll-x' }, table));
 }
 
+/** The leap-second table the plan's UTC epochs use (older plans do not record it). */
+function leapSecondsText(plan: ManeuverPlan): string {
+  const l = plan.leapSeconds;
+  if (!l) return 'built-in table (not recorded in this plan)';
+  const where = l.source === 'built-in' ? 'built-in table' : `${l.path} (SHA-256 ${l.sha256?.slice(0, 16) ?? '—'}…)`;
+  return `${where}, expires ${l.expiresUtc}`;
+}
+
 function targetValue(t: TargetResult, which: 'requested' | 'achieved'): string {
   if (t.unit === 's' && t.requestedEpoch) {
     const e = which === 'requested' ? t.requestedEpoch : t.achievedEpoch;
-    return e ? e.tdb : '—';
+    return e ? epochText(e) : '—';
   }
   const v = which === 'requested' ? t.requested : t.achieved;
   return v === null ? '—' : `${fixed(v, 3)} ${t.unit}`;
@@ -131,6 +139,8 @@ export const planReviewScreen: ScreenFactory = (ctx) => {
               h('dt', {}, 'Submitted by'), h('dd', {}, summary.submittedBy, summary.submittedBy === session.name ? ' (you)' : ''),
               h('dt', {}, 'Proposed'), h('dd', {}, isoShort(summary.proposedAt)),
               h('dt', {}, 'Corrector'), h('dd', {}, converged ? `converged in ${plan.iterations.length} iterations` : h('span', { class: 'bad' }, `not converged — ${plan.convergence.message}`)),
+              h('dt', {}, 'Initial state'), h('dd', {}, epochText(plan.createdFrom.initialEpoch)),
+              h('dt', {}, 'Leap seconds'), h('dd', {}, leapSecondsText(plan)),
               h('dt', {}, 'Force model'), h('dd', {}, plan.forceModel.summary),
               h('dt', {}, 'Software'), h('dd', {}, plan.softwareVersion),
               h('dt', {}, 'Problem hash'), h('dd', { class: 'mono small' }, plan.problemHash.slice(0, 16), '…')),
