@@ -12,7 +12,7 @@
  */
 import { InvalidInputError } from '../../propagator/index.ts';
 import type { StateVector, Vec3 } from '../../propagator/index.ts';
-import { pseudoSolve, svd } from '../corrector/linear-algebra.ts';
+import { pseudoSolve, svd } from '../../propagator/math/svd.ts';
 import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import { covarianceToEquatorial } from '../plan/planning-context.ts';
 import type { PlanningContext } from '../plan/planning-context.ts';

@@ -3,8 +3,8 @@
  * a rotation about the common x axis (the J2000 mean equinox) by the mean obliquity of J2000.
  */
 import type { Vec3 } from '../types.ts';
-import type { Matrix3 } from './matrix3.ts';
-import { multiplyMatrixVector, multiplyTransposeVector } from './matrix3.ts';
+import type { Matrix3 } from '../math/matrix3.ts';
+import { multiplyMatrixVector, multiplyTransposeVector } from '../math/matrix3.ts';
 
 /** Mean obliquity of the ecliptic at J2000.0, arcseconds: ε0 = 84381.406″ of the IAU 2006 precession
  * (Capitaine, Wallace & Chapront 2003, "P03"; adopted by IAU 2006 Resolution B1; from memory). The older

@@ -8,8 +8,8 @@
  */
 import { InvalidInputError } from '../../contract/errors.ts';
 import type { LocalFrame, Vec3 } from '../types.ts';
-import type { Matrix3 } from './matrix3.ts';
-import { multiplyMatrixVector, multiplyTransposeVector } from './matrix3.ts';
+import type { Matrix3 } from '../math/matrix3.ts';
+import { multiplyMatrixVector, multiplyTransposeVector } from '../math/matrix3.ts';
 
 function unit(v: ArrayLike<number>, field: string): Vec3 {
   const n = Math.hypot(v[0], v[1], v[2]);

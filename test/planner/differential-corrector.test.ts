@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { finiteDifferenceJacobian, runCorrector } from '../../planner/corrector/differential-corrector.ts';
 import type { CorrectorEvaluation, CorrectorSpec } from '../../planner/corrector/differential-corrector.ts';
-import { conditionNumber, matMul, pseudoSolve, svd, transpose } from '../../planner/corrector/linear-algebra.ts';
+import { conditionNumber, matMul, pseudoSolve, svd, transpose } from '../../propagator/math/svd.ts';
 
 type Fn = (x: number[]) => { r: number[]; J: number[][] };
 

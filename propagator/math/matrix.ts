@@ -1,5 +1,5 @@
 /** Small dense matrix helpers for covariances (row-major number[][]); sizes up to ~10, so plain loops. */
-import { InvalidInputError } from '../../propagator/index.ts';
+import { InvalidInputError } from '../index.ts';
 
 export type Matrix = number[][];
 
