@@ -4,11 +4,8 @@
  */
 import type { PlanningProblem } from '../planner/index.ts';
 import {
-  type InertialFrame, type Vec3, ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000,
+  type InertialFrame, congruence, frameRotation, localFrameMatrix, stateRotation6, transpose,
 } from '../propagator/index.ts';
-import {
-  covarianceInertialToLocal, covarianceLocalToInertial, rtnAxes, tnwAxes,
-} from './covariance.ts';
 import { frameMeaningFromName } from './frames.ts';
 import type { Opm } from './odm-types.ts';
 import { readOpm } from './opm-reader.ts';
@@ -26,10 +23,6 @@ export interface OpmInitialState {
   opm: Opm;
 }
 
-function rows(m: readonly number[]): [Vec3, Vec3, Vec3] {
-  return [[m[0], m[1], m[2]], [m[3], m[4], m[5]], [m[6], m[7], m[8]]];
-}
-
 /** The OPM covariance expressed in the axes of the OPM's REF_FRAME (km², km²/s, km²/s²). */
 export function covarianceInStateFrame(opm: Opm): number[][] | undefined {
   const c = opm.covariance;
@@ -37,8 +30,10 @@ export function covarianceInStateFrame(opm: Opm): number[][] | undefined {
   const { positionKm, velocityKmS } = opm.state;
   const meaning = frameMeaningFromName('COV_REF_FRAME', 0, c.covRefFrame ?? opm.metadata.refFrame, opm.metadata.centre);
   if (meaning.kind === 'local') {
-    const axes = meaning.ccsdsName === 'TNW' ? tnwAxes(positionKm, velocityKmS) : rtnAxes(positionKm, velocityKmS);
-    return covarianceLocalToInertial(c.matrix, axes);
+    // C_inertial = Bᵀ C_local B with B = diag(A, A), A the local rotation (rows = local axes). The frame is
+    // taken as non-rotating at the epoch (the usual reading of a local-frame covariance; no ω × r term).
+    const local = localFrameMatrix(meaning.ccsdsName === 'TNW' ? 'TNW' : 'RTN', positionKm, velocityKmS);
+    return congruence(transpose(stateRotation6(local)), c.matrix);
   }
   return rotateInertialCovariance(c.matrix, meaning.frame, opm.metadata.frame);
 }
@@ -46,8 +41,7 @@ export function covarianceInStateFrame(opm: Opm): number[][] | undefined {
 /** Rotates a 6×6 covariance between the J2000 equatorial and ecliptic axes. */
 export function rotateInertialCovariance(matrix: number[][], from: InertialFrame, to: InertialFrame): number[][] {
   if (from === to) return matrix.map((row) => [...row]);
-  const eqToEcl = rows(ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000);
-  return from === 'J2000_EQUATORIAL' ? covarianceInertialToLocal(matrix, eqToEcl) : covarianceLocalToInertial(matrix, eqToEcl);
+  return congruence(stateRotation6(frameRotation(from, to)), matrix);
 }
 
 /**

@@ -23,7 +23,7 @@ export { solveLambert, LAMBERT_DEFAULTS } from './lambert/index.ts';
 export type { LambertDirection, LambertOptions, LambertSolution } from './lambert/index.ts';
 export {
   propellantMassKg, deltaVFromPropellantKmS, massFlowRateKgS, burnDurationS, budgetBurns, exhaustVelocityKmS,
-  deltaVToInertialKmS, deltaVFromInertialKmS, deltaVInAllAxes, axesToInertialMatrix,
+  deltaVToInertialKmS, deltaVFromInertialKmS, deltaVInAllAxes,
 } from './maneuver-math.ts';
 export type { BurnBudget, BurnAxes } from './maneuver-math.ts';
 export { budgetRequestSchema, BUDGET_DEFAULTS } from '../contract/budget-schema.ts';

@@ -7,7 +7,7 @@
  * propagator/frames, taken at the pre-burn state relative to the integration centre.
  */
 import {
-  InvalidInputError, STANDARD_GRAVITY_M_S2, inertialToLocal, localFrameMatrix, localToInertial, type LocalFrame, type Vec3,
+  InvalidInputError, STANDARD_GRAVITY_M_S2, inertialToLocal, localToInertial, type LocalFrame, type Vec3,
 } from '../propagator/index.ts';
 
 function requirePositive(field: string, value: number): void {
@@ -136,16 +136,4 @@ export function deltaVInAllAxes(deltaVInertialKmS: Vec3, positionKm: Vec3, veloc
     vnbKmS: inertialToLocal(deltaVInertialKmS, 'VNB', positionKm, velocityKmS),
     magnitudeMS: Math.hypot(...deltaVInertialKmS) * 1000,
   };
-}
-
-/**
- * ∂(inertial Δv)/∂(Δv in `axes`): the 3×3 matrix (rows inertial x, y, z) that maps components in `axes` to
- * inertial ones at the given state — the identity for 'inertial', the transposed local rotation otherwise.
- * Use it to chain a corrector's Jacobian (∂targets/∂Δv_axes = ∂targets/∂Δv_inertial · this) or to rotate
- * a covariance (P_inertial = M·P_axes·Mᵀ).
- */
-export function axesToInertialMatrix(axes: BurnAxes, positionKm: Vec3, velocityKmS: Vec3): number[][] {
-  if (axes === 'inertial') return [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
-  const m = localFrameMatrix(axes, positionKm, velocityKmS); // rows = local axes in inertial components
-  return [0, 1, 2].map((i) => [m[i], m[3 + i], m[6 + i]]);
 }

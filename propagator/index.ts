@@ -6,6 +6,7 @@ export * from './time/index.ts';
 export * from './ephemeris/index.ts';
 export * from './integrators/index.ts';
 export * from './forces/index.ts';
+export * from './math/index.ts';
 export * from './frames/index.ts';
 export * from './propagation-types.ts';
 export { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';

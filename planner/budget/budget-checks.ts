@@ -6,7 +6,7 @@
 import { InvalidInputError } from '../../propagator/index.ts';
 import { budgetRequestSchema } from '../../contract/budget-schema.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
-import { choleskySemidefinite, requireCovariance } from '../../propagator/math/matrix.ts';
+import { choleskySemidefinite, requireCovariance } from '../../propagator/index.ts';
 import { checkProblem, fromZodError } from '../problem-checks.ts';
 
 /** Validates anything from outside as a budget request; returns it with defaults filled in. */

@@ -7,7 +7,7 @@
  * draws exactly the execution and initial-state errors of the plan-level Monte Carlo for the same seed.
  * Both budget paths use the same draws for the same i (paired comparison).
  */
-import { choleskySemidefinite } from '../../propagator/math/matrix.ts';
+import { choleskySemidefinite } from '../../propagator/index.ts';
 import { sampleRandom } from '../dispersion/random.ts';
 
 /** The draws of one sample; offsets J2000 equatorial [δr km, δv km/s]. */

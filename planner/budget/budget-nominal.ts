@@ -12,7 +12,7 @@
  */
 import { InvalidInputError } from '../../propagator/index.ts';
 import type { StateVector, Vec3 } from '../../propagator/index.ts';
-import { pseudoSolve, svd } from '../../propagator/math/svd.ts';
+import { pseudoSolve, svd } from '../../propagator/index.ts';
 import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import { covarianceToEquatorial } from '../plan/planning-context.ts';
 import type { PlanningContext } from '../plan/planning-context.ts';
@@ -21,10 +21,10 @@ import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import type { EvaluationContext, TrajectoryEvaluation } from '../targeting/evaluate-trajectory.ts';
-import { localAxes } from '../targeting/local-frames.ts';
 import { propagateSegment } from '../targeting/propagate-segment.ts';
 import { gmOf, radiusOf } from '../targeting/target-components.ts';
 import type { BudgetNominal, NominalBurn } from '../../contract/budget-types.ts';
+import { localAxes } from '../../propagator/index.ts';
 
 const identity6 = (): number[][] => Array.from({ length: 6 }, (_, i) => Array.from({ length: 6 }, (__, j) => (i === j ? 1 : 0)));
 const toMatrix6 = (rowMajor: readonly number[]): number[][] => Array.from({ length: 6 }, (_, i) => rowMajor.slice(i * 6, i * 6 + 6));

@@ -16,12 +16,12 @@ import type { PlanningContext } from '../plan/planning-context.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
-import { localAxes, localToInertial } from '../targeting/local-frames.ts';
 import { propagateSegment } from '../targeting/propagate-segment.ts';
 import { radiusOf } from '../targeting/target-components.ts';
 import type { BudgetDraw } from './budget-draws.ts';
 import { contextFrom } from './budget-nominal.ts';
 import type { BudgetNominal, BudgetSample, NominalBurn, SampleBurn } from '../../contract/budget-types.ts';
+import { axesToInertial, localAxes } from '../../propagator/index.ts';
 
 const offsetState = (s: StateVector, d: readonly number[]): StateVector => ({
   ...s,
@@ -60,7 +60,7 @@ async function replanBurn(request: BudgetRequest, ctx: PlanningContext, nominal:
   });
   if (result.outcome !== 'converged') return { failed: `re-plan of ${burn.label}: ${result.outcome}: ${result.message}` };
   const local = settingsFor(result.controls)[0].deltaVLocalKmS;
-  return { commanded: localToInertial(localAxes(burn.frame, estimate.positionKm, estimate.velocityKmS), local) };
+  return { commanded: axesToInertial(localAxes(burn.frame, estimate.positionKm, estimate.velocityKmS), local) };
 }
 
 /** One non-linear sample for its draws; see the file comment. */

@@ -10,8 +10,8 @@
  *   the Newton direction even with a fresh finite-difference Jacobian), or when an evaluation fails.
  * Not converging is a result, not an exception (outcome + diagnostics, like an ODE solver's status).
  */
-import { conditionNumber, norm2, pseudoSolve, svd } from '../../propagator/math/svd.ts';
-import type { Matrix } from '../../propagator/math/svd.ts';
+import { conditionNumber, norm2, pseudoSolve, svd } from '../../propagator/index.ts';
+import type { Matrix } from '../../propagator/index.ts';
 
 /** What one evaluation at the controls x gives. `residuals` are unscaled (achieved − requested). */
 export type CorrectorEvaluation =

@@ -3,7 +3,7 @@
  */
 import { InvalidInputError } from '../../propagator/index.ts';
 import type { BPlaneEllipse } from '../../contract/plan-types.ts';
-import { requireCovariance, type Matrix } from '../../propagator/math/matrix.ts';
+import { requireCovariance, type Matrix } from '../../propagator/index.ts';
 
 /**
  * 1σ ellipse of a 2×2 B-plane covariance [[TT, TR], [RT, RR]] (km²): semi-axes are the square roots of

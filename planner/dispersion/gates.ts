@@ -4,7 +4,7 @@
  * the burn, fixed and proportional pointing across it (each transverse axis).
  */
 import { InvalidInputError, type Vec3 } from '../../propagator/index.ts';
-import type { Matrix } from '../../propagator/math/matrix.ts';
+import type { Matrix } from '../../propagator/index.ts';
 import type { SampleRandom } from './random.ts';
 
 /** 1σ Gates parameters, as in the problem's `executionErrors`. */

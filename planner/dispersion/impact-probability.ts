@@ -4,7 +4,7 @@
  * momentum conservation on the approach hyperbola; e.g. Kizner 1961, common practice in B-plane analysis).
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import { requireCovariance, type Matrix } from '../../propagator/math/matrix.ts';
+import { requireCovariance, type Matrix } from '../../propagator/index.ts';
 import { normalInterval } from './special-functions.ts';
 
 /**

@@ -14,4 +14,4 @@ export { mergeSampleBatches, sampleMean, sampleCovariance } from './sample-stati
 export { checkLinearity, LINEARITY_CHECK_DEFAULTS } from './linearity-check.ts';
 export type { LinearityCheck } from './linearity-check.ts';
 export { erfc, normalUpperTail, normalInterval, lnGamma, gammaQ, chiSquareSurvival } from './special-functions.ts';
-export { subMatrix, choleskySemidefinite, type Matrix } from '../../propagator/math/matrix.ts';
+export { subMatrix, choleskySemidefinite, type Matrix } from '../../propagator/index.ts';

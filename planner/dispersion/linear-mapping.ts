@@ -4,7 +4,7 @@
  * target geometry) and J_x = ∂targets/∂(initial state). The contributions are independent, so they add.
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import { add, multiply, requireCovariance, symmetrise, transpose, zeros, type Matrix } from '../../propagator/math/matrix.ts';
+import { add, multiply, requireCovariance, symmetrise, transpose, zeros, type Matrix } from '../../propagator/index.ts';
 
 /**
  * J·P·Jᵀ, symmetrised. Units: (target units)² when J is in target units per control unit and P in

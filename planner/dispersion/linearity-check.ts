@@ -11,7 +11,7 @@
  * bias) and a stretched or bent spread.
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import { determinant, invert, multiply, requireCovariance, trace, type Matrix } from '../../propagator/math/matrix.ts';
+import { determinant, invert, multiply, requireCovariance, trace, type Matrix } from '../../propagator/index.ts';
 import { sampleCovariance, sampleMean } from './sample-statistics.ts';
 import { chiSquareSurvival } from './special-functions.ts';
 

@@ -6,7 +6,7 @@
  */
 import { CancelledError, InvalidInputError, type Vec3 } from '../../propagator/index.ts';
 import { drawExecutedDeltaV, type GatesErrors } from './gates.ts';
-import { choleskySemidefinite, requireCovariance, type Matrix } from '../../propagator/math/matrix.ts';
+import { choleskySemidefinite, requireCovariance, type Matrix } from '../../propagator/index.ts';
 import { sampleRandom } from './random.ts';
 
 /** What the sampler disperses. */

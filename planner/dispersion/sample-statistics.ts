@@ -3,7 +3,7 @@
  * into batches and merged gives bit-identical statistics to a single-process run.
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import { zeros, type Matrix } from '../../propagator/math/matrix.ts';
+import { zeros, type Matrix } from '../../propagator/index.ts';
 
 /**
  * Merges batches of samples (each carrying its `index`) into one list sorted by index.

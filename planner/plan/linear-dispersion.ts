@@ -8,7 +8,7 @@ import { bPlaneEllipse, scaledEllipse } from '../dispersion/ellipse.ts';
 import { gatesCovarianceKm2S2 } from '../dispersion/gates.ts';
 import { impactRadiusKm, probabilityInsideDisc } from '../dispersion/impact-probability.ts';
 import { linearTargetCovariance } from '../dispersion/linear-mapping.ts';
-import type { Matrix } from '../../propagator/math/matrix.ts';
+import type { Matrix } from '../../propagator/index.ts';
 import type { BPlaneEllipse, LinearDispersion } from '../../contract/plan-types.ts';
 import type { TrajectoryEvaluation } from '../targeting/evaluate-trajectory.ts';
 import { gmOf, radiusOf } from '../targeting/target-components.ts';

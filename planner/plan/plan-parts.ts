@@ -8,9 +8,9 @@ import type { Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propag
 import { budgetBurns } from '../maneuver-math.ts';
 import type { ManeuverPlan, PlanEpoch, PlannedBurn, TargetResult, TrajectoryPoint } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
-import { inertialToLocal, localAxes } from '../targeting/local-frames.ts';
 import type { BurnRecord } from '../targeting/evaluate-trajectory.ts';
 import type { TargetComponent } from '../targeting/target-components.ts';
+import { axesFromInertial, localAxes } from '../../propagator/index.ts';
 
 /** An epoch as TDB seconds and text; UTC through `leapSeconds` (past its expiry with the last TAI − UTC,
  * which the plan's caveat states), null only before the table's first step (1972). */
@@ -35,8 +35,8 @@ export function plannedBurns(problem: PlanningProblem, burns: BurnRecord[], free
       epochWasFree: freeEpoch[i],
       frame: problem.burns[i].frame,
       deltaVInertialKmS: [...dv] as Vec3,
-      deltaVRtnKmS: inertialToLocal(localAxes('RTN', r, v), dv),
-      deltaVVnbKmS: inertialToLocal(localAxes('VNB', r, v), dv),
+      deltaVRtnKmS: axesFromInertial(localAxes('RTN', r, v), dv),
+      deltaVVnbKmS: axesFromInertial(localAxes('VNB', r, v), dv),
       magnitudeMS: Math.hypot(...dv) * 1000,
       propellantKg: budget[i].propellantKg,
       massBeforeKg: budget[i].massBeforeKg,

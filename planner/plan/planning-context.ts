@@ -6,7 +6,7 @@
  * relative to the central body.
  */
 import {
-  BUILTIN_EPHEMERIS_SPAN, changeCentre, createBuiltinEphemeris, EphemerisCache, stateToFrame,
+  BUILTIN_EPHEMERIS_SPAN, changeCentre, congruence, createBuiltinEphemeris, EphemerisCache, frameRotation, stateRotation6, stateToFrame,
 } from '../../propagator/index.ts';
 import type { BodyName, Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import { checkProblem } from '../problem-checks.ts';
@@ -44,19 +44,7 @@ const MARGIN_S = 2 * 86400;
  */
 export function covarianceToEquatorial(c: readonly (readonly number[])[], frame: StateVector['frame']): number[][] {
   if (frame === 'J2000_EQUATORIAL') return c.map((row) => row.slice());
-  // Columns of the 6x6 block rotation R = diag(Q, Q): rotate unit vectors through stateToFrame.
-  const unitState = (k: number): StateVector => {
-    const v = [0, 0, 0, 0, 0, 0];
-    v[k] = 1;
-    return { epochTdbS: 0, centre: 'sun', frame, positionKm: v.slice(0, 3) as Vec3, velocityKmS: v.slice(3) as Vec3 };
-  };
-  const cols = [0, 1, 2, 3, 4, 5].map((k) => {
-    const s = stateToFrame(unitState(k), 'J2000_EQUATORIAL');
-    return [...s.positionKm, ...s.velocityKmS];
-  });
-  const R = [0, 1, 2, 3, 4, 5].map((i) => cols.map((col) => col[i]));
-  const RC = R.map((row) => [0, 1, 2, 3, 4, 5].map((j) => row.reduce((s, v, k) => s + v * c[k][j], 0)));
-  return RC.map((row) => [0, 1, 2, 3, 4, 5].map((j) => row.reduce((s, v, k) => s + v * R[j][k], 0)));
+  return congruence(stateRotation6(frameRotation(frame, 'J2000_EQUATORIAL')), c);
 }
 
 function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | null {

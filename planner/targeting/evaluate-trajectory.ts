@@ -17,11 +17,10 @@ import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { ControlDescriptor } from '../../contract/plan-types.ts';
 import type { BurnSetting } from './controls.ts';
 import { chainFiniteArc, equivalentDeltaVKmS, finiteSpec, type ChainState } from './finite-arc.ts';
-import { localAxes, localToInertial } from './local-frames.ts';
-import type { Rotation3 } from './local-frames.ts';
 import type { TargetComponent } from './target-components.ts';
 import { forcesFor } from './propagate-segment.ts';
 import { evaluateComponent } from './target-geometry.ts';
+import { type Rotation3, axesToInertial, localAxes } from '../../propagator/index.ts';
 
 type M = number[][];
 
@@ -206,7 +205,7 @@ export async function evaluateTrajectory(
       mass = res.finalMassKg!;
       continue;
     }
-    const dv = localToInertial(axes, s.deltaVLocalKmS);
+    const dv = axesToInertial(axes, s.deltaVLocalKmS);
     burns.push({ epochTdbS: s.epochTdbS, preBurn: state, axes, deltaVInertialKmS: dv, deltaVLocalKmS: [...s.deltaVLocalKmS] as Vec3 });
     state = { ...state, velocityKmS: [state.velocityKmS[0] + dv[0], state.velocityKmS[1] + dv[1], state.velocityKmS[2] + dv[2]] };
     const massFactor = Math.exp(-Math.hypot(...dv) / exhaust);

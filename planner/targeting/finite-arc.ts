@@ -12,7 +12,7 @@
 import type { FiniteBurnRecord, FiniteBurnSpec, PropagationResult, Vec3 } from '../../propagator/index.ts';
 import type { ControlDescriptor } from '../../contract/plan-types.ts';
 import type { BurnSetting } from './controls.ts';
-import type { Rotation3 } from './local-frames.ts';
+import type { Rotation3 } from '../../propagator/index.ts';
 
 type M = number[][];
 

@@ -13,7 +13,7 @@ import { burnSettings } from './controls.ts';
 import type { ControlLayout } from './controls.ts';
 import { evaluateTrajectory } from './evaluate-trajectory.ts';
 import type { EvaluationContext } from './evaluate-trajectory.ts';
-import { inertialToLocal, localAxes } from './local-frames.ts';
+import { axesFromInertial, localAxes } from '../../propagator/index.ts';
 
 export interface LambertSeed {
   burnIndex: number;
@@ -50,7 +50,7 @@ export async function lambertSeeds(problem: PlanningProblem, epochs: ProblemEpoc
       const sol = solveLambert(r1, target.positionKm, (epochs.targetTdbS[k] as number) - tBurn, GM_KM3_S2[fm.centralBody], { direction: 'prograde', referenceNormal: h });
       if (!sol.converged) throw new Error(`Lambert did not converge (residual ${sol.residual})`);
       const dv: Vec3 = [sol.v1KmS[0] - v0[0], sol.v1KmS[1] - v0[1], sol.v1KmS[2] - v0[2]];
-      const local = inertialToLocal(localAxes(burn.frame, r1, v0), dv);
+      const local = axesFromInertial(localAxes(burn.frame, r1, v0), dv);
       layout.descriptors.forEach((d, j) => {
         if (d.burnIndex === i && d.kind !== 'epoch') initial[j] = local[Number(d.kind[2])];
       });

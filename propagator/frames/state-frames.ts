@@ -5,12 +5,22 @@ import { InvalidInputError } from '../../contract/errors.ts';
 import type { Ephemeris } from '../ephemeris/ephemeris.ts';
 import type { BodyName, InertialFrame, StateVector, Vec3 } from '../types.ts';
 import { INERTIAL_FRAMES } from '../types.ts';
-import { eclipticFromEquatorialJ2000, equatorialFromEclipticJ2000 } from './ecliptic.ts';
+import { transpose3, type Matrix3 } from '../math/matrix3.ts';
+import { ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000, eclipticFromEquatorialJ2000, equatorialFromEclipticJ2000 } from './ecliptic.ts';
 
 function checkFrame(frame: InertialFrame, field: string): void {
   if (!INERTIAL_FRAMES.includes(frame)) {
     throw new InvalidInputError(field, `unknown frame '${String(frame)}' (use ${INERTIAL_FRAMES.join(' or ')})`);
   }
+}
+
+/** The rotation (row-major 3×3) taking components in frame `from` to components in frame `to`. */
+export function frameRotation(from: InertialFrame, to: InertialFrame): Matrix3 {
+  checkFrame(from, 'from');
+  checkFrame(to, 'to');
+  if (from === to) return [1, 0, 0, 0, 1, 0, 0, 0, 1];
+  const r = [...ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000] as Matrix3;
+  return to === 'J2000_ECLIPTIC' ? r : transpose3(r);
 }
 
 /** Rotates a vector's components from frame `from` to frame `to` (both J2000 inertial; no translation). */

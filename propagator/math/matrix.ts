@@ -1,5 +1,9 @@
-/** Small dense matrix helpers for covariances (row-major number[][]); sizes up to ~10, so plain loops. */
-import { InvalidInputError } from '../index.ts';
+/**
+ * Dense matrices as row-major number[][] (covariances, Jacobians, sensitivities): sizes up to a few dozen,
+ * so plain loops. Part of the one numerics module (propagator/math): the 3×3 rotations are in matrix3.ts,
+ * the flat 6×6 state transition matrices in matrix6.ts, the SVD and pseudo-inverse in svd.ts.
+ */
+import { InvalidInputError } from '../../contract/errors.ts';
 
 export type Matrix = number[][];
 
@@ -8,22 +12,44 @@ export function zeros(rows: number, cols: number): Matrix {
   return Array.from({ length: rows }, () => new Array<number>(cols).fill(0));
 }
 
-/** Aᵀ; units carried through. */
+/** Aᵀ (m×n → n×m; an empty matrix stays empty); units carried through. */
 export function transpose(a: Matrix): Matrix {
-  return a[0].map((_, j) => a.map((row) => row[j]));
+  const m = a.length;
+  const n = m === 0 ? 0 : a[0].length;
+  const t: Matrix = zeros(n, m);
+  for (let i = 0; i < m; i++) for (let j = 0; j < n; j++) t[j][i] = a[i][j];
+  return t;
 }
 
 /** A·B (A is m×k, B is k×n); units multiply. */
 export function multiply(a: Matrix, b: Matrix): Matrix {
-  const out = zeros(a.length, b[0].length);
-  for (let i = 0; i < a.length; i += 1) {
-    for (let k = 0; k < b.length; k += 1) {
-      const aik = a[i][k];
-      if (aik === 0) continue;
-      for (let j = 0; j < b[0].length; j += 1) out[i][j] += aik * b[k][j];
+  const k = b.length;
+  const out = zeros(a.length, k === 0 ? 0 : b[0].length);
+  for (let i = 0; i < a.length; i++) {
+    for (let p = 0; p < k; p++) {
+      const aip = a[i][p];
+      if (aip === 0) continue;
+      for (let j = 0; j < out[i].length; j++) out[i][j] += aip * b[p][j];
     }
   }
   return out;
+}
+
+/** A·x for a matrix and a vector of matching length. */
+export function multiplyVector(a: Matrix, x: readonly number[]): number[] {
+  return a.map((row) => row.reduce((s, v, j) => s + v * x[j], 0));
+}
+
+/** Euclidean norm |x|. */
+export function norm2(x: readonly number[]): number {
+  let s = 0;
+  for (const v of x) s += v * v;
+  return Math.sqrt(s);
+}
+
+/** R·C·Rᵀ: a covariance C carried through the linear map R (a rotation, a Jacobian). */
+export function congruence(r: Matrix, c: readonly (readonly number[])[]): Matrix {
+  return multiply(multiply(r, c as Matrix), transpose(r));
 }
 
 /** A + B, same shape and units. */
@@ -134,4 +160,38 @@ export function trace(a: Matrix): number {
 /** Rows `indices` and the same columns of a square matrix. */
 export function subMatrix(a: Matrix, indices: readonly number[]): Matrix {
   return indices.map((i) => indices.map((j) => a[i][j]));
+}
+
+/** Eigenvalues of a symmetric matrix by cyclic Jacobi rotations (Golub & Van Loan, Matrix Computations,
+ * §8.5), in diagonal order (not sorted); converges quadratically, a 6×6 needs a handful of sweeps. */
+export function symmetricEigenvalues(matrix: readonly (readonly number[])[]): number[] {
+  const n = matrix.length;
+  const a = matrix.map((row) => [...row]);
+  for (let sweep = 0; sweep < 50; sweep++) {
+    let off = 0;
+    for (let p = 0; p < n; p++) for (let q = p + 1; q < n; q++) off += a[p][q] * a[p][q];
+    if (off < 1e-30) break;
+    for (let p = 0; p < n; p++) {
+      for (let q = p + 1; q < n; q++) {
+        if (a[p][q] === 0) continue;
+        const theta = (a[q][q] - a[p][p]) / (2 * a[p][q]);
+        const t = Math.sign(theta || 1) / (Math.abs(theta) + Math.sqrt(theta * theta + 1));
+        const c = 1 / Math.sqrt(t * t + 1);
+        const s = t * c;
+        for (let k = 0; k < n; k++) {
+          const akp = a[k][p];
+          const akq = a[k][q];
+          a[k][p] = c * akp - s * akq;
+          a[k][q] = s * akp + c * akq;
+        }
+        for (let k = 0; k < n; k++) {
+          const apk = a[p][k];
+          const aqk = a[q][k];
+          a[p][k] = c * apk - s * aqk;
+          a[q][k] = s * apk + c * aqk;
+        }
+      }
+    }
+  }
+  return a.map((row, i) => row[i]);
 }

@@ -1,4 +1,4 @@
-/** Small 3×3 matrix helpers (row-major, 9 numbers) used by the frame rotations. */
+/** 3-vectors and 3×3 matrices (row-major, 9 numbers): the frame rotations' arithmetic. */
 import type { Vec3 } from '../types.ts';
 
 /** A 3×3 matrix in row-major order: [m00, m01, m02, m10, m11, m12, m20, m21, m22]. */
@@ -41,4 +41,14 @@ export function multiplyMatrices3(a: Readonly<Matrix3>, b: Readonly<Matrix3>): M
 /** Determinant of M. */
 export function determinant3(m: Readonly<Matrix3>): number {
   return m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6]);
+}
+
+/** a × b (units multiply). */
+export function cross3(a: ArrayLike<number>, b: ArrayLike<number>): Vec3 {
+  return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
+}
+
+/** a · b (units multiply). */
+export function dot3(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
 }

@@ -1,11 +1,10 @@
 /**
- * Small dense linear algebra for the corrector: the singular value decomposition by one-sided Jacobi
+ * The singular value decomposition by one-sided Jacobi
  * rotations (Hestenes 1958; see Golub & Van Loan, Matrix Computations, 4th ed., §8.6.3) and the
  * pseudo-inverse solve it gives — minimum-norm when there are more unknowns than equations, least squares
  * when there are more equations. Sizes here are a few dozen at most, so clarity beats speed.
  */
-
-export type Matrix = number[][];
+import { transpose, type Matrix } from './matrix.ts';
 
 export interface Svd {
   /** m x k left singular vectors (k = min(m, n)), columns. */
@@ -14,39 +13,6 @@ export interface Svd {
   s: number[];
   /** n x k right singular vectors, columns. */
   v: Matrix;
-}
-
-export function transpose(a: Matrix): Matrix {
-  const m = a.length;
-  const n = m === 0 ? 0 : a[0].length;
-  const t: Matrix = Array.from({ length: n }, () => new Array<number>(m).fill(0));
-  for (let i = 0; i < m; i++) for (let j = 0; j < n; j++) t[j][i] = a[i][j];
-  return t;
-}
-
-export function matMul(a: Matrix, b: Matrix): Matrix {
-  const m = a.length;
-  const k = b.length;
-  const n = k === 0 ? 0 : b[0].length;
-  const c: Matrix = Array.from({ length: m }, () => new Array<number>(n).fill(0));
-  for (let i = 0; i < m; i++) {
-    for (let p = 0; p < k; p++) {
-      const aip = a[i][p];
-      if (aip === 0) continue;
-      for (let j = 0; j < n; j++) c[i][j] += aip * b[p][j];
-    }
-  }
-  return c;
-}
-
-export function matVec(a: Matrix, x: readonly number[]): number[] {
-  return a.map((row) => row.reduce((s, v, j) => s + v * x[j], 0));
-}
-
-export function norm2(x: readonly number[]): number {
-  let s = 0;
-  for (const v of x) s += v * v;
-  return Math.sqrt(s);
 }
 
 /** SVD of an m x n matrix (any shape) by one-sided Jacobi: A = U diag(s) Vᵀ. */

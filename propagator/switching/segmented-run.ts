@@ -10,6 +10,7 @@ import { InvalidInputError } from '../../contract/errors.ts';
 import { PROPAGATION_DEFAULTS } from '../propagation-defaults.ts';
 import { buildEvents, EventWatcher, type CartesianSource, type DenseStepper, type EventStop } from '../events/index.ts';
 import { changeCentre, stateToFrame } from '../frames/index.ts';
+import { multiply6Columns } from '../math/matrix6.ts';
 import type {
   EventRecord, PropagationOptions, PropagationRequest, PropagationResult,
 } from '../propagation-types.ts';
@@ -28,17 +29,6 @@ export type SegmentSteps = (request: PropagationRequest, options: PropagationOpt
 export function needsSegmentedRun(request: PropagationRequest): boolean {
   return (request.events?.length ?? 0) > 0 || request.switching?.enabled === true;
 }
-
-const mul6 = (a: number[], b: number[]): number[] => {
-  const c = new Array<number>(a.length === 36 ? 36 : 0).fill(0);
-  for (let i = 0; i < 6; i++) for (let k = 0; k < 6; k++) for (let j = 0; j < 6; j++) c[i * 6 + j] += a[i * 6 + k] * b[k * 6 + j];
-  return c;
-};
-const mul63 = (a: number[], s: number[]): number[] => {
-  const c = new Array<number>(18).fill(0);
-  for (let i = 0; i < 6; i++) for (let k = 0; k < 6; k++) for (let j = 0; j < 3; j++) c[i * 3 + j] += a[i * 6 + k] * s[k * 3 + j];
-  return c;
-};
 
 interface Candidates {
   entries: { body: BodyName; radiusKm: number }[];
@@ -146,11 +136,11 @@ export function* segmentedSteps(request: PropagationRequest, options: Propagatio
     if (watcher !== null) samples.push(...(watcher as EventWatcher).samples.filter((s) => (s.epochTdbS - tEnd) * direction <= 0));
     if (result.stm !== undefined) {
       // Earlier burns' sensitivities pass through this segment's Φ; this segment's burns start here.
-      sens.forEach((s, k) => { if (s !== undefined) sens[k] = mul63(result.stm!, s); });
+      sens.forEach((s, k) => { if (s !== undefined) sens[k] = multiply6Columns(result.stm!, s, 3); });
       segBurns.forEach((b, k) => {
         if ((b.epochTdbS - tEnd) * direction <= 0) sens[b.index] = result.burnSensitivities![k];
       });
-      stm = stm === undefined ? result.stm : mul6(result.stm, stm);
+      stm = stm === undefined ? result.stm : multiply6Columns(result.stm, stm, 6);
     }
     const sw = (watcher as EventWatcher | null)?.switchTo ?? null;
     if (result.outcome !== 'stopped-by-event' || sw === null || sw.epochTdbS !== tEnd) break;

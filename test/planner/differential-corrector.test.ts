@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { finiteDifferenceJacobian, runCorrector } from '../../planner/corrector/differential-corrector.ts';
 import type { CorrectorEvaluation, CorrectorSpec } from '../../planner/corrector/differential-corrector.ts';
-import { conditionNumber, matMul, pseudoSolve, svd, transpose } from '../../propagator/math/svd.ts';
+import { conditionNumber, multiply, pseudoSolve, svd, transpose } from '../../propagator/index.ts';
 
 type Fn = (x: number[]) => { r: number[]; J: number[][] };
 
@@ -124,9 +124,9 @@ describe('singular value decomposition', () => {
       for (const m of [a, transpose(a)]) {
         const d = svd(m);
         const us = d.u.map((row) => row.map((v, k) => v * d.s[k]));
-        const back = matMul(us, transpose(d.v));
+        const back = multiply(us, transpose(d.v));
         m.forEach((row, i) => row.forEach((v, j) => expect(back[i][j]).toBeCloseTo(v, 12)));
-        const vtv = matMul(transpose(d.v), d.v);
+        const vtv = multiply(transpose(d.v), d.v);
         vtv.forEach((row, i) => row.forEach((v, j) => expect(v).toBeCloseTo(i === j ? 1 : 0, 12)));
       }
     });

@@ -1,9 +1,9 @@
 /** Δv axes conversions of planner/maneuver-math (the rocket equation is checked in test/reference). */
 import { describe, expect, it } from 'vitest';
 import {
-  axesToInertialMatrix, deltaVFromInertialKmS, deltaVInAllAxes, deltaVToInertialKmS,
+  deltaVFromInertialKmS, deltaVInAllAxes, deltaVToInertialKmS,
 } from '../../planner/maneuver-math.ts';
-import type { Vec3 } from '../../propagator/index.ts';
+import { axesToInertialMatrix, type Vec3 } from '../../propagator/index.ts';
 
 describe('Δv axes', () => {
   describe('when the orbit is circular in the xy plane at the +x point', () => {
