@@ -179,6 +179,11 @@ describe('ops console', () => {
       const burnText = await page.getByTestId('burn-table').textContent();
       expect(burnText).toContain(api.burns[0].label);
       expect(burnText).toContain(api.burns[0].magnitudeMS.toFixed(3));
+      // UTC beside TDB (the demo's 2031 dates lie past the built-in leap-second table: UTC assumed, with the caveat).
+      expect(burnText).toContain(`UTC ${api.burns[0].epoch.utc.replace('T', ' ')}`);
+      expect(await page.locator('.plan-head').textContent()).toContain(`Leap secondsbuilt-in table, expires ${api.leapSeconds.expiresUtc}`);
+      expect(await page.getByTestId('trajectory-plot').textContent()).toContain(`Start ${api.createdFrom.initialEpoch.utc.replace('T', ' ')} · `);
+      expect(api.caveats.map((c: { code: string }) => c.code)).toContain('UTC_LEAP_SECONDS_ASSUMED');
       const targetText = await page.getByTestId('target-table').textContent();
       expect(targetText).toContain('B·T');
       expect(targetText).toContain('✓ met');
