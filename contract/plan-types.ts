@@ -275,6 +275,15 @@ export interface TrajectoryPoint {
   velocityKmS: Vec3;
 }
 
+/** Where a body was, for the trajectory figure: relative to the plan's central body, J2000 ecliptic axes, km. */
+export interface PlanBodyPosition {
+  body: BodyName;
+  /** `closest-approach`: a body the trajectory approaches, at that closest approach; `initial`: at the initial epoch. */
+  at: 'closest-approach' | 'initial';
+  epoch: PlanEpoch;
+  positionKm: Vec3;
+}
+
 export interface PlanBPlane {
   body: BodyName;
   referencePlane: 'ecliptic' | 'equator';
@@ -330,6 +339,8 @@ export interface ManeuverPlan {
   bPlane: PlanBPlane | null;
   /** Closest approaches found after the last burn (planned trajectory). */
   approaches: { body: BodyName; epoch: PlanEpoch; distanceKm: number; altitudeKm: number }[];
+  /** The Sun and the force model's bodies for the trajectory figure (absent from plans made before it existed). */
+  bodyPositions?: PlanBodyPosition[];
   /** The thresholds the caveats were judged against (problem.limits). */
   limits: { safeAltitudeKm: number; impactProbabilityLimit: number; impulsiveDurationFraction: number; crossCheckToleranceFraction: number; conditionNumberLimit: number };
   /** Counts of work done: propagations and wall-independent integrator effort. */

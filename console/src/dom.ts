@@ -57,3 +57,11 @@ export function uid(prefix: string): string {
   idCounter += 1;
   return `${prefix}-${idCounter}`;
 }
+
+/**
+ * A data table in a region that scrolls sideways when the table is wider than its panel, so no column is ever
+ * cut off or pushes the page wider; focusable and named, so keyboard users can scroll it too.
+ */
+export function scrollingTable(label: string, table: HTMLTableElement): HTMLDivElement {
+  return h('div', { class: 'table-scroll', role: 'region', 'aria-label': label, tabindex: '0' }, table);
+}

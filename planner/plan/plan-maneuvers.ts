@@ -23,7 +23,7 @@ import { runCrossCheck } from './cross-check.ts';
 import { approachImpactRadiusKm, linearDispersion } from './linear-dispersion.ts';
 import { attachMonteCarlo, runDispersionSamplesWithContext, summariseDispersion } from './monte-carlo.ts';
 import { planCaveats } from './plan-caveats.ts';
-import { forceModelSummary, planEpoch, plannedBurns, targetResults, trajectoryPoints } from './plan-parts.ts';
+import { bodyPositions, forceModelSummary, planEpoch, plannedBurns, targetResults, trajectoryPoints } from './plan-parts.ts';
 import { planningContext } from './planning-context.ts';
 import { SOFTWARE_VERSION } from '../../contract/software-version.ts';
 import { radiusOf } from '../targeting/target-components.ts';
@@ -194,6 +194,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
     trajectory: ok ? trajectoryPoints(ok.samples, fm.centralBody, ctx.ephemeris) : [],
     bPlane: null,
     approaches: ok ? ok.approaches.map((a) => ({ body: a.body, epoch: epochOf(a.epochTdbS), distanceKm: a.distanceKm, altitudeKm: a.distanceKm - radiusOf(a.body) })) : [],
+    bodyPositions: ok ? bodyPositions(ctx.ephemeris, fm.centralBody, fm.perturbingBodies, ok.approaches, ctx.epochs.initialTdbS, epochOf) : [],
     limits: { ...problem.limits },
     effort: { propagations: 0, evaluations: 0 },
   };

@@ -6,7 +6,8 @@
 import { changeCentre, eclipticFromEquatorialJ2000, formatEpoch, utcTextOrNull } from '../../propagator/index.ts';
 import type { Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import { budgetBurns } from '../maneuver-math.ts';
-import type { ManeuverPlan, PlanEpoch, PlannedBurn, TargetResult, TrajectoryPoint } from '../../contract/plan-types.ts';
+import type { ManeuverPlan, PlanBodyPosition, PlanEpoch, PlannedBurn, TargetResult, TrajectoryPoint } from '../../contract/plan-types.ts';
+import type { BodyName } from '../../contract/bodies.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { BurnRecord } from '../targeting/evaluate-trajectory.ts';
 import type { TargetComponent } from '../targeting/target-components.ts';
@@ -80,6 +81,30 @@ export function trajectoryPoints(samples: StateVector[], centre: StateVector['ce
       velocityKmS: eclipticFromEquatorialJ2000(c.velocityKmS),
     };
   });
+}
+
+/**
+ * Where the Sun and the force model's bodies were, for the trajectory figure: each approached body at its
+ * closest approach (`approaches`, epochs TDB s from J2000), every other one at `initialTdbS`. Positions relative
+ * to `centre`, J2000 ecliptic axes, km. Bodies the ephemeris does not carry, or epochs outside its span, are left
+ * out (the figure then has no mark for them; nothing else depends on this list).
+ */
+export function bodyPositions(
+  ephemeris: Ephemeris, centre: BodyName, bodies: readonly BodyName[],
+  approaches: readonly { body: BodyName; epochTdbS: number }[], initialTdbS: number, epochOf: (tdbS: number) => PlanEpoch,
+): PlanBodyPosition[] {
+  const out: PlanBodyPosition[] = [];
+  const buf = new Float64Array(3);
+  const place = (body: BodyName, tdbS: number, at: PlanBodyPosition['at']): void => {
+    if (!ephemeris.bodies.includes(body) || tdbS < ephemeris.span.startTdbS || tdbS > ephemeris.span.endTdbS) return;
+    ephemeris.positionInto(body, centre, tdbS, buf);
+    out.push({ body, at, epoch: epochOf(tdbS), positionKm: eclipticFromEquatorialJ2000(buf) });
+  };
+  for (const a of approaches) place(a.body, a.epochTdbS, 'closest-approach');
+  for (const body of new Set<BodyName>(['sun', ...bodies])) {
+    if (body !== centre && !approaches.some((a) => a.body === body)) place(body, initialTdbS, 'initial');
+  }
+  return out;
 }
 
 /** One-line force-model summary and its fields. */

@@ -75,3 +75,33 @@ export function grid(view: View, count: number): SVGGElement {
 export function clipTo(view: View, id: string): SVGClipPathElement {
   return svg('clipPath', { id }, svg('rect', { x: view.left, y: view.top, width: view.right - view.left, height: view.bottom - view.top }));
 }
+
+/**
+ * Text labels inside a plot area that neither leave it nor cover one another: a label that would cross the
+ * area's left or right side is mirrored to the other side of its point (then held inside), and one that would
+ * overlap a label placed before it moves a line at a time toward the area's middle. Widths are estimated
+ * from the character count (the figure's label font, about 6.4 SVG units per character).
+ */
+export class LabelPlacer {
+  private readonly taken: { x0: number; x1: number; y0: number; y1: number }[] = [];
+  constructor(private readonly view: View, private readonly charWidth = 6.4, private readonly lineHeight = 13) {}
+
+  /** A label for the point (pointX, ·) wanted at (x, y) (baseline) with `anchor`. */
+  place(text: string, pointX: number, x: number, y: number, anchor: 'start' | 'end' | 'middle', cls = 'mk-label'): SVGTextElement {
+    const v = this.view;
+    const w = text.length * this.charWidth;
+    let x0 = anchor === 'start' ? x : anchor === 'end' ? x - w : x - w / 2;
+    if (x0 < v.left + 2 && anchor === 'end') x0 = 2 * pointX - x;
+    if (x0 + w > v.right - 2 && anchor === 'start') x0 = 2 * pointX - x - w;
+    x0 = Math.min(Math.max(x0, v.left + 2), v.right - 2 - w);
+    const step = y < (v.top + v.bottom) / 2 ? this.lineHeight : -this.lineHeight;
+    let yb = Math.min(Math.max(y, v.top + this.lineHeight), v.bottom - 3);
+    for (let k = 0; k < 12 && this.overlaps(x0, x0 + w, yb - this.lineHeight + 3, yb + 3); k++) yb += step;
+    this.taken.push({ x0, x1: x0 + w, y0: yb - this.lineHeight + 3, y1: yb + 3 });
+    return svg('text', { x: x0, y: yb, 'text-anchor': 'start', class: cls }, text);
+  }
+
+  private overlaps(x0: number, x1: number, y0: number, y1: number): boolean {
+    return this.taken.some((b) => x0 < b.x1 && x1 > b.x0 && y0 < b.y1 && y1 > b.y0);
+  }
+}

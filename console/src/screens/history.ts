@@ -6,7 +6,7 @@
 import { ApiError, api, download } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
 import { checkEntries } from '../chain-check.ts';
-import { h, replaceChildren } from '../dom.ts';
+import { h, replaceChildren, scrollingTable } from '../dom.ts';
 import { isoShort } from '../format.ts';
 import type { HistoryEntry, PlanRecord } from '../plan-types.ts';
 import { hasRole } from '../session.ts';
@@ -72,7 +72,7 @@ export const historyScreen: ScreenFactory = (ctx) => {
             h('dt', {}, 'Superseded by'), h('dd', {}, plan.supersededBy ?? '—'))),
         status,
         h('section', { class: 'card' },
-          h('table', { class: 'data', 'data-testid': 'history-table' },
+          scrollingTable('Archive entries', h('table', { class: 'data', 'data-testid': 'history-table' },
             h('caption', {}, 'Archive entries about this plan and its job, oldest first'),
             h('thead', {}, h('tr', {}, ['#', 'When (UTC)', 'Who', 'What', 'Detail', 'Hash', 'Server check', 'Browser check'].map((c) => h('th', { scope: 'col' }, c)))),
             h('tbody', {}, entries.map((e) => {
@@ -83,7 +83,7 @@ export const historyScreen: ScreenFactory = (ctx) => {
                 h('td', { class: 'mono small', title: e.hash }, `${e.hash.slice(0, 12)}…`),
                 h('td', {}, e.hashMatches ? h('span', { class: 'ok' }, '✓ matches') : h('span', { class: 'bad' }, '✗ differs')),
                 h('td', {}, !c ? '—' : c.hashOk ? h('span', { class: 'ok' }, c.linkOk ? '✓ matches, linked' : '✓ matches') : h('span', { class: 'bad' }, '✗ differs')));
-            })))),
+            }))))),
         h('section', { class: 'card' },
           h('h2', {}, 'Export and checks'),
           hasRole(session, 'reviewer', 'auditor') ? [exportButton, exportNote] : h('p', {}, 'Exports need the reviewer or auditor role.'),

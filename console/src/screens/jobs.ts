@@ -1,7 +1,7 @@
 /** Live jobs: recent jobs (refreshed) and the selected job's state and progress from its event stream; cancel. */
 import { ApiError, api } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
-import { h, replaceChildren } from '../dom.ts';
+import { h, replaceChildren, scrollingTable } from '../dom.ts';
 import { isoShort } from '../format.ts';
 import { FINAL_JOB_STATES, type JobProgress, type JobStatus } from '../plan-types.ts';
 import { hasRole } from '../session.ts';
@@ -157,10 +157,10 @@ export const jobsScreen: ScreenFactory = (ctx) => {
       h('div', { class: 'split' },
         h('div', { class: 'card' },
           h('h2', {}, 'Recent jobs'),
-          h('table', { class: 'data' },
+          scrollingTable('Recent jobs', h('table', { class: 'data' },
             h('caption', { class: 'sr-only' }, 'Recent retargeting jobs, newest first'),
             h('thead', {}, h('tr', {}, ['Spacecraft', 'State', 'Progress', 'By', 'Submitted'].map((c) => h('th', { scope: 'col' }, c)))),
-            listBody),
+            listBody)),
           listNote),
         detail)),
     dispose() { stop.abort(); clearInterval(timer); },

@@ -4,7 +4,7 @@
  */
 import { api } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
-import { h, replaceChildren } from '../dom.ts';
+import { h, replaceChildren, scrollingTable } from '../dom.ts';
 import { duration, epochText, fixed, isoShort, kmsToMs, sig } from '../format.ts';
 import type { ManeuverPlan, PlanSummary, TargetResult } from '../plan-types.ts';
 import { bPlaneFigure } from '../plots/b-plane-plot.ts';
@@ -45,7 +45,7 @@ function burnTable(plan: ManeuverPlan): HTMLElement {
   };
   frameSelect.addEventListener('change', draw);
   draw();
-  return h('div', {}, h('div', { class: 'field inline' }, h('label', { for: 'burn-frame' }, 'Local axes'), frameSelect), h('div', { class: 'scroll-x' }, table));
+  return h('div', {}, h('div', { class: 'field inline' }, h('label', { for: 'burn-frame' }, 'Local axes'), frameSelect), scrollingTable('Burns', table));
 }
 
 /** The leap-second table the plan's UTC epochs use (older plans do not record it). */
@@ -65,7 +65,7 @@ function targetValue(t: TargetResult, which: 'requested' | 'achieved'): string {
   return v === null ? '—' : `${fixed(v, 3)} ${t.unit}`;
 }
 
-function targetTable(plan: ManeuverPlan): HTMLElement {
+function targetTable(plan: ManeuverPlan): HTMLTableElement {
   return h('table', { class: 'data', 'data-testid': 'target-table' },
     h('caption', {}, 'Targets — requested versus achieved on the planned trajectory'),
     h('thead', {}, h('tr', {}, ['Target', 'Body', 'Requested', 'Achieved', 'Residual', 'Tolerance', 'Met'].map((c) => h('th', { scope: 'col' }, c)))),
@@ -90,14 +90,14 @@ function crossCheckSection(plan: ManeuverPlan): HTMLElement {
     h('h2', { id: 'cc-heading' }, 'Independent cross-check ', cc.passed ? h('span', { class: 'badge ok-badge' }, 'passed') : h('span', { class: 'badge bad-badge' }, 'failed')),
     h('p', {}, `Planned with ${cc.primaryMethod}${switchingText(cc.primarySwitching)}; re-propagated with ${cc.method}`
       + `${switchingText(cc.switching)} at relative tolerance ${sig(cc.relativeTolerance, 2)}. ${cc.message}`),
-    cc.differences.length ? h('table', { class: 'data' },
+    cc.differences.length ? scrollingTable('Cross-check differences', h('table', { class: 'data' },
       h('caption', { class: 'sr-only' }, 'Cross-check differences per target component'),
       h('thead', {}, h('tr', {}, ['Component', 'Plan', 'Check', 'Difference', 'Allowed', 'Within'].map((c) => h('th', { scope: 'col' }, c)))),
       h('tbody', {}, cc.differences.map((d) => h('tr', {},
         h('th', { scope: 'row' }, d.component),
         h('td', { class: 'num' }, sig(d.primary, 9)), h('td', { class: 'num' }, sig(d.check, 9)),
         h('td', { class: 'num' }, sig(d.difference, 3)), h('td', { class: 'num' }, sig(d.allowed, 3)),
-        h('td', {}, d.withinTolerance && d.metByCheck ? h('span', { class: 'ok' }, '✓') : h('span', { class: 'bad' }, '✗ no')))))) : null);
+        h('td', {}, d.withinTolerance && d.metByCheck ? h('span', { class: 'ok' }, '✓') : h('span', { class: 'bad' }, '✗ no'))))))) : null);
 }
 
 function dispersionSection(plan: ManeuverPlan): HTMLElement {
@@ -147,7 +147,7 @@ export const planReviewScreen: ScreenFactory = (ctx) => {
             h('p', {}, h('a', { href: `#/plans/${encodeURIComponent(planId)}/history` }, 'History and export of this plan'))),
           converged ? null : h('p', { class: 'card bad-card', role: 'alert' }, 'This plan did not converge. It is shown for diagnosis only and can never be approved.'),
           h('section', { class: 'card', 'aria-labelledby': 'burns-heading' }, h('h2', { id: 'burns-heading' }, 'Burns'), burnTable(plan)),
-          h('section', { class: 'card', 'aria-labelledby': 'targets-heading' }, h('h2', { id: 'targets-heading' }, 'Targets'), h('div', { class: 'scroll-x' }, targetTable(plan))),
+          h('section', { class: 'card', 'aria-labelledby': 'targets-heading' }, h('h2', { id: 'targets-heading' }, 'Targets'), scrollingTable('Targets', targetTable(plan))),
           plan.bPlane ? h('section', { class: 'card', 'aria-labelledby': 'bp-heading' }, h('h2', { id: 'bp-heading' }, 'B-plane'), bPlaneFigure(plan.bPlane)) : null,
           plan.trajectory.length ? h('section', { class: 'card', 'aria-labelledby': 'traj-heading' }, h('h2', { id: 'traj-heading' }, 'Trajectory'), trajectoryFigure(plan)) : null,
           crossCheckSection(plan),

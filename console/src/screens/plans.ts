@@ -1,7 +1,7 @@
 /** Plans: the proposed, approved, rejected and superseded plans, newest first, with a state filter. */
 import { api } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
-import { h, replaceChildren } from '../dom.ts';
+import { h, replaceChildren, scrollingTable } from '../dom.ts';
 import { isoShort } from '../format.ts';
 import type { PlanSummary } from '../plan-types.ts';
 
@@ -39,10 +39,10 @@ export const plansScreen: ScreenFactory = (ctx) => {
       h('h1', { tabindex: '-1' }, 'Plans'),
       h('div', { class: 'card' },
         h('div', { class: 'field inline' }, h('label', { for: 'plan-filter' }, 'Show'), filter),
-        h('table', { class: 'data' },
+        scrollingTable('Plans', h('table', { class: 'data' },
           h('caption', { class: 'sr-only' }, 'Plans, newest first'),
           h('thead', {}, h('tr', {}, ['Spacecraft', 'State', 'Corrector', 'Cross-check', 'Submitted by', 'Proposed'].map((c) => h('th', { scope: 'col' }, c)))),
-          body),
+          body)),
         note)),
   };
 };
