@@ -25,6 +25,9 @@ export interface OemEphemerisOptions {
   defaultInterpolation?: TabulatedInterpolation;
   /** Degree when a segment names none. @defaultValue 7 (Lagrange) or 5 (Hermite) */
   defaultDegree?: number;
+  /** Name of the source in errors, reports and cache keys (make it unique per file, e.g. with its SHA-256).
+   * @defaultValue `OEM <OBJECT_NAME> (<ORIGINATOR>, <CREATION_DATE>)` */
+  name?: string;
 }
 
 export const OEM_EPHEMERIS_DEFAULTS = Object.freeze({ defaultInterpolation: 'lagrange' as TabulatedInterpolation });
@@ -137,7 +140,7 @@ export function oemToEphemeris(oem: Oem, options: OemEphemerisOptions = {}): Tab
         + 'name the target body explicitly');
     }
   }
-  const name = `OEM ${oem.segments[0].metadata.objectName} (${oem.header.originator}, ${oem.header.creationDate})`;
+  const name = options.name ?? `OEM ${oem.segments[0].metadata.objectName} (${oem.header.originator}, ${oem.header.creationDate})`;
   const sources = oem.segments.map((s) => segmentSource(s, target!, name, options));
   return new OemEphemeris(sources, name, target, centre);
 }

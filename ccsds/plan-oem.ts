@@ -77,6 +77,12 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
   }
   const scale = options.timeSystem ?? 'TDB';
   const frame: MessageFrame = 'J2000_EQUATORIAL';
+  const files = (plan.ephemerisSources ?? []).filter((e) => e.source === 'oem');
+  if (options.ephemeris === undefined && files.length > 0) {
+    // Re-propagating on the built-in series would export another trajectory than the one planned.
+    throw new InvalidInputError('ephemeris', `the plan was made with ephemeris files (${files.map((e) => `${e.body}: ${e.file}`).join(', ')}); `
+      + 'its OEM export needs the same files, which this export path does not load yet');
+  }
   const ephemeris = options.ephemeris ?? exportEphemeris(problem, startTdbS, endTdbS, options.ephemerisCache);
   const interpolation = options.interpolation ?? { method: 'HERMITE', degree: 7 };
   const f = problem.forceModel;

@@ -61,6 +61,18 @@ function leapSecondsComment(plan: ManeuverPlan): string {
   return `UTC readings: leap seconds from ${where}, expires ${l.expiresUtc}`;
 }
 
+/** One COMMENT per ephemeris file (body, file, SHA-256, span) and one naming the bodies of the built-in
+ * series with its version; nothing for plans made before sources were recorded. */
+export function ephemerisComments(plan: ManeuverPlan): string[] {
+  const sources = plan.ephemerisSources ?? [];
+  const builtin = sources.flatMap((e) => (e.source === 'built-in' ? [e] : []));
+  return [
+    ...sources.flatMap((e) => (e.source === 'oem'
+      ? [`ephemeris ${e.body}: OEM ${e.file} sha256 ${e.sha256} covering ${e.startTdb} to ${e.endTdb}`] : [])),
+    ...(builtin.length > 0 ? [`ephemeris ${builtin.map((e) => e.body).join(', ')}: built-in ${builtin[0].version}`] : []),
+  ];
+}
+
 /** Header with the review statement, the plan's identity, its leap-second table, and its critical caveats
  * and the leap-second one (UTC past the table's expiry) as comments. */
 export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmHeader {
@@ -74,6 +86,7 @@ export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmH
       `problem hash ${plan.problemHash}; software ${plan.softwareVersion}; status ${plan.status}; cross-check `
         + `${plan.crossCheck.passed ? 'passed' : 'NOT passed'}`,
       leapSecondsComment(plan),
+      ...ephemerisComments(plan),
       ...critical.map((c) => `${c.severity.toUpperCase()} ${c.code}: ${c.text}`),
     ],
   };

@@ -35,6 +35,12 @@ export interface PlanEpoch {
 
 /** The leap-second table a plan used: where it came from and its content, so the plan can be re-read
  * (UTC text, Monte Carlo children, CCSDS export) with exactly the same table. */
+/** Which source served one body of a plan: the built-in series (with its version) or a CCSDS OEM file (name,
+ * SHA-256 of its bytes, and the span it covers, TDB). */
+export type PlanEphemerisSource =
+  | { body: BodyName; source: 'built-in'; version: string }
+  | { body: BodyName; source: 'oem'; file: string; sha256: string; startTdb: string; endTdb: string };
+
 export interface PlanLeapSeconds {
   source: 'built-in' | 'file';
   /** Path of the leap-seconds.list as given to the CLI or service (null for built-in). */
@@ -310,6 +316,9 @@ export interface ManeuverPlan {
   /** The leap-second table used for every UTC epoch read or written (the problem hash covers it); absent in
    * plans made before it was recorded (they used the built-in table of their software version). */
   leapSeconds?: PlanLeapSeconds;
+  /** The source of every body the plan used (the problem hash covers any file's SHA-256). Absent in plans
+   * made before plans recorded it (those used the built-in series throughout). */
+  ephemerisSources?: PlanEphemerisSource[];
   forceModel: { summary: string; centralBody: BodyName; perturbingBodies: BodyName[]; centralJ2: boolean; solarPressure: boolean; method: 'cowell' | 'encke'; relativeTolerance: number; switching: boolean; ephemeris: string };
   burns: PlannedBurn[];
   totalDeltaVMS: number;

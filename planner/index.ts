@@ -9,6 +9,7 @@ export { canonicalJson } from '../contract/canonical-json.ts';
 export { problemHash, targetSetKey } from './problem-hash.ts';
 export { planLeapSeconds, leapSecondTableOfPlan } from '../propagator/index.ts';
 export { leapSecondsFromFileBytes } from './leap-seconds-file.ts';
+export { ephemerisWithFiles, type EphemerisFileTable } from './ephemeris-files.ts';
 export { CAVEAT_CODES, REVIEW_TEXT, caveat, reviewCaveat, orderCaveats } from './caveats.ts';
 export type { CaveatCode } from './caveats.ts';
 export type * from '../contract/plan-types.ts';

@@ -5,17 +5,23 @@
 import { createHash } from 'node:crypto';
 import { canonicalJson } from '../contract/canonical-json.ts';
 import { leapSecondsIdentity } from './leap-seconds.ts';
-import type { PlanLeapSeconds } from '../contract/plan-types.ts';
+import type { PlanEphemerisSource, PlanLeapSeconds } from '../contract/plan-types.ts';
+import { ephemerisIdentity } from './ephemeris-files.ts';
 import type { PlanningProblem } from '../contract/problem-schema.ts';
 
 /**
  * SHA-256 (hex, 64 characters) of the canonical JSON of a validated problem together with the identity of
  * the leap-second table its UTC epochs are read with (source, file SHA-256, expiry — not the path): the
  * same problem re-planned with a newer table hashes differently, because its UTC epochs may mean other
- * instants. `leapSeconds` is a plan's record (planLeapSeconds of the table the door loaded).
+ * instants. `leapSeconds` is a plan's record (planLeapSeconds of the table the door loaded). `ephemeris`: the
+ * plan's ephemeris sources; any OEM file's body, SHA-256 and span are covered (a problem planned on the
+ * built-in series alone hashes as it did before files could be given).
  */
-export function problemHash(problem: PlanningProblem, leapSeconds: Pick<PlanLeapSeconds, 'source' | 'sha256' | 'expiresUtc'>): string {
-  const hashed = { leapSeconds: leapSecondsIdentity(leapSeconds), problem };
+export function problemHash(problem: PlanningProblem, leapSeconds: Pick<PlanLeapSeconds, 'source' | 'sha256' | 'expiresUtc'>,
+  ephemeris?: readonly PlanEphemerisSource[]): string {
+  const files = ephemerisIdentity(ephemeris);
+  const hashed = files === null ? { leapSeconds: leapSecondsIdentity(leapSeconds), problem }
+    : { ephemerisFiles: files, leapSeconds: leapSecondsIdentity(leapSeconds), problem };
   return createHash('sha256').update(canonicalJson(hashed), 'utf8').digest('hex');
 }
 

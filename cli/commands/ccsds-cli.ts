@@ -136,7 +136,7 @@ export async function exportPlanFilesAsCcsds(o: OfflineCcsdsExport): Promise<{ t
   const leapSeconds = leapSecondTableOfPlan(plan.leapSeconds);
   const problem = o.statePath !== undefined ? await readProblemFileWithOpmState(o.problemPath, o.statePath, leapSeconds)
     : parseProblem(await readJson(o.problemPath, '--problem'), leapSeconds);
-  const hash = problemHash(problem, planLeapSeconds(leapSeconds));
+  const hash = problemHash(problem, planLeapSeconds(leapSeconds), plan.ephemerisSources);
   if (plan.problemHash !== hash) {
     throw new InvalidInputError('--problem', `the plan in '${o.planPath}' was made from another problem or leap-second table (its problem hash `
       + `${String(plan.problemHash).slice(0, 12)}… differs from ${hash.slice(0, 12)}… of '${o.problemPath}'`

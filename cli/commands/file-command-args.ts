@@ -6,6 +6,8 @@ export interface FileCommandArgs {
   json: boolean;
   /** Value of each option that takes one (e.g. `--out`, `--state`), when given. */
   values: Record<string, string | undefined>;
+  /** Every value of each option, in order (for options that may repeat, e.g. `--ephemeris`). */
+  all: Record<string, string[]>;
 }
 
 /**
@@ -19,6 +21,7 @@ export function parseFileCommandArgs(args: string[], name: string, usage: string
   };
   let json = false;
   const values: Record<string, string | undefined> = {};
+  const all: Record<string, string[]> = {};
   const files: string[] = [];
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
@@ -27,9 +30,10 @@ export function parseFileCommandArgs(args: string[], name: string, usage: string
       const v = args[++i];
       if (!v) return fail(`${a} needs ${valueOptions[a]}`);
       values[a] = v;
+      all[a] = [...(all[a] ?? []), v];
     } else if (a.startsWith('-')) return fail(`unknown option '${a}'`);
     else files.push(a);
   }
   if (files.length !== 1) return fail(`give exactly one ${name === 'budget' ? 'request' : 'problem'} file`);
-  return { file: files[0], json, values };
+  return { file: files[0], json, values, all };
 }

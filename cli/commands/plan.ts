@@ -1,4 +1,4 @@
-/** `veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm] [--leap-seconds FILE]`: the whole planning job in-process, no server. */
+/** `veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm] [--leap-seconds FILE] [--ephemeris FILE.oem ...]`: the whole planning job in-process, no server. */
 import { constants } from 'node:fs';
 import { access, stat, writeFile } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
@@ -13,11 +13,13 @@ import { readProblemFileWithOpmState } from './ccsds-cli.ts';
 import { readJsonFile } from './read-json-file.ts';
 import { LEAP_SECONDS_USAGE, loadCliLeapSeconds } from '../leap-seconds-option.ts';
 import { parseFileCommandArgs } from './file-command-args.ts';
+import { EPHEMERIS_USAGE, loadEphemerisFiles } from '../ephemeris-option.ts';
 
 const USAGE = `usage: veer plan <problem.json> [--json] [--out FILE] [--state FILE.opm] [--leap-seconds FILE]
+                 [--ephemeris FILE.oem ...]
 
 Plans the correction burns of a retargeting problem in this process: differential correction, an
-independent cross-check (the other propagation method at a tighter tolerance), linear and Monte Carlo
+independent cross-check (the other propagation method and central-body treatment at a tighter tolerance), linear and Monte Carlo
 dispersion, caveats. Progress goes to stderr; the readable report to stdout.
 
   --json       print the plan as JSON on stdout instead of the report
@@ -25,6 +27,7 @@ dispersion, caveats. Progress goes to stderr; the readable report to stdout.
   --state FILE.opm  take the initial state (and covariance) from a CCSDS OPM, KVN or XML, instead of the
                problem's initialState (the file is read strictly; errors name the keyword and line)
 ${LEAP_SECONDS_USAGE}
+${EPHEMERIS_USAGE}
 
 Exit codes: 0 converged and cross-check passed; 3 not converged or cross-check failed;
 2 bad usage or invalid problem (the field is named); 1 other failures.
@@ -63,13 +66,15 @@ export const planCommand: CliCommand = {
   name: 'plan',
   usage: USAGE,
   async run(args: string[]): Promise<number> {
-    const parsed = parseFileCommandArgs(args, 'plan', USAGE, { '--out': 'a file name', '--state': 'an OPM file name', '--leap-seconds': 'a file name' });
+    const parsed = parseFileCommandArgs(args, 'plan', USAGE, { '--out': 'a file name', '--state': 'an OPM file name', '--leap-seconds': 'a file name',
+      '--ephemeris': 'an OEM file name' });
     if (!parsed) return 2;
     const { json, file } = parsed;
     const out = parsed.values['--out'];
     const state = parsed.values['--state'];
     const leapSeconds = await loadCliLeapSeconds(parsed.values['--leap-seconds']);
     const problem = state ? await readProblemFileWithOpmState(file, state, leapSeconds) : await readProblemFile(file, leapSeconds);
+    const ephemerisFiles = await loadEphemerisFiles(parsed.all['--ephemeris'] ?? []);
     if (out) await checkOutputPath(out);
     const bar = progressBar('veer plan');
     const controller = new AbortController();
@@ -77,7 +82,7 @@ export const planCommand: CliCommand = {
     process.once('SIGINT', onSigint);
     let plan: ManeuverPlan;
     try {
-      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal, ephemerisCache: cliEphemerisCache, leapSeconds });
+      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal, ephemerisCache: cliEphemerisCache, leapSeconds, ephemerisFiles });
     } finally {
       bar.end();
       process.removeListener('SIGINT', onSigint);

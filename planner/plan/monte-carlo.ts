@@ -89,6 +89,12 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
 
 /** Queue fan-out entry: runs samples [firstIndex, firstIndex + count) for a converged plan. */
 export async function runDispersionSamples(problem: PlanningProblem, plan: ManeuverPlan, options: SampleRunOptions): Promise<DispersionSample[]> {
+  // The samples must fly on the plan's own ephemeris: a plan made on files cannot be sampled without them.
+  const files = (plan.ephemerisSources ?? []).filter((s) => s.source === 'oem');
+  if (files.length > 0) {
+    throw new InvalidInputError('ephemeris', `the plan used ephemeris files (${files.map((f) => `${f.body}: ${f.file}`).join(', ')}) `
+      + 'that separate dispersion samples cannot load here; run the Monte Carlo in the planning process');
+  }
   return runDispersionSamplesWithContext(planningContext(problem, leapSecondTableOfPlan(plan.leapSeconds), options.ephemerisCache), plan, options);
 }
 

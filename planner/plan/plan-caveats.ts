@@ -101,13 +101,33 @@ export function planCaveats(plan: ManeuverPlan): Caveat[] {
   if (plan.convergence.leastSquares) {
     out.push(caveat('TARGETS_MET_IN_LEAST_SQUARES_ONLY', 'The targets outnumber the free variables: the burns were solved in least squares, and the targets are met only as far as the table shows.'));
   }
-  const usesEphemeris = plan.forceModel.perturbingBodies.length > 0 || plan.createdFrom.centre !== plan.forceModel.centralBody
-    || plan.targets.some((t) => t.body !== null && t.body !== plan.forceModel.centralBody);
-  if (usesEphemeris) out.push(caveat('BUILTIN_EPHEMERIS_ACCURACY', `Planet positions come from the built-in ${plan.forceModel.ephemeris} series (truncated VSOP87-class theory, about one arcminute: thousands to tens of thousands of km at planetary distances). Targets relative to a planet inherit that error; re-plan against the mission's reference ephemeris before use.`));
+  const builtin = builtinBodiesThatMatter(plan);
+  if (builtin.length > 0) out.push(caveat('BUILTIN_EPHEMERIS_ACCURACY', `Positions of ${builtin.join(', ')} come from the built-in ${builtinVersion(plan)} series (truncated VSOP87-class theory, about one arcminute: thousands to tens of thousands of km at planetary distances). Targets relative to a planet inherit that error; re-plan against the mission's reference ephemeris (veer plan --ephemeris FILE.oem) before use.`));
   if (!plan.createdFrom.hasCovariance) {
     out.push(caveat('NO_INITIAL_STATE_COVARIANCE', 'The initial state has no covariance: the dispersion covers burn execution errors only, not orbit-determination uncertainty.'));
   }
   out.push(...utcCaveats(plan));
   out.push(...dispersionCaveats(plan));
   return orderCaveats(out);
+}
+
+/**
+ * Bodies whose built-in positions the plan depends on: every body it uses (central, initial centre,
+ * perturbing, target bodies) once more than one is involved, except the Sun, the origin of every source
+ * (the Sun relative to a planet is that planet's position). Plans without source records (made before they
+ * were kept) used the built-in series for all of them.
+ */
+function builtinBodiesThatMatter(plan: ManeuverPlan): string[] {
+  const fm = plan.forceModel;
+  const used = new Set<string>([fm.centralBody, plan.createdFrom.centre, ...fm.perturbingBodies,
+    ...plan.targets.flatMap((t) => (t.body !== null ? [t.body] : []))]);
+  if (used.size < 2) return [];
+  used.delete('sun');
+  const fromFile = new Set<string>((plan.ephemerisSources ?? []).filter((s) => s.source === 'oem').map((s) => s.body));
+  return [...used].filter((b) => !fromFile.has(b)).sort();
+}
+
+function builtinVersion(plan: ManeuverPlan): string {
+  const record = (plan.ephemerisSources ?? []).find((s) => s.source === 'built-in');
+  return record !== undefined && record.source === 'built-in' ? record.version : plan.forceModel.ephemeris;
 }

@@ -12,6 +12,7 @@ import type { CorrectorResult } from '../corrector/differential-corrector.ts';
 import type { IterationRecord, ManeuverPlan, PlanProgress, Sensitivities } from '../../contract/plan-types.ts';
 import { parseProblem } from '../problem-checks.ts';
 import { problemHash, targetSetKey } from '../problem-hash.ts';
+import type { EphemerisFileTable } from '../ephemeris-files.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { controlSettings, finiteControlLayout } from '../targeting/finite-controls.ts';
 import type { FiniteSeed } from '../targeting/finite-types.ts';
@@ -45,6 +46,9 @@ export interface PlanOptions {
    * VEER_LEAP_SECONDS or --leap-seconds); recorded in the plan and covered by its problem hash.
    * @defaultValue BUILTIN_LEAP_SECONDS */
   leapSeconds?: LeapSecondTable;
+  /** Bodies tabulated by ephemeris files the door read (CCSDS OEM): each replaces the built-in series for
+   * its body; the plan records every body's source and the problem hash covers the files. @defaultValue [] */
+  ephemerisFiles?: readonly EphemerisFileTable[];
 }
 
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -59,7 +63,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   progress({ stage: 'validating', fraction: 0, message: 'checking the problem' });
   const leapSeconds = options.leapSeconds ?? BUILTIN_LEAP_SECONDS;
   const problem = parseProblem(input, leapSeconds);
-  let ctx = planningContext(problem, leapSeconds, options.ephemerisCache);
+  let ctx = planningContext(problem, leapSeconds, options.ephemerisCache, options.ephemerisFiles);
   const leapRecord = planLeapSeconds(leapSeconds);
   const epochOf = (tdbS: number): ReturnType<typeof planEpoch> => planEpoch(tdbS, leapSeconds);
   checkAbort();
@@ -156,7 +160,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
   const plan: ManeuverPlan = {
     planFormatVersion: 1,
     status: converged && ok ? 'converged' : 'not-converged',
-    problemHash: problemHash(problem, leapRecord),
+    problemHash: problemHash(problem, leapRecord, ctx.ephemerisSources),
     softwareVersion: SOFTWARE_VERSION,
     spacecraftName: problem.spacecraft.name,
     targetSetKey: targetSetKey(problem),
@@ -167,6 +171,7 @@ export async function planManeuvers(input: PlanningProblem, options: PlanOptions
       hasCovariance: problem.initialState.covarianceKmKmS !== undefined,
     },
     leapSeconds: leapRecord,
+    ephemerisSources: ctx.ephemerisSources,
     forceModel: forceModelSummary(problem, ctx.ephemerisName),
     burns: converged && ok ? plannedBurns(problem, ok.burns, freeEpoch, after, leapSeconds) : [],
     totalDeltaVMS: 0,

@@ -9,6 +9,8 @@ import {
   BUILTIN_EPHEMERIS_SPAN, changeCentre, congruence, createBuiltinEphemeris, EphemerisCache, frameRotation, stateRotation6, stateToFrame,
 } from '../../propagator/index.ts';
 import type { BodyName, Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
+import type { PlanEphemerisSource } from '../../contract/plan-types.ts';
+import { ephemerisWithFiles, type EphemerisFileTable } from '../ephemeris-files.ts';
 import { checkProblem } from '../problem-checks.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
@@ -29,6 +31,8 @@ export interface PlanningContext {
   layout: ControlLayout;
   ephemeris: Ephemeris;
   ephemerisName: string;
+  /** Which source served each body (built-in or an OEM file). */
+  ephemerisSources: PlanEphemerisSource[];
   evaluation: EvaluationContext;
   /** Index in `components` of B·T, B·R and closest-approach epoch at the B-plane body, when any. */
   bPlaneIndex: { body: BodyName; bDotT: number; bDotR: number; closestApproach: number } | null;
@@ -54,7 +58,8 @@ function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | nu
 
 /** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. UTC epochs go
  * through `leapSeconds`; `cache`: the process's shared ephemeris cache (a fresh one when absent). */
-export function planningContext(problem: PlanningProblem, leapSeconds: LeapSecondTable, cache?: EphemerisCache): PlanningContext {
+export function planningContext(problem: PlanningProblem, leapSeconds: LeapSecondTable, cache?: EphemerisCache,
+  files: readonly EphemerisFileTable[] = []): PlanningContext {
   const epochs = checkProblem(problem, leapSeconds);
   const components = targetComponents(problem, epochs);
   const targetCount = components.length;
@@ -77,11 +82,14 @@ export function planningContext(problem: PlanningProblem, leapSeconds: LeapSecon
   const fm = problem.forceModel;
   const bodies = [...new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies, problem.initialState.centre,
     ...components.flatMap((c) => (c.body ? [c.body] : [])), 'sun'])];
-  const source = createBuiltinEphemeris();
-  const start = Math.max(BUILTIN_EPHEMERIS_SPAN.startTdbS, epochs.initialTdbS - MARGIN_S);
-  const end = Math.min(BUILTIN_EPHEMERIS_SPAN.endTdbS, epochs.endTdbS + MARGIN_S);
+  const builtin = createBuiltinEphemeris();
+  const problemSpan = { startTdbS: Math.min(epochs.initialTdbS, epochs.endTdbS), endTdbS: Math.max(epochs.initialTdbS, epochs.endTdbS) };
+  // Files replace the bodies they tabulate (span checked against the problem's); the margin stays inside them.
+  const { source, sources } = ephemerisWithFiles(files, problemSpan, bodies);
+  const start = Math.max(source.span.startTdbS, BUILTIN_EPHEMERIS_SPAN.startTdbS, problemSpan.startTdbS - MARGIN_S);
+  const end = Math.min(source.span.endTdbS, BUILTIN_EPHEMERIS_SPAN.endTdbS, problemSpan.endTdbS + MARGIN_S);
   const ephemeris = bodies.length === 1 && bodies[0] === 'sun'
-    ? source
+    ? builtin
     : (cache ?? new EphemerisCache()).ephemerisFor(source, bodies, { startTdbS: start, endTdbS: end });
   let initial: StateVector = {
     epochTdbS: epochs.initialTdbS, centre: problem.initialState.centre, frame: problem.initialState.frame,
@@ -90,7 +98,7 @@ export function planningContext(problem: PlanningProblem, leapSeconds: LeapSecon
   initial = stateToFrame(initial, 'J2000_EQUATORIAL');
   if (initial.centre !== fm.centralBody) initial = changeCentre(initial, fm.centralBody, ephemeris);
   return {
-    problem, leapSeconds, epochs, components, targetCount, layout, ephemeris, ephemerisName: source.name,
+    problem, leapSeconds, epochs, components, targetCount, layout, ephemeris, ephemerisName: source.name, ephemerisSources: sources,
     evaluation: {
       problem, initial, endTdbS: epochs.endTdbS, components, ephemeris,
       controlMap: layout.descriptors.map((d) => ({ burnIndex: d.burnIndex, kind: d.kind })),

@@ -1,0 +1,129 @@
+/**
+ * Planning against a mission ephemeris given as a CCSDS OEM (CCSDS 502.0-B-3, the open standard; KVN layout
+ * from the standard's annex examples, from memory). The file tabulates Mars relative to the Sun from
+ * astronomy-engine (npm 2.1.19) moved by a known constant offset, so it differs from the built-in series by
+ * exactly that offset. A plan made with the file must aim at the file's Mars: the independent re-flight
+ * (test/reference/independent-flyby.ts: odex + astronomy-engine, on the same offset Mars) lands within 0.1 km
+ * of the aim point, while a plan made without the file misses it by about the offset's component across the
+ * approach. Refusals: a file that does not cover the problem, a body the propagator does not know, a
+ * corrupted file (line and keyword named). Limits a few times above the measured (in brackets).
+ */
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { AstroTime, Body, HelioState } from 'astronomy-engine';
+import { describe, expect, it } from 'vitest';
+import { planToOem, planToOpm } from '../../ccsds/index.ts';
+import { loadEphemerisFiles } from '../../cli/ephemeris-option.ts';
+import { parseProblem, planManeuvers, type ManeuverPlan } from '../../planner/index.ts';
+import { formatEpoch, parseEpoch } from '../../propagator/index.ts';
+import { runVeer } from '../harness/run-cli.ts';
+import { dot, reflyDemoPlan } from './independent-flyby.ts';
+
+const KM_PER_AU = 149597870.7; // IAU 2012 Resolution B2 (exact)
+const DAY_S = 86400;
+const OFFSET_KM = [600, -450, 250];
+const demo = JSON.parse(readFileSync('examples/flyby-demo.json', 'utf8')) as Record<string, unknown>;
+const problem = parseProblem({ ...demo, dispersion: { samples: 0, seed: 1 } });
+const dir = mkdtempSync(join(tmpdir(), 'veer-oem-ephemeris-'));
+
+/** An OEM of `objectName` relative to the Sun: astronomy-engine's Mars plus OFFSET_KM, every 6 h. */
+function marsOem(objectName: string, startTdbS: number, endTdbS: number): string {
+  const lines = ['CCSDS_OEM_VERS = 2.0', 'CREATION_DATE = 2031-08-01T00:00:00', 'ORIGINATOR = VEER-TEST', '',
+    'META_START', `OBJECT_NAME = ${objectName}`, 'OBJECT_ID = 499', 'CENTER_NAME = SUN', 'REF_FRAME = EME2000',
+    'TIME_SYSTEM = TDB', `START_TIME = ${formatEpoch(startTdbS, 'TDB', 3).replace(' TDB', '')}`,
+    `STOP_TIME = ${formatEpoch(endTdbS, 'TDB', 3).replace(' TDB', '')}`, 'INTERPOLATION = LAGRANGE',
+    'INTERPOLATION_DEGREE = 7', 'META_STOP', ''];
+  const k = KM_PER_AU / DAY_S;
+  for (let t = startTdbS; t <= endTdbS; t += 6 * 3600) {
+    const s = HelioState(Body.Mars, AstroTime.FromTerrestrialTime(t / DAY_S)); // TT ≈ TDB (< 2 ms)
+    const p = [s.x * KM_PER_AU + OFFSET_KM[0], s.y * KM_PER_AU + OFFSET_KM[1], s.z * KM_PER_AU + OFFSET_KM[2]];
+    lines.push(`${formatEpoch(t, 'TDB', 3).replace(' TDB', '')} ${p.map((x) => x.toFixed(6)).join(' ')} `
+      + `${[s.vx * k, s.vy * k, s.vz * k].map((v) => v.toFixed(9)).join(' ')}`);
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+function writeOem(name: string, text: string): string {
+  const path = join(dir, name);
+  writeFileSync(path, text);
+  return path;
+}
+
+const t0 = parseEpoch('2031-08-12T12:00:00 TDB'); // the demo's initial epoch
+const fullPath = writeOem('mars-offset.oem', marsOem('MARS', t0 - 4 * DAY_S, t0 + 66 * DAY_S));
+
+describe('planning on an OEM ephemeris', () => {
+  let withFile: ManeuverPlan;
+  let builtin: ManeuverPlan;
+
+  describe('when Mars comes from a file offset from the built-in series by a known amount', () => {
+    it('should aim at the file\'s Mars: the independent re-flight on that Mars lands within 0.1 km (0.02 asserted)', async () => {
+      const files = await loadEphemerisFiles([fullPath]);
+      withFile = await planManeuvers(problem, { monteCarlo: 'skip', ephemerisFiles: files });
+      expect(withFile.status).toBe('converged');
+      expect(withFile.crossCheck.passed).toBe(true);
+      const flown = reflyDemoPlan(problem, withFile, OFFSET_KM);
+      const target = problem.targets.find((t) => t.kind === 'b-plane');
+      if (target?.kind !== 'b-plane') throw new Error('demo targets changed');
+      // [B·T 3.7e-3 km, B·R < 1e-4 km off the aim point]
+      expect(Math.abs(flown.bDotTKm - target.bDotTKm)).toBeLessThan(0.02);
+      expect(Math.abs(flown.bDotRKm - target.bDotRKm)).toBeLessThan(0.02);
+    });
+
+    it('should miss the file\'s Mars by about the offset across the approach when planned without the file', async () => {
+      builtin = await planManeuvers(problem, { monteCarlo: 'skip' });
+      const flown = reflyDemoPlan(problem, builtin, OFFSET_KM);
+      const target = problem.targets.find((t) => t.kind === 'b-plane');
+      if (target?.kind !== 'b-plane') throw new Error('demo targets changed');
+      const miss = Math.hypot(flown.bDotTKm - target.bDotTKm, flown.bDotRKm - target.bDotRKm);
+      const [, tHat, rHat] = flown.axes;
+      const across = Math.hypot(dot(OFFSET_KM, tHat), dot(OFFSET_KM, rHat));
+      // [misses by 664.8 km; the offset's component across the approach is 664.7 km]
+      expect(Math.abs(miss - across)).toBeLessThan(0.02 * across);
+    });
+
+    it('should record each body\'s source, cover the file in the problem hash and name only built-in bodies in the caveat', () => {
+      const mars = withFile.ephemerisSources?.find((s) => s.body === 'mars');
+      expect(mars).toMatchObject({ source: 'oem', file: 'mars-offset.oem' });
+      expect(mars?.source === 'oem' ? mars.sha256 : '').toMatch(/^[0-9a-f]{64}$/);
+      expect(withFile.ephemerisSources?.find((s) => s.body === 'earth')).toMatchObject({ source: 'built-in' });
+      expect(withFile.problemHash).not.toBe(builtin.problemHash);
+      const caveat = withFile.caveats.find((c) => c.code === 'BUILTIN_EPHEMERIS_ACCURACY');
+      expect(caveat?.text).toContain('earth, jupiter, saturn, venus');
+      expect(caveat?.text).not.toContain('mars');
+      expect(builtin.caveats.find((c) => c.code === 'BUILTIN_EPHEMERIS_ACCURACY')?.text).toContain('mars');
+    });
+
+    it('should carry the sources in the CCSDS export\'s COMMENT lines and refuse an OEM export without the file', async () => {
+      const opm = planToOpm(problem, withFile, { creationDateUtc: '2031-08-12T00:00:00' });
+      const sha = withFile.ephemerisSources?.find((s) => s.body === 'mars');
+      expect(opm.header.comments.join('\n')).toContain(`ephemeris mars: OEM mars-offset.oem sha256 ${sha?.source === 'oem' ? sha.sha256 : '?'}`);
+      expect(opm.header.comments.join('\n')).toMatch(/ephemeris earth, jupiter, saturn, sun, venus: built-in astronomy-engine/);
+      await expect(planToOem(problem, withFile, { creationDateUtc: '2031-08-12T00:00:00', stepS: 86400 }))
+        .rejects.toThrow(expect.objectContaining({ field: 'ephemeris' }));
+    });
+  });
+
+  describe('when a file cannot serve the problem', () => {
+    it('should refuse a span that does not cover the problem, naming file, body and the uncovered epochs', async () => {
+      const short = writeOem('mars-short.oem', marsOem('MARS', t0 - 4 * DAY_S, t0 + 30 * DAY_S));
+      const files = await loadEphemerisFiles([short]);
+      await expect(planManeuvers(problem, { monteCarlo: 'skip', ephemerisFiles: files }))
+        .rejects.toThrow(/mars-short\.oem: mars is tabulated from .* which does not cover 2031-09-1\d.* to 2031-10-13T12:00:00\.000 TDB/);
+      const run = await runVeer(['plan', 'examples/flyby-demo.json', '--ephemeris', short]);
+      expect(run.code).toBe(2);
+      expect(run.err).toContain('mars-short.oem');
+    });
+    it('should refuse a body the propagator does not know, naming the file', async () => {
+      const unknown = writeOem('comet.oem', marsOem('COMET X', t0, t0 + 2 * DAY_S));
+      await expect(loadEphemerisFiles([unknown])).rejects.toThrow(/comet\.oem: .*COMET X.* not a body the propagator knows/);
+    });
+    it('should refuse a corrupted file naming the line and the keyword', async () => {
+      const text = marsOem('MARS', t0, t0 + 2 * DAY_S).replace('REF_FRAME = EME2000', 'REF_FRAME = NOT A FRAME');
+      const bad = writeOem('corrupted.oem', text);
+      await expect(loadEphemerisFiles([bad])).rejects.toThrow(expect.objectContaining({ field: 'REF_FRAME', line: 9 }));
+      await expect(loadEphemerisFiles([bad])).rejects.toThrow(/corrupted\.oem/);
+    });
+  });
+});
