@@ -3,14 +3,15 @@
  * the budget's fields to the problem (one knowledge covariance per burn, each a covariance). Every failure
  * is an InvalidInputError naming the dotted path of the first bad field.
  */
-import { InvalidInputError } from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
 import { budgetRequestSchema } from '../../contract/budget-schema.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { choleskySemidefinite, requireCovariance } from '../../propagator/index.ts';
 import { checkProblem, fromZodError } from '../problem-checks.ts';
 
-/** Validates anything from outside as a budget request; returns it with defaults filled in. */
-export function parseBudgetRequest(input: unknown): BudgetRequest {
+/** Validates anything from outside as a budget request (UTC epochs through `leapSeconds`); returns it with
+ * defaults filled in. */
+export function parseBudgetRequest(input: unknown, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): BudgetRequest {
   const parsed = budgetRequestSchema.safeParse(input);
   if (!parsed.success) {
     const e = fromZodError(parsed.error);
@@ -18,7 +19,7 @@ export function parseBudgetRequest(input: unknown): BudgetRequest {
   }
   const request = parsed.data;
   try {
-    checkProblem(request.problem);
+    checkProblem(request.problem, leapSeconds);
   } catch (error) {
     if (error instanceof InvalidInputError) throw new InvalidInputError(`problem.${error.field}`, error.message.slice(error.field.length + 2), error.code);
     throw error;

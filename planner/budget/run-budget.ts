@@ -8,7 +8,7 @@
  * 3. assembleBudget: statistics of both paths, their per-burn agreement, caveats.
  * runBudget does all three in this process. A budget is a study: never a plan to approve.
  */
-import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, planLeapSeconds } from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, type LeapSecondTable, planLeapSeconds } from '../../propagator/index.ts';
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
 import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-types.ts';
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
@@ -30,6 +30,8 @@ import type { BudgetNominal, BudgetPath, BudgetProgress, BudgetResult, BudgetSam
 export interface BudgetRunOptions {
   onProgress?: (p: BudgetProgress) => void;
   signal?: AbortSignal;
+  /** Leap-second table for UTC epochs (recorded in the nominal plan). @defaultValue BUILTIN_LEAP_SECONDS */
+  leapSeconds?: LeapSecondTable;
 }
 
 export interface BudgetSampleOptions {
@@ -39,21 +41,21 @@ export interface BudgetSampleOptions {
   signal?: AbortSignal;
   /** Called after each sample with the number done in this range. */
   onSample?: (done: number) => void;
+  /** The nominal plan's leap-second table. @defaultValue BUILTIN_LEAP_SECONDS */
+  leapSeconds?: LeapSecondTable;
 }
-
-/** Budget studies read UTC through the built-in leap-second table (the nominal plan records it). */
-const BUDGET_LEAP_SECONDS = BUILTIN_LEAP_SECONDS;
 
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
 
 /** Step 1: the nominal plan, and its linear model when it converged (null otherwise). */
 export async function prepareBudget(request: BudgetRequest, options: BudgetRunOptions = {}): Promise<{ plan: ManeuverPlan; nominal: BudgetNominal | null }> {
+  const leapSeconds = options.leapSeconds ?? BUILTIN_LEAP_SECONDS;
   const plan = await planManeuvers(request.problem, {
-    monteCarlo: 'skip', signal: options.signal,
+    monteCarlo: 'skip', signal: options.signal, leapSeconds,
     onProgress: (p: PlanProgress) => options.onProgress?.({ stage: 'nominal', fraction: 0.1 * p.fraction, message: `nominal plan: ${p.message}` }),
   });
   if (plan.status !== 'converged') return { plan, nominal: null };
-  return { plan, nominal: await budgetNominal(request, planningContext(request.problem, BUDGET_LEAP_SECONDS), plan, options.signal) };
+  return { plan, nominal: await budgetNominal(request, planningContext(request.problem, leapSeconds), plan, options.signal) };
 }
 
 /** Step 2: samples of one path; see the file comment. Checks `signal` before each sample. */
@@ -62,7 +64,7 @@ export async function runBudgetSamples(request: BudgetRequest, nominal: BudgetNo
   if (!Number.isInteger(firstIndex) || firstIndex < 0) throw new InvalidInputError('firstIndex', `must be an integer >= 0, got ${firstIndex}`);
   if (!Number.isInteger(count) || count < 0) throw new InvalidInputError('count', `must be an integer >= 0, got ${count}`);
   const sampler = createBudgetSampler(nominal.burns.length, nominal.initialCovariance, nominal.knowledgeCovariances);
-  const ctx = options.path === 'nonlinear' ? planningContext(request.problem, BUDGET_LEAP_SECONDS) : null;
+  const ctx = options.path === 'nonlinear' ? planningContext(request.problem, options.leapSeconds ?? BUILTIN_LEAP_SECONDS) : null;
   const out: BudgetSample[] = [];
   for (let k = 0; k < count; k++) {
     if (signal?.aborted) throw new CancelledError(`budget cancelled after ${k} of ${count} ${options.path} samples`);
@@ -109,7 +111,7 @@ export function assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nomin
   if (!nominal) notes.push(`no budget: the nominal plan did not converge (${plan.convergence.message})`);
   if (!agreement) notes.push('no linear/non-linear comparison: only one path ran');
   return {
-    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem, planLeapSeconds(BUDGET_LEAP_SECONDS)), requestHash: budgetRequestHash(request),
+    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem, plan.leapSeconds ?? planLeapSeconds(BUILTIN_LEAP_SECONDS)), requestHash: budgetRequestHash(request),
     softwareVersion: SOFTWARE_VERSION, spacecraftName: request.problem.spacecraft.name, title: request.problem.title ?? null,
     nominal: {
       status: plan.status, crossCheckPassed: plan.crossCheck.passed,
@@ -129,7 +131,7 @@ export function budgetRequestHash(request: BudgetRequest): string {
 
 /** The whole budget in this process (validates `input` first); see the file comment. */
 export async function runBudget(input: unknown, options: BudgetRunOptions = {}): Promise<BudgetResult> {
-  const request = parseBudgetRequest(input);
+  const request = parseBudgetRequest(input, options.leapSeconds);
   const progress = (p: BudgetProgress): void => options.onProgress?.(p);
   progress({ stage: 'nominal', fraction: 0, message: 'planning the nominal sequence' });
   const { plan, nominal } = await prepareBudget(request, options);
@@ -137,11 +139,11 @@ export async function runBudget(input: unknown, options: BudgetRunOptions = {}):
   const nl = request.linearSamples;
   const nn = request.nonlinearSamples;
   const linear = await runBudgetSamples(request, nominal, {
-    path: 'linear', firstIndex: 0, count: nl, signal: options.signal,
+    path: 'linear', firstIndex: 0, count: nl, signal: options.signal, leapSeconds: options.leapSeconds,
     onSample: (done) => { if (done % 1000 === 0 || done === nl) progress({ stage: 'linear', fraction: 0.1 + 0.1 * (done / nl), message: `linear sample ${done}/${nl}`, samplesDone: done, samplesTotal: nl }); },
   });
   const nonlinear = await runBudgetSamples(request, nominal, {
-    path: 'nonlinear', firstIndex: 0, count: nn, signal: options.signal,
+    path: 'nonlinear', firstIndex: 0, count: nn, signal: options.signal, leapSeconds: options.leapSeconds,
     onSample: (done) => progress({ stage: 'nonlinear', fraction: 0.2 + 0.79 * (done / nn), message: `non-linear sample ${done}/${nn}`, samplesDone: done, samplesTotal: nn }),
   });
   progress({ stage: 'summary', fraction: 0.99, message: 'statistics' });

@@ -68,6 +68,22 @@ describe('veer plan with UTC epochs', () => {
   });
 });
 
+describe('veer budget with a leap-seconds list', () => {
+  const demo = JSON.parse(readFileSync('examples/flyby-budget-demo.json', 'utf8')) as Record<string, unknown>;
+  it('should refuse a tampered list before any work and name the list in the caveat of a study past its expiry', async () => {
+    const tampered = file('tampered-budget.list', readFileSync(INVENTED, 'utf8').replace('3692217600 37', '3692217600 38'));
+    const request = file('budget.json', { ...demo, linearSamples: 50, nonlinearSamples: 0 });
+    const refused = await runVeer(['budget', request, '--leap-seconds', tampered]);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toMatch(/tampered-budget\.list: line \d+: '#h' SHA-1/);
+    const r = await runVeer(['budget', request, '--leap-seconds', INVENTED, '--json']);
+    const text = JSON.parse(r.out).caveats.find((c: { code: string }) => c.code === 'UTC_LEAP_SECONDS_ASSUMED')?.text;
+    // The demo is dated 2031, past the invented list's expiry 2027-12-28.
+    expect(text).toContain(`expiry 2027-12-28 of the leap-second table (${INVENTED} (SHA-256 ${INVENTED_SHA256}))`);
+    expect(text).toContain('TAI − UTC = 38 s is assumed');
+  });
+});
+
 describe('veer propagate with UTC epochs', () => {
   const request = (): string => file('prop.json', {
     initial: { epoch: '2027-08-11T00:00:00Z', centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: [7000, 0, 1000], velocityKmS: [0, 7.6, 1] },
