@@ -5,6 +5,7 @@
  * covariance), since the standard's frame table has no ecliptic frame.
  */
 import type { ManeuverPlan, PlanningProblem } from '../planner/index.ts';
+import type { PlannedFiniteBurn } from '../contract/index.ts';
 import {
   InvalidInputError, leapSecondTableOfPlan, parseEpoch, stateToFrame, type TimeScale, utcTextOrNull,
 } from '../propagator/index.ts';
@@ -92,6 +93,18 @@ export function planHeader(plan: ManeuverPlan, options: PlanExportOptions): OdmH
   };
 }
 
+/** Comments of a finite burn's maneuver block: the burn as planned, enough to fly it again. */
+function finiteBurnComments(plan: ManeuverPlan, label: string, f: PlannedFiniteBurn): string[] {
+  return [
+    `${label}: finite burn as planned, ${f.thrustN} N for ${f.durationS.toFixed(3)} s (mass flow ${f.massFlowKgS.toPrecision(6)} kg/s); `
+      + `MAN_DV is the ideal Δv ${f.idealDeltaVMS.toFixed(4)} m/s along the thrust direction at ignition`,
+    `thrust direction held fixed in ${f.axes} axes: [${f.directionLocal.map((v) => v.toFixed(9)).join(', ')}]; `
+      + `J2000 at ignition [${f.directionInertial.map((v) => v.toFixed(9)).join(', ')}]`,
+    `ignition ${planEpochComment(plan, f.startTdbS)}; cut-off ${planEpochComment(plan, f.startTdbS + f.durationS)}`,
+    `mass ${f.massBeforeKg.toFixed(3)} -> ${f.massAfterKg.toFixed(3)} kg; finite-burn loss ${f.finiteBurnLossMS.toFixed(4)} m/s over the impulsive ${f.impulsiveDeltaVMS.toFixed(4)} m/s`,
+  ];
+}
+
 /** Builds the OPM of a converged, cross-checked plan (throws InvalidInputError for any other). */
 export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options: PlanExportOptions): Opm {
   assertExportable(plan);
@@ -104,8 +117,11 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
   const local = problem.forceModel.centralBody === s.centre && !problem.forceModel.switching;
   const frameChoice = local ? options.maneuverFrame ?? 'RTN' : 'inertial';
   const maneuvers: OpmManeuver[] = plan.burns.map((b) => {
-    const comments = [`${b.label}: ${b.magnitudeMS.toFixed(4)} m/s, impulsive as planned; at the engine's thrust it `
-      + `lasts about ${b.durationS.toFixed(1)} s`, `ignition ${planEpochComment(plan, b.epoch.tdbS)}`];
+    const f = b.model === 'finite' ? b.finite : undefined;
+    const comments = f === undefined
+      ? [`${b.label}: ${b.magnitudeMS.toFixed(4)} m/s, impulsive as planned; at the engine's thrust it `
+        + `lasts about ${b.durationS.toFixed(1)} s`, `ignition ${planEpochComment(plan, b.epoch.tdbS)}`]
+      : finiteBurnComments(plan, b.label, f);
     if (!local && options.maneuverFrame && options.maneuverFrame !== 'inertial') {
       comments.push('components are inertial: the plan\'s local frames are relative to the integration centre, '
         + 'which is not the CENTER_NAME here');
@@ -117,7 +133,7 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
       comments,
       epochIgnition: formatCcsdsEpoch(b.epoch.tdbS, scale, 6, leap),
       epochIgnitionTdbS: b.epoch.tdbS,
-      durationS: 0,
+      durationS: f === undefined ? 0 : f.durationS,
       deltaMassKg: b.propellantKg === 0 ? 0 : -b.propellantKg,
       manRefFrame: manRefFrame as string,
       deltaVKmS: [...deltaVKmS],

@@ -70,13 +70,30 @@ function burnTable(plan: ManeuverPlan): string[] {
     b.deltaVRtnKmS.map(ms).join(' '), b.deltaVVnbKmS.map(ms).join(' '),
     b.propellantKg.toFixed(3), b.durationS.toFixed(1),
   ]);
+  const finite = plan.burns.some((b) => b.model === 'finite');
   const heading = plan.crossCheck.passed
-    ? 'Proposed burns (impulsive; Δv in m/s):'
+    ? `Proposed burns (${finite ? 'finite burns: epoch = ignition, |Δv| ideal along the ignition direction' : 'impulsive'}; Δv in m/s):`
     : 'Burns that FAILED the cross-check (diagnostics only — NOT burns to execute; Δv in m/s):';
   return [heading,
     ...table(['burn', 'epoch UTC', 'epoch TDB', '|Δv|', 'Δv R T N', 'Δv V N B', 'propellant kg', 'duration s'], rows),
     `  Δv J2000 equatorial (km/s): ${plan.burns.map((b) => `[${b.deltaVInertialKmS.map((v) => v.toExponential(9)).join(', ')}]`).join('; ')}`,
-    `  total |Δv| ${plan.totalDeltaVMS.toFixed(4)} m/s, propellant ${plan.totalPropellantKg.toFixed(3)} kg`];
+    `  total |Δv| ${plan.totalDeltaVMS.toFixed(4)} m/s, propellant ${plan.totalPropellantKg.toFixed(3)} kg`,
+    ...finiteBurnLines(plan)];
+}
+
+/** Per finite burn: what to command and what it costs against the impulsive answer. */
+function finiteBurnLines(plan: ManeuverPlan): string[] {
+  return plan.burns.flatMap((b) => {
+    const f = b.finite;
+    if (b.model !== 'finite' || f === undefined) return [];
+    return [
+      `  ${b.label} finite burn: ignition ${f.start.utc ?? 'n/a'} (${f.start.tdb}), cut-off ${f.end.utc ?? 'n/a'} (${f.end.tdb}), duration ${f.durationS.toFixed(3)} s`,
+      `    thrust ${f.thrustN} N, mass flow ${f.massFlowKgS.toPrecision(6)} kg/s, mass ${f.massBeforeKg.toFixed(3)} → ${f.massAfterKg.toFixed(3)} kg (propellant ${f.propellantKg.toFixed(3)} kg)`,
+      `    direction held in ${f.axes} axes: [${f.directionLocal.map((v) => v.toFixed(9)).join(', ')}]; at ignition J2000 [${f.directionInertial.map((v) => v.toFixed(9)).join(', ')}]`,
+      `    ideal Δv ${f.idealDeltaVMS.toFixed(4)} m/s vs impulsive ${f.impulsiveDeltaVMS.toFixed(4)} m/s: finite-burn loss ${f.finiteBurnLossMS.toFixed(4)} m/s`,
+      ...f.insideArc.map((note) => `    !!! ${note}`),
+    ];
+  });
 }
 
 function targetTable(plan: ManeuverPlan): string[] {
