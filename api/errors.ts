@@ -33,6 +33,11 @@ interface BodyParserError { type?: string; status?: number; expose?: boolean; li
 export function errorHandler(logger: Logger): ErrorRequestHandler {
   return (err: unknown, req: Request, res: Response, _next) => {
     if (err instanceof HttpError) { sendError(res, err.status, err.code, err.message, err.issues); return; }
+    if (err instanceof Error && err.name === 'ArchiveIntegrityError') {
+      // The plan table disagrees with the entries: no read shows (or exports) what the entries do not record.
+      sendError(res, 409, 'ARCHIVE_INCONSISTENT', err.message);
+      return;
+    }
     if (isQueueUnavailable(err)) {
       res.set('Retry-After', String(QUEUE_RETRY_AFTER_S));
       sendError(res, 503, 'QUEUE_UNAVAILABLE', `the job queue (Redis) is not reachable; retry in ${QUEUE_RETRY_AFTER_S} s`);

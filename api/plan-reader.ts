@@ -17,6 +17,7 @@ function fromRecord(r: PlanRecord): PlanSummary {
   return {
     planId: r.planId, jobId: r.jobId, spacecraftName: r.spacecraftName, state: r.state, converged: r.converged,
     crossCheckPassed: r.crossCheckPassed, caveatCodes: r.caveatCodes, submittedBy: r.submittedBy, proposedAt: r.proposedAt,
+    ...(r.inconsistency ? { inconsistency: r.inconsistency } : {}),
   };
 }
 

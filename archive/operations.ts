@@ -166,6 +166,52 @@ export async function studyOfJob(tx: ArchiveTx, jobId: string): Promise<StudyRec
 
 /** Plan-record fields the review rules or the decision depend on. */
 const RULE_FIELDS = ['planId', 'jobId', 'state', 'converged', 'crossCheckPassed', 'caveatCodes', 'submittedBy', 'decidedBy'] as const;
+/** Plan-record fields a reader is shown: the rule fields and what names and links the plan. */
+const READ_FIELDS = [...RULE_FIELDS, 'spacecraftName', 'targetSetKey', 'supersededBy'] as const;
+
+/** The first of `fields` where the stored projection row differs from the record derived from the entries. */
+function differingField(stored: PlanRecord | undefined, derived: PlanRecord, fields: readonly (keyof PlanRecord)[]): keyof PlanRecord | undefined {
+  if (!stored) return 'planId';
+  return fields.find((f) => canonicalJson(stored[f]) !== canonicalJson(derived[f]));
+}
+
+/**
+ * A plan as readers see it: the projection row checked against the plan's own entries (and its job's
+ * job-submitted entry). Undefined when the plan is unknown; ArchiveIntegrityError (ARCHIVE_INCONSISTENT)
+ * naming the field when the row was edited — a read never shows a state the entries do not record.
+ */
+export async function checkedPlan(tx: ArchiveTx, planId: string): Promise<PlanRecord | undefined> {
+  const stored = await tx.getPlan(planId);
+  const planEntries = await tx.entriesOfPlan(planId);
+  if (!stored && planEntries.length === 0) return undefined;
+  const derived = await planFromEntries(tx, planId, planEntries);
+  const differs = differingField(stored, derived, READ_FIELDS);
+  if (differs) {
+    throw new ArchiveIntegrityError(`plan ${planId}: the plan table's ${differs} (${canonicalJson(stored?.[differs] ?? null)}) `
+      + `disagrees with the archive entries (${canonicalJson(derived[differs])}); an auditor must run veer verify and repair the store`);
+  }
+  return stored;
+}
+
+/**
+ * Listed plans, each checked as checkedPlan does. A row that disagrees with its entries is shown as the
+ * entries say (when they say anything) and flagged with `inconsistency`, so a filter on the edited column
+ * cannot pass it off as, say, approved.
+ */
+export async function checkedListing(tx: ArchiveTx, rows: readonly PlanRecord[]): Promise<PlanRecord[]> {
+  const out: PlanRecord[] = [];
+  for (const row of rows) {
+    try {
+      out.push((await checkedPlan(tx, row.planId)) ?? row);
+    } catch (error) {
+      if (!(error instanceof ArchiveIntegrityError)) throw error;
+      const entries = await tx.entriesOfPlan(row.planId);
+      const derived = entries.some((e) => e.kind === 'plan-proposed') ? await planFromEntries(tx, row.planId, entries).catch(() => row) : row;
+      out.push({ ...derived, inconsistency: error.message });
+    }
+  }
+  return out;
+}
 
 /** The plan record re-derived from its plan-proposed entry, later entries, and its job's job-submitted entry. */
 async function planFromEntries(tx: ArchiveTx, planId: string, planEntries: readonly ArchiveEntry[]): Promise<PlanRecord> {
@@ -188,7 +234,7 @@ export async function recordReview(tx: ArchiveTx, now: () => Date, input: Record
   if (!stored && planEntries.length === 0) throw new ArchiveNotFoundError(`plan ${input.planId} is not in the archive`);
   // The rules read the plan as its entries say it is (under the lock), never the editable plan table alone.
   const plan = await planFromEntries(tx, input.planId, planEntries);
-  const differs = stored ? RULE_FIELDS.find((f) => canonicalJson(stored[f]) !== canonicalJson(plan[f])) : 'planId';
+  const differs = differingField(stored, plan, RULE_FIELDS);
   if (differs) {
     throw new ArchiveIntegrityError(`plan ${input.planId}: the plan table's ${differs} disagrees with the archive entries; `
       + 'no review is recorded until an auditor has run veer verify and the store is repaired');

@@ -93,6 +93,8 @@ export interface ArchivablePlan {
  * transaction as the entries; the entries remain the truth and `verify` re-derives it).
  */
 export interface PlanRecord {
+  /** Set on listed plans whose projection row disagrees with the entries (the other fields then follow the entries). */
+  inconsistency?: string;
   planId: string;
   jobId: string;
   spacecraftName: string;

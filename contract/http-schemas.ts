@@ -88,6 +88,8 @@ export const planSummarySchema = z.object({
   caveatCodes: z.array(z.string()),
   submittedBy: z.string(),
   proposedAt: z.string(),
+  /** Present when the plan table disagrees with the archive entries: the fields above then follow the entries. */
+  inconsistency: z.string().optional(),
 });
 
 /** One plan in GET /v1/plans and GET /v1/plans/:id. */

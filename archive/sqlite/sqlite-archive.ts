@@ -9,7 +9,7 @@ import { closeSync, mkdirSync, openSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { MIGRATION_HISTORY_COLUMNS, pendingMigrations } from '../migrations.ts';
 import { ArchiveWrites } from '../archive-writes.ts';
-import type { ArchiveTx } from '../operations.ts';
+import { checkedListing, checkedPlan, type ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
 import { verifySource, type VerifySource } from '../verify.ts';
 import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
@@ -127,8 +127,9 @@ export class SqliteArchive extends ArchiveWrites implements PlanArchive {
     this.tx = this.makeTx();
   }
 
+  /** The plan record checked against its entries (ArchiveIntegrityError when the table was edited). */
   getPlan(planId: string): Promise<PlanRecord | undefined> {
-    return this.read(() => this.tx.getPlan(planId));
+    return this.read(() => checkedPlan(this.tx, planId));
   }
   getPlanByJob(jobId: string): Promise<PlanRecord | undefined> {
     return this.read(() => this.tx.getPlanByJob(jobId));
@@ -153,12 +154,13 @@ export class SqliteArchive extends ArchiveWrites implements PlanArchive {
       if (filter.converged !== undefined) { where.push('converged = ?'); values.push(filter.converged ? 1 : 0); }
       const sql = `SELECT * FROM archive_plans ${where.length ? `WHERE ${where.join(' AND ')}` : ''}
         ORDER BY proposed_sequence DESC LIMIT ? OFFSET ?`;
-      return (this.db.prepare(sql).all(...values, clampLimit(filter.limit), Math.max(0, filter.offset ?? 0)) as Row[]).map(planFromRow);
+      const rows = (this.db.prepare(sql).all(...values, clampLimit(filter.limit), Math.max(0, filter.offset ?? 0)) as Row[]).map(planFromRow);
+      return checkedListing(this.tx, rows);
     });
   }
   history(planId: string): Promise<ArchiveEntry[]> {
     return this.read(async () => {
-      const plan = await this.tx.getPlan(planId);
+      const plan = await checkedPlan(this.tx, planId);
       const rows = plan
         ? this.db.prepare('SELECT * FROM archive_entries WHERE plan_id = ? OR job_id = ? ORDER BY sequence').all(planId, plan.jobId)
         : this.db.prepare('SELECT * FROM archive_entries WHERE plan_id = ? ORDER BY sequence').all(planId);

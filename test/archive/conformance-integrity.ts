@@ -138,6 +138,17 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
         expect(report).toMatchObject({ ok: true, expectedHead: { ...recorded, found: recorded.hash, matches: true } });
       });
 
+      it('should refuse to read a plan whose table row was edited, and flag it in listings as its entries say', async () => {
+        const [planId] = await fill();
+        await handle.sql(`UPDATE archive_plans SET state = 'approved', decided_by = 'mallory' WHERE plan_id = '${planId}'`);
+        await expect(archive.getPlan(planId)).rejects.toMatchObject({ name: 'ArchiveIntegrityError', code: 'ARCHIVE_INCONSISTENT' });
+        await expect(archive.history(planId)).rejects.toMatchObject({ name: 'ArchiveIntegrityError' });
+        const listed = (await archive.listPlans({ state: 'approved' })).find((p) => p.planId === planId);
+        expect(listed).toMatchObject({ planId, state: 'proposed', decidedBy: null });
+        expect(listed?.inconsistency).toMatch(/state .*disagrees with the archive entries/);
+        expect((await archive.listPlans({})).filter((p) => p.inconsistency)).toHaveLength(1);
+      });
+
       it('should report a plan state changed in the projection table', async () => {
         const [planId] = await fill();
         await handle.sql(`UPDATE archive_plans SET state = 'approved', decided_by = 'mallory' WHERE plan_id = '${planId}'`);
@@ -173,7 +184,8 @@ export function describeArchiveIntegrity(factory: StoreFactory): void {
         await expect(archive.recordReview({ planId, reviewer, decision: 'approve', comment: '', acknowledgedCaveatCodes: [] }, guard))
           .rejects.toBeInstanceOf(ArchiveIntegrityError);
         expect(await archive.head()).toEqual(before);
-        expect((await archive.getPlan(planId))?.state).toBe('proposed');
+        // The edited row stays unreadable until repaired: no read passes it off as approvable.
+        await expect(archive.getPlan(planId)).rejects.toBeInstanceOf(ArchiveIntegrityError);
       });
     });
 
