@@ -12,7 +12,9 @@ import type { BodyName } from '../types.ts';
 import { BODY_NAMES } from '../types.ts';
 import type { BodyPositionsPlan, Ephemeris, TdbSpan } from './ephemeris.ts';
 import { assertBody, assertInSpan, assertValidSpan } from './ephemeris-checks.ts';
-import { chebyshevCoefficientsInto, chebyshevEvaluate, chebyshevNodes, truncatedLength } from './chebyshev-fit.ts';
+import {
+  chebyshevCoefficientsInto, chebyshevDerivativeInto, chebyshevEvaluate, chebyshevNodes, truncatedLength,
+} from './chebyshev-fit.ts';
 import { ChebyshevPositionsPlan, type ChebyshevTables } from './chebyshev-positions-plan.ts';
 
 /** Index in BODY_NAMES by name (a keyed load instead of a string search per look-up); no prototype, so a
@@ -37,6 +39,12 @@ export interface ChebyshevEphemerisOptions {
    * resolution (to ~25 cm for planets near 2200, still under 1 m; the Moon about the Earth stays near
    * 5 cm); an explicit value is used as given. */
   toleranceKm?: number;
+  /** How the velocity series are made: 'fitted' to the source's velocities at the nodes (stateInto), or
+   * 'from-positions', the derivative of the position series (positionInto only: about half the source's
+   * work for the planets and a third for the Moon, whose source velocity is itself a numerical derivative);
+   * then fitReport's velocity error is measured at one point per segment near its start.
+   * @defaultValue 'fitted' */
+  velocity?: 'fitted' | 'from-positions';
   /** Coefficients per series (polynomial degree + 1), in [6, 32]. @defaultValue 14 */
   coefficients?: number;
   /** Longest segment tried per body, s; halved until the fit passes. @defaultValue per body (Moon 4 d,
@@ -90,9 +98,28 @@ export interface ChebyshevFitReport {
   maxErrorKmS: number;
 }
 
+/** Writes the six series of one segment [a, a + step] into coefs[base..base + 6n): positions fitted at the
+ * nodes, velocities fitted too (stateInto) or taken as the positions' derivative (positionInto only). */
+function fitSegment(source: Ephemeris, body: BodyName, parent: BodyName, a: number, step: number, nodes: Float64Array,
+  velocityFromPositions: boolean, samples: Float64Array, column: Float64Array, coefs: Float64Array, base: number): void {
+  const n = nodes.length;
+  for (let k = 0; k < n; k++) {
+    const t = a + (nodes[k] + 1) * 0.5 * step;
+    if (velocityFromPositions) source.positionInto(body, parent, t, samples, 6 * k);
+    else source.stateInto(body, parent, t, samples, 6 * k);
+  }
+  for (let c = 0; c < (velocityFromPositions ? 3 : 6); c++) {
+    for (let k = 0; k < n; k++) column[k] = samples[6 * k + c];
+    chebyshevCoefficientsInto(column, n, coefs, base + c * n);
+  }
+  if (velocityFromPositions) {
+    for (let c = 0; c < 3; c++) chebyshevDerivativeInto(coefs, base + c * n, n, 2 / step, coefs, base + (c + 3) * n);
+  }
+}
+
 function fitBody(
   source: Ephemeris, body: BodyName, parent: BodyName, span: TdbSpan, n: number,
-  toleranceKm: number, firstSegmentS: number,
+  toleranceKm: number, firstSegmentS: number, velocityFromPositions: boolean,
 ): BodySeries {
   const nodes = chebyshevNodes(n);
   const length = span.endTdbS - span.startTdbS;
@@ -111,21 +138,21 @@ function fitBody(
     let failed = false;
     for (let s = 0; s < segments && !failed; s++) {
       const a = span.startTdbS + s * step;
-      for (let k = 0; k < n; k++) source.stateInto(body, parent, a + (nodes[k] + 1) * 0.5 * step, samples, 6 * k);
-      for (let c = 0; c < 6; c++) {
-        for (let k = 0; k < n; k++) column[k] = samples[6 * k + c];
-        chebyshevCoefficientsInto(column, n, coefs, (s * 6 + c) * n);
-      }
+      fitSegment(source, body, parent, a, step, nodes, velocityFromPositions, samples, column, coefs, s * 6 * n);
       // Check between nodes, where the interpolation error peaks, and at both ends.
       for (let i = 0; i < checkX.length; i++) {
         const x = checkX[i];
-        source.stateInto(body, parent, a + (x + 1) * 0.5 * step, probe, 0);
+        // Velocities from the positions' derivative are checked at one point near an end, where that
+        // derivative is least accurate (one state look-up per segment instead of six).
+        const withVelocity = !velocityFromPositions || i === 1;
+        if (withVelocity) source.stateInto(body, parent, a + (x + 1) * 0.5 * step, probe, 0);
+        else source.positionInto(body, parent, a + (x + 1) * 0.5 * step, probe, 0);
         probes.set(probe.subarray(0, 3), (s * checkX.length + i) * 3);
         let dp = 0;
         let dv = 0;
         for (let c = 0; c < 3; c++) {
           dp = Math.max(dp, Math.abs(chebyshevEvaluate(coefs, (s * 6 + c) * n, n, x) - probe[c]));
-          dv = Math.max(dv, Math.abs(chebyshevEvaluate(coefs, (s * 6 + c + 3) * n, n, x) - probe[c + 3]));
+          if (withVelocity) dv = Math.max(dv, Math.abs(chebyshevEvaluate(coefs, (s * 6 + c + 3) * n, n, x) - probe[c + 3]));
         }
         maxErrorKm = Math.max(maxErrorKm, dp);
         maxErrorKmS = Math.max(maxErrorKmS, dv);
@@ -392,7 +419,7 @@ export function buildChebyshevEphemeris(source: Ephemeris, options: ChebyshevEph
     const first = options.initialSegmentS?.[body] ?? INITIAL_SEGMENT_S[body];
     if (!(first > 0)) throw new InvalidInputError(`initialSegmentS.${body}`, `${first} must be a positive number of s`);
     const bodyToleranceKm = options.toleranceKm ?? Math.max(toleranceKm, sourceTimeNoiseKm(body, parent, span));
-    series[body] = fitBody(source, body, parent, span, n, bodyToleranceKm, first);
+    series[body] = fitBody(source, body, parent, span, n, bodyToleranceKm, first, options.velocity === 'from-positions');
   }
   const name = `chebyshev cache of ${source.name} over [${span.startTdbS}, ${span.endTdbS}] TDB s`;
   return new ChebyshevEphemeris(name, Object.freeze(span), Object.freeze(bodies), n, series);

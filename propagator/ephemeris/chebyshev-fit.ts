@@ -54,3 +54,22 @@ export function truncatedLength(coefs: Float64Array, offsets: ArrayLike<number>,
   }
   return m;
 }
+
+/**
+ * Coefficients of the derivative d/dx of Σ c_j T_j(x) (same plain-sum convention, c_0 not halved again),
+ * times `scale` (e.g. 2/segment length for d/dt), written into `out[outOffset..outOffset+n-1]`
+ * (Numerical Recipes 3rd ed. §5.9, chder, with its halved-c_0 convention converted).
+ */
+export function chebyshevDerivativeInto(coefs: Float64Array, offset: number, n: number, scale: number,
+  out: Float64Array, outOffset: number): void {
+  let next = 0; // d_{j+1}
+  let current = 0; // d_j
+  out[outOffset + n - 1] = 0;
+  for (let j = n - 1; j >= 1; j--) {
+    const previous = next + 2 * j * coefs[offset + j]; // d_{j-1} = d_{j+1} + 2 j c_j
+    next = current;
+    current = previous;
+    out[outOffset + j - 1] = previous * scale;
+  }
+  out[outOffset] *= 0.5;
+}

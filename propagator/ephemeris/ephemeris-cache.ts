@@ -97,7 +97,7 @@ export class EphemerisCache {
     const endTdbS = Math.min(fit.source.span.endTdbS, (index + 1) * this.blockS);
     let built: ChebyshevEphemerisCache;
     try {
-      built = buildChebyshevEphemeris(fit.source, { bodies: fit.bodies, startTdbS, endTdbS });
+      built = buildChebyshevEphemeris(fit.source, { bodies: fit.bodies, startTdbS, endTdbS, velocity: 'from-positions' });
     } catch (error) {
       // The fit's own fields mean nothing to the author of a request: name the ephemeris.
       if (!(error instanceof InvalidInputError)) throw error;
