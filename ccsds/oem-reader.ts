@@ -3,7 +3,7 @@
  * ephemeris lines and optional covariance blocks. Epochs must increase strictly within a segment and
  * lie inside START_TIME..STOP_TIME; every problem names its line.
  */
-import type { Vec3 } from '../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, type LeapSecondTable, type Vec3 } from '../propagator/index.ts';
 import { assertPositiveSemiDefinite, matrixFromLowerTriangle } from './covariance.ts';
 import { CcsdsFormatError } from './errors.ts';
 import { frameMeaningFromName } from './frames.ts';
@@ -17,12 +17,13 @@ import { parseCcsdsEpoch, parseNumber } from './values.ts';
 
 const INTERPOLATIONS: readonly InterpolationMethod[] = ['HERMITE', 'LAGRANGE', 'LINEAR'];
 
-/** Reads an OEM from KVN or XML text (XML when the first non-blank character is `<`). */
-export function readOem(text: string): Oem {
+/** Reads an OEM from KVN or XML text (XML when the first non-blank character is `<`); UTC epochs through
+ * `leapSeconds` (the built-in table unless the caller loaded a leap-seconds.list). */
+export function readOem(text: string, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): Oem {
   const cursor = new TokenCursor(tokenise(text, 'OEM'), 'OEM');
   const header = readHeader(cursor, 'OEM');
   const segments: OemSegment[] = [];
-  while (!cursor.done()) segments.push(readSegment(cursor));
+  while (!cursor.done()) segments.push(readSegment(cursor, leapSeconds));
   if (segments.length === 0) throw new CcsdsFormatError('META_START', cursor.line(), 'an OEM needs at least one segment');
   return { header, segments };
 }
@@ -33,13 +34,13 @@ function expectBlock(cursor: TokenCursor, name: 'META_START' | 'META_STOP' | 'CO
   throw new CcsdsFormatError(name, t?.line ?? cursor.line(), `expected ${name}, found ${describeToken(t)}`);
 }
 
-function readMetadata(cursor: TokenCursor): OemMetadata {
+function readMetadata(cursor: TokenCursor, leapSeconds: LeapSecondTable): OemMetadata {
   expectBlock(cursor, 'META_START');
   const common = readCommonMetadata(cursor);
   const scale = common.timeSystem;
   const epoch = (keyword: string, required: boolean): { text: string; tdbS: number } | undefined => {
     const t = required ? cursor.expect(keyword) : cursor.optional(keyword);
-    return t && { text: t.value, tdbS: parseCcsdsEpoch(keyword, t.line, t.value, scale) };
+    return t && { text: t.value, tdbS: parseCcsdsEpoch(keyword, t.line, t.value, scale, leapSeconds) };
   };
   const startLine = cursor.line();
   const start = epoch('START_TIME', true)!;
@@ -81,13 +82,13 @@ function readMetadata(cursor: TokenCursor): OemMetadata {
   };
 }
 
-function readSegment(cursor: TokenCursor): OemSegment {
-  const metadata = readMetadata(cursor);
+function readSegment(cursor: TokenCursor, leapSeconds: LeapSecondTable): OemSegment {
+  const metadata = readMetadata(cursor, leapSeconds);
   const dataComments = cursor.comments();
   const states: OemState[] = [];
   for (let t = cursor.peek(); t?.kind === 'data'; t = cursor.peek()) {
     cursor.next();
-    states.push(readStateLine(t.line, t.fields, metadata, states[states.length - 1]));
+    states.push(readStateLine(t.line, t.fields, metadata, states[states.length - 1], leapSeconds));
   }
   if (states.length === 0) {
     throw new CcsdsFormatError('data', cursor.line(), `segment of ${metadata.objectName} has no ephemeris lines`);
@@ -95,7 +96,7 @@ function readSegment(cursor: TokenCursor): OemSegment {
   const covariances: OemCovariance[] = [];
   for (let t = cursor.peek(); t?.kind === 'block' && t.name === 'COVARIANCE_START'; t = cursor.peek()) {
     cursor.next();
-    while (cursor.at('EPOCH') || cursor.peek()?.kind === 'comment') covariances.push(readCovariance(cursor, metadata));
+    while (cursor.at('EPOCH') || cursor.peek()?.kind === 'comment') covariances.push(readCovariance(cursor, metadata, leapSeconds));
     expectBlock(cursor, 'COVARIANCE_STOP');
   }
   const t = cursor.peek();
@@ -106,12 +107,13 @@ function readSegment(cursor: TokenCursor): OemSegment {
   return { metadata, dataComments, states, covariances };
 }
 
-function readStateLine(line: number, fields: string[], metadata: OemMetadata, previous: OemState | undefined): OemState {
+function readStateLine(line: number, fields: string[], metadata: OemMetadata, previous: OemState | undefined,
+  leapSeconds: LeapSecondTable): OemState {
   if (fields.length !== 7 && fields.length !== 10) {
     throw new CcsdsFormatError('data', line, `an ephemeris line has 7 or 10 fields (epoch, position km, velocity `
       + `km/s, optional acceleration km/s**2); found ${fields.length}`);
   }
-  const epochTdbS = parseCcsdsEpoch('EPOCH', line, fields[0], metadata.timeSystem);
+  const epochTdbS = parseCcsdsEpoch('EPOCH', line, fields[0], metadata.timeSystem, leapSeconds);
   if (previous && !(epochTdbS > previous.epochTdbS)) {
     throw new CcsdsFormatError('EPOCH', line, `epoch ${fields[0]} does not follow ${previous.epoch} (line `
       + `${previous.line}): epochs must increase within a segment`);
@@ -128,10 +130,10 @@ function readStateLine(line: number, fields: string[], metadata: OemMetadata, pr
   return state;
 }
 
-function readCovariance(cursor: TokenCursor, metadata: OemMetadata): OemCovariance {
+function readCovariance(cursor: TokenCursor, metadata: OemMetadata, leapSeconds: LeapSecondTable): OemCovariance {
   const comments = cursor.comments();
   const epoch = cursor.expect('EPOCH');
-  const epochTdbS = parseCcsdsEpoch('EPOCH', epoch.line, epoch.value, metadata.timeSystem);
+  const epochTdbS = parseCcsdsEpoch('EPOCH', epoch.line, epoch.value, metadata.timeSystem, leapSeconds);
   const frame = cursor.optional('COV_REF_FRAME');
   if (frame) frameMeaningFromName('COV_REF_FRAME', frame.line, frame.value, metadata.centre);
   let matrix: number[][];

@@ -56,10 +56,11 @@ export function normaliseEpochText(keyword: string, line: number, text: string, 
 }
 
 /** Parses an epoch in the message's time system to TDB seconds from J2000. Valid range: years
- * [1000, 9999]; UTC only within the leap-second table (an error with the line otherwise). */
-export function parseCcsdsEpoch(keyword: string, line: number, text: string, scale: TimeScale): number {
+ * [1000, 9999]; UTC from 1972 on through `leapSeconds` (an error with the line before 1972). */
+export function parseCcsdsEpoch(keyword: string, line: number, text: string, scale: TimeScale,
+  leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): number {
   const iso = normaliseEpochText(keyword, line, text, scale);
-  return withLine(keyword, line, () => parseEpoch(`${iso} ${scale}`, undefined, keyword));
+  return withLine(keyword, line, () => parseEpoch(`${iso} ${scale}`, undefined, keyword, leapSeconds));
 }
 
 /** Checks a UTC date-time written for information only (CREATION_DATE): calendar validity, no leap-table

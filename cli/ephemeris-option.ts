@@ -9,7 +9,7 @@ import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { CcsdsFormatError, oemToEphemeris, readOem, type Oem } from '../ccsds/index.ts';
 import type { EphemerisFileTable } from '../planner/index.ts';
-import { InvalidInputError } from '../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, InvalidInputError, type LeapSecondTable } from '../propagator/index.ts';
 
 /** Usage text shared by the commands that take ephemeris files. */
 export const EPHEMERIS_USAGE = `  --ephemeris FILE.oem  take the bodies this CCSDS OEM tabulates (by OBJECT_NAME, e.g. MARS relative
@@ -35,8 +35,9 @@ function naming<T>(path: string, read: () => T): T {
   }
 }
 
-/** Loads every file given with --ephemeris; one table per body, its name unique by the file's SHA-256. */
-export async function loadEphemerisFiles(paths: readonly string[]): Promise<EphemerisFileTable[]> {
+/** Loads every file given with --ephemeris; one table per body, its name unique by the file's SHA-256. An OEM
+ * written in UTC is read through `leapSeconds` (the command's table). */
+export async function loadEphemerisFiles(paths: readonly string[], leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): Promise<EphemerisFileTable[]> {
   const tables: EphemerisFileTable[] = [];
   for (const path of paths) {
     let bytes: Buffer;
@@ -46,7 +47,7 @@ export async function loadEphemerisFiles(paths: readonly string[]): Promise<Ephe
       throw new InvalidInputError('--ephemeris', `cannot read '${path}': ${(error as NodeJS.ErrnoException).code ?? (error as Error).message}`);
     }
     const sha256 = createHash('sha256').update(bytes).digest('hex');
-    const oem = naming(path, () => readOem(bytes.toString('utf8')));
+    const oem = naming(path, () => readOem(bytes.toString('utf8'), leapSeconds));
     for (const one of byObject(oem)) {
       const objectName = one.segments[0].metadata.objectName;
       const table = naming(path, () => oemToEphemeris(one, { name: `OEM ${objectName} from ${basename(path)} (sha256 ${sha256.slice(0, 12)})` }));

@@ -74,7 +74,7 @@ export const planCommand: CliCommand = {
     const state = parsed.values['--state'];
     const leapSeconds = await loadCliLeapSeconds(parsed.values['--leap-seconds']);
     const problem = state ? await readProblemFileWithOpmState(file, state, leapSeconds) : await readProblemFile(file, leapSeconds);
-    const ephemerisFiles = await loadEphemerisFiles(parsed.all['--ephemeris'] ?? []);
+    const ephemerisFiles = await loadEphemerisFiles(parsed.all['--ephemeris'] ?? [], leapSeconds);
     if (out) await checkOutputPath(out);
     const bar = progressBar('veer plan');
     const controller = new AbortController();

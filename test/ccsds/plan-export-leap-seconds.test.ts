@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { exportPlanAsCcsds } from '../../ccsds/index.ts';
+import { exportPlanAsCcsds, readOem } from '../../ccsds/index.ts';
 import { leapSecondsFromFileBytes, parseProblem, planManeuvers } from '../../planner/index.ts';
 import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
 import { twoBodyProblemInUtc } from '../planner/two-body-fixture.ts';
@@ -53,5 +53,18 @@ describe('plan export with UTC epochs', () => {
       expect(oem).toMatch(/^COMMENT Arc 2: after TCM-1 at 2027-08-11T00:10:00\.000 UTC = 2027-08-11T00:11:10\.\d{3} TDB$/m);
       expect(oem).toMatch(/^2027-08-11T00:10:00\.000000 /m);
     });
+  });
+});
+
+describe('reading an OEM written in UTC', () => {
+  it('should read its epochs through the table given: 1 s later in TDB past the invented leap second', () => {
+    // The stored two-segment OEM fixture with its epochs relabelled UTC (its 2030 dates lie after the invented leap second).
+    const text = readFileSync('test/fixtures/ccsds/oem-mars-two-segments.oem', 'utf8').replace('TIME_SYSTEM = TDB', 'TIME_SYSTEM = UTC');
+    const builtin = readOem(text);
+    const invented = readOem(text, INVENTED);
+    const a = builtin.segments[0].states[0].epochTdbS;
+    const b = invented.segments[0].states[0].epochTdbS;
+    expect(b - a).toBeCloseTo(1, 6);
+    expect(invented.segments[0].metadata.startTdbS - builtin.segments[0].metadata.startTdbS).toBeCloseTo(1, 6);
   });
 });
