@@ -18,3 +18,4 @@ export * from './errors.ts';
 export * from './budget-schema.ts';
 export type * from './budget-types.ts';
 export { canonicalJson } from './canonical-json.ts';
+export * from './budget-job-types.ts';

@@ -19,7 +19,7 @@ export { createPlanSink } from './sink-from-config.ts';
 export { startWorkerFromConfig } from './worker-from-config.ts';
 export { PlannerPool, type PlannerPoolOptions } from './planner-pool.ts';
 export { isFinalFailure, sampleBatches } from './processor.ts';
-export { findProblemIssue, type ProblemIssue } from './job-request-check.ts';
+export { findBudgetIssue, findProblemIssue, type ProblemIssue } from './job-request-check.ts';
 export { loadServiceLeapSeconds, leapSecondsExpired, leapSecondsExpiryMs, logLeapSecondsAtStart } from './leap-seconds-file.ts';
 export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from '../contract/env-config.ts';
 export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './worker-config.ts';
@@ -27,3 +27,7 @@ export { createRedis } from './connection.ts';
 export { createLogger } from './logger.ts';
 export { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, cancelKey, type CancelRecord } from './cancellation.ts';
 export { startLocalRedis, INSTALL_REDIS_HINT, type LocalRedis } from './local-redis.ts';
+export {
+  BUDGET_JOB_NAMES, budgetJobRequestSchema, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus,
+  type BudgetBatchData, type BudgetBatchResult,
+} from '../contract/budget-job-types.ts';

@@ -6,7 +6,7 @@
  * - `JobResultSink`: no archive; the plan lives in the job's result in Redis (planId = job id).
  * - `ArchivePlanSink`: appends to the hash-chained archive (archive/), whose appends are idempotent by job id.
  */
-import type { ManeuverPlan } from '../planner/index.ts';
+import type { BudgetResult, ManeuverPlan } from '../planner/index.ts';
 
 export interface ProposedPlanInput {
   jobId: string;
@@ -15,6 +15,14 @@ export interface ProposedPlanInput {
   /** Identity name of the job's submitter. */
   submittedBy: string;
   plan: ManeuverPlan;
+}
+
+/** A finished study (a Δv budget) to keep: never a plan, never approvable. */
+export interface StudyInput {
+  jobId: string;
+  actor: string;
+  submittedBy: string;
+  study: BudgetResult;
 }
 
 export interface PlanSink {
@@ -26,6 +34,8 @@ export interface PlanSink {
   recordSubmitted(input: { jobId: string; actor: string; problem: unknown; problemHash: string; reason: string }): Promise<void>;
   /** Stores the proposed plan exactly once per job; a repeat returns the first plan's id with created false. */
   storeProposedPlan(input: ProposedPlanInput): Promise<{ planId: string; created: boolean }>;
+  /** Stores a job's study exactly once per job; its id is the job id. */
+  storeStudy(input: StudyInput): Promise<{ studyId: string; created: boolean }>;
   /** Records a final failure (idempotent). */
   recordFailed(input: { jobId: string; actor: string; errorName: string; message: string }): Promise<void>;
   /** Records a cancellation (idempotent). */
@@ -41,6 +51,9 @@ export class JobResultSink implements PlanSink {
   async storeProposedPlan(input: ProposedPlanInput): Promise<{ planId: string; created: boolean }> {
     return { planId: input.jobId, created: true };
   }
+  async storeStudy(input: StudyInput): Promise<{ studyId: string; created: boolean }> {
+    return { studyId: input.jobId, created: true };
+  }
   async recordFailed(): Promise<void> {}
   async recordCancelled(): Promise<void> {}
   async close(): Promise<void> {}
@@ -51,6 +64,7 @@ export interface ArchiveAppends {
   recordJobSubmitted(input: { jobId: string; actor: string; problem: unknown; problemHash?: string; reason?: string }): Promise<unknown>;
   recordPlanProposed(input: { jobId: string; actor: string; submittedBy: string; plan: ManeuverPlan }): Promise<{ planId: string; created: boolean }>;
   recordJobFailed(input: { jobId: string; actor: string; errorName: string; message: string }): Promise<unknown>;
+  recordStudy(input: { jobId: string; actor: string; submittedBy: string; study: BudgetResult }): Promise<{ created: boolean }>;
   recordJobCancelled(input: { jobId: string; actor: string; reason?: string }): Promise<unknown>;
   close(): Promise<void>;
 }
@@ -66,6 +80,10 @@ export class ArchivePlanSink implements PlanSink {
   async storeProposedPlan(input: ProposedPlanInput): Promise<{ planId: string; created: boolean }> {
     const result = await this.archive.recordPlanProposed(input);
     return { planId: result.planId, created: result.created };
+  }
+  async storeStudy(input: StudyInput): Promise<{ studyId: string; created: boolean }> {
+    const result = await this.archive.recordStudy(input);
+    return { studyId: input.jobId, created: result.created };
   }
   async recordFailed(input: { jobId: string; actor: string; errorName: string; message: string }): Promise<void> {
     await this.archive.recordJobFailed(input);

@@ -1,13 +1,23 @@
 /** Messages between the worker process and its planner threads (structured-clone plain data only). */
-import type { DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress } from '../planner/index.ts';
+import type {
+  BudgetNominal, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress,
+} from '../planner/index.ts';
 
 export type PlannerTask =
   | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds }
   | { kind: 'samples'; problem: PlanningProblem; plan: ManeuverPlan; seed: number; firstIndex: number; count: number }
-  | { kind: 'combine'; problem: PlanningProblem; plan: ManeuverPlan; samples: DispersionSample[] };
+  | { kind: 'combine'; problem: PlanningProblem; plan: ManeuverPlan; samples: DispersionSample[] }
+  | { kind: 'budget-prepare'; request: BudgetRequest }
+  | { kind: 'budget-samples'; request: BudgetRequest; nominal: BudgetNominal; firstIndex: number; count: number }
+  /** Runs the linear path (fast) and assembles the result with the fanned-out non-linear samples. */
+  | { kind: 'budget-assemble'; request: BudgetRequest; plan: ManeuverPlan; nominal: BudgetNominal | null; nonlinear: BudgetSample[] };
 
 export type PlannerTaskResult<T extends PlannerTask> =
-  T extends { kind: 'samples' } ? DispersionSample[] : ManeuverPlan;
+  T extends { kind: 'samples' } ? DispersionSample[]
+    : T extends { kind: 'budget-prepare' } ? { plan: ManeuverPlan; nominal: BudgetNominal | null }
+    : T extends { kind: 'budget-samples' } ? BudgetSample[]
+    : T extends { kind: 'budget-assemble' } ? BudgetResult
+    : ManeuverPlan;
 
 /** An error as it crosses the thread boundary: classified by `name`. */
 export interface SerialisedError { name: string; message: string; code?: string; field?: string }

@@ -5,7 +5,7 @@
 import { parentPort } from 'node:worker_threads';
 import * as plannerModule from '../planner/index.ts';
 import type {
-  DispersionSample, EphemerisCache, ManeuverPlan, MonteCarloSummary, PlanLeapSeconds, PlanningProblem, PlanProgress,
+  BudgetNominal, BudgetProgress, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, EphemerisCache, ManeuverPlan, MonteCarloSummary, PlanLeapSeconds, PlanningProblem, PlanProgress,
 } from '../planner/index.ts';
 import type { LeapSecondTable } from '../propagator/index.ts';
 import { serialiseError, type FromThread, type PlannerTask, type ToThread } from './planner-task.ts';
@@ -23,9 +23,15 @@ interface PlannerFunctions {
   }): Promise<DispersionSample[]>;
   summariseDispersion(problem: PlanningProblem, plan: ManeuverPlan, samples: DispersionSample[]): MonteCarloSummary;
   attachMonteCarlo(plan: ManeuverPlan, summary: MonteCarloSummary): ManeuverPlan;
+  prepareBudget(request: BudgetRequest, options?: { onProgress?: (p: BudgetProgress) => void; signal?: AbortSignal }): Promise<{ plan: ManeuverPlan; nominal: BudgetNominal | null }>;
+  runBudgetSamples(request: BudgetRequest, nominal: BudgetNominal, options: {
+    path: 'linear' | 'nonlinear'; firstIndex: number; count: number; signal?: AbortSignal;
+  }): Promise<BudgetSample[]>;
+  assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nominal: BudgetNominal | null, linear: readonly BudgetSample[], nonlinear: readonly BudgetSample[]): BudgetResult;
 }
 const {
-  attachMonteCarlo, leapSecondTableOfPlan, planManeuvers, runDispersionSamples, summariseDispersion,
+  assembleBudget, attachMonteCarlo, leapSecondTableOfPlan, planManeuvers, prepareBudget, runBudgetSamples, runDispersionSamples,
+  summariseDispersion,
 } = plannerModule as unknown as PlannerFunctions;
 
 // This thread's ephemeris cache, shared by every task it runs: a queue of jobs over the same span and
@@ -50,6 +56,18 @@ async function run(taskId: number, task: PlannerTask, signal: AbortSignal): Prom
       });
     case 'combine':
       return attachMonteCarlo(task.plan, summariseDispersion(task.problem, task.plan, task.samples));
+    case 'budget-prepare':
+      // Budget progress in the job-progress stages: the nominal plan is the correcting stage.
+      return prepareBudget(task.request, {
+        signal, onProgress: (p) => send({ type: 'progress', taskId, progress: { stage: 'correcting', fraction: p.fraction, message: p.message } }),
+      });
+    case 'budget-samples':
+      return runBudgetSamples(task.request, task.nominal, { path: 'nonlinear', firstIndex: task.firstIndex, count: task.count, signal });
+    case 'budget-assemble': {
+      const linear = task.nominal && task.request.linearSamples > 0
+        ? await runBudgetSamples(task.request, task.nominal, { path: 'linear', firstIndex: 0, count: task.request.linearSamples, signal }) : [];
+      return assembleBudget(task.request, task.plan, task.nominal, linear, task.nonlinear);
+    }
   }
 }
 

@@ -12,7 +12,7 @@ import type { Logger } from 'pino';
 import type { DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanProgress } from '../planner/index.ts';
 import { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, readCancel } from './cancellation.ts';
 import {
-  BULL_PRIORITY, JOB_NAMES, type JobProgress, type RetargetJobData, type RetargetJobResult,
+  BULL_PRIORITY, JOB_NAMES, type JobProgress, type Priority, type RetargetJobData, type RetargetJobResult,
   type SampleBatchData, type SampleBatchResult,
 } from '../contract/job-types.ts';
 import type { PlanSink } from './plan-sink.ts';
@@ -60,7 +60,7 @@ type StopReason = { kind: 'cancel'; by: string } | { kind: 'time-limit' } | { ki
  * is the end of the job's overall time: JOB_TIME_LIMIT_S counted from the job's first start, across retries,
  * take-overs and a fanned-out run's sample batches; a run that starts after it stops at once.
  */
-function runControl(deps: ProcessorDeps, jobId: string, parentId: string | null, deadlineMs: number, bullSignal?: AbortSignal) {
+export function runControl(deps: ProcessorDeps, jobId: string, parentId: string | null, deadlineMs: number, bullSignal?: AbortSignal) {
   const controller = new AbortController();
   let stop: StopReason | null = null;
   const abort = (reason: StopReason): void => {
@@ -81,7 +81,7 @@ function runControl(deps: ProcessorDeps, jobId: string, parentId: string | null,
 }
 
 /** Turns an error into what BullMQ should do: UnrecoverableError for final ones, the error itself to retry. */
-function classify(error: unknown, stop: StopReason | null, deps: ProcessorDeps): Error {
+export function classify(error: unknown, stop: StopReason | null, deps: ProcessorDeps): Error {
   if (error instanceof WaitingChildrenError) return error;
   if (stop?.kind === 'cancel') return new UnrecoverableError(`${CANCELLED_REASON_PREFIX}: cancelled by ${stop.by}`);
   if (stop?.kind === 'time-limit') {
@@ -95,7 +95,7 @@ function classify(error: unknown, stop: StopReason | null, deps: ProcessorDeps):
 }
 
 /** Writes progress to the job at most every 250 ms (always on a stage change and at the end). */
-function progressWriter(job: Job, logger: Logger) {
+export function progressWriter(job: Job, logger: Logger) {
   let lastAt = 0;
   let lastStage = '';
   let pending: Promise<unknown> = Promise.resolve();
@@ -131,15 +131,24 @@ async function finishPlan(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: 
 
 async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: ManeuverPlan, deadlineMs: number): Promise<number> {
   const { samples, seed } = job.data.problem.dispersion;
-  const batches = sampleBatches(samples, deps.batchSize);
+  return addChildBatches(deps, job, JOB_NAMES.samples, samples, (b) => ({
+    parentId: String(job.id), problem: job.data.problem, plan, seed, firstIndex: b.firstIndex, count: b.count,
+    priority: job.data.priority, deadlineAt: new Date(deadlineMs).toISOString(),
+  } satisfies SampleBatchData));
+}
+
+/**
+ * Adds the child jobs `name` covering samples [0, total) in batches of deps.batchSize, as children of `job`
+ * (a BullMQ flow; a child's failure fails the parent). Child ids are `<parent>-mc-<firstIndex>`, so re-adding
+ * after a crash is a no-op for batches that already exist.
+ */
+export async function addChildBatches(deps: ProcessorDeps, job: Job<{ priority: Priority }>, name: string, total: number,
+  dataOf: (batch: { firstIndex: number; count: number }) => object): Promise<number> {
+  const batches = sampleBatches(total, deps.batchSize);
   const priority = job.data.priority === 'urgent' ? BULL_PRIORITY.urgentSamples : BULL_PRIORITY.routineSamples;
-  // Deterministic child ids: re-adding after a crash is a no-op for batches that already exist.
   await deps.queue.addBulk(batches.map((b) => ({
-    name: JOB_NAMES.samples,
-    data: {
-      parentId: String(job.id), problem: job.data.problem, plan, seed, firstIndex: b.firstIndex, count: b.count,
-      priority: job.data.priority, deadlineAt: new Date(deadlineMs).toISOString(),
-    } satisfies SampleBatchData,
+    name,
+    data: dataOf(b),
     opts: {
       jobId: `${job.id}-mc-${b.firstIndex}`,
       parent: { id: String(job.id), queue: job.queueQualifiedName },
@@ -223,6 +232,20 @@ export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobD
  * recorded here.
  */
 export async function processSamples(deps: ProcessorDeps, job: Job<SampleBatchData>, bullSignal?: AbortSignal): Promise<SampleBatchResult> {
+  const samples = await runChildBatch(deps, job, bullSignal, (signal) => deps.pool.run({
+    kind: 'samples', problem: job.data.problem, plan: job.data.plan, seed: job.data.seed,
+    firstIndex: job.data.firstIndex, count: job.data.count,
+  }, { signal }));
+  return { firstIndex: job.data.firstIndex, samples };
+}
+
+/**
+ * Runs one fanned-out child batch (`work`) under its parent's deadline and cancellation. A batch that ends
+ * for good (cancelled, or failed for the last time) fails its parent (failParentOnFailure), so the parent's
+ * end is recorded here.
+ */
+export async function runChildBatch<T>(deps: ProcessorDeps, job: Job<{ parentId: string; deadlineAt?: string }>, bullSignal: AbortSignal | undefined,
+  work: (signal: AbortSignal) => Promise<T>): Promise<T> {
   const { parentId } = job.data;
   // The parent's overall deadline, and never longer than this worker's own limit for one run.
   const ownDeadlineMs = Date.now() + deps.jobTimeLimitS * 1000;
@@ -232,11 +255,7 @@ export async function processSamples(deps: ProcessorDeps, job: Job<SampleBatchDa
     const cancel = await readCancel(deps.redis, deps.prefix, parentId);
     if (cancel) control.cancel(cancel.by);
     if (control.signal.aborted) throw new Error('parent cancelled before this batch started');
-    const samples = await deps.pool.run({
-      kind: 'samples', problem: job.data.problem, plan: job.data.plan, seed: job.data.seed,
-      firstIndex: job.data.firstIndex, count: job.data.count,
-    }, { signal: control.signal });
-    return { firstIndex: job.data.firstIndex, samples };
+    return await work(control.signal);
   } catch (error) {
     const outcome = classify(error, control.stopReason(), deps);
     const last = outcome instanceof UnrecoverableError || job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
@@ -259,7 +278,7 @@ export async function processSamples(deps: ProcessorDeps, job: Job<SampleBatchDa
 }
 
 /** Records a job's end in the sink when this failure is its last (final error or attempts used up). */
-async function recordFinal(deps: ProcessorDeps, job: Job<RetargetJobData>, outcome: Error): Promise<void> {
+export async function recordFinal(deps: ProcessorDeps, job: Job, outcome: Error): Promise<void> {
   if (outcome instanceof WaitingChildrenError) return;
   const last = outcome instanceof UnrecoverableError || job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
   if (!last) return;

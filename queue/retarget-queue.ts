@@ -6,7 +6,10 @@ import { randomUUID } from 'node:crypto';
 import { Queue, type Job, type JobState as BullState } from 'bullmq';
 import type { Redis } from 'ioredis';
 import { canonicalHash, sha256Hex } from '../archive/index.ts';
-import { planLeapSeconds, problemHash, type PlanningProblem } from '../planner/index.ts';
+import { budgetRequestHash, planLeapSeconds, problemHash, type PlanningProblem } from '../planner/index.ts';
+import {
+  BUDGET_JOB_NAMES, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus,
+} from '../contract/budget-job-types.ts';
 import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../propagator/index.ts';
 import {
   CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
@@ -98,10 +101,37 @@ export class RetargetQueue {
     const leapSeconds = planLeapSeconds(this.leapSeconds);
     const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
     const requestHash = canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
-    const jobId = request.idempotencyKey
-      ? `k-${sha256Hex(`${submittedBy}\n${request.idempotencyKey}`).slice(0, 40)}`
+    return this.enqueue(JOB_NAMES.retarget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
+      problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
+      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'plan',
+      problemHash: hashOfProblem, leapSeconds,
+      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
+    } satisfies RetargetJobData));
+  }
+
+  /**
+   * Enqueues a validated Δv budget request as a `budget` job (same idempotency rules as `submit`). The study
+   * it yields is never a plan.
+   */
+  async submitBudget(request: BudgetJobRequest, submittedBy: string): Promise<SubmitOutcome> {
+    this.assertConnected();
+    const problem = request.request.problem as PlanningProblem;
+    const hashOfProblem = problemHash(problem, planLeapSeconds(BUILTIN_LEAP_SECONDS));
+    const requestHash = canonicalHash({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority });
+    return this.enqueue(BUDGET_JOB_NAMES.budget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
+      problem, budget: request.request, reason: request.reason, priority: request.priority, submittedBy,
+      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'prepare', problemHash: hashOfProblem,
+      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
+    } satisfies BudgetJobData));
+  }
+
+  /** Adds a job of kind `name` with the idempotency handling shared by both kinds. */
+  private async enqueue(name: string, idempotencyKey: string | undefined, submittedBy: string, requestHash: string,
+    priority: 'urgent' | 'routine', dataOf: (submissionId: string) => RetargetJobData | BudgetJobData): Promise<SubmitOutcome> {
+    const jobId = idempotencyKey
+      ? `k-${sha256Hex(`${submittedBy}\n${idempotencyKey}`).slice(0, 40)}`
       : `j-${randomUUID()}`;
-    if (request.idempotencyKey) {
+    if (idempotencyKey) {
       const existing = await this.findJob(jobId);
       if (existing) return { outcome: existing.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
       // Cancelled before it ran (no job left): the record keeps the request hash to answer the same way.
@@ -112,25 +142,41 @@ export class RetargetQueue {
       }
     }
     const submissionId = randomUUID();
-    const data: RetargetJobData = {
-      problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
-      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'plan',
-      problemHash: hashOfProblem, leapSeconds,
-      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
-    };
-    await this.queue.add(JOB_NAMES.retarget, data, {
+    await this.queue.add(name, dataOf(submissionId) as RetargetJobData, {
       jobId,
-      priority: request.priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
+      priority: priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
       attempts: this.attempts,
       backoff: { type: 'exponential', delay: 2_000 },
       removeOnComplete: { age: this.retentionS },
       removeOnFail: { age: this.retentionS },
     });
-    if (!request.idempotencyKey) return { outcome: 'created', jobId };
+    if (!idempotencyKey) return { outcome: 'created', jobId };
     // Two concurrent first submissions with one key: BullMQ keeps the first; tell the second apart.
     const stored = await this.findJob(jobId);
     if (!stored || stored.data.submissionId === submissionId) return { outcome: 'created', jobId };
     return { outcome: stored.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
+  }
+
+  /** A budget job's status (with its study's id when done), or undefined when there is no such budget job. */
+  async budgetStatus(jobId: string): Promise<BudgetJobStatus | undefined> {
+    this.assertConnected();
+    if (!isIssuedJobId(jobId)) return undefined;
+    const { job, state } = await this.snapshot(jobId);
+    if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
+    const cancel = await readCancel(this.redis, this.prefix, jobId);
+    const status = this.describe(job, state, cancel);
+    const data = job.data as unknown as BudgetJobData;
+    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples') ?? status.progress;
+    const result = status.state === 'completed' && job.returnvalue ? { ...(job.returnvalue as unknown as BudgetJobResult) } : null;
+    if (result) delete result.result;
+    return { ...status, kind: 'delta-v-budget', result };
+  }
+
+  /** The finished budget job's result (with the study when no archive holds it). */
+  async budgetResult(jobId: string): Promise<BudgetJobResult | undefined> {
+    const job = await this.findJob(jobId);
+    if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
+    return (job.returnvalue as unknown as BudgetJobResult | null) ?? undefined;
   }
 
   /** A retarget job's status, or undefined when unknown (never submitted, or expired). */
@@ -158,13 +204,12 @@ export class RetargetQueue {
    * Progress of a fanned-out Monte Carlo run, from its child jobs (ids end in `-mc-<firstIndex>`): samples in
    * finished batches over all samples. Exact, since batch sizes follow from the first indices.
    */
-  async fanOutProgress(job: Job<RetargetJobData>): Promise<JobProgress | null> {
+  async fanOutProgress(job: Job<RetargetJobData>, total = job.data.problem.dispersion.samples, label = 'Monte Carlo'): Promise<JobProgress | null> {
     const deps = await job.getDependencies({ processed: { count: 10_000 }, unprocessed: { count: 10_000 } });
     const firstIndex = (key: string): number => Number(/-mc-(\d+)$/.exec(key)?.[1] ?? NaN);
     const done = Object.keys(deps.processed ?? {}).map(firstIndex);
     const all = [...done, ...(deps.unprocessed ?? []).map(firstIndex)].filter(Number.isFinite).sort((a, b) => a - b);
     if (all.length === 0) return null;
-    const total = job.data.problem.dispersion.samples;
     const sizeOf = (first: number): number => {
       const next = all.find((f) => f > first);
       return (next ?? total) - first;
@@ -172,7 +217,7 @@ export class RetargetQueue {
     const samplesDone = done.filter(Number.isFinite).reduce((sum, f) => sum + sizeOf(f), 0);
     return {
       stage: 'dispersion', fraction: 0.5 + 0.45 * (samplesDone / total),
-      message: `Monte Carlo: ${done.length} of ${all.length} batches done`, samplesDone, samplesTotal: total,
+      message: `${label}: ${done.length} of ${all.length} batches done`, samplesDone, samplesTotal: total,
       at: new Date().toISOString(),
     };
   }
@@ -203,7 +248,7 @@ export class RetargetQueue {
     this.assertConnected();
     if (!isIssuedJobId(jobId)) return { outcome: 'not-found', jobId };
     const job = await this.findJob(jobId);
-    if (!job || job.name !== JOB_NAMES.retarget) {
+    if (!job || (job.name !== JOB_NAMES.retarget && job.name !== BUDGET_JOB_NAMES.budget)) {
       const earlier = await readCancel(this.redis, this.prefix, jobId);
       return earlier ? { outcome: 'already-finished', jobId, state: 'cancelled' } : { outcome: 'not-found', jobId };
     }

@@ -13,6 +13,8 @@ import { JOB_NAMES, RETARGET_QUEUE, type RetargetJobData, type SampleBatchData }
 import type { PlanSink } from './plan-sink.ts';
 import { PlannerPool } from './planner-pool.ts';
 import { processRetarget, processSamples, type ProcessorDeps } from './processor.ts';
+import { processBudget, processBudgetBatch } from './budget-processor.ts';
+import { BUDGET_JOB_NAMES, type BudgetBatchData, type BudgetJobData } from '../contract/budget-job-types.ts';
 
 export interface RetargetWorkerOptions {
   redisUrl: string;
@@ -73,6 +75,8 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
 
   const worker = new Worker(RETARGET_QUEUE, async (job: Job, token?: string, signal?: AbortSignal) => {
     if (job.name === JOB_NAMES.samples) return processSamples(deps, job as Job<SampleBatchData>, signal);
+    if (job.name === BUDGET_JOB_NAMES.samples) return processBudgetBatch(deps, job as Job<BudgetBatchData>, signal);
+    if (job.name === BUDGET_JOB_NAMES.budget) return processBudget(deps, job as Job<BudgetJobData>, token, signal);
     return processRetarget(deps, job as Job<RetargetJobData>, token, signal);
   }, {
     connection, prefix: opts.prefix, name, concurrency,
@@ -92,7 +96,7 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
   worker.on('failed', (job, err) => {
     opts.logger.warn({ jobId: job?.id, attemptsMade: job?.attemptsMade, reason: err.message }, 'job failed');
     // A job failed by the stalled-job check never reached the processor's error path: record it here.
-    if (job && job.name === JOB_NAMES.retarget && /stalled/i.test(err.message)) {
+    if (job && (job.name === JOB_NAMES.retarget || job.name === BUDGET_JOB_NAMES.budget) && /stalled/i.test(err.message)) {
       opts.sink.recordFailed({ jobId: String(job.id), actor: name, errorName: 'StalledJobError', message: err.message })
         .catch((e: unknown) => opts.logger.error({ err: e, jobId: job.id }, 'could not record the stalled job\'s failure'));
     }

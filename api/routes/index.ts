@@ -6,6 +6,7 @@
 import type { AppDeps } from '../deps.ts';
 import { REVIEW_ROUTE_MODULES } from '../review/route-modules.ts';
 import type { ApiRoutes } from '../route-table.ts';
+import { budgetRoutes } from './budgets.ts';
 import { ccsdsRoutes } from './ccsds.ts';
 import { jobEventRoutes } from './job-events.ts';
 import { jobRoutes } from './jobs.ts';
@@ -17,6 +18,7 @@ export type RouteModule = (routes: ApiRoutes, deps: AppDeps) => void;
 export const ROUTE_MODULES: RouteModule[] = [
   serviceRoutes,
   jobRoutes,
+  budgetRoutes,
   jobEventRoutes,
   planRoutes,
   ccsdsRoutes,

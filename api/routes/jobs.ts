@@ -98,32 +98,39 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
       404: { description: 'No such job' },
       409: { description: 'The job already finished' },
     },
-  }, async (req, res) => {
-    const { params, body } = validOf<z.infer<typeof jobParamsSchema>, unknown, z.infer<typeof cancelBodySchema>>(res);
-    const identity = identityOf(req);
-    const before = await deps.queue.status(params.jobId);
-    if (!before) { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${params.jobId}`); return; }
-    if (!identity.roles.includes('admin') && before.submittedBy !== identity.name) {
-      sendError(res, 403, 'FORBIDDEN', 'submitters may cancel only their own jobs');
-      return;
-    }
-    const outcome = await deps.queue.cancel(params.jobId, identity.name, body.reason);
-    if (outcome.outcome === 'not-found') { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${params.jobId}`); return; }
-    if (outcome.outcome === 'already-finished') {
-      sendError(res, 409, 'JOB_FINISHED', `job ${params.jobId} already finished (${outcome.state})`);
-      return;
-    }
-    if (outcome.outcome === 'cancelled' && deps.archive) {
-      // The job never ran, so no worker recorded it: record its submission and its cancellation here.
-      const archive = deps.archive;
-      const { removed } = outcome;
-      await archive.recordJobSubmitted({
-        jobId: params.jobId, actor: removed.submittedBy, problem: removed.problem, problemHash: removed.problemHash, reason: removed.reason,
-      })
-        .then(() => archive.recordJobCancelled({ jobId: params.jobId, actor: identity.name, reason: body.reason }))
-        .catch((err: unknown) => deps.logger.error({ err, jobId: params.jobId }, 'archive: job-cancelled not recorded'));
-    }
-    const after = await deps.queue.status(params.jobId);
-    res.status(outcome.outcome === 'cancelled' ? 200 : 202).json(after ?? before);
-  });
+  }, async (req, res) => cancelQueuedJob(deps, req, res, (jobId) => deps.queue.status(jobId)));
+}
+
+/**
+ * The cancel door shared by retargeting and budget jobs: `statusOf` reads the job of that kind. A waiting job
+ * is removed (200) and, since no worker recorded it, its submission and cancellation are archived here; a
+ * running one is told to stop (202); a finished one answers 409. Submitters cancel only their own jobs.
+ */
+export async function cancelQueuedJob(deps: AppDeps, req: Request, res: Response, statusOf: (jobId: string) => Promise<{ submittedBy: string } | undefined>): Promise<void> {
+  const { params, body } = validOf<z.infer<typeof jobParamsSchema>, unknown, z.infer<typeof cancelBodySchema>>(res);
+  const identity = identityOf(req);
+  const before = await statusOf(params.jobId);
+  if (!before) { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${params.jobId}`); return; }
+  if (!identity.roles.includes('admin') && before.submittedBy !== identity.name) {
+    sendError(res, 403, 'FORBIDDEN', 'submitters may cancel only their own jobs');
+    return;
+  }
+  const outcome = await deps.queue.cancel(params.jobId, identity.name, body.reason);
+  if (outcome.outcome === 'not-found') { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${params.jobId}`); return; }
+  if (outcome.outcome === 'already-finished') {
+    sendError(res, 409, 'JOB_FINISHED', `job ${params.jobId} already finished (${outcome.state})`);
+    return;
+  }
+  if (outcome.outcome === 'cancelled' && deps.archive) {
+    // The job never ran, so no worker recorded it: record its submission and its cancellation here.
+    const archive = deps.archive;
+    const { removed } = outcome;
+    await archive.recordJobSubmitted({
+      jobId: params.jobId, actor: removed.submittedBy, problem: removed.problem, problemHash: removed.problemHash, reason: removed.reason,
+    })
+      .then(() => archive.recordJobCancelled({ jobId: params.jobId, actor: identity.name, reason: body.reason }))
+      .catch((err: unknown) => deps.logger.error({ err, jobId: params.jobId }, 'archive: job-cancelled not recorded'));
+  }
+  const after = await statusOf(params.jobId);
+  res.status(outcome.outcome === 'cancelled' ? 200 : 202).json(after ?? before);
 }

@@ -185,11 +185,11 @@ export async function readEventStream(url: string, token: string, timeoutMs = 60
 }
 
 /** Polls the job's status until `predicate` holds (or throws after `timeoutMs`). */
-export async function waitForJob(svc: TestService, jobId: string, predicate: (s: any) => boolean, timeoutMs = 60_000): Promise<any> {
+export async function waitForJob(svc: TestService, jobId: string, predicate: (s: any) => boolean, timeoutMs = 60_000, statusPath = '/v1/jobs'): Promise<any> {
   const deadline = Date.now() + timeoutMs;
   let last: any = null;
   while (Date.now() < deadline) {
-    last = (await svc.request('GET', `/v1/jobs/${jobId}`, { token: svc.tokens.auditor })).body;
+    last = (await svc.request('GET', `${statusPath}/${jobId}`, { token: svc.tokens.auditor })).body;
     if (last && predicate(last)) return last;
     await new Promise((r) => setTimeout(r, 100));
   }
