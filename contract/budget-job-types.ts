@@ -25,7 +25,7 @@ export const budgetJobRequestSchema = z.object({
 export type BudgetJobRequest = z.infer<typeof budgetJobRequestSchema>;
 
 /** Data of a `budget` job in Redis. `problem` repeats `budget.problem` so the queue's job views read both kinds. */
-export interface BudgetJobData extends Omit<RetargetJobData, 'step' | 'nominalPlan' | 'batches' | 'leapSeconds'> {
+export interface BudgetJobData extends Omit<RetargetJobData, 'step' | 'nominalPlan' | 'batches'> {
   budget: BudgetRequest;
   /** Where a re-run resumes: `prepare` (from scratch) or `await-samples` (nominal done, batches added). */
   step: 'prepare' | 'await-samples';

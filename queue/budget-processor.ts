@@ -41,7 +41,8 @@ export async function processBudget(deps: ProcessorDeps, job: Job<BudgetJobData>
     const total = request.nonlinearSamples;
     if (job.data.step === 'prepare') {
       await deps.sink.recordSubmitted({ jobId, actor: job.data.submittedBy, problem: request, problemHash: job.data.problemHash, reason: job.data.reason });
-      const prepared = await deps.pool.run({ kind: 'budget-prepare', request }, { signal: control.signal, onProgress: report });
+      const leapSeconds = job.data.leapSeconds ?? deps.leapSeconds;
+      const prepared = await deps.pool.run({ kind: 'budget-prepare', request, leapSeconds }, { signal: control.signal, onProgress: report });
       if (!prepared.nominal || total === 0) {
         const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: prepared.plan, nominal: prepared.nominal, nonlinear: [] }, { signal: control.signal });
         return await finishStudy(deps, job, result);

@@ -24,9 +24,9 @@ export function findProblemIssue(problem: PlanningProblem, leapSeconds: LeapSeco
  * after the zod shape check at the door; the first problem with its dotted field path (under `request.`),
  * or null.
  */
-export function findBudgetIssue(request: unknown): ProblemIssue | null {
+export function findBudgetIssue(request: unknown, leapSeconds: LeapSecondTable): ProblemIssue | null {
   try {
-    parseBudgetRequest(request);
+    parseBudgetRequest(request, leapSeconds);
     return null;
   } catch (error) {
     return issueOf(error);

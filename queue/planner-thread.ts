@@ -23,7 +23,7 @@ interface PlannerFunctions {
   }): Promise<DispersionSample[]>;
   summariseDispersion(problem: PlanningProblem, plan: ManeuverPlan, samples: DispersionSample[]): MonteCarloSummary;
   attachMonteCarlo(plan: ManeuverPlan, summary: MonteCarloSummary): ManeuverPlan;
-  prepareBudget(request: BudgetRequest, options?: { onProgress?: (p: BudgetProgress) => void; signal?: AbortSignal }): Promise<{ plan: ManeuverPlan; nominal: BudgetNominal | null }>;
+  prepareBudget(request: BudgetRequest, options?: { onProgress?: (p: BudgetProgress) => void; signal?: AbortSignal; leapSeconds?: LeapSecondTable }): Promise<{ plan: ManeuverPlan; nominal: BudgetNominal | null }>;
   runBudgetSamples(request: BudgetRequest, nominal: BudgetNominal, options: {
     path: 'linear' | 'nonlinear'; firstIndex: number; count: number; signal?: AbortSignal;
   }): Promise<BudgetSample[]>;
@@ -59,7 +59,7 @@ async function run(taskId: number, task: PlannerTask, signal: AbortSignal): Prom
     case 'budget-prepare':
       // Budget progress in the job-progress stages: the nominal plan is the correcting stage.
       return prepareBudget(task.request, {
-        signal, onProgress: (p) => send({ type: 'progress', taskId, progress: { stage: 'correcting', fraction: p.fraction, message: p.message } }),
+        signal, leapSeconds: leapSecondTableOfPlan(task.leapSeconds), onProgress: (p) => send({ type: 'progress', taskId, progress: { stage: 'correcting', fraction: p.fraction, message: p.message } }),
       });
     case 'budget-samples':
       return runBudgetSamples(task.request, task.nominal, { path: 'nonlinear', firstIndex: task.firstIndex, count: task.count, signal });

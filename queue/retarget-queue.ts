@@ -116,11 +116,12 @@ export class RetargetQueue {
   async submitBudget(request: BudgetJobRequest, submittedBy: string): Promise<SubmitOutcome> {
     this.assertConnected();
     const problem = request.request.problem as PlanningProblem;
-    const hashOfProblem = problemHash(problem, planLeapSeconds(BUILTIN_LEAP_SECONDS));
+    const leapSeconds = planLeapSeconds(this.leapSeconds);
+    const hashOfProblem = problemHash(problem, leapSeconds);
     const requestHash = canonicalHash({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority });
     return this.enqueue(BUDGET_JOB_NAMES.budget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
       problem, budget: request.request, reason: request.reason, priority: request.priority, submittedBy,
-      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'prepare', problemHash: hashOfProblem,
+      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'prepare', problemHash: hashOfProblem, leapSeconds,
       ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
     } satisfies BudgetJobData));
   }

@@ -31,7 +31,7 @@ export function budgetRoutes(routes: ApiRoutes, deps: AppDeps): void {
     },
   }, async (req: Request, res: Response) => {
     const request = validOf<unknown, unknown, BudgetJobRequest>(res).body;
-    const issue = findBudgetIssue(request.request);
+    const issue = findBudgetIssue(request.request, deps.queue.leapSeconds);
     if (issue) throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.request.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
     const outcome = await deps.queue.submitBudget(request, identityOf(req).name);
     if (outcome.outcome === 'conflict') {

@@ -8,7 +8,9 @@
  * 3. assembleBudget: statistics of both paths, their per-burn agreement, caveats.
  * runBudget does all three in this process. A budget is a study: never a plan to approve.
  */
-import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, type LeapSecondTable, planLeapSeconds } from '../../propagator/index.ts';
+import {
+  BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, type LeapSecondTable, leapSecondTableOfPlan, planLeapSeconds,
+} from '../../propagator/index.ts';
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
 import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-types.ts';
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
@@ -41,7 +43,7 @@ export interface BudgetSampleOptions {
   signal?: AbortSignal;
   /** Called after each sample with the number done in this range. */
   onSample?: (done: number) => void;
-  /** The nominal plan's leap-second table. @defaultValue BUILTIN_LEAP_SECONDS */
+  /** The leap-second table for the problem's UTC epochs. @defaultValue the nominal plan's own table */
   leapSeconds?: LeapSecondTable;
 }
 
@@ -64,7 +66,8 @@ export async function runBudgetSamples(request: BudgetRequest, nominal: BudgetNo
   if (!Number.isInteger(firstIndex) || firstIndex < 0) throw new InvalidInputError('firstIndex', `must be an integer >= 0, got ${firstIndex}`);
   if (!Number.isInteger(count) || count < 0) throw new InvalidInputError('count', `must be an integer >= 0, got ${count}`);
   const sampler = createBudgetSampler(nominal.burns.length, nominal.initialCovariance, nominal.knowledgeCovariances);
-  const ctx = options.path === 'nonlinear' ? planningContext(request.problem, options.leapSeconds ?? BUILTIN_LEAP_SECONDS) : null;
+  const leapSeconds = options.leapSeconds ?? leapSecondTableOfPlan(nominal.plan.leapSeconds);
+  const ctx = options.path === 'nonlinear' ? planningContext(request.problem, leapSeconds) : null;
   const out: BudgetSample[] = [];
   for (let k = 0; k < count; k++) {
     if (signal?.aborted) throw new CancelledError(`budget cancelled after ${k} of ${count} ${options.path} samples`);
