@@ -11,38 +11,21 @@
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
-import { AstroTime, Body, HelioState } from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
 import { planToOem, planToOpm } from '../../ccsds/index.ts';
 import { loadEphemerisFiles } from '../../cli/ephemeris-option.ts';
 import { parseProblem, planManeuvers, type ManeuverPlan } from '../../planner/index.ts';
-import { formatEpoch, parseEpoch } from '../../propagator/index.ts';
+import { parseEpoch } from '../../propagator/index.ts';
+import { marsOemText } from './mars-oem.ts';
 import { runVeer } from '../harness/run-cli.ts';
 import { dot, reflyDemoPlan } from './independent-flyby.ts';
 
-const KM_PER_AU = 149597870.7; // IAU 2012 Resolution B2 (exact)
 const DAY_S = 86400;
 const OFFSET_KM = [600, -450, 250];
+const marsOem = (name: string, startTdbS: number, endTdbS: number): string => marsOemText(name, startTdbS, endTdbS, OFFSET_KM);
 const demo = JSON.parse(readFileSync('examples/flyby-demo.json', 'utf8')) as Record<string, unknown>;
 const problem = parseProblem({ ...demo, dispersion: { samples: 0, seed: 1 } });
 const dir = mkdtempSync(join(tmpdir(), 'veer-oem-ephemeris-'));
-
-/** An OEM of `objectName` relative to the Sun: astronomy-engine's Mars plus OFFSET_KM, every 6 h. */
-function marsOem(objectName: string, startTdbS: number, endTdbS: number): string {
-  const lines = ['CCSDS_OEM_VERS = 2.0', 'CREATION_DATE = 2031-08-01T00:00:00', 'ORIGINATOR = VEER-TEST', '',
-    'META_START', `OBJECT_NAME = ${objectName}`, 'OBJECT_ID = 499', 'CENTER_NAME = SUN', 'REF_FRAME = EME2000',
-    'TIME_SYSTEM = TDB', `START_TIME = ${formatEpoch(startTdbS, 'TDB', 3).replace(' TDB', '')}`,
-    `STOP_TIME = ${formatEpoch(endTdbS, 'TDB', 3).replace(' TDB', '')}`, 'INTERPOLATION = LAGRANGE',
-    'INTERPOLATION_DEGREE = 7', 'META_STOP', ''];
-  const k = KM_PER_AU / DAY_S;
-  for (let t = startTdbS; t <= endTdbS; t += 6 * 3600) {
-    const s = HelioState(Body.Mars, AstroTime.FromTerrestrialTime(t / DAY_S)); // TT ≈ TDB (< 2 ms)
-    const p = [s.x * KM_PER_AU + OFFSET_KM[0], s.y * KM_PER_AU + OFFSET_KM[1], s.z * KM_PER_AU + OFFSET_KM[2]];
-    lines.push(`${formatEpoch(t, 'TDB', 3).replace(' TDB', '')} ${p.map((x) => x.toFixed(6)).join(' ')} `
-      + `${[s.vx * k, s.vy * k, s.vz * k].map((v) => v.toFixed(9)).join(' ')}`);
-  }
-  return `${lines.join('\n')}\n`;
-}
 
 function writeOem(name: string, text: string): string {
   const path = join(dir, name);
