@@ -166,7 +166,7 @@ export interface BudgetResult {
   softwareVersion: string;
   spacecraftName: string;
   title: string | null;
-  nominal: { status: ManeuverPlan['status']; crossCheckPassed: boolean; burns: { label: string; epochTdbS: number; epochTdb: string; magnitudeMS: number }[]; totalDeltaVMS: number };
+  nominal: { status: ManeuverPlan['status']; crossCheckPassed: boolean; burns: { label: string; epochTdbS: number; epochTdb: string; /** UTC through the nominal plan's leap-second table (null before 1972; absent in older studies). */ epochUtc?: string | null; magnitudeMS: number }[]; totalDeltaVMS: number };
   linear: BudgetSummary | null;
   nonlinear: BudgetSummary | null;
   agreement: BudgetAgreement | null;

@@ -34,7 +34,7 @@ export function formatBudgetReport(r: BudgetResult): string {
     ...caveatBlock(r, HEAD),
     `Spacecraft: ${r.spacecraftName}${r.title ? ` — ${r.title}` : ''}`,
     `Problem hash (SHA-256): ${r.problemHash}   request hash: ${r.requestHash}   software: ${r.softwareVersion}`,
-    `Nominal plan: ${r.nominal.status}, cross-check ${r.nominal.crossCheckPassed ? 'passed' : 'FAILED'}; ${r.nominal.burns.map((b) => `${b.label} ${b.epochTdb} ${num(b.magnitudeMS)} m/s`).join('; ')}`,
+    `Nominal plan: ${r.nominal.status}, cross-check ${r.nominal.crossCheckPassed ? 'passed' : 'FAILED'}; ${r.nominal.burns.map((b) => `${b.label} ${b.epochUtc ? `${b.epochUtc} = ` : ''}${b.epochTdb} ${num(b.magnitudeMS)} m/s`).join('; ')}`,
     '',
   ];
   for (const s of [r.linear, r.nonlinear]) if (s) lines.push(...summaryLines(s), '');

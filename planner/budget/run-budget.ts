@@ -118,7 +118,7 @@ export function assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nomin
     softwareVersion: SOFTWARE_VERSION, spacecraftName: request.problem.spacecraft.name, title: request.problem.title ?? null,
     nominal: {
       status: plan.status, crossCheckPassed: plan.crossCheck.passed,
-      burns: plan.burns.map((b) => ({ label: b.label, epochTdbS: b.epoch.tdbS, epochTdb: b.epoch.tdb, magnitudeMS: b.magnitudeMS })),
+      burns: plan.burns.map((b) => ({ label: b.label, epochTdbS: b.epoch.tdbS, epochTdb: b.epoch.tdb, epochUtc: b.epoch.utc, magnitudeMS: b.magnitudeMS })),
       totalDeltaVMS: plan.totalDeltaVMS,
     },
     linear, nonlinear, agreement,

@@ -81,6 +81,8 @@ describe('veer budget with a leap-seconds list', () => {
     // The demo is dated 2031, past the invented list's expiry 2027-12-28.
     expect(text).toContain(`expiry 2027-12-28 of the leap-second table (${INVENTED} (SHA-256 ${INVENTED_SHA256}))`);
     expect(text).toContain('TAI − UTC = 38 s is assumed');
+    // The study's nominal burns show UTC (through the invented list) beside TDB.
+    expect(JSON.parse(r.out).nominal.burns[0].epochUtc).toMatch(/^2031-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3} UTC$/);
   });
 });
 
