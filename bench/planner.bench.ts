@@ -21,6 +21,7 @@ import {
 } from '../propagator/index.ts';
 import type { BodyName } from '../propagator/index.ts';
 import { machineLine } from './bench-stats.ts';
+import { finiteRetargeting } from './finite-retargeting.ts';
 
 const here = fileURLToPath(import.meta.url);
 const demo = JSON.parse(readFileSync(new URL('../examples/flyby-demo.json', import.meta.url), 'utf8')) as Record<string, unknown>;
@@ -173,10 +174,22 @@ async function monteCarlo(): Promise<void> {
   log();
 }
 
+const machine = `Machine: ${machineLine()}; ${Math.round(os.totalmem() / 2 ** 30)} GiB. Shared with other work, so treat absolute times as indicative; ratios are measured in the same run.`;
+if (process.argv[2] === '--finite-only') {
+  log('# bench:planner results — finite-burn section only');
+  log();
+  log(machine);
+  log();
+  await finiteRetargeting(demo, log);
+  writeFileSync(new URL('./results/planner-finite.md', import.meta.url), `${lines.join('\n')}\n`);
+  process.exit(0);
+}
+
 log('# bench:planner results');
 log();
-log(`Machine: ${machineLine()}; ${Math.round(os.totalmem() / 2 ** 30)} GiB. Shared with other work, so treat absolute times as indicative; ratios are measured in the same run.`);
+log(machine);
 log();
 await retargeting();
+await finiteRetargeting(demo, log);
 await monteCarlo();
 writeFileSync(new URL('./results/planner.md', import.meta.url), `${lines.join('\n')}\n`);
