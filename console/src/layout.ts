@@ -11,6 +11,7 @@ const NAV: NavItem[] = [
   { hash: '#/submit', label: 'New job', roles: ['submitter'] },
   { hash: '#/jobs', label: 'Jobs', roles: ['submitter', 'reviewer', 'auditor'] },
   { hash: '#/plans', label: 'Plans', roles: ['submitter', 'reviewer', 'auditor'] },
+  { hash: '#/budgets', label: 'Δv budget', roles: ['submitter'] },
 ];
 
 export function renderFrame(session: Session | null, currentHash: string, onSignOut: () => void, content: Node): HTMLElement {

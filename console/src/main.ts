@@ -5,6 +5,7 @@ import type { Screen, ScreenContext, ScreenFactory } from './app-context.ts';
 import { h } from './dom.ts';
 import { renderFrame } from './layout.ts';
 import { clearSession, loadSession, saveSession, type Session } from './session.ts';
+import { budgetScreen, budgetSubmitScreen } from './screens/budget.ts';
 import { historyScreen } from './screens/history.ts';
 import { jobsScreen } from './screens/jobs.ts';
 import { planReviewScreen } from './screens/plan-review.ts';
@@ -20,6 +21,8 @@ const ROUTES: { pattern: RegExp; keys: string[]; screen: ScreenFactory; open?: b
   { pattern: /^#\/plans$/, keys: [], screen: plansScreen },
   { pattern: /^#\/plans\/([^/]+)$/, keys: ['planId'], screen: planReviewScreen },
   { pattern: /^#\/plans\/([^/]+)\/history$/, keys: ['planId'], screen: historyScreen },
+  { pattern: /^#\/budgets$/, keys: [], screen: budgetSubmitScreen },
+  { pattern: /^#\/budgets\/([^/]+)$/, keys: ['jobId'], screen: budgetScreen },
 ];
 
 const root = document.getElementById('app') as HTMLElement;

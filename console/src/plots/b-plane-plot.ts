@@ -12,7 +12,8 @@ const W = 460;
 const H = 400;
 const MARGIN = { left: 62, right: 14, top: 14, bottom: 44 };
 
-function ellipse(view: View, cx: number, cy: number, e: BPlaneEllipse, k: number, cls: string): SVGEllipseElement {
+/** A k-σ dispersion ellipse centred at (cx, cy) km in the view. */
+export function ellipse(view: View, cx: number, cy: number, e: BPlaneEllipse, k: number, cls: string): SVGEllipseElement {
   // Data angle from T toward R; SVG y is flipped, so the rotation turns the other way.
   return svg('ellipse', {
     cx: view.px(cx), cy: view.py(cy), rx: e.semiMajorKm * k * view.scale, ry: e.semiMinorKm * k * view.scale,
