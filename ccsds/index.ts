@@ -5,30 +5,30 @@
  * runner here, CcsdsExportThreads, computes an export in a worker thread so a server's event loop stays free.
  */
 export { CcsdsFormatError } from './errors.ts';
-export type * from './odm-types.ts';
-export { readOpm } from './opm-reader.ts';
-export { writeOpm } from './opm-writer.ts';
-export { readOem } from './oem-reader.ts';
-export { writeOem } from './oem-writer.ts';
-export { encodingOf } from './tokenise.ts';
-export { ODM_WRITE_DEFAULTS, type OdmWriteOptions } from './write-options.ts';
-export { formatCcsdsEpoch, parseCcsdsEpoch, SUPPORTED_TIME_SYSTEMS } from './values.ts';
+export type * from './messages/odm-types.ts';
+export { readOpm } from './messages/opm-reader.ts';
+export { writeOpm } from './messages/opm-writer.ts';
+export { readOem } from './messages/oem-reader.ts';
+export { writeOem } from './messages/oem-writer.ts';
+export { encodingOf } from './syntax/tokenise.ts';
+export { ODM_WRITE_DEFAULTS, type OdmWriteOptions } from './messages/write-options.ts';
+export { formatCcsdsEpoch, parseCcsdsEpoch, SUPPORTED_TIME_SYSTEMS } from './syntax/values.ts';
 export {
   CENTRE_NAME_OF_BODY, WRITTEN_FRAME_NAME, centreFromName, inertialFrameFromName, frameMeaningFromName,
   assertWritableFrame, vnbFromTnw, tnwFromVnb, type FrameMeaning, type MessageFrame,
-} from './frames.ts';
-export { assertPositiveSemiDefinite, PSD_TOLERANCE } from './covariance.ts';
+} from './messages/frames.ts';
+export { assertPositiveSemiDefinite, PSD_TOLERANCE } from './messages/covariance.ts';
 export {
   readOpmAsInitialState, covarianceInStateFrame, type OpmInitialState, type PlannerInitialState,
-} from './initial-state.ts';
+} from './messages/initial-state.ts';
 export {
   oemToEphemeris, oemToTrajectory, segmentInterpolation, OEM_EPHEMERIS_DEFAULTS, type OemEphemerisOptions,
   type OemTrajectory,
-} from './oem-ephemeris.ts';
-export { assertExportable, planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './plan-opm.ts';
-export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './plan-oem.ts';
-export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export-plan.ts';
+} from './messages/oem-ephemeris.ts';
+export { assertExportable, planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './export/plan-opm.ts';
+export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './export/plan-oem.ts';
+export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export/export-plan.ts';
 export {
   CcsdsExportThreads, ExportTimeLimitError, type CcsdsExportThreadsOptions, type ThreadExportOptions,
-} from './export-off-thread.ts';
-export { compareWithReference, type ReferenceComparison } from './compare-reference.ts';
+} from './export/export-off-thread.ts';
+export { compareWithReference, type ReferenceComparison } from './messages/compare-reference.ts';

@@ -4,7 +4,7 @@
  */
 import { ForceModel } from './forces/index.ts';
 import type { RhsFunction } from './integrators/index.ts';
-import type { PropagationDynamics } from './propagation-dynamics.ts';
+import type { PropagationDynamics } from './run/propagation-dynamics.ts';
 import { resetStm, STATE_WITH_STM_LENGTH, variationalRatesInto } from './variational.ts';
 
 /**

@@ -8,10 +8,10 @@ export * from './integrators/index.ts';
 export * from './forces/index.ts';
 export * from './math/index.ts';
 export * from './frames/index.ts';
-export * from './propagation-types.ts';
-export { PROPAGATION_DEFAULTS } from './propagation-defaults.ts';
-export { propagate, propagateAsync, propagationSteps, type StepWatcher, type WatchStop } from './propagate.ts';
-export type { PropagationDynamics } from './propagation-dynamics.ts';
+export * from './run/propagation-types.ts';
+export { PROPAGATION_DEFAULTS } from './run/propagation-defaults.ts';
+export { propagate, propagateAsync, propagationSteps, type StepWatcher, type WatchStop } from './run/propagate.ts';
+export type { PropagationDynamics } from './run/propagation-dynamics.ts';
 export { createCowellRhs, createCowellDynamics } from './cowell.ts';
 export { bPlaneOfEncounter, bPlanePartials, computeBPlane, referencePole, B_PLANE_PARTIAL_ROWS, type BPlane, type BPlanePartials, type BPlaneReference } from './bplane/index.ts';
 export {

@@ -10,23 +10,22 @@ export {
   type JobProgress, type JobRequest, type JobRequestInput, type JobState, type JobStatus, type Priority,
   type RetargetJobData, type RetargetJobResult, type SampleBatchData, type SampleBatchResult,
 } from '../contract/job-types.ts';
-export { RetargetQueue, isIssuedJobId, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './retarget-queue.ts';
-export { QueueUnavailableError, QUEUE_RETRY_AFTER_S, isQueueUnavailable } from './queue-unavailable.ts';
-export { JobEventHub, type JobEvent } from './job-events.ts';
-export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './retarget-worker.ts';
-export { ArchivePlanSink, JobResultSink, type ArchiveAppends, type PlanSink, type ProposedPlanInput } from './plan-sink.ts';
-export { createPlanSink } from './sink-from-config.ts';
-export { startWorkerFromConfig } from './worker-from-config.ts';
-export { PlannerPool, type PlannerPoolOptions } from './planner-pool.ts';
-export { isFinalFailure, sampleBatches } from './processor.ts';
-export { findBudgetIssue, findProblemIssue, type ProblemIssue } from './job-request-check.ts';
-export { loadServiceLeapSeconds, leapSecondsExpired, leapSecondsExpiryMs, logLeapSecondsAtStart } from './leap-seconds-file.ts';
+export { RetargetQueue, isIssuedJobId, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './producer/retarget-queue.ts';
+export { QueueUnavailableError, QUEUE_RETRY_AFTER_S, isQueueUnavailable } from './producer/queue-unavailable.ts';
+export { JobEventHub, type JobEvent } from './producer/job-events.ts';
+export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './worker/retarget-worker.ts';
+export { ArchivePlanSink, JobResultSink, type ArchiveAppends, type PlanSink, type ProposedPlanInput } from './worker/plan-sink.ts';
+export { createPlanSink, startWorkerFromConfig } from './worker/start-from-config.ts';
+export { PlannerPool, type PlannerPoolOptions } from './worker/planner-pool.ts';
+export { isFinalFailure, sampleBatches } from './worker/processor.ts';
+export { findBudgetIssue, findProblemIssue, type ProblemIssue } from './producer/job-request-check.ts';
+export { loadServiceLeapSeconds, leapSecondsExpired, leapSecondsExpiryMs, logLeapSecondsAtStart } from './worker/leap-seconds-file.ts';
 export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from '../contract/env-config.ts';
-export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './worker-config.ts';
-export { createRedis } from './connection.ts';
-export { createLogger } from './logger.ts';
+export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './config/worker-config.ts';
+export { createRedis } from './config/connection.ts';
+export { createLogger } from './config/logger.ts';
 export { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, cancelKey, type CancelRecord } from './cancellation.ts';
-export { startLocalRedis, INSTALL_REDIS_HINT, type LocalRedis } from './local-redis.ts';
+export { startLocalRedis, INSTALL_REDIS_HINT, type LocalRedis } from './config/local-redis.ts';
 export {
   BUDGET_JOB_NAMES, budgetJobRequestSchema, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus,
   type BudgetBatchData, type BudgetBatchResult,

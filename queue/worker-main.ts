@@ -3,9 +3,9 @@
  * SIGTERM/SIGINT stop taking jobs and let running ones finish (a second signal forces).
  */
 import { ConfigError } from '../contract/env-config.ts';
-import { createLogger } from './logger.ts';
-import { loadWorkerConfig } from './worker-config.ts';
-import { startWorkerFromConfig } from './worker-from-config.ts';
+import { createLogger } from './config/logger.ts';
+import { loadWorkerConfig } from './config/worker-config.ts';
+import { startWorkerFromConfig } from './worker/start-from-config.ts';
 
 async function main(): Promise<void> {
   let config;

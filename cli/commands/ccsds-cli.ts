@@ -12,7 +12,7 @@ import {
 } from '../../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS, InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
 import { printableText } from '../../contract/free-text.ts';
-import { ApiCallError, parseAnswer, PROPOSAL_NOTICE, type Remote, sendToApi, UsageError } from './review-http.ts';
+import { ApiCallError, parseAnswer, PROPOSAL_NOTICE, type Remote, sendToApi, UsageError } from './remote-api.ts';
 
 /**
  * Reads an OPM file and puts its state (epoch, centre, frame, position, velocity, covariance) in place

@@ -6,7 +6,7 @@ import { writeFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
 import { CCSDS_EXPORT_FORMATS, runOfflineCcsdsExport } from './ccsds-cli.ts';
-import { callApi, reportApiError, PROPOSAL_NOTICE, REMOTE_OPTIONS, remoteFrom, UsageError, type Remote } from './review-http.ts';
+import { callApi, reportApiError, PROPOSAL_NOTICE, REMOTE_OPTIONS, remoteFrom, UsageError, type Remote } from './remote-api.ts';
 
 /** One export format: fetches what it needs and returns the text to write. */
 export interface ExportFormat {

@@ -1,7 +1,7 @@
 /** `veer history <planId>`: a plan's archive entries, oldest first, each with its hash re-checked. */
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
-import { callApi, reportApiError, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { callApi, reportApiError, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './remote-api.ts';
 
 const USAGE = `usage: veer history <planId> [--url URL] [--token TOKEN] [--json]
 

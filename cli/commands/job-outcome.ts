@@ -4,7 +4,7 @@
  * its independent cross-check passed — the plan's own summary is fetched to confirm both.
  */
 import { FINAL_JOB_STATES, type JobStatus, type PlanSummary } from '../../contract/index.ts';
-import { callApi, PROPOSAL_NOTICE, type Remote } from './review-http.ts';
+import { callApi, PROPOSAL_NOTICE, type Remote } from './remote-api.ts';
 
 /** Exit codes of `veer watch` (and `veer submit --watch`). */
 export const JOB_EXIT = {

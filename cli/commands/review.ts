@@ -1,7 +1,7 @@
 /** `veer review <planId>`: show a plan's caveats, or approve / reject it through the API. */
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
-import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './remote-api.ts';
 
 const USAGE = `usage: veer review <planId>                                   show the plan's state and caveats
        veer review <planId> --approve --ack CODE[,CODE...] [--comment TEXT]

@@ -2,7 +2,7 @@
 import { parseArgs } from 'node:util';
 import type { CliCommand } from '../command.ts';
 import { describeOutcome, isFinal, jobPath, statusLines, type JobStatusAnswer } from './job-outcome.ts';
-import { callApi, reportApiError, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { callApi, reportApiError, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './remote-api.ts';
 
 const USAGE = `usage: veer status <jobId> [--url URL] [--token TOKEN] [--json]
 

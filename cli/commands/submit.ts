@@ -7,7 +7,7 @@ import { parseProblem } from '../../planner/index.ts';
 import type { CliCommand } from '../command.ts';
 import { JOB_EXIT, JOB_EXIT_USAGE } from './job-outcome.ts';
 import { readJsonFile } from './read-json-file.ts';
-import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { ApiCallError, callApi, exitCodeFor, PROPOSAL_NOTICE, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './remote-api.ts';
 import { watchJob } from './watch.ts';
 
 const USAGE = `usage: veer submit <problem.json> --reason TEXT [--urgent] [--idempotency-key KEY] [--watch]

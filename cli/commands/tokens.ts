@@ -3,7 +3,7 @@ import { hostname, userInfo } from 'node:os';
 import { parseArgs } from 'node:util';
 import { openTokenStore, ROLES, type Role, type TokenRecord } from '../../api/auth/index.ts';
 import type { CliCommand } from '../command.ts';
-import { UsageError } from './review-http.ts';
+import { UsageError } from './remote-api.ts';
 
 const USAGE = `usage: veer tokens add <name> --role ROLE [--role ROLE ...]
        veer tokens list

@@ -10,7 +10,7 @@ import {
 import { expectedHeadSchema } from '../../contract/review-schemas.ts';
 import type { ExpectedHead } from '../../contract/archive-types.ts';
 import type { CliCommand } from '../command.ts';
-import { callApi, reportApiError, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './review-http.ts';
+import { callApi, reportApiError, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, UsageError } from './remote-api.ts';
 
 const USAGE = `usage: veer verify [--url URL] [--token TOKEN]          through the API (auditor role)
        veer verify --data-dir DIR | --database-url URL   directly on a store, read-only (never created or migrated)

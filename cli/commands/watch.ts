@@ -8,7 +8,7 @@ import type { CliCommand } from '../command.ts';
 import {
   describeOutcome, isFinal, JOB_EXIT, JOB_EXIT_USAGE, jobPath, progressText, type JobStatusAnswer, type ProgressAnswer,
 } from './job-outcome.ts';
-import { ApiCallError, reportApiError, parseAnswer, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, sendToApi, UsageError, type Remote } from './review-http.ts';
+import { ApiCallError, reportApiError, parseAnswer, REMOTE_OPTIONS, REMOTE_USAGE, remoteFrom, sendToApi, UsageError, type Remote } from './remote-api.ts';
 
 const MAX_RECONNECTS = 5;
 const RECONNECT_DELAY_MS = 2000;

@@ -4,7 +4,7 @@
  * the same S, B, θ; the time to periapsis is then ~0).
  */
 import { InvalidInputError } from '../../contract/errors.ts';
-import type { EventRecord } from '../propagation-types.ts';
+import type { EventRecord } from '../run/propagation-types.ts';
 import type { BodyName } from '../types.ts';
 import { bPlanePartials, type BPlanePartials } from './b-plane.ts';
 import type { BPlaneReference } from './reference-plane.ts';

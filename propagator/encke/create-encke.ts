@@ -6,7 +6,7 @@
  * near-parabolic conic is harmless because the universal-variable solver is exact there.)
  */
 import type { ForceModel } from '../forces/index.ts';
-import type { PropagationDynamics } from '../propagation-dynamics.ts';
+import type { PropagationDynamics } from '../run/propagation-dynamics.ts';
 import { degenerateReason, EnckeDynamics } from './encke-dynamics.ts';
 
 /** What Encke needs from the checked request: start epoch (TDB s from J2000), step-control tolerances

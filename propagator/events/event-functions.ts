@@ -12,7 +12,7 @@
  */
 import { RADIUS_KM } from '../constants.ts';
 import type { Ephemeris } from '../ephemeris/ephemeris.ts';
-import type { EventRecord, EventSpec } from '../propagation-types.ts';
+import type { EventRecord, EventSpec } from '../run/propagation-types.ts';
 import type { BodyName } from '../types.ts';
 
 /** One event function g(t, x) of a segment: t TDB s from J2000, x the Cartesian state (km, km/s,

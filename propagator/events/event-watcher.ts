@@ -5,7 +5,7 @@
  * event (user stop, sphere-of-influence crossing) so the run can end or switch there.
  */
 import type { Ephemeris } from '../ephemeris/ephemeris.ts';
-import type { EventRecord, PropagationOutcome } from '../propagation-types.ts';
+import type { EventRecord, PropagationOutcome } from '../run/propagation-types.ts';
 import type { BodyName, StateVector } from '../types.ts';
 import { brentRoot } from './brent-root.ts';
 import { type ActiveEvent, crossed } from './event-functions.ts';

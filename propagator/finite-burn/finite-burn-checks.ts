@@ -5,7 +5,7 @@
  * Epochs TDB s from J2000; durations s; thrust N; mass kg; mass flow kg/s.
  */
 import { InvalidInputError } from '../../contract/errors.ts';
-import type { FiniteBurnSpec, PropagationRequest, ThrustAxes } from '../propagation-types.ts';
+import type { FiniteBurnSpec, PropagationRequest, ThrustAxes } from '../run/propagation-types.ts';
 
 /** A checked finite burn with its index in the request, in time order. */
 export interface OrderedFiniteBurn extends FiniteBurnSpec {

@@ -18,7 +18,7 @@ import { changeCentre, stateToFrame } from '../frames/index.ts';
 import { multiply6Columns } from '../math/matrix6.ts';
 import type {
   FiniteBurnRecord, FiniteBurnSensitivity, PropagationOptions, PropagationRequest, PropagationResult,
-} from '../propagation-types.ts';
+} from '../run/propagation-types.ts';
 import type { StateVector, Vec3 } from '../types.ts';
 import { checkFiniteBurns, type OrderedFiniteBurn } from './finite-burn-checks.ts';
 import { arcMassKg, thrustAccelerationInto, type ThrustArc } from './thrust-arc-dynamics.ts';

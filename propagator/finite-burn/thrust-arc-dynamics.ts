@@ -12,8 +12,8 @@
  */
 import { InvalidInputError } from '../../contract/errors.ts';
 import type { ForceModel } from '../forces/index.ts';
-import type { PropagationDynamics } from '../propagation-dynamics.ts';
-import type { ThrustAxes } from '../propagation-types.ts';
+import type { PropagationDynamics } from '../run/propagation-dynamics.ts';
+import type { ThrustAxes } from '../run/propagation-types.ts';
 import type { Vec3 } from '../types.ts';
 import { resetStm, STATE_WITH_STM_LENGTH, STM_OFFSET } from '../variational.ts';
 import { ThrustDirection } from './thrust-direction.ts';

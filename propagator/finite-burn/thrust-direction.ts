@@ -6,7 +6,7 @@
  * ∂h/∂v = [r]× (standard vector calculus).
  */
 import { InvalidInputError } from '../../contract/errors.ts';
-import type { ThrustAxes } from '../propagation-types.ts';
+import type { ThrustAxes } from '../run/propagation-types.ts';
 
 type M3 = Float64Array;
 

@@ -2,7 +2,7 @@
 import { GM_KM3_S2, J2_EARTH, J2_REFERENCE_RADIUS_EARTH_KM, RADIUS_KM } from '../constants.ts';
 import type { Ephemeris } from '../ephemeris/ephemeris.ts';
 import { InvalidInputError } from '../../contract/errors.ts';
-import type { ForceModelSpec } from '../propagation-types.ts';
+import type { ForceModelSpec } from '../run/propagation-types.ts';
 import { BODY_NAMES, type BodyName } from '../types.ts';
 import { solarPressureStrength } from './solar-pressure.ts';
 

@@ -5,7 +5,7 @@
  */
 import type { BodyPositionsPlan, Ephemeris } from '../ephemeris/ephemeris.ts';
 import { planBodyPositions } from '../ephemeris/body-positions-plan.ts';
-import type { ForceModelSpec } from '../propagation-types.ts';
+import type { ForceModelSpec } from '../run/propagation-types.ts';
 import type { BodyName } from '../types.ts';
 import { checkForceModel, type CheckedForceModel } from './force-model-checks.ts';
 import { addJ2 } from './zonal-j2.ts';

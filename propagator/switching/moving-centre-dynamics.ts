@@ -9,8 +9,8 @@
 import type { ForceModel } from '../forces/index.ts';
 import type { MovingCentre } from '../forces/moving-centre.ts';
 import type { RhsFunction } from '../integrators/index.ts';
-import type { PropagationDynamics } from '../propagation-dynamics.ts';
-import type { PropagationMethod } from '../propagation-types.ts';
+import type { PropagationDynamics } from '../run/propagation-dynamics.ts';
+import type { PropagationMethod } from '../run/propagation-types.ts';
 
 /** Re-anchoring threshold, one frozen object that code and docs point to. */
 export const MOVING_CENTRE_DEFAULTS = Object.freeze({

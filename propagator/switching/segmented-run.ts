@@ -7,13 +7,13 @@
  * J2 applies only while the originally requested central body is the centre.
  */
 import { InvalidInputError } from '../../contract/errors.ts';
-import { PROPAGATION_DEFAULTS } from '../propagation-defaults.ts';
+import { PROPAGATION_DEFAULTS } from '../run/propagation-defaults.ts';
 import { buildEvents, EventWatcher, type CartesianSource, type DenseStepper, type EventStop } from '../events/index.ts';
 import { changeCentre, stateToFrame } from '../frames/index.ts';
 import { multiply6Columns } from '../math/matrix6.ts';
 import type {
   EventRecord, PropagationOptions, PropagationRequest, PropagationResult,
-} from '../propagation-types.ts';
+} from '../run/propagation-types.ts';
 import type { BodyName, StateVector } from '../types.ts';
 import { PRIMARY_OF, soiRadiusKm } from './sphere-of-influence.ts';
 

@@ -14,7 +14,7 @@ import { openArchive, type PlanArchive } from '../../archive/index.ts';
 import { authenticate, openTokenStore, type Role, type TokenStore } from '../../api/auth/index.ts';
 import type { AppDeps } from '../../api/deps.ts';
 import { errorHandler, notFound } from '../../api/errors.ts';
-import { REVIEW_ROUTE_MODULES } from '../../api/review/route-modules.ts';
+import { REVIEW_ROUTE_MODULES } from '../../api/routes/index.ts';
 import { ApiRoutes, type RouteSpec } from '../../api/route-table.ts';
 import { ArchivePlanReader } from '../../api/plan-reader.ts';
 import { planRoutes } from '../../api/routes/plans.ts';

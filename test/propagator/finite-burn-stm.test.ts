@@ -5,8 +5,8 @@
  * variational equations, e.g. Montenbruck & Gill, Satellite Orbits, §7.1).
  */
 import { describe, expect, it } from 'vitest';
-import { propagate } from '../../propagator/propagate.ts';
-import type { FiniteBurnSpec, ForceModelSpec, PropagationRequest } from '../../propagator/propagation-types.ts';
+import { propagate } from '../../propagator/run/propagate.ts';
+import type { FiniteBurnSpec, ForceModelSpec, PropagationRequest } from '../../propagator/run/propagation-types.ts';
 import type { Vec3 } from '../../propagator/types.ts';
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 

@@ -5,9 +5,9 @@
  * checks that refuse what cannot be flown.
  */
 import { describe, expect, it } from 'vitest';
-import { propagate } from '../../propagator/propagate.ts';
+import { propagate } from '../../propagator/run/propagate.ts';
 import { STANDARD_GRAVITY_M_S2 } from '../../propagator/constants.ts';
-import type { FiniteBurnSpec, PropagationRequest } from '../../propagator/propagation-types.ts';
+import type { FiniteBurnSpec, PropagationRequest } from '../../propagator/run/propagation-types.ts';
 import type { Vec3 } from '../../propagator/types.ts';
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 

@@ -2,7 +2,7 @@
  * Forces seen through whole propagations, against analytic results outside the code under test.
  */
 import { describe, expect, it } from 'vitest';
-import { propagate } from '../../propagator/propagate.ts';
+import { propagate } from '../../propagator/run/propagate.ts';
 import { keplerPropagate, stateToConic } from '../../propagator/kepler/index.ts';
 import { GM_KM3_S2, J2_EARTH, J2_REFERENCE_RADIUS_EARTH_KM } from '../../propagator/constants.ts';
 import { solarPressureStrength } from '../../propagator/forces/index.ts';

@@ -4,7 +4,7 @@ import {
 } from '../../propagator/forces/index.ts';
 import { GM_KM3_S2, J2_EARTH, J2_REFERENCE_RADIUS_EARTH_KM, KM_PER_AU } from '../../propagator/constants.ts';
 import { InvalidInputError } from '../../contract/errors.ts';
-import type { ForceModelSpec } from '../../propagator/propagation-types.ts';
+import type { ForceModelSpec } from '../../propagator/run/propagation-types.ts';
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 
 type Field = (r: number[], acc: Float64Array, partials: Float64Array | null) => void;

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { propagate, propagateAsync } from '../../propagator/propagate.ts';
+import { propagate, propagateAsync } from '../../propagator/run/propagate.ts';
 import { keplerPropagate } from '../../propagator/kepler/index.ts';
 import { GM_KM3_S2, RADIUS_KM } from '../../propagator/constants.ts';
 import { InvalidInputError, OutOfSpanError } from '../../contract/errors.ts';
 import { eclipticFromEquatorialJ2000 } from '../../propagator/frames/index.ts';
-import type { PropagationRequest } from '../../propagator/propagation-types.ts';
+import type { PropagationRequest } from '../../propagator/run/propagation-types.ts';
 import type { Vec3 } from '../../propagator/types.ts';
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { propagate } from '../../propagator/propagate.ts';
+import { propagate } from '../../propagator/run/propagate.ts';
 import { keplerStm } from '../../propagator/kepler/index.ts';
 import { GM_KM3_S2 } from '../../propagator/constants.ts';
-import type { ForceModelSpec, VelocityImpulse, PropagationRequest } from '../../propagator/propagation-types.ts';
+import type { ForceModelSpec, VelocityImpulse, PropagationRequest } from '../../propagator/run/propagation-types.ts';
 import type { Vec3 } from '../../propagator/types.ts';
 import { circularEphemeris } from './forces-test-ephemeris.ts';
 

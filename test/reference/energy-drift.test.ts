@@ -5,9 +5,9 @@
  * the propagator issue: relative drift < 1e-10.
  */
 import { describe, expect, it } from 'vitest';
-import { propagate } from '../../propagator/propagate.ts';
+import { propagate } from '../../propagator/run/propagate.ts';
 import { GM_KM3_S2 } from '../../propagator/constants.ts';
-import type { PropagationRequest, PropagationResult } from '../../propagator/propagation-types.ts';
+import type { PropagationRequest, PropagationResult } from '../../propagator/run/propagation-types.ts';
 import type { StateVector } from '../../propagator/types.ts';
 import { circularEphemeris } from '../propagator/forces-test-ephemeris.ts';
 

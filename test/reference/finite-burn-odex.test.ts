@@ -8,9 +8,9 @@
  */
 import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
-import { propagate } from '../../propagator/propagate.ts';
+import { propagate } from '../../propagator/run/propagate.ts';
 import { GM_KM3_S2, STANDARD_GRAVITY_M_S2 } from '../../propagator/constants.ts';
-import type { FiniteBurnSpec, ThrustAxes } from '../../propagator/propagation-types.ts';
+import type { FiniteBurnSpec, ThrustAxes } from '../../propagator/run/propagation-types.ts';
 import type { Vec3 } from '../../propagator/types.ts';
 import { circularEphemeris } from '../propagator/forces-test-ephemeris.ts';
 

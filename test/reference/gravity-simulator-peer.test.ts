@@ -20,7 +20,7 @@
  */
 import * as Astronomy from 'astronomy-engine';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { propagate } from '../../propagator/propagate.ts';
+import { propagate } from '../../propagator/run/propagate.ts';
 import { createBuiltinEphemeris } from '../../propagator/ephemeris/index.ts';
 import { conicToState } from '../../propagator/kepler/index.ts';
 import { ttFromTdb } from '../../propagator/time/index.ts';

@@ -1,0 +1,7 @@
+// Entry of a CCSDS export thread when running from the TypeScript sources (tests, development): registers the tsx
+// loader in this thread (as queue/worker/planner-thread-entry.mjs does), then loads the TypeScript side. Plain .mjs
+// because a fresh thread cannot read .ts before the loader exists. The compiled build starts export-thread.js.
+import { register } from 'tsx/esm/api';
+
+register();
+await import('./export-thread.ts');

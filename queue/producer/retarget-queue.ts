@@ -1,0 +1,366 @@
+/**
+ * The producer side of the retarget queue, used by the API: submit (idempotent), status, cancel, counts.
+ * Knows nothing of HTTP; returns outcomes the API maps to status codes.
+ */
+import { randomUUID } from 'node:crypto';
+import { Queue, type Job, type JobState as BullState } from 'bullmq';
+import type { Redis } from 'ioredis';
+import { canonicalHash, sha256Hex } from '../../archive/index.ts';
+import { budgetRequestHash, planLeapSeconds, problemHash, type PlanningProblem } from '../../planner/index.ts';
+import {
+  BUDGET_JOB_NAMES, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus,
+} from '../../contract/budget-job-types.ts';
+import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../../propagator/index.ts';
+import {
+  CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
+} from '../cancellation.ts';
+import { createRedis } from '../config/connection.ts';
+import { QueueUnavailableError } from './queue-unavailable.ts';
+import {
+  BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
+  type RetargetJobData, type RetargetJobResult,
+} from '../../contract/job-types.ts';
+
+export interface RetargetQueueOptions {
+  redisUrl: string;
+  prefix: string;
+  /** Tries for transient failures. @defaultValue 3 */
+  attempts?: number;
+  /** Seconds finished jobs are kept. @defaultValue 7 days */
+  retentionS?: number;
+  /** The table the API validated problems with; it travels with each job so the worker plans with it.
+   * @defaultValue BUILTIN_LEAP_SECONDS */
+  leapSeconds?: LeapSecondTable;
+}
+
+/** `created`: a new job (HTTP 202). `existing`: same key, same request (200). `conflict`: same key, other request (409). */
+export type SubmitOutcome =
+  | { outcome: 'created'; jobId: string }
+  | { outcome: 'existing'; jobId: string }
+  | { outcome: 'conflict'; jobId: string };
+
+export type CancelOutcome =
+  | { outcome: 'cancelled'; jobId: string; removed: Pick<RetargetJobData, 'problem' | 'problemHash' | 'reason' | 'submittedBy'> }
+  | { outcome: 'cancelling'; jobId: string }
+  | { outcome: 'already-finished'; jobId: string; state: JobState }
+  | { outcome: 'not-found'; jobId: string };
+
+/** Job counts by client-facing state. */
+export type JobCounts = Record<'waiting' | 'delayed' | 'active' | 'waiting-children' | 'completed' | 'failed', number>;
+
+/**
+ * The job ids this queue issues: `j-<uuid>`, `k-<40 hex>` (idempotency key) and sample batches
+ * `<parent>-mc-<firstIndex>`. Any other spelling cannot name a job, and must not reach BullMQ: ids such as
+ * `id`, `events` or `completed` are the queue's own Redis keys (of other types), which it would read as a job.
+ */
+const ISSUED_JOB_ID = /^(?:j-[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}|k-[0-9a-f]{40})(?:-mc-\d{1,9})?$/;
+
+/** True when `jobId` has the shape of an id this queue issues (not that such a job exists). */
+export function isIssuedJobId(jobId: string): boolean {
+  return ISSUED_JOB_ID.test(jobId);
+}
+
+const CLIENT_STATE: Record<string, JobState> = {
+  waiting: 'waiting', prioritized: 'waiting', 'waiting-children': 'waiting-children', delayed: 'delayed',
+  active: 'active', completed: 'completed', failed: 'failed',
+};
+
+export class RetargetQueue {
+  readonly queue: Queue<RetargetJobData, RetargetJobResult>;
+  readonly redis: Redis;
+  private readonly attempts: number;
+  private readonly retentionS: number;
+
+  constructor(private readonly opts: RetargetQueueOptions) {
+    this.redis = createRedis(opts.redisUrl, { failFast: true, name: 'veer-producer' });
+    this.queue = new Queue(RETARGET_QUEUE, { connection: this.redis, prefix: opts.prefix });
+    // Connection trouble shows in /ready and in failed requests; no log line per reconnect attempt.
+    this.queue.on('error', () => {});
+    this.attempts = opts.attempts ?? 3;
+    this.retentionS = opts.retentionS ?? 7 * 86_400;
+  }
+
+  get prefix(): string { return this.opts.prefix; }
+
+  /** The leap-second table problems are validated with and that each job carries to the worker. */
+  get leapSeconds(): LeapSecondTable { return this.opts.leapSeconds ?? BUILTIN_LEAP_SECONDS; }
+
+  /** The job with this id, or undefined when there is none or the id is not one this queue issues. */
+  async findJob(jobId: string): Promise<Job<RetargetJobData, RetargetJobResult> | undefined> {
+    this.assertConnected();
+    if (!isIssuedJobId(jobId)) return undefined;
+    return (await this.queue.getJob(jobId)) ?? undefined;
+  }
+
+  /**
+   * Enqueues a validated request. With an idempotency key the job id is derived from (submitter, key), so a
+   * repeat finds the first job; the stored request hash tells a true repeat from a key reused for other work.
+   */
+  async submit(request: JobRequest, submittedBy: string): Promise<SubmitOutcome> {
+    this.assertConnected();
+    const leapSeconds = planLeapSeconds(this.leapSeconds);
+    const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
+    const requestHash = canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
+    return this.enqueue(JOB_NAMES.retarget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
+      problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
+      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'plan',
+      problemHash: hashOfProblem, leapSeconds,
+      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
+    } satisfies RetargetJobData));
+  }
+
+  /**
+   * Enqueues a validated Δv budget request as a `budget` job (same idempotency rules as `submit`). The study
+   * it yields is never a plan.
+   */
+  async submitBudget(request: BudgetJobRequest, submittedBy: string): Promise<SubmitOutcome> {
+    this.assertConnected();
+    const problem = request.request.problem as PlanningProblem;
+    const leapSeconds = planLeapSeconds(this.leapSeconds);
+    const hashOfProblem = problemHash(problem, leapSeconds);
+    const requestHash = canonicalHash({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority });
+    return this.enqueue(BUDGET_JOB_NAMES.budget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
+      problem, budget: request.request, reason: request.reason, priority: request.priority, submittedBy,
+      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'prepare', problemHash: hashOfProblem, leapSeconds,
+      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
+    } satisfies BudgetJobData));
+  }
+
+  /** Adds a job of kind `name` with the idempotency handling shared by both kinds. */
+  private async enqueue(name: string, idempotencyKey: string | undefined, submittedBy: string, requestHash: string,
+    priority: 'urgent' | 'routine', dataOf: (submissionId: string) => RetargetJobData | BudgetJobData): Promise<SubmitOutcome> {
+    const jobId = idempotencyKey
+      ? `k-${sha256Hex(`${submittedBy}\n${idempotencyKey}`).slice(0, 40)}`
+      : `j-${randomUUID()}`;
+    if (idempotencyKey) {
+      const existing = await this.findJob(jobId);
+      if (existing) return { outcome: existing.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
+      // Cancelled before it ran (no job left): the record keeps the request hash to answer the same way.
+      const cancelled = await readCancel(this.redis, this.prefix, jobId);
+      if (cancelled) {
+        const same = cancelled.requestHash === undefined || cancelled.requestHash === requestHash;
+        return { outcome: same ? 'existing' : 'conflict', jobId };
+      }
+    }
+    const submissionId = randomUUID();
+    await this.queue.add(name, dataOf(submissionId) as RetargetJobData, {
+      jobId,
+      priority: priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
+      attempts: this.attempts,
+      backoff: { type: 'exponential', delay: 2_000 },
+      removeOnComplete: { age: this.retentionS },
+      removeOnFail: { age: this.retentionS },
+    });
+    if (!idempotencyKey) return { outcome: 'created', jobId };
+    // Two concurrent first submissions with one key: BullMQ keeps the first; tell the second apart.
+    const stored = await this.findJob(jobId);
+    if (!stored || stored.data.submissionId === submissionId) return { outcome: 'created', jobId };
+    return { outcome: stored.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
+  }
+
+  /** A budget job's status (with its study's id when done), or undefined when there is no such budget job. */
+  async budgetStatus(jobId: string): Promise<BudgetJobStatus | undefined> {
+    this.assertConnected();
+    if (!isIssuedJobId(jobId)) return undefined;
+    const { job, state } = await this.snapshot(jobId);
+    if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
+    const cancel = await readCancel(this.redis, this.prefix, jobId);
+    const status = this.describe(job, state, cancel);
+    const data = job.data as unknown as BudgetJobData;
+    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples') ?? status.progress;
+    const result = status.state === 'completed' && job.returnvalue ? { ...(job.returnvalue as unknown as BudgetJobResult) } : null;
+    if (result) delete result.result;
+    return { ...status, kind: 'delta-v-budget', result };
+  }
+
+  /** The finished budget job's result (with the study when no archive holds it). */
+  async budgetResult(jobId: string): Promise<BudgetJobResult | undefined> {
+    const job = await this.findJob(jobId);
+    if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
+    return (job.returnvalue as unknown as BudgetJobResult | null) ?? undefined;
+  }
+
+  /** A retarget job's status, or undefined when unknown (never submitted, or expired). */
+  async status(jobId: string): Promise<JobStatus | undefined> {
+    this.assertConnected();
+    if (!isIssuedJobId(jobId)) return undefined;
+    const { job, state } = await this.snapshot(jobId);
+    const cancel = await readCancel(this.redis, this.prefix, jobId);
+    if (!job || job.name !== JOB_NAMES.retarget) {
+      if (!cancel?.removedWhileWaiting) return undefined;
+      const w = cancel.removedWhileWaiting;
+      return {
+        id: jobId, state: 'cancelled', priority: w.priority === 'urgent' ? 'urgent' : 'routine', submittedBy: w.submittedBy,
+        submittedAt: w.submittedAt, reason: w.reason, spacecraftName: w.spacecraftName, attemptsMade: 0, progress: null,
+        startedAt: null, finishedAt: cancel.at, result: null, cancelRequested: true,
+        error: { name: 'CancelledError', message: `cancelled by ${cancel.by} before it ran: ${cancel.reason}` },
+      };
+    }
+    const status = this.describe(job, state, cancel);
+    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job) ?? status.progress;
+    return status;
+  }
+
+  /**
+   * Progress of a fanned-out Monte Carlo run, from its child jobs (ids end in `-mc-<firstIndex>`): samples in
+   * finished batches over all samples. Exact, since batch sizes follow from the first indices.
+   */
+  async fanOutProgress(job: Job<RetargetJobData>, total = job.data.problem.dispersion.samples, label = 'Monte Carlo'): Promise<JobProgress | null> {
+    const deps = await job.getDependencies({ processed: { count: 10_000 }, unprocessed: { count: 10_000 } });
+    const firstIndex = (key: string): number => Number(/-mc-(\d+)$/.exec(key)?.[1] ?? NaN);
+    const done = Object.keys(deps.processed ?? {}).map(firstIndex);
+    const all = [...done, ...(deps.unprocessed ?? []).map(firstIndex)].filter(Number.isFinite).sort((a, b) => a - b);
+    if (all.length === 0) return null;
+    const sizeOf = (first: number): number => {
+      const next = all.find((f) => f > first);
+      return (next ?? total) - first;
+    };
+    const samplesDone = done.filter(Number.isFinite).reduce((sum, f) => sum + sizeOf(f), 0);
+    return {
+      stage: 'dispersion', fraction: 0.5 + 0.45 * (samplesDone / total),
+      message: `${label}: ${done.length} of ${all.length} batches done`, samplesDone, samplesTotal: total,
+      at: new Date().toISOString(),
+    };
+  }
+
+  /**
+   * The job and its state, consistent: reading the job and then its state can see a job that finished in
+   * between (state completed, no result yet), so a finished state is followed by a fresh read of the job.
+   */
+  private async snapshot(jobId: string): Promise<{ job: Job<RetargetJobData, RetargetJobResult> | undefined; state: string }> {
+    let job = await this.findJob(jobId);
+    if (!job) return { job, state: 'unknown' };
+    const state = await job.getState();
+    if ((state === 'completed' || state === 'failed') && !job.finishedOn) job = await this.findJob(jobId);
+    return { job, state };
+  }
+
+  /** The finished job's result (with the plan when no archive holds it). */
+  async result(jobId: string): Promise<RetargetJobResult | undefined> {
+    const job = await this.findJob(jobId);
+    return job?.returnvalue ?? undefined;
+  }
+
+  /**
+   * Cancels a job: a waiting one is removed at once (`cancelled`); a running one is told to stop
+   * (`cancelling`; it ends failed with a CancelledError reason, reported as `cancelled`).
+   */
+  async cancel(jobId: string, by: string, reason: string): Promise<CancelOutcome> {
+    this.assertConnected();
+    if (!isIssuedJobId(jobId)) return { outcome: 'not-found', jobId };
+    const job = await this.findJob(jobId);
+    if (!job || (job.name !== JOB_NAMES.retarget && job.name !== BUDGET_JOB_NAMES.budget)) {
+      const earlier = await readCancel(this.redis, this.prefix, jobId);
+      return earlier ? { outcome: 'already-finished', jobId, state: 'cancelled' } : { outcome: 'not-found', jobId };
+    }
+    const state = await job.getState();
+    if (state === 'completed' || state === 'failed') {
+      const cancel = await readCancel(this.redis, this.prefix, jobId);
+      return { outcome: 'already-finished', jobId, state: this.clientState(state, job, cancel) };
+    }
+    const record: CancelRecord = { by, at: new Date().toISOString(), reason, requestHash: job.data.requestHash };
+    if (state === 'waiting' || state === 'prioritized' || state === 'delayed') {
+      record.removedWhileWaiting = {
+        submittedBy: job.data.submittedBy, submittedAt: job.data.submittedAt, reason: job.data.reason,
+        priority: job.data.priority, spacecraftName: job.data.problem.spacecraft.name,
+      };
+      await requestCancel(this.redis, this.prefix, jobId, record, this.retentionS);
+      try {
+        await job.remove();
+        const { problem, problemHash: hash, reason: why, submittedBy } = job.data;
+        return { outcome: 'cancelled', jobId, removed: { problem, problemHash: hash, reason: why, submittedBy } };
+      } catch {
+        // It became active meanwhile (a locked job cannot be removed): the worker sees the marker.
+        delete record.removedWhileWaiting;
+      }
+    }
+    await requestCancel(this.redis, this.prefix, jobId, record, this.retentionS);
+    return { outcome: 'cancelling', jobId };
+  }
+
+  /** Counts of jobs by state (both job kinds). */
+  async counts(): Promise<JobCounts> {
+    this.assertConnected();
+    const c = await this.queue.getJobCounts('waiting', 'prioritized', 'delayed', 'active', 'waiting-children', 'completed', 'failed');
+    return {
+      waiting: (c.waiting ?? 0) + (c.prioritized ?? 0), delayed: c.delayed ?? 0, active: c.active ?? 0,
+      'waiting-children': c['waiting-children'] ?? 0, completed: c.completed ?? 0, failed: c.failed ?? 0,
+    };
+  }
+
+  /** Workers connected to the queue now (BullMQ lists them by their Redis client names). */
+  async workerCount(): Promise<number> {
+    this.assertConnected();
+    return (await this.queue.getWorkers()).length;
+  }
+
+  /** Round trip to Redis, ms; throws when Redis does not answer. */
+  async ping(): Promise<number> {
+    this.assertConnected();
+    const t0 = performance.now();
+    await this.redis.ping();
+    return performance.now() - t0;
+  }
+
+  /** Lists recent retarget jobs, newest first, in the given BullMQ states. */
+  async list(states: BullState[], start: number, end: number): Promise<JobStatus[]> {
+    this.assertConnected();
+    const jobs = await this.queue.getJobs(states, start, end, false);
+    const out: JobStatus[] = [];
+    for (const job of jobs) {
+      if (!job || job.name !== JOB_NAMES.retarget) continue;
+      out.push(this.describe(job, await job.getState(), await readCancel(this.redis, this.prefix, String(job.id))));
+    }
+    return out;
+  }
+
+  async close(): Promise<void> {
+    // While Redis is out of reach a graceful close would wait for it: drop the connection first then.
+    if (!this.connected) this.redis.disconnect();
+    await this.queue.close();
+    this.redis.disconnect();
+  }
+
+  /** True while the connection to Redis is up. */
+  get connected(): boolean { return this.redis.status === 'ready'; }
+
+  /** Refuses at once while Redis is out of reach, rather than queueing the command until it times out. */
+  private assertConnected(): void {
+    if (!this.connected) throw new QueueUnavailableError(`Redis not reachable (connection ${this.redis.status})`);
+  }
+
+  /** Key of the cancel marker (for tests and tools). */
+  cancelKey(jobId: string): string { return cancelKey(this.prefix, jobId); }
+
+  private clientState(state: string, job: Job<RetargetJobData>, cancel: CancelRecord | null): JobState {
+    if (state === 'failed' && (cancel || job.failedReason?.startsWith(CANCELLED_REASON_PREFIX))) return 'cancelled';
+    return CLIENT_STATE[state] ?? 'unknown';
+  }
+
+  private describe(job: Job<RetargetJobData, RetargetJobResult>, state: string, cancel: CancelRecord | null): JobStatus {
+    const clientState = this.clientState(state, job, cancel);
+    const progress = typeof job.progress === 'object' && job.progress !== null ? job.progress as unknown as JobProgress : null;
+    const result = job.returnvalue ? { ...job.returnvalue } : null;
+    if (result) delete result.plan;
+    return {
+      id: String(job.id), state: clientState, priority: job.data.priority, submittedBy: job.data.submittedBy,
+      submittedAt: job.data.submittedAt, reason: job.data.reason, spacecraftName: job.data.problem.spacecraft.name,
+      problemHash: job.data.problemHash, attemptsMade: job.attemptsMade, progress,
+      startedAt: job.processedOn ? new Date(job.processedOn).toISOString() : null,
+      finishedAt: job.finishedOn ? new Date(job.finishedOn).toISOString() : null,
+      result: clientState === 'completed' ? result : null,
+      error: clientState === 'failed' || clientState === 'cancelled' ? parseFailure(job.failedReason, cancel) : null,
+      cancelRequested: cancel !== null,
+    };
+  }
+}
+
+/** Splits `Name [field]: message` (as the processor writes failures) back into parts. */
+export function parseFailure(reason: string | undefined, cancel: CancelRecord | null): { name: string; field?: string; message: string } {
+  if (cancel && !(reason ?? '').startsWith(CANCELLED_REASON_PREFIX)) {
+    return { name: 'CancelledError', message: `cancelled by ${cancel.by}: ${cancel.reason}` };
+  }
+  const m = /^([A-Za-z]+)(?: \[([^\]]+)\])?: ([\s\S]*)$/.exec(reason ?? '');
+  if (!m) return { name: 'Error', message: reason ?? 'unknown failure' };
+  return { name: m[1] ?? 'Error', ...(m[2] ? { field: m[2] } : {}), message: m[3] ?? '' };
+}

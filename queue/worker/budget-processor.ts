@@ -1,0 +1,87 @@
+/**
+ * The Δv budget job processors, on the same machinery as retargeting (processor.ts): time limit,
+ * cancellation, progress, final-error classification, and the BullMQ parent/child flow of the Monte Carlo
+ * fan-out. A `budget` job: prepare (nominal plan + linear model, on a planner thread) → add
+ * `budget-samples` child jobs for the non-linear path and wait → assemble (linear path + statistics) →
+ * store the study through the sink once → result. Sample i of a batch depends on (seed, i) only, so the
+ * result does not depend on how many workers ran the batches.
+ */
+import { WaitingChildrenError, type Job } from 'bullmq';
+import type { BudgetResult, BudgetSample } from '../../planner/index.ts';
+import {
+  BUDGET_JOB_NAMES, type BudgetBatchData, type BudgetBatchResult, type BudgetJobData, type BudgetJobResult,
+} from '../../contract/budget-job-types.ts';
+import { readCancel } from '../cancellation.ts';
+import {
+  addChildBatches, classify, progressWriter, recordFinal, runChildBatch, runControl, sampleBatches, type ProcessorDeps,
+} from './processor.ts';
+
+async function finishStudy(deps: ProcessorDeps, job: Job<BudgetJobData>, result: BudgetResult): Promise<BudgetJobResult> {
+  const stored = await deps.sink.storeStudy({ jobId: String(job.id), actor: deps.actor, submittedBy: job.data.submittedBy, study: result });
+  deps.logger.info({ jobId: job.id, studyId: stored.studyId, created: stored.created }, 'budget study stored');
+  return {
+    kind: 'delta-v-budget', studyId: stored.studyId, problemHash: result.problemHash, storedIn: deps.sink.kind,
+    agreementPassed: result.agreement ? result.agreement.passed : null,
+    ...(deps.sink.keepsPlanInJobResult ? { result } : {}),
+  };
+}
+
+/** Processes a `budget` job (see the file comment). */
+export async function processBudget(deps: ProcessorDeps, job: Job<BudgetJobData>, token: string | undefined, bullSignal?: AbortSignal): Promise<BudgetJobResult> {
+  const jobId = String(job.id);
+  if (!job.data.firstStartedAt) await job.updateData({ ...job.data, firstStartedAt: new Date().toISOString() });
+  const deadlineMs = Date.parse(job.data.firstStartedAt ?? '') + deps.jobTimeLimitS * 1000;
+  const control = runControl(deps, jobId, null, deadlineMs, bullSignal);
+  const report = progressWriter(job, deps.logger);
+  try {
+    const cancel = await readCancel(deps.redis, deps.prefix, jobId);
+    if (cancel) control.cancel(cancel.by);
+    if (control.signal.aborted) throw new Error('stopped before start');
+    const request = job.data.budget;
+    const total = request.nonlinearSamples;
+    if (job.data.step === 'prepare') {
+      await deps.sink.recordSubmitted({ jobId, actor: job.data.submittedBy, problem: request, problemHash: job.data.problemHash, reason: job.data.reason });
+      const leapSeconds = job.data.leapSeconds ?? deps.leapSeconds;
+      const prepared = await deps.pool.run({ kind: 'budget-prepare', request, leapSeconds }, { signal: control.signal, onProgress: report });
+      if (!prepared.nominal || total === 0) {
+        const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: prepared.plan, nominal: prepared.nominal, nonlinear: [] }, { signal: control.signal });
+        return await finishStudy(deps, job, result);
+      }
+      await job.updateData({ ...job.data, step: 'await-samples', nominal: prepared.nominal });
+    }
+    const nominal = job.data.nominal;
+    if (!nominal) throw new Error(`budget job ${jobId} is waiting for samples but holds no nominal model`);
+    const values = await job.getChildrenValues<BudgetBatchResult>();
+    if (Object.keys(values).length < sampleBatches(total, deps.batchSize).length) {
+      const batches = await addChildBatches(deps, job, BUDGET_JOB_NAMES.samples, total, (b) => ({
+        parentId: jobId, budget: request, nominal, firstIndex: b.firstIndex, count: b.count,
+        priority: job.data.priority, deadlineAt: new Date(deadlineMs).toISOString(),
+      } satisfies BudgetBatchData));
+      await job.updateData({ ...job.data, batches });
+      report({ stage: 'dispersion', fraction: 0.2, message: `non-linear budget samples: ${batches} batches queued`, samplesDone: 0, samplesTotal: total });
+      if (!token) throw new Error('no lock token to wait for child jobs');
+      if (await job.moveToWaitingChildren(token)) throw new WaitingChildrenError();
+    }
+    const all = await job.getChildrenValues<BudgetBatchResult>();
+    const samples: BudgetSample[] = Object.values(all).sort((a, b) => a.firstIndex - b.firstIndex).flatMap((b) => b.samples);
+    if (samples.length !== total) throw new Error(`expected ${total} non-linear budget samples from child jobs, got ${samples.length}`);
+    report({ stage: 'dispersion', fraction: 0.95, message: 'linear path and statistics', samplesDone: total, samplesTotal: total });
+    const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: nominal.plan, nominal, nonlinear: samples }, { signal: control.signal });
+    report({ stage: 'done', fraction: 1, message: 'budget study ready for review', samplesDone: total, samplesTotal: total });
+    return await finishStudy(deps, job, result);
+  } catch (error) {
+    const outcome = classify(error, control.stopReason(), deps);
+    await recordFinal(deps, job, outcome);
+    throw outcome;
+  } finally {
+    control.dispose();
+  }
+}
+
+/** Processes a `budget-samples` child job: one batch of non-linear budget samples. */
+export async function processBudgetBatch(deps: ProcessorDeps, job: Job<BudgetBatchData>, bullSignal?: AbortSignal): Promise<BudgetBatchResult> {
+  const samples = await runChildBatch(deps, job, bullSignal, (signal) => deps.pool.run({
+    kind: 'budget-samples', request: job.data.budget, nominal: job.data.nominal, firstIndex: job.data.firstIndex, count: job.data.count,
+  }, { signal }));
+  return { firstIndex: job.data.firstIndex, samples };
+}

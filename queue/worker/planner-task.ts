@@ -1,0 +1,58 @@
+/** Messages between the worker process and its planner threads (structured-clone plain data only). */
+import type {
+  BudgetNominal, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress,
+} from '../../planner/index.ts';
+
+export type PlannerTask =
+  | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds }
+  | { kind: 'samples'; problem: PlanningProblem; plan: ManeuverPlan; seed: number; firstIndex: number; count: number }
+  | { kind: 'combine'; problem: PlanningProblem; plan: ManeuverPlan; samples: DispersionSample[] }
+  | { kind: 'budget-prepare'; request: BudgetRequest; leapSeconds: PlanLeapSeconds }
+  | { kind: 'budget-samples'; request: BudgetRequest; nominal: BudgetNominal; firstIndex: number; count: number }
+  /** Runs the linear path (fast) and assembles the result with the fanned-out non-linear samples. */
+  | { kind: 'budget-assemble'; request: BudgetRequest; plan: ManeuverPlan; nominal: BudgetNominal | null; nonlinear: BudgetSample[] };
+
+export type PlannerTaskResult<T extends PlannerTask> =
+  T extends { kind: 'samples' } ? DispersionSample[]
+    : T extends { kind: 'budget-prepare' } ? { plan: ManeuverPlan; nominal: BudgetNominal | null }
+    : T extends { kind: 'budget-samples' } ? BudgetSample[]
+    : T extends { kind: 'budget-assemble' } ? BudgetResult
+    : ManeuverPlan;
+
+/** An error as it crosses the thread boundary: classified by `name`. */
+export interface SerialisedError { name: string; message: string; code?: string; field?: string }
+
+export type ToThread =
+  | { type: 'run'; taskId: number; task: PlannerTask }
+  | { type: 'cancel'; taskId: number; reason: string };
+
+export type FromThread =
+  | { type: 'ready' }
+  | { type: 'progress'; taskId: number; progress: PlanProgress }
+  | { type: 'done'; taskId: number; result: unknown }
+  | { type: 'failed'; taskId: number; error: SerialisedError };
+
+export function serialiseError(error: unknown): SerialisedError {
+  if (error instanceof Error) {
+    const e = error as Error & { code?: unknown; field?: unknown };
+    return {
+      name: e.name, message: e.message,
+      ...(typeof e.code === 'string' ? { code: e.code } : {}),
+      ...(typeof e.field === 'string' ? { field: e.field } : {}),
+    };
+  }
+  return { name: 'Error', message: String(error) };
+}
+
+/** An error rebuilt on the worker side; `name` keeps the original kind (InvalidInputError, CancelledError...). */
+export class PlannerTaskError extends Error {
+  override readonly name: string;
+  readonly code?: string;
+  readonly field?: string;
+  constructor(e: SerialisedError) {
+    super(e.message);
+    this.name = e.name;
+    if (e.code !== undefined) this.code = e.code;
+    if (e.field !== undefined) this.field = e.field;
+  }
+}
