@@ -47,6 +47,9 @@ export interface BundleOptions {
   now?: () => Date;
 }
 
+/** Entries read per page while collecting chain headers (small: each page holds the loop while it is read). */
+const HEADER_PAGE = 250;
+
 /** Builds the bundle of one plan from the archive. */
 export async function buildPlanBundle(archive: PlanArchive, planId: string, options: BundleOptions): Promise<PlanBundle> {
   const planRecord = await archive.getPlan(planId);
@@ -58,10 +61,13 @@ export async function buildPlanBundle(archive: PlanArchive, planId: string, opti
   const last = options.toHead ? head.sequence : entries[entries.length - 1].sequence;
   const chain: EntryHeader[] = [];
   for (let from = first; from <= last;) {
-    const page = await archive.entries(from, Math.min(1000, last - from + 1));
+    const page = await archive.entries(from, Math.min(HEADER_PAGE, last - from + 1));
     if (page.length === 0) break;
     chain.push(...page.map(entryHeader));
     from = page[page.length - 1].sequence + 1;
+    // A SQLite page is read synchronously: hand the event loop back between pages, so a bundle up to the head
+    // of a large archive never holds the HTTP loop for more than one page. Only headers are kept (not payloads).
+    await new Promise((resolve) => setImmediate(resolve));
   }
   return {
     format: BUNDLE_FORMAT, formatVersion: 1, notice: options.notice, exportedAt: (options.now?.() ?? new Date()).toISOString(),

@@ -23,10 +23,15 @@ export async function verifySqliteReadOnly(dataDir: string, options: VerifyOptio
   if (!existsSync(file)) {
     throw new ArchiveNotFoundError(`--data-dir ${dataDir}: no archive file ${resolve(file)} (check the folder name; nothing was created)`);
   }
+  return verifySqliteFileReadOnly(file, options, `--data-dir ${dataDir}`);
+}
+
+/** Verifies the SQLite archive file `file` read-only; ArchiveNotFoundError (naming `label`) when it holds no archive. */
+export async function verifySqliteFileReadOnly(file: string, options: VerifyOptions = {}, label = file): Promise<VerifyReport> {
   const db = new Database(file, { readonly: true, fileMustExist: true });
   try {
     const table = db.prepare("SELECT name FROM sqlite_master WHERE type = 'table' AND name = 'archive_entries'").get();
-    if (!table) throw new ArchiveNotFoundError(`--data-dir ${dataDir}: ${resolve(file)} holds no archive tables`);
+    if (!table) throw new ArchiveNotFoundError(`${label}: ${resolve(file)} holds no archive tables`);
     db.exec('BEGIN DEFERRED');
     try {
       return await verifySource(sqliteVerifySource(db), options);

@@ -8,7 +8,8 @@ import { MIGRATION_HISTORY_COLUMNS, pendingMigrations } from '../migrations.ts';
 import { ArchiveWrites } from '../archive-writes.ts';
 import { checkedListing, checkedPlan, type ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
-import { verifySource, type VerifySource } from '../verify.ts';
+import { verifyOffThread } from '../verify-off-thread.ts';
+import type { VerifySource } from '../verify.ts';
 import { type Queryable, withPoolTransaction } from './pg-transaction.ts';
 import { POSTGRES_ARCHIVE_MIGRATIONS, type PgMigration } from './postgres-migrations.ts';
 import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyOptions, VerifyReport } from '../../contract/archive-types.ts';
@@ -77,8 +78,11 @@ export class PostgresArchive extends ArchiveWrites implements PlanArchive {
   protected readonly now: () => Date;
   private ready: Promise<unknown>;
 
+  private readonly connectionString: string;
+
   constructor(options: PostgresArchiveOptions) {
     super();
+    this.connectionString = options.connectionString;
     this.pool = new pg.Pool({ connectionString: options.connectionString, max: options.poolSize ?? 5 });
     this.now = options.now ?? (() => new Date());
     this.ready = migratePostgres(this.pool);
@@ -143,10 +147,13 @@ export class PostgresArchive extends ArchiveWrites implements PlanArchive {
     return this.makeTx(this.pool).head();
   }
 
-  /** Verifies inside one REPEATABLE READ snapshot, so concurrent appends do not disturb it. */
+  /**
+   * Verifies inside one REPEATABLE READ snapshot, so concurrent appends do not disturb it, in a thread of its
+   * own on a connection of its own (verify-off-thread.ts): hashing every entry never holds this event loop.
+   */
   async verify(options: VerifyOptions = {}): Promise<VerifyReport> {
     await this.ready;
-    return withPoolTransaction(this.pool, SNAPSHOT, (client) => verifySource(postgresVerifySource(client), options));
+    return verifyOffThread({ kind: 'postgres', connectionString: this.connectionString }, options);
   }
 
   async close(): Promise<void> {

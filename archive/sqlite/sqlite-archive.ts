@@ -11,6 +11,7 @@ import { MIGRATION_HISTORY_COLUMNS, pendingMigrations } from '../migrations.ts';
 import { ArchiveWrites } from '../archive-writes.ts';
 import { checkedListing, checkedPlan, type ArchiveTx } from '../operations.ts';
 import { clampLimit, ENTRY_COLUMNS, entryFromRow, entryValues, JOB_COLUMNS, jobFromRow, jobValues, PLAN_COLUMNS, planFromRow, planValues } from '../rows.ts';
+import { verifyOffThread } from '../verify-off-thread.ts';
 import { verifySource, type VerifySource } from '../verify.ts';
 import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
 import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyOptions, VerifyReport } from '../../contract/archive-types.ts';
@@ -174,8 +175,13 @@ export class SqliteArchive extends ArchiveWrites implements PlanArchive {
     return this.read(() => this.tx.head());
   }
 
-  /** Verifies inside one read transaction (a WAL snapshot), so concurrent appends do not disturb it. */
+  /**
+   * Verifies inside one read transaction (a WAL snapshot), so concurrent appends do not disturb it. A file
+   * store is verified in a thread of its own on a read-only connection (verify-off-thread.ts), off this event
+   * loop and off the write queue; only an in-memory store is walked here.
+   */
   verify(options: VerifyOptions = {}): Promise<VerifyReport> {
+    if (this.file !== ':memory:') return verifyOffThread({ kind: 'sqlite', file: resolve(this.file) }, options);
     return this.serial(async () => {
       this.db.exec('BEGIN DEFERRED');
       try {
