@@ -4,6 +4,7 @@
  */
 import { parseArgs } from 'node:util';
 import { parseProblem } from '../../planner/index.ts';
+import { loadCliLeapSeconds } from '../leap-seconds-option.ts';
 import type { CliCommand } from '../command.ts';
 import { JOB_EXIT, JOB_EXIT_USAGE } from './job-outcome.ts';
 import { readJsonFile } from './read-json-file.ts';
@@ -33,8 +34,10 @@ interface SubmitAnswer { jobId: string; outcome: 'created' | 'existing'; statusU
 /** Reads the problem file as JSON and checks it with parseProblem; returns the JSON exactly as written. */
 async function readCheckedProblem(path: string): Promise<unknown> {
   const json = await readJsonFile(path, 'problem', (field, message) => new UsageError(field, message));
+  // The same table the local planner would use (VEER_LEAP_SECONDS or built-in); the service checks again with its own.
+  const leapSeconds = await loadCliLeapSeconds(undefined);
   try {
-    parseProblem(json);
+    parseProblem(json, leapSeconds);
   } catch (error) {
     const err = error as Error & { field?: string };
     if (err.name !== 'InvalidInputError' && err.name !== 'OutOfSpanError') throw error;
