@@ -2,7 +2,7 @@
 import type { Identity as TokenIdentity } from '../../contract/index.ts';
 
 export type {
-  ManeuverPlan, PlannedBurn, TargetResult, Caveat, PlanBPlane, BPlaneEllipse, TrajectoryPoint, PlanEpoch, CrossCheck,
+  ManeuverPlan, PlannedBurn, PlannedFiniteBurn, TargetResult, Caveat, PlanBPlane, BPlaneEllipse, TrajectoryPoint, PlanEpoch, CrossCheck,
   Role, JobProgress, JobStatus, PlanState, PlanSummary, PlanRecord, HistoryEntryView as HistoryEntry,
 } from '../../contract/index.ts';
 export { FINAL_JOB_STATES } from '../../contract/index.ts';

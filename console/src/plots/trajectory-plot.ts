@@ -88,6 +88,15 @@ export function trajectorySvg(plan: ManeuverPlan, projection: Projection): SVGSV
   }
   if (pts.length > 1) marks.push({ kind: 'end', label: 'end', at: pts[pts.length - 1].positionKm });
   const path = pts.map((p, i) => `${i ? 'L' : 'M'}${view.px(p.positionKm[u]).toFixed(1)} ${view.py(p.positionKm[v]).toFixed(1)}`).join(' ');
+  // Finite burns: the thrust arc from ignition to cut-off, drawn over the path (interpolated on the samples).
+  const arcs = plan.burns.flatMap((b) => {
+    const f = b.model === 'finite' ? b.finite : undefined;
+    if (f === undefined) return [];
+    const at = Array.from({ length: 25 }, (_, k) => positionAt(pts, f.startTdbS + (k / 24) * f.durationS)).filter((x) => x !== null);
+    if (at.length < 2) return [];
+    const d = at.map((p, i) => `${i ? 'L' : 'M'}${view.px(p[u]).toFixed(1)} ${view.py(p[v]).toFixed(1)}`).join(' ');
+    return [svg('path', { d, class: 'burn-arc', 'data-testid': 'burn-arc' }, svg('title', {}, `${b.label}: thrust arc, ${f.durationS.toFixed(1)} s`))];
+  });
   const bar = niceStep((view.x1 - view.x0) / 5);
   const barPx = bar * view.scale;
   const centre = plan.forceModel.centralBody;
@@ -108,6 +117,7 @@ export function trajectorySvg(plan: ManeuverPlan, projection: Projection): SVGSV
     svg('g', { 'clip-path': `url(#${clip})` },
       bodyEls, // beneath the path and the marks (an approached body sits under its closest-approach mark)
       svg('path', { d: path, class: 'traj', 'data-testid': 'trajectory-path' }),
+      arcs,
       markEls),
     // Axis directions (from the lower-left corner) and the scale bar (lower right).
     svg('g', { class: 'axes-key' },
@@ -144,7 +154,8 @@ export function trajectoryFigure(plan: ManeuverPlan): HTMLElement {
   select.addEventListener('change', () => holder.replaceChildren(trajectorySvg(plan, select.value as Projection)));
   const legend = h('ul', { class: 'legend' },
     h('li', {}, h('span', { class: 'sw sw-start', 'aria-hidden': 'true' }), `Start ${epochText(plan.createdFrom.initialEpoch)}`),
-    plan.burns.map((b) => h('li', {}, h('span', { class: 'sw sw-burn', 'aria-hidden': 'true' }), `${b.label} ${epochText(b.epoch)} (${fixed(b.magnitudeMS, 3)} m/s)`)),
+    plan.burns.map((b) => h('li', {}, h('span', { class: 'sw sw-burn', 'aria-hidden': 'true' }), `${b.label} ${epochText(b.epoch)} (${fixed(b.magnitudeMS, 3)} m/s)`
+      + (b.model === 'finite' && b.finite ? ` — finite burn from ignition, thrust arc of ${fixed(b.finite.durationS, 1)} s drawn thick` : ''))),
     plan.approaches.map((a) => h('li', {}, h('span', { class: 'sw sw-approach', 'aria-hidden': 'true' }), `Closest approach to ${a.body} ${epochText(a.epoch)}: ${fixed(a.altitudeKm, 1)} km altitude`)),
     h('li', {}, h('span', { class: 'sw sw-end', 'aria-hidden': 'true' }), `End ${epochText(plan.createdFrom.endEpoch)}`),
     bodyLegend(plan));

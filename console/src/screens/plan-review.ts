@@ -6,7 +6,7 @@ import { api } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
 import { h, replaceChildren, scrollingTable } from '../dom.ts';
 import { duration, epochText, fixed, isoShort, kmsToMs, sig } from '../format.ts';
-import type { ManeuverPlan, PlanSummary, TargetResult } from '../plan-types.ts';
+import type { ManeuverPlan, PlannedFiniteBurn, PlanSummary, TargetResult } from '../plan-types.ts';
 import { bPlaneFigure } from '../plots/b-plane-plot.ts';
 import { trajectoryFigure } from '../plots/trajectory-plot.ts';
 import { planStateBadge } from './plans.ts';
@@ -39,13 +39,26 @@ function burnTable(plan: ManeuverPlan): HTMLElement {
           h('td', { class: 'num strong' }, fixed(b.magnitudeMS, 3)),
           h('td', { class: 'num' }, fixed(b.propellantKg, 3)),
           h('td', { class: 'num' }, duration(b.durationS)));
-      })),
+      }), plan.burns.flatMap((b) => (b.model === 'finite' && b.finite ? [finiteBurnRow(b.label, b.finite)] : []))),
       h('tfoot', {}, h('tr', {}, h('th', { scope: 'row', colspan: 8 }, 'Total'), h('td', { class: 'num strong' }, fixed(plan.totalDeltaVMS, 3)),
         h('td', { class: 'num' }, fixed(plan.totalPropellantKg, 3)), h('td', {}))));
   };
   frameSelect.addEventListener('change', draw);
   draw();
   return h('div', {}, h('div', { class: 'field inline' }, h('label', { for: 'burn-frame' }, 'Local axes'), frameSelect), scrollingTable('Burns', table));
+}
+
+/** A finite burn's command line under the burn table: ignition, cut-off, thrust, direction, masses, loss. */
+function finiteBurnRow(label: string, f: PlannedFiniteBurn): HTMLTableRowElement {
+  const dir = (v: readonly number[]): string => `[${v.map((c) => c.toFixed(6)).join(', ')}]`;
+  return h('tr', { class: 'finite-burn', 'data-testid': 'finite-burn-row' },
+    h('th', { scope: 'row' }, `${label} (finite)`),
+    h('td', { colspan: 10, class: 'small' },
+      h('div', {}, `Ignition UTC ${f.start.utc ? isoShort(f.start.utc) : '—'} (TDB ${f.start.tdb.replace(' TDB', '')}), cut-off UTC ${f.end.utc ? isoShort(f.end.utc) : '—'}, duration ${fixed(f.durationS, 3)} s`),
+      h('div', {}, `Thrust ${f.thrustN} N, mass flow ${f.massFlowKgS.toPrecision(6)} kg/s, mass ${fixed(f.massBeforeKg, 3)} → ${fixed(f.massAfterKg, 3)} kg`),
+      h('div', {}, `Direction held in ${f.axes} axes ${dir(f.directionLocal)}; J2000 at ignition ${dir(f.directionInertial)}`),
+      h('div', {}, `Ideal Δv ${fixed(f.idealDeltaVMS, 4)} m/s vs impulsive ${fixed(f.impulsiveDeltaVMS, 4)} m/s: finite-burn loss ${fixed(f.finiteBurnLossMS, 4)} m/s`),
+      ...f.insideArc.map((note) => h('div', { class: 'strong' }, `Inside the arc: ${note}`))));
 }
 
 /** The leap-second table the plan's UTC epochs use (older plans do not record it). */
