@@ -25,7 +25,7 @@ export {
   oemToEphemeris, oemToTrajectory, segmentInterpolation, OEM_EPHEMERIS_DEFAULTS, type OemEphemerisOptions,
   type OemTrajectory,
 } from './messages/oem-ephemeris.ts';
-export { assertExportable, planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './export/plan-opm.ts';
+export { assertExportable, ephemerisComments, planToOpm, REVIEW_COMMENTS, type PlanExportOptions } from './export/plan-opm.ts';
 export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './export/plan-oem.ts';
 export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export/export-plan.ts';
 export {

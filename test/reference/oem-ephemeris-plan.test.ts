@@ -14,6 +14,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { planToOem, planToOpm } from '../../ccsds/index.ts';
 import { loadEphemerisFiles } from '../../cli/ephemeris-option.ts';
+import { formatPlanReport } from '../../cli/report/plan-report.ts';
 import { parseProblem, planManeuvers, type ManeuverPlan } from '../../planner/index.ts';
 import { parseEpoch } from '../../propagator/index.ts';
 import { marsOemText } from './mars-oem.ts';
@@ -83,6 +84,7 @@ describe('planning on an OEM ephemeris', () => {
       const sha = withFile.ephemerisSources?.find((s) => s.body === 'mars');
       expect(opm.header.comments.join('\n')).toContain(`ephemeris mars: OEM mars-offset.oem sha256 ${sha?.source === 'oem' ? sha.sha256 : '?'}`);
       expect(opm.header.comments.join('\n')).toMatch(/ephemeris earth, jupiter, saturn, sun, venus: built-in astronomy-engine/);
+      expect(formatPlanReport(withFile)).toContain('ephemeris mars: OEM mars-offset.oem sha256 ');
       await expect(planToOem(problem, withFile, { creationDateUtc: '2031-08-12T00:00:00', stepS: 86400 }))
         .rejects.toThrow(expect.objectContaining({ field: 'ephemeris' }));
     });
