@@ -35,11 +35,25 @@ export class CancelledError extends Error {
   }
 }
 
-/** True for errors that are the caller's fault and must never be retried. */
+/**
+ * The one list of error kinds that end a job for good (never retried), by `name` so it holds after a process
+ * or thread boundary: the caller's fault (bad input, out of span, cancelled, a zod refusal), programming
+ * errors (TypeError, RangeError, ReferenceError, SyntaxError), which a retry only repeats, and the archive's
+ * refusal of a plan for a job already recorded as cancelled or failed (retrying cannot change that).
+ */
+export const FINAL_ERROR_NAMES: ReadonlySet<string> = new Set([
+  'InvalidInputError', 'OutOfSpanError', 'CancelledError', 'ZodError',
+  'TypeError', 'RangeError', 'ReferenceError', 'SyntaxError',
+  'ArchiveConflictError',
+]);
+
+/** True when a failure with this error must not be retried (see FINAL_ERROR_NAMES); transient ones give false. */
 export function isFinalError(error: unknown): boolean {
-  return error instanceof Error && (error.name === 'InvalidInputError' || error.name === 'OutOfSpanError'
-    || error.name === 'CancelledError');
+  return error instanceof Error && FINAL_ERROR_NAMES.has(error.name);
 }
+
+/** A failure as data, the shape in which it crosses a process boundary and reaches clients. */
+export interface FailureData { name: string; code?: string; field?: string; message: string }
 
 /** Dotted path of a field from a zod issue path: `burns[0].epoch`, or `body.problem.burns[0].epoch` under
  * `root`; `(problem)` for the whole value. */

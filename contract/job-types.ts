@@ -3,6 +3,7 @@
  * how urgent it is, and an optional idempotency key. Also the shapes of progress, results and status.
  */
 import { z } from 'zod';
+import type { FailureData } from './errors.ts';
 import { freeTextSchema } from './free-text.ts';
 import { problemSchema } from './problem-schema.ts';
 import type { PlanningProblem } from './problem-schema.ts';
@@ -120,6 +121,6 @@ export interface JobStatus {
   /** Present when completed. */
   result: Omit<RetargetJobResult, 'plan'> | null;
   /** Present when failed or cancelled: error kind, field (when known) and message. */
-  error: { name: string; field?: string; message: string } | null;
+  error: FailureData | null;
   cancelRequested: boolean;
 }

@@ -10,6 +10,7 @@ import { UnrecoverableError, WaitingChildrenError, type Job, type Queue } from '
 import type { Redis } from 'ioredis';
 import type { Logger } from 'pino';
 import type { DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanProgress } from '../../planner/index.ts';
+import { isFinalError } from '../../contract/errors.ts';
 import { CANCELLED_REASON_PREFIX, TIME_LIMIT_REASON_PREFIX, readCancel } from '../cancellation.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, type JobProgress, type Priority, type RetargetJobData, type RetargetJobResult,
@@ -37,21 +38,8 @@ export interface ProcessorDeps {
   track(jobId: string, parentId: string | null, cancel: (by: string) => void): () => void;
 }
 
-/**
- * Error kinds that end a job for good: the caller's fault (as in propagator/errors.ts isFinalError), and
- * programming errors (TypeError, RangeError, ReferenceError, SyntaxError), which a retry only repeats.
- */
-const FINAL_ERROR_NAMES = new Set([
-  'InvalidInputError', 'OutOfSpanError', 'CancelledError', 'ZodError',
-  'TypeError', 'RangeError', 'ReferenceError', 'SyntaxError',
-  // The archive refuses a plan for a job already recorded as cancelled or failed: retrying cannot change that.
-  'ArchiveConflictError',
-]);
-
-/** True when a failure with this error must not be retried (see FINAL_ERROR_NAMES); transient ones return false. */
-export function isFinalFailure(error: unknown): boolean {
-  return error instanceof Error && FINAL_ERROR_NAMES.has(error.name);
-}
+/** True when a failure with this error must not be retried: the contract's one list (FINAL_ERROR_NAMES). */
+export const isFinalFailure = isFinalError;
 
 type StopReason = { kind: 'cancel'; by: string } | { kind: 'time-limit' } | { kind: 'shutdown' };
 
