@@ -3,16 +3,13 @@
  * and a finite TCM-1 shows the burn's command row (ignition, duration, direction, masses, loss) under the
  * burn table and its thrust arc on the trajectory plot. Expected values come from the plan the API returns.
  */
-import { readFileSync } from 'node:fs';
-import { resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startService, waitForJob, type TestService } from '../harness/service.ts';
-import { submission } from '../queue/fixtures.ts';
-import { launchChromium, type TestBrowser } from './browser.ts';
+import { startService, type TestService } from '../harness/service.ts';
+import type { TestBrowser } from './browser.ts';
 import { buildConsole } from './build-console.ts';
+import { planDemo, reviewerPage } from './demo-plan.ts';
 
-const ROOT = resolve(import.meta.dirname, '../..');
 let svc: TestService;
 let browser: TestBrowser;
 let page: Page;
@@ -23,22 +20,14 @@ beforeAll(async () => {
   buildConsole();
   svc = await startService();
   await svc.startWorkerInProcess({ concurrency: 1 });
-  const demo = JSON.parse(readFileSync(resolve(ROOT, 'examples/flyby-demo.json'), 'utf8'));
-  demo.dispersion.samples = 0;
-  demo.spacecraft.engine.thrustN = 1;
-  demo.burns[0].model = 'finite';
-  const submitted = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(demo) });
-  const done = await waitForJob(svc, submitted.body.jobId, (s) => s.state === 'completed' || s.state === 'failed', 240_000);
-  expect(done.state).toBe('completed');
-  planId = done.result.planId;
-  const plan = (await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.reviewer })).body.plan;
+  let plan: { burns: { finite: typeof finite }[] };
+  ({ planId, plan } = await planDemo<typeof plan>(svc, (demo) => {
+    demo.dispersion.samples = 0;
+    demo.spacecraft.engine.thrustN = 1;
+    demo.burns[0].model = 'finite';
+  }));
   finite = plan.burns[0].finite;
-  browser = await launchChromium();
-  page = await browser.context.newPage();
-  await page.goto(`${svc.url}/console/`);
-  await page.getByLabel('Access token').fill(svc.tokens.reviewer);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/#\/jobs$/);
+  ({ browser, page } = await reviewerPage(svc));
 }, 300_000);
 
 afterAll(async () => {

@@ -5,14 +5,14 @@
  * frame's edge in the Sun's direction when outside, and marks Mars where the spacecraft passes it.
  * The expected geometry comes from the plan the API returns (fetched here), not from the console's code.
  */
-import { mkdirSync, readFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { resolve } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startService, waitForJob, type TestService } from '../harness/service.ts';
-import { submission } from '../queue/fixtures.ts';
-import { launchChromium, type TestBrowser } from './browser.ts';
+import { startService, type TestService } from '../harness/service.ts';
+import type { TestBrowser } from './browser.ts';
 import { buildConsole } from './build-console.ts';
+import { planDemo, reviewerPage } from './demo-plan.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 const SHOTS = resolve(ROOT, 'test-artifacts/console');
@@ -34,19 +34,9 @@ beforeAll(async () => {
   buildConsole();
   svc = await startService();
   await svc.startWorkerInProcess({ concurrency: 1 });
-  const demo = JSON.parse(readFileSync(resolve(ROOT, 'examples/flyby-demo.json'), 'utf8'));
-  demo.dispersion.samples = 20; // the layout does not depend on the sample count; fewer keep the test short
-  const submitted = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(demo) });
-  const done = await waitForJob(svc, submitted.body.jobId, (s) => s.state === 'completed' || s.state === 'failed', 240_000);
-  expect(done.state).toBe('completed');
-  planId = done.result.planId;
-  plan = (await svc.request('GET', `/v1/plans/${planId}`, { token: svc.tokens.reviewer })).body.plan;
-  browser = await launchChromium();
-  page = await browser.context.newPage();
-  await page.goto(`${svc.url}/console/`);
-  await page.getByLabel('Access token').fill(svc.tokens.reviewer);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/#\/jobs$/);
+  // The layout does not depend on the sample count; fewer keep the test short.
+  ({ planId, plan } = await planDemo<PlanGeometry>(svc, (demo) => { demo.dispersion.samples = 20; }));
+  ({ browser, page } = await reviewerPage(svc));
 }, 300_000);
 
 afterAll(async () => {
