@@ -3,6 +3,7 @@
  */
 import { z } from 'zod';
 import { envInt, parseEnv, sharedServiceEnvShape } from '../contract/env-config.ts';
+import { DEFAULT_ADMISSION } from '../queue/index.ts';
 
 export const apiEnvSchema = z.object({
   ...sharedServiceEnvShape,
@@ -21,6 +22,13 @@ export const apiEnvSchema = z.object({
   SSE_HEARTBEAT_S: envInt(1, 300, 15),
   /** Express `trust proxy` hops (set when behind a reverse proxy so client addresses are right). */
   TRUST_PROXY: envInt(0, 10, 0),
+  /** Urgent / routine jobs waiting for a worker before submissions of that priority get 503 QUEUE_FULL. */
+  QUEUE_LIMIT_URGENT: envInt(1, 10_000_000, DEFAULT_ADMISSION.waitingPerPriority.urgent),
+  QUEUE_LIMIT_ROUTINE: envInt(1, 10_000_000, DEFAULT_ADMISSION.waitingPerPriority.routine),
+  /** Unfinished jobs per submitter before that submitter gets 429 SUBMITTER_QUEUE_FULL. */
+  QUEUE_LIMIT_PER_SUBMITTER: envInt(1, 10_000_000, DEFAULT_ADMISSION.unfinishedPerSubmitter),
+  /** Retry-After of a submission refused by those limits, s. */
+  QUEUE_FULL_RETRY_AFTER_S: envInt(1, 3_600, DEFAULT_ADMISSION.retryAfterS),
 });
 
 export type ApiConfig = z.infer<typeof apiEnvSchema>;

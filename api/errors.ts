@@ -4,7 +4,7 @@
  */
 import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
 import type { Logger } from 'pino';
-import { isQueueUnavailable, QUEUE_RETRY_AFTER_S } from '../queue/index.ts';
+import { isQueueUnavailable, QUEUE_RETRY_AFTER_S, type AdmissionRefusal } from '../queue/index.ts';
 
 /** One failing field: `path` is dotted with [i] for array items, rooted at body/query/params. */
 export interface FieldIssue { path: string; message: string; code?: string }
@@ -20,6 +20,25 @@ export class HttpError extends Error {
 export function sendError(res: Response, status: number, code: string, message: string, issues?: FieldIssue[]): void {
   if (res.headersSent) return;
   res.status(status).json({ error: { code, message, ...(issues ? { issues } : {}) } });
+}
+
+/**
+ * A submission refused by admission control, with the numbers: 503 QUEUE_FULL (the priority's waiting jobs
+ * are at their limit) or 429 SUBMITTER_QUEUE_FULL (this submitter's unfinished jobs are); Retry-After either way.
+ */
+export function sendAdmissionRefusal(res: Response, refusal: AdmissionRefusal): void {
+  res.set('Retry-After', String(refusal.retryAfterS));
+  if (refusal.outcome === 'queue-full') {
+    res.status(503).json({ error: {
+      code: 'QUEUE_FULL', message: `${refusal.waiting} ${refusal.priority} jobs wait for a worker (limit ${refusal.limit}); retry in ${refusal.retryAfterS} s`,
+      priority: refusal.priority, waiting: refusal.waiting, limit: refusal.limit, retryAfterS: refusal.retryAfterS,
+    } });
+    return;
+  }
+  res.status(429).json({ error: {
+    code: 'SUBMITTER_QUEUE_FULL', message: `${refusal.unfinished} of your jobs are not finished (limit ${refusal.limit}); retry in ${refusal.retryAfterS} s`,
+    unfinished: refusal.unfinished, limit: refusal.limit, retryAfterS: refusal.retryAfterS,
+  } });
 }
 
 /** 404 for every route nobody answered. */

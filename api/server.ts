@@ -44,6 +44,10 @@ export async function startApiServer(config: ApiConfig, logger: Logger, override
   const queue = new RetargetQueue({
     redisUrl: config.REDIS_URL, prefix: config.QUEUE_PREFIX, attempts: config.JOB_ATTEMPTS, retentionS: config.JOB_RETENTION_S,
     leapSeconds,
+    admission: {
+      waitingPerPriority: { urgent: config.QUEUE_LIMIT_URGENT, routine: config.QUEUE_LIMIT_ROUTINE },
+      unfinishedPerSubmitter: config.QUEUE_LIMIT_PER_SUBMITTER, retryAfterS: config.QUEUE_FULL_RETRY_AFTER_S,
+    },
   });
   // Not awaited: the API listens at once and reports not-ready (/ready 503, job routes 503) until Redis answers.
   const events = new JobEventHub(config.REDIS_URL, config.QUEUE_PREFIX);

@@ -14,8 +14,17 @@ import os from 'node:os';
 import { join, resolve } from 'node:path';
 import { openTokenStore } from '../api/auth/index.ts';
 import { parseProblem, planManeuvers } from '../planner/index.ts';
-import { JobEventHub, RetargetQueue, jobRequestSchema, startLocalRedis, type LocalRedis } from '../queue/index.ts';
+import { JobEventHub, RetargetQueue, jobRequestSchema, startLocalRedis, type LocalRedis, type SubmitOutcome } from '../queue/index.ts';
 import { reachableProblem } from '../test/queue/fixtures.ts';
+
+/** Throughput runs measure the queue itself: admission limits out of the way. */
+const NO_ADMISSION_LIMIT = { waitingPerPriority: { urgent: 1e9, routine: 1e9 }, unfinishedPerSubmitter: 1e9, retryAfterS: 1 };
+
+/** The job id of an accepted submission (throws on a refusal, which the limits above rule out). */
+function createdId(outcome: SubmitOutcome): string {
+  if (!('jobId' in outcome)) throw new Error(`submission refused: ${JSON.stringify(outcome)}`);
+  return outcome.jobId;
+}
 
 interface CannonResult { latency: { p50: number; p99: number; average: number; max: number }; requests: { average: number }; non2xx: number; errors: number; statusCodeStats?: Record<string, { count: number }> }
 type Cannon = (opts: Record<string, unknown>) => Promise<CannonResult>;
@@ -74,7 +83,7 @@ async function main(): Promise<void> {
   say(`Submission p99, median over rounds: ${submitP99} ms (target < 50 ms): ${submitP99 < 50 ? 'met' : 'NOT met'}; /health p99 ${healthP99} ms; `
     + `p99 ratio submit / health, median over rounds: ${median(rounds.map((r) => r.submit.latency.p99 / Math.max(r.health.latency.p99, 0.5))).toFixed(1)}.`);
   await api.stop();
-  const submitted = new RetargetQueue({ redisUrl, prefix });
+  const submitted = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
   await submitted.queue.obliterate({ force: true });
   await submitted.close();
 
@@ -82,10 +91,10 @@ async function main(): Promise<void> {
   //    with in-process planner runs so that all three paths see the same machine load.
   const parsed = parseProblem(trivial);
   const request = jobRequestSchema.parse({ problem: trivial, reason: 'benchmark overhead' });
-  const queue = new RetargetQueue({ redisUrl, prefix });
+  const queue = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
   const events = new JobEventHub(redisUrl, prefix);
   const prefixNoArchive = `${prefix}n`;
-  const queueNoArchive = new RetargetQueue({ redisUrl, prefix: prefixNoArchive });
+  const queueNoArchive = new RetargetQueue({ redisUrl, prefix: prefixNoArchive, admission: NO_ADMISSION_LIMIT });
   const eventsNoArchive = new JobEventHub(redisUrl, prefixNoArchive);
   await events.ready();
   await eventsNoArchive.ready();
@@ -95,7 +104,7 @@ async function main(): Promise<void> {
     const finished = new Promise<void>((res) => {
       const off = ev.subscribe('*', (e) => { if (e.jobId === jobId && (e.type === 'completed' || e.type === 'failed')) { off(); res(); } });
     });
-    jobId = (await q.submit(request, 'bench')).jobId;
+    jobId = createdId(await q.submit(request, 'bench'));
     await finished;
     return performance.now() - t0;
   };
@@ -150,7 +159,7 @@ async function main(): Promise<void> {
       });
     });
     const t0 = performance.now();
-    for (let i = 0; i < count; i++) all.add((await queue.submit(work, 'bench')).jobId);
+    for (let i = 0; i < count; i++) all.add(createdId(await queue.submit(work, 'bench')));
     await finished;
     return (performance.now() - t0) / 1000;
   };

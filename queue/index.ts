@@ -11,6 +11,7 @@ export {
   type RetargetJobData, type RetargetJobResult, type SampleBatchData, type SampleBatchResult,
 } from '../contract/job-types.ts';
 export { RetargetQueue, isIssuedJobId, parseFailure, type CancelOutcome, type JobCounts, type RetargetQueueOptions, type SubmitOutcome } from './producer/retarget-queue.ts';
+export { DEFAULT_ADMISSION, REDIS_BYTES_PER_JOB, type AdmissionLimits, type AdmissionRefusal } from './producer/admission.ts';
 export { QueueUnavailableError, QUEUE_RETRY_AFTER_S, isQueueUnavailable } from './producer/queue-unavailable.ts';
 export { JobEventHub, type JobEvent } from './producer/job-events.ts';
 export { startRetargetWorker, type RetargetWorker, type RetargetWorkerOptions } from './worker/retarget-worker.ts';

@@ -8,7 +8,7 @@ import { z } from 'zod';
 import { budgetJobRequestSchema, findBudgetIssue, type BudgetJobRequest } from '../../queue/index.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
-import { HttpError, sendError } from '../errors.ts';
+import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { cancelBodySchema, jobParamsSchema, submitResponseSchema } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
@@ -34,6 +34,7 @@ export function budgetRoutes(routes: ApiRoutes, deps: AppDeps): void {
     const issue = findBudgetIssue(request.request, deps.queue.leapSeconds);
     if (issue) throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.request.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
     const outcome = await deps.queue.submitBudget(request, identityOf(req).name);
+    if (outcome.outcome === 'queue-full' || outcome.outcome === 'submitter-full') { sendAdmissionRefusal(res, outcome); return; }
     if (outcome.outcome === 'conflict') {
       sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
       return;

@@ -7,7 +7,7 @@ import { z } from 'zod';
 import { findProblemIssue, type JobRequest } from '../../queue/index.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
-import { HttpError, sendError } from '../errors.ts';
+import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import {
   cancelBodySchema, idempotencyKeySchema, jobListQuerySchema, jobParamsSchema, jobRequestSchema, jobStatusSchema,
@@ -51,6 +51,7 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
     const identity = identityOf(req);
     const outcome = await deps.queue.submit(request, identity.name);
     deps.metrics.submissions.inc({ outcome: outcome.outcome });
+    if (outcome.outcome === 'queue-full' || outcome.outcome === 'submitter-full') { sendAdmissionRefusal(res, outcome); return; }
     if (outcome.outcome === 'conflict') {
       sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
       return;

@@ -15,6 +15,8 @@ import {
   CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
 } from '../cancellation.ts';
 import { createRedis } from '../config/connection.ts';
+import type { Priority } from '../../contract/index.ts';
+import { DEFAULT_ADMISSION, submitterJobsKey, unfinishedJobsOf, type AdmissionLimits, type AdmissionRefusal } from './admission.ts';
 import { QueueUnavailableError } from './queue-unavailable.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
@@ -31,13 +33,16 @@ export interface RetargetQueueOptions {
   /** The table the API validated problems with; it travels with each job so the worker plans with it.
    * @defaultValue BUILTIN_LEAP_SECONDS */
   leapSeconds?: LeapSecondTable;
+  /** Queue-depth limits checked before a new job is added. @defaultValue DEFAULT_ADMISSION */
+  admission?: AdmissionLimits;
 }
 
 /** `created`: a new job (HTTP 202). `existing`: same key, same request (200). `conflict`: same key, other request (409). */
 export type SubmitOutcome =
   | { outcome: 'created'; jobId: string }
   | { outcome: 'existing'; jobId: string }
-  | { outcome: 'conflict'; jobId: string };
+  | { outcome: 'conflict'; jobId: string }
+  | AdmissionRefusal;
 
 export type CancelOutcome =
   | { outcome: 'cancelled'; jobId: string; removed: Pick<RetargetJobData, 'problem' | 'problemHash' | 'reason' | 'submittedBy'> }
@@ -70,6 +75,7 @@ export class RetargetQueue {
   readonly redis: Redis;
   private readonly attempts: number;
   private readonly retentionS: number;
+  private readonly admission: AdmissionLimits;
 
   constructor(private readonly opts: RetargetQueueOptions) {
     this.redis = createRedis(opts.redisUrl, { failFast: true, name: 'veer-producer' });
@@ -78,6 +84,7 @@ export class RetargetQueue {
     this.queue.on('error', () => {});
     this.attempts = opts.attempts ?? 3;
     this.retentionS = opts.retentionS ?? 7 * 86_400;
+    this.admission = opts.admission ?? DEFAULT_ADMISSION;
   }
 
   get prefix(): string { return this.opts.prefix; }
@@ -128,7 +135,7 @@ export class RetargetQueue {
 
   /** Adds a job of kind `name` with the idempotency handling shared by both kinds. */
   private async enqueue(name: string, idempotencyKey: string | undefined, submittedBy: string, requestHash: string,
-    priority: 'urgent' | 'routine', dataOf: (submissionId: string) => RetargetJobData | BudgetJobData): Promise<SubmitOutcome> {
+    priority: Priority, dataOf: (submissionId: string) => RetargetJobData | BudgetJobData): Promise<SubmitOutcome> {
     const jobId = idempotencyKey
       ? `k-${sha256Hex(`${submittedBy}\n${idempotencyKey}`).slice(0, 40)}`
       : `j-${randomUUID()}`;
@@ -142,6 +149,8 @@ export class RetargetQueue {
         return { outcome: same ? 'existing' : 'conflict', jobId };
       }
     }
+    const refusal = await this.admit(priority, submittedBy);
+    if (refusal) return refusal;
     const submissionId = randomUUID();
     await this.queue.add(name, dataOf(submissionId) as RetargetJobData, {
       jobId,
@@ -151,11 +160,27 @@ export class RetargetQueue {
       removeOnComplete: { age: this.retentionS },
       removeOnFail: { age: this.retentionS },
     });
+    const submitterKey = submitterJobsKey(this.prefix, submittedBy);
+    await this.redis.multi().sadd(submitterKey, jobId).expire(submitterKey, this.retentionS).exec();
     if (!idempotencyKey) return { outcome: 'created', jobId };
     // Two concurrent first submissions with one key: BullMQ keeps the first; tell the second apart.
     const stored = await this.findJob(jobId);
     if (!stored || stored.data.submissionId === submissionId) return { outcome: 'created', jobId };
     return { outcome: stored.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
+  }
+
+  /** The refusal when `priority` has too many waiting jobs or `submittedBy` too many unfinished ones; else null. */
+  private async admit(priority: Priority, submittedBy: string): Promise<AdmissionRefusal | null> {
+    const limits = this.admission;
+    const bullPriority = priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine;
+    const waiting = (await this.queue.getCountsPerPriority([bullPriority]))[bullPriority] ?? 0;
+    const limit = limits.waitingPerPriority[priority];
+    if (waiting >= limit) return { outcome: 'queue-full', priority, waiting, limit, retryAfterS: limits.retryAfterS };
+    const unfinished = await unfinishedJobsOf(this.redis, this.prefix, this.queue.qualifiedName, submittedBy);
+    if (unfinished >= limits.unfinishedPerSubmitter) {
+      return { outcome: 'submitter-full', submitter: submittedBy, unfinished, limit: limits.unfinishedPerSubmitter, retryAfterS: limits.retryAfterS };
+    }
+    return null;
   }
 
   /** A budget job's status (with its study's id when done), or undefined when there is no such budget job. */

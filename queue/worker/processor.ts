@@ -117,6 +117,20 @@ async function finishPlan(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: 
   };
 }
 
+/**
+ * Once the samples are combined and the plan is stored, their copies in Redis are dead weight (about 1 KB per
+ * sample, kept JOB_RETENTION_S): the batch jobs (data and results), the parent's record of their results, and the
+ * nominal plan in the parent's data are removed, so a fanned-out run leaves no more behind than a single-process
+ * one. Should this run again after a crash, it re-adds the batches and recomputes (same seed, same samples).
+ */
+async function releaseSampleResults(deps: ProcessorDeps, job: Job<RetargetJobData>): Promise<void> {
+  const batches = sampleBatches(job.data.problem.dispersion.samples, deps.batchSize);
+  for (const b of batches) await deps.queue.remove(`${job.id}-mc-${b.firstIndex}`);
+  await deps.redis.del(`${job.queueQualifiedName}:${job.id}:processed`);
+  const { nominalPlan: _released, ...data } = job.data;
+  await job.updateData(data);
+}
+
 async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: ManeuverPlan, deadlineMs: number): Promise<number> {
   const { samples, seed } = job.data.problem.dispersion;
   return addChildBatches(deps, job, JOB_NAMES.samples, samples, (b) => ({
@@ -204,7 +218,9 @@ export async function processRetarget(deps: ProcessorDeps, job: Job<RetargetJobD
     }
     const combined = await deps.pool.run({ kind: 'combine', problem, plan: nominal, samples }, { signal: control.signal });
     report({ stage: 'done', fraction: 1, message: 'plan ready', samplesDone: samples.length, samplesTotal: samples.length });
-    return await finishPlan(deps, job, combined);
+    const result = await finishPlan(deps, job, combined);
+    await releaseSampleResults(deps, job);
+    return result;
   } catch (error) {
     const outcome = classify(error, control.stopReason(), deps);
     await recordFinal(deps, job, outcome);

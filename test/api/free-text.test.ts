@@ -76,7 +76,7 @@ describe('server text printed by the CLI', () => {
     it('should print them as visible escapes in veer status, text and JSON', async () => {
       const problem = schemaValidProblem();
       problem.spacecraft.name = `EVIL${REWRITE_LINE}SAT`;
-      const outcome = await svc.api.deps.queue.submit({ problem, reason: `why${ESC}]0;title${'\u0007'}`, priority: 'routine' } as any, 'alice');
+      const outcome: any = await svc.api.deps.queue.submit({ problem, reason: `why${ESC}]0;title${'\u0007'}`, priority: 'routine' } as any, 'alice');
       const shown = 'EVIL\\u{1b}[1A\\u{1b}[2KSAT';
       for (const extra of [[], ['--json']]) {
         const run = await runVeer(['status', outcome.jobId, '--url', svc.url, '--token', svc.tokens.auditor, ...extra]);
