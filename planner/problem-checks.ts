@@ -55,6 +55,15 @@ export function checkProblem(problem: PlanningProblem, leapSeconds: LeapSecondTa
   const e = problemEpochs(problem, leapSeconds);
   const fm = problem.forceModel;
   const modelled = new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies]);
+  checkSpanAndForceModel(problem, e, modelled);
+  checkBurns(problem, e);
+  checkTargets(problem, e, modelled);
+  return e;
+}
+
+/** The span, the force model and the initial state (in that order). */
+function checkSpanAndForceModel(problem: PlanningProblem, e: ProblemEpochs, modelled: ReadonlySet<BodyName>): void {
+  const fm = problem.forceModel;
   if (e.endTdbS <= e.initialTdbS) {
     throw new InvalidInputError('endEpoch', 'the end of the span must come after initialState.epoch');
   }
@@ -78,7 +87,12 @@ export function checkProblem(problem: PlanningProblem, leapSeconds: LeapSecondTa
   if (r <= RADIUS_KM[problem.initialState.centre]) {
     throw new InvalidInputError('initialState.positionKm', `|r| = ${r.toFixed(3)} km is inside ${problem.initialState.centre} (radius ${RADIUS_KM[problem.initialState.centre]} km)`);
   }
+}
 
+/** Each burn: epoch in the span and in order, its window, finite-burn limits, Lambert seed, bounds; then at
+ * least one free variable over all burns. */
+function checkBurns(problem: PlanningProblem, e: ProblemEpochs): void {
+  const fm = problem.forceModel;
   let freeCount = 0;
   problem.burns.forEach((b, i) => {
     const t = e.burnTdbS[i];
@@ -129,7 +143,10 @@ export function checkProblem(problem: PlanningProblem, leapSeconds: LeapSecondTa
   if (freeCount === 0) {
     throw new InvalidInputError('burns', 'no free variable: mark at least one Δv component free (freeComponents) or give an epochWindow');
   }
+}
 
+/** Each target: its bodies modelled, its epoch after the last burn and inside the span, physical bounds. */
+function checkTargets(problem: PlanningProblem, e: ProblemEpochs, modelled: ReadonlySet<BodyName>): void {
   const lastBurnLatest = Math.max(...problem.burns.map((_, i) => e.burnWindowTdbS[i]?.latestTdbS ?? e.burnTdbS[i]));
   problem.targets.forEach((tg, i) => {
     const body = targetBody(tg);
@@ -156,7 +173,6 @@ export function checkProblem(problem: PlanningProblem, leapSeconds: LeapSecondTa
       throw new InvalidInputError(`targets[${i}].bDotTKm`, `|B| = ${Math.hypot(tg.bDotTKm, tg.bDotRKm).toFixed(1)} km is inside ${tg.body}'s radius (${RADIUS_KM[tg.body]} km): an impact, not a flyby`);
     }
   });
-  return e;
 }
 
 function checkCovariance(problem: PlanningProblem): void {
