@@ -17,6 +17,22 @@ import { validOf } from '../validate.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;
 
+/** The submission with the `Idempotency-Key` header (when sent) as its key: checked with the body field's
+ * schema, and refused when the body names a different key. */
+function withHeaderKey(body: JobRequest, headerKey: string | undefined): JobRequest {
+  const request = { ...body };
+  if (headerKey === undefined) return request;
+  const parsed = idempotencyKeySchema.safeParse(headerKey);
+  if (!parsed.success) {
+    throw new HttpError(400, 'INVALID_REQUEST', 'invalid Idempotency-Key header', [{ path: 'headers.idempotency-key', message: parsed.error.issues[0]?.message ?? 'invalid' }]);
+  }
+  if (request.idempotencyKey && request.idempotencyKey !== parsed.data) {
+    throw new HttpError(400, 'INVALID_REQUEST', 'Idempotency-Key header and body idempotencyKey differ', [{ path: 'body.idempotencyKey', message: 'differs from the Idempotency-Key header' }]);
+  }
+  request.idempotencyKey = parsed.data;
+  return request;
+}
+
 export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
   routes.add({
     method: 'post', path: '/v1/jobs', tags: ['jobs'], roles: ['submitter'],
@@ -31,18 +47,7 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
       409: { description: 'Idempotency key already used for a different request' },
     },
   }, async (req: Request, res: Response) => {
-    const request = { ...validOf<unknown, unknown, JobRequest>(res).body };
-    const headerKey = req.get('idempotency-key');
-    if (headerKey !== undefined) {
-      const parsed = idempotencyKeySchema.safeParse(headerKey);
-      if (!parsed.success) {
-        throw new HttpError(400, 'INVALID_REQUEST', 'invalid Idempotency-Key header', [{ path: 'headers.idempotency-key', message: parsed.error.issues[0]?.message ?? 'invalid' }]);
-      }
-      if (request.idempotencyKey && request.idempotencyKey !== parsed.data) {
-        throw new HttpError(400, 'INVALID_REQUEST', 'Idempotency-Key header and body idempotencyKey differ', [{ path: 'body.idempotencyKey', message: 'differs from the Idempotency-Key header' }]);
-      }
-      request.idempotencyKey = parsed.data;
-    }
+    const request = withHeaderKey(validOf<unknown, unknown, JobRequest>(res).body, req.get('idempotency-key'));
     const issue = findProblemIssue(request.problem, deps.queue.leapSeconds);
     if (issue) {
       deps.metrics.submissions.inc({ outcome: 'invalid' });
