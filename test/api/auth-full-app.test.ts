@@ -53,6 +53,10 @@ const ADMITTED_STATUS: Record<string, number> = {
   'get /v1/tokens': 200,
   'post /v1/tokens': 400,
   'delete /v1/tokens/:tokenId': 404,
+  'post /v1/budgets': 400,
+  'get /v1/budgets/:jobId': 404,
+  'get /v1/budgets/:jobId/study': 404,
+  'post /v1/budgets/:jobId/cancel': 404,
 };
 
 describe('role matrix over the whole service', () => {
