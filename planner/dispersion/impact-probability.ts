@@ -94,14 +94,21 @@ export function probabilityInsideDisc(meanKm: readonly [number, number], covaria
 }
 
 /** Monte Carlo estimate of a probability from hits in n samples, with its binomial standard error and a
- * 95 % Wilson score interval (Wilson 1927), which stays inside [0, 1] when hits are 0 or n. */
+ * 95 % Wilson score interval (Wilson 1927), which stays inside [0, 1] when hits are 0 or n.
+ * The bounds are (A ∓ B)/(1 + z²/n) with A = p + z²/(2n), B = z·sqrt(p(1 − p)/n + z²/(4n²)). Since
+ * A² − B² = p²·(1 + z²/n), the lower bound is p²/(A + B) and, by the p ↔ 1 − p symmetry, the upper bound
+ * is 1 − q²/(A' + B) with q = 1 − p, A' = q + z²/(2n): sums of positive terms, so 0 hits give exactly 0
+ * and n hits exactly 1 (the difference form cancels to about 1e-19 instead). */
 export function binomialEstimate(hits: number, samples: number): { probability: number; standardError: number; lower95: number; upper95: number } {
   if (!Number.isInteger(samples) || samples <= 0) throw new InvalidInputError('samples', `must be a positive integer, got ${samples}`);
   if (!Number.isInteger(hits) || hits < 0 || hits > samples) throw new InvalidInputError('hits', `must be an integer in [0, ${samples}], got ${hits}`);
   const p = hits / samples;
+  const q = (samples - hits) / samples;
   const z = 1.959963984540054;
-  const denom = 1 + (z * z) / samples;
-  const centre = (p + (z * z) / (2 * samples)) / denom;
-  const halfWidth = (z / denom) * Math.sqrt((p * (1 - p)) / samples + (z * z) / (4 * samples * samples));
-  return { probability: p, standardError: Math.sqrt((p * (1 - p)) / samples), lower95: Math.max(0, centre - halfWidth), upper95: Math.min(1, centre + halfWidth) };
+  const shift = (z * z) / (2 * samples);
+  const b = z * Math.sqrt((p * q) / samples + (z * z) / (4 * samples * samples));
+  return {
+    probability: p, standardError: Math.sqrt((p * q) / samples),
+    lower95: (p * p) / (p + shift + b), upper95: 1 - (q * q) / (q + shift + b),
+  };
 }
