@@ -13,7 +13,7 @@ import {
 } from '../../contract/budget-job-types.ts';
 import { readCancel } from '../cancellation.ts';
 import {
-  addChildBatches, classify, progressWriter, recordFinal, runChildBatch, runControl, sampleBatches, type ProcessorDeps,
+  addChildBatches, classify, progressWriter, recordFinal, releaseChildBatches, runChildBatch, runControl, sampleBatches, type ProcessorDeps,
 } from './processor.ts';
 
 async function finishStudy(deps: ProcessorDeps, job: Job<BudgetJobData>, result: BudgetResult): Promise<BudgetJobResult> {
@@ -68,7 +68,12 @@ export async function processBudget(deps: ProcessorDeps, job: Job<BudgetJobData>
     report({ stage: 'dispersion', fraction: 0.95, message: 'linear path and statistics', samplesDone: total, samplesTotal: total });
     const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: nominal.plan, nominal, nonlinear: samples }, { signal: control.signal });
     report({ stage: 'done', fraction: 1, message: 'budget study ready for review', samplesDone: total, samplesTotal: total });
-    return await finishStudy(deps, job, result);
+    const finished = await finishStudy(deps, job, result);
+    // As a retarget job does: once the study is stored, the batches and the nominal model are dead weight.
+    await releaseChildBatches(deps, job, total);
+    const { nominal: _released, ...data } = job.data;
+    await job.updateData(data);
+    return finished;
   } catch (error) {
     const outcome = classify(error, control.stopReason(), deps);
     await recordFinal(deps, job, outcome);

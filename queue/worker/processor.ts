@@ -124,11 +124,15 @@ async function finishPlan(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: 
  * one. Should this run again after a crash, it re-adds the batches and recomputes (same seed, same samples).
  */
 async function releaseSampleResults(deps: ProcessorDeps, job: Job<RetargetJobData>): Promise<void> {
-  const batches = sampleBatches(job.data.problem.dispersion.samples, deps.batchSize);
-  for (const b of batches) await deps.queue.remove(`${job.id}-mc-${b.firstIndex}`);
-  await deps.redis.del(`${job.queueQualifiedName}:${job.id}:processed`);
+  await releaseChildBatches(deps, job, job.data.problem.dispersion.samples);
   const { nominalPlan: _released, ...data } = job.data;
   await job.updateData(data);
+}
+
+/** Removes the child batch jobs covering [0, total) and the parent's record of their results (see above). */
+export async function releaseChildBatches(deps: ProcessorDeps, job: Job, total: number): Promise<void> {
+  for (const b of sampleBatches(total, deps.batchSize)) await deps.queue.remove(`${job.id}-mc-${b.firstIndex}`);
+  await deps.redis.del(`${job.queueQualifiedName}:${job.id}:processed`);
 }
 
 async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: ManeuverPlan, deadlineMs: number): Promise<number> {

@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runBudget } from '../../planner/index.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
+import { keysOf } from './fixtures.ts';
 
 let svc: TestService;
 const processedBy = new Map<string, string>();
@@ -35,6 +36,11 @@ describe('Δv budget jobs', () => {
       expect(end.result.agreementPassed).toBe(true);
       const children = [...processedBy.keys()].filter((id) => id.startsWith(`${jobId}-mc-`)).sort();
       expect(children).toHaveLength(3);
+      // Once combined and stored, no batch job and no copy of the samples stays in Redis (as for a plan's Monte Carlo).
+      const redis = svc.api.deps.queue.redis;
+      expect(await keysOf(redis, `${svc.prefix}:*${jobId}-mc-*`)).toEqual([]);
+      expect(await keysOf(redis, `${svc.prefix}:*:${jobId}:processed`)).toEqual([]);
+      expect(await redis.hget(`${svc.prefix}:retarget:${jobId}`, 'data')).not.toContain('"nominal"');
 
       const fetched = await svc.request('GET', `/v1/budgets/${jobId}/study`, { token: svc.tokens.reviewer });
       expect(fetched.status).toBe(200);

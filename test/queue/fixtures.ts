@@ -5,6 +5,7 @@
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
+import type { Redis } from 'ioredis';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 export const TWO_BODY_DEMO = resolve(ROOT, 'examples/two-body-demo.json');
@@ -55,4 +56,16 @@ export function twoBodyDemo(): Record<string, any> | null {
 /** A submission body. */
 export function submission(problem: Record<string, unknown>, extra: Record<string, unknown> = {}): Record<string, unknown> {
   return { problem, reason: 'service test: correct the approach after the latest orbit determination', ...extra };
+}
+
+/** Every Redis key matching `pattern` (SCAN, so a busy Redis is not blocked). */
+export async function keysOf(redis: Redis, pattern: string): Promise<string[]> {
+  const found: string[] = [];
+  let cursor = '0';
+  do {
+    const [next, keys] = await redis.scan(cursor, 'MATCH', pattern, 'COUNT', 1000);
+    found.push(...keys);
+    cursor = next;
+  } while (cursor !== '0');
+  return found;
 }

@@ -7,7 +7,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { REDIS_BYTES_PER_JOB } from '../../queue/index.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
-import { reachableProblem, submission } from './fixtures.ts';
+import { keysOf as keysOfRedis, reachableProblem, submission } from './fixtures.ts';
 
 let svc: TestService;
 beforeAll(async () => {
@@ -16,17 +16,7 @@ beforeAll(async () => {
 });
 afterAll(async () => { await svc?.close(); });
 
-async function keysOf(pattern: string): Promise<string[]> {
-  const redis = svc.api.deps.queue.redis;
-  const found: string[] = [];
-  let cursor = '0';
-  do {
-    const [next, keys] = await redis.scan(cursor, 'MATCH', pattern, 'COUNT', 1000);
-    found.push(...keys);
-    cursor = next;
-  } while (cursor !== '0');
-  return found;
-}
+const keysOf = (pattern: string): Promise<string[]> => keysOfRedis(svc.api.deps.queue.redis, pattern);
 
 describe('Redis memory of a fanned-out Monte Carlo job', () => {
   describe('when a 1,000-sample job has run as 10 batches and completed', () => {
