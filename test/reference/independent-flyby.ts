@@ -10,6 +10,9 @@
  * R̂ = Ŝ×T̂, B = (h/v∞) Ŝ×ĥ. GMs are the DE440 values (Park et al. 2021, Table 8 — the same published
  * numbers the project uses). `marsOffsetKm` moves Mars by a constant vector (J2000 equatorial) in the
  * whole re-flight, for flights on an ephemeris that differs from the built-in one by a known offset.
+ * A finite burn is flown as constant thrust F along a fixed inertial direction with the mass integrated
+ * (m' = −ṁ; the thrust acceleration F/m and the solar pressure's 1/m follow it), read from the plan's
+ * `finite` block alone.
  */
 import { createRequire } from 'node:module';
 import { AstroTime, Body, HelioState, HelioVector, Rotation_ECL_EQJ, RotateVector, Vector } from 'astronomy-engine';
@@ -40,15 +43,20 @@ function helioKm(body: string, tdbS: number, marsOffsetKm: readonly number[]): n
   return [v.x * KM_PER_AU + o[0], v.y * KM_PER_AU + o[1], v.z * KM_PER_AU + o[2]];
 }
 
-function propagateIndependently(problem: PlanningProblem, y0: number[], t0: number, t1: number, massKg: number,
-  marsOffsetKm: readonly number[]): number[] {
+/** Constant thrust along a fixed J2000 equatorial unit direction, N and kg/s. */
+export interface InertialThrust { thrustN: number; massFlowKgS: number; direction: readonly number[] }
+
+/** [r, v, m] (km, km/s, kg; Sun-centred J2000 equatorial) carried from t0 to t1 (TDB s), thrusting when `thrust` is given. */
+function propagateIndependently(problem: PlanningProblem, y0: number[], t0: number, t1: number,
+  marsOffsetKm: readonly number[], thrust?: InertialThrust): number[] {
   const bodies = problem.forceModel.perturbingBodies;
   const sp = problem.spacecraft.solarPressure;
-  const srp = problem.forceModel.solarPressure && sp ? (sp.reflectivityCoefficient * SRP_1AU_N_M2 * sp.areaM2 / massKg / 1000) * KM_PER_AU ** 2 : 0;
+  // C_R (Φ/c) A (1 au)², kg·km³/s²: divided by the current mass and r³ it gives the SRP acceleration's factor.
+  const srpTimesMass = problem.forceModel.solarPressure && sp ? (sp.reflectivityCoefficient * SRP_1AU_N_M2 * sp.areaM2 / 1000) * KM_PER_AU ** 2 : 0;
   const f = (x: number, y: number[]): number[] => {
     const t = t0 + x;
     const r = Math.hypot(y[0], y[1], y[2]);
-    const k = (-GM.sun + srp) / r ** 3;
+    const k = (-GM.sun + srpTimesMass / y[6]) / r ** 3;
     const a = [k * y[0], k * y[1], k * y[2]];
     for (const b of bodies) {
       const p = helioKm(b, t, marsOffsetKm);
@@ -57,11 +65,12 @@ function propagateIndependently(problem: PlanningProblem, y0: number[], t0: numb
       const pn = Math.hypot(...p);
       for (let i = 0; i < 3; i++) a[i] += GM[b] * (d[i] / dn ** 3 - p[i] / pn ** 3);
     }
-    return [y[3], y[4], y[5], ...a];
+    if (thrust !== undefined) for (let i = 0; i < 3; i++) a[i] += (thrust.thrustN / 1000 / y[6]) * thrust.direction[i];
+    return [y[3], y[4], y[5], ...a, thrust === undefined ? 0 : -thrust.massFlowKgS];
   };
-  const solver = new odex.Solver(6);
+  const solver = new odex.Solver(7);
   solver.relativeTolerance = 1e-13;
-  solver.absoluteTolerance = [1e-5, 1e-5, 1e-5, 1e-11, 1e-11, 1e-11];
+  solver.absoluteTolerance = [1e-5, 1e-5, 1e-5, 1e-11, 1e-11, 1e-11, 1e-9];
   solver.maxSteps = 200000;
   const res = solver.solve(f, 0, y0, t1 - t0);
   expect(res.outcome).toBe(0);
@@ -101,25 +110,53 @@ export function bPlane(rel: number[]): { bDotTKm: number; bDotRKm: number; axes:
 }
 
 
-/** The plan's burn flown independently from the problem's initial state; the closest approach to Mars
- * (moved by `marsOffsetKm`) found as the root of r·v by secant steps from the plan's requested epoch. */
-export function reflyDemoPlan(problem: PlanningProblem, plan: ManeuverPlan, marsOffsetKm: readonly number[] = [0, 0, 0]):
+/** A burn as the re-flight flies it: impulsive (Δv at an epoch) or finite (inertial thrust from ignition). */
+export type FlownBurn =
+  | { model: 'impulsive'; epochTdbS: number; deltaVInertialKmS: readonly number[]; massBeforeKg: number; massAfterKg: number }
+  | { model: 'finite'; startTdbS: number; durationS: number; massBeforeKg: number; thrust: InertialThrust };
+
+/** The plan's first burn as the plan JSON states it (a finite burn from its `finite` block; inertial axes only). */
+export function plannedBurn(plan: ManeuverPlan): FlownBurn {
+  const b = plan.burns[0];
+  const f = b.finite;
+  if (b.model !== 'finite' || f === undefined) {
+    return { model: 'impulsive', epochTdbS: b.epoch.tdbS, deltaVInertialKmS: b.deltaVInertialKmS, massBeforeKg: b.massBeforeKg, massAfterKg: b.massAfterKg };
+  }
+  if (f.axes !== 'inertial') throw new Error(`the re-flight holds the thrust inertially; the plan's burn is held in ${f.axes} axes`);
+  return { model: 'finite', startTdbS: f.startTdbS, durationS: f.durationS, massBeforeKg: f.massBeforeKg,
+    thrust: { thrustN: f.thrustN, massFlowKgS: f.massFlowKgS, direction: f.directionInertial } };
+}
+
+/** The state [r, v, m] just after `burn` (at the impulse, or at cut-off) and its epoch. */
+function flyBurn(problem: PlanningProblem, y0: number[], t0: number, burn: FlownBurn, o: readonly number[]): { y: number[]; tdbS: number } {
+  if (burn.model === 'impulsive') {
+    const yb = propagateIndependently(problem, [...y0, burn.massBeforeKg], t0, burn.epochTdbS, o);
+    return { y: [...yb.slice(0, 3), ...yb.slice(3, 6).map((v, i) => v + burn.deltaVInertialKmS[i]), burn.massAfterKg], tdbS: burn.epochTdbS };
+  }
+  const ys = propagateIndependently(problem, [...y0, burn.massBeforeKg], t0, burn.startTdbS, o);
+  const end = burn.startTdbS + burn.durationS;
+  return { y: propagateIndependently(problem, ys, burn.startTdbS, end, o, burn.thrust), tdbS: end };
+}
+
+/** The plan's burn flown independently from the problem's initial state (or `burn`, e.g. an impulsive
+ * plan flown as a finite burn); the closest approach to Mars (moved by `marsOffsetKm`) found as the root
+ * of r·v by secant steps from the plan's requested epoch. */
+export function reflyDemoPlan(problem: PlanningProblem, plan: ManeuverPlan, marsOffsetKm: readonly number[] = [0, 0, 0], burn: FlownBurn = plannedBurn(plan)):
   { bDotTKm: number; bDotRKm: number; closestApproachTdbS: number; axes: number[][] } {
   const t0 = plan.createdFrom.initialEpoch.tdbS;
-  const burn = plan.burns[0];
   const y0 = [...problem.initialState.positionKm, ...problem.initialState.velocityKmS];
-  const yb = propagateIndependently(problem, y0, t0, burn.epoch.tdbS, burn.massBeforeKg, marsOffsetKm);
-  const after = [...yb.slice(0, 3), ...yb.slice(3).map((v, i) => v + burn.deltaVInertialKmS[i])];
+  const after = flyBurn(problem, y0, t0, burn, marsOffsetKm);
   const tGuess = plan.targets.find((t) => t.kind === 'closest-approach-epoch')?.requested as number;
-  // Carry to one hour before the requested approach, then find the root of r·v (secant on short arcs).
-  const tStart = tGuess - 3600;
-  const yStart = propagateIndependently(problem, after, burn.epoch.tdbS, tStart, burn.massAfterKg, marsOffsetKm);
+  // Carry to one hour before the requested approach (or the burn's end, if later), then find the root of
+  // r·v (secant on short arcs).
+  const tStart = Math.max(tGuess - 3600, after.tdbS);
+  const yStart = propagateIndependently(problem, after.y, after.tdbS, tStart, marsOffsetKm);
   const g = (t: number): { g: number; rel: number[] } => {
-    const y = propagateIndependently(problem, yStart, tStart, t, burn.massAfterKg, marsOffsetKm);
+    const y = propagateIndependently(problem, yStart, tStart, t, marsOffsetKm);
     const rel = marsRelative(y, t, marsOffsetKm);
     return { g: dot(rel.slice(0, 3), rel.slice(3)), rel };
   };
-  let ta = tGuess - 600;
+  let ta = Math.max(tGuess - 600, tStart);
   let tb = tGuess + 600;
   let ga = g(ta).g;
   let gb = g(tb).g;
