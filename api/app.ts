@@ -5,9 +5,9 @@
  */
 import { randomUUID } from 'node:crypto';
 import express, { type Express, type RequestHandler } from 'express';
-import { rateLimit, ipKeyGenerator, type RateLimitInfo } from 'express-rate-limit';
+import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
 import helmet from 'helmet';
-import { authenticate } from './auth/index.ts';
+import { authenticate, refusedTokenLimit } from './auth/index.ts';
 import type { AppDeps } from './deps.ts';
 import { errorHandler, notFound, sendError } from './errors.ts';
 import { ApiRoutes } from './route-table.ts';
@@ -34,31 +34,6 @@ function requestLog(deps: AppDeps): RequestHandler {
   };
 }
 
-/**
- * Runs before authentication, keyed by client address: only requests whose bearer token is refused (401)
- * count, so guessing tokens is slowed down while the per-token limit (which needs a known token) cannot.
- * Past the limit every request from that address that carries a token gets 429 until the window ends.
- */
-function refusedTokenLimit(deps: AppDeps): RequestHandler {
-  const { authFailureLimitMax: max, rateLimitWindowMs: windowMs } = deps.limits;
-  return rateLimit({
-    windowMs,
-    limit: max,
-    standardHeaders: false,
-    legacyHeaders: false,
-    skip: (req) => !req.get('authorization'),
-    skipSuccessfulRequests: true,
-    requestWasSuccessful: (_req, res) => res.statusCode !== 401,
-    keyGenerator: (req) => `refused:${ipKeyGenerator(req.ip ?? '0.0.0.0')}`,
-    handler: (req, res) => {
-      const resetAt = (req as typeof req & { rateLimit?: RateLimitInfo }).rateLimit?.resetTime?.getTime();
-      res.set('Retry-After', String(Math.max(1, Math.ceil(((resetAt ?? Date.now() + windowMs) - Date.now()) / 1000))));
-      sendError(res, 429, 'TOO_MANY_REFUSED_TOKENS',
-        `more than ${max} requests with a refused token from this address in ${windowMs / 1000} s; retry later`);
-    },
-  });
-}
-
 /** Builds the application; the caller owns `deps` (and closes them). */
 export function createApp(deps: AppDeps): Express {
   const app = express();
@@ -67,7 +42,14 @@ export function createApp(deps: AppDeps): Express {
   app.use(requestLog(deps));
   app.use(helmet());
   app.use(express.json({ limit: deps.limits.bodyLimitBytes }));
-  app.use(refusedTokenLimit(deps));
+  const { authFailureLimitMax: max, rateLimitWindowMs: windowMs } = deps.limits;
+  app.use(refusedTokenLimit({
+    max, windowMs,
+    refuse: (_req, res, retryAfterS) => {
+      res.set('Retry-After', String(retryAfterS));
+      sendError(res, 429, 'TOO_MANY_REFUSED_TOKENS', `more than ${max} requests with a refused token from this address in ${windowMs / 1000} s; retry later`);
+    },
+  }));
   app.use(authenticate(deps.tokens));
   app.use('/v1', rateLimit({
     windowMs: deps.limits.rateLimitWindowMs,

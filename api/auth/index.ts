@@ -7,3 +7,4 @@ export { openTokenStore, SQLITE_TOKENS_FILE, type OpenTokenStoreOptions } from '
 export { authenticate, identityOf, requireRoles, type RoleGuard } from './middleware.ts';
 export { generateTokenSecret, hashTokenSecret, TOKEN_PREFIX } from './token-secret.ts';
 export { newTokenSchema, parseNewToken, TokenInputError } from './token-input.ts';
+export { refusedTokenLimit, type RefusedTokenLimitOptions } from './refused-token-limit.ts';

@@ -45,13 +45,17 @@ export function submitterJobsKey(prefix: string, submitter: string): string {
 }
 
 /**
- * The submitter's unfinished jobs, after dropping from their set every job that finished or no longer exists
- * (a job hash with `finishedOn`, or none). One pipelined round trip for the whole set.
+ * The submitter's unfinished jobs, exact once the submitter's set holds at least `limit` ids; below that, the
+ * set's size (an upper bound: finished ids stay until a count at the limit drops them). The common case is
+ * then one SCARD; only a set at the limit is walked (every job hash with `finishedOn`, or none, is dropped,
+ * in one pipelined round trip). Walking the set on every submission made each one cost O(set size) in Redis
+ * and in this process — thousands of HMGETs per request once a busy submitter had thousands of jobs.
  */
-export async function unfinishedJobsOf(redis: Redis, prefix: string, queueKey: string, submitter: string): Promise<number> {
+export async function unfinishedJobsOf(redis: Redis, prefix: string, queueKey: string, submitter: string, limit: number): Promise<number> {
   const key = submitterJobsKey(prefix, submitter);
+  const size = await redis.scard(key);
+  if (size < limit) return size;
   const ids = await redis.smembers(key);
-  if (ids.length === 0) return 0;
   const pipeline = redis.pipeline();
   for (const id of ids) pipeline.hmget(`${queueKey}:${id}`, 'finishedOn', 'name');
   const answers = (await pipeline.exec()) ?? [];

@@ -152,16 +152,22 @@ export class RetargetQueue {
     const refusal = await this.admit(priority, submittedBy);
     if (refusal) return refusal;
     const submissionId = randomUUID();
-    await this.queue.add(name, dataOf(submissionId) as RetargetJobData, {
-      jobId,
-      priority: priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
-      attempts: this.attempts,
-      backoff: { type: 'exponential', delay: 2_000 },
-      removeOnComplete: { age: this.retentionS },
-      removeOnFail: { age: this.retentionS },
-    });
     const submitterKey = submitterJobsKey(this.prefix, submittedBy);
-    await this.redis.multi().sadd(submitterKey, jobId).expire(submitterKey, this.retentionS).exec();
+    // The job and its id in the submitter's set go in one wait: an id whose job is not there yet only counts
+    // as finished to a concurrent count at the limit (the overshoot admission.ts allows for).
+    await Promise.all([
+      this.queue.add(name, dataOf(submissionId) as RetargetJobData, {
+        jobId,
+        priority: priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
+        attempts: this.attempts,
+        backoff: { type: 'exponential', delay: 2_000 },
+        removeOnComplete: { age: this.retentionS },
+        removeOnFail: { age: this.retentionS },
+      }),
+      // Two plain commands, not MULTI: no atomicity is needed, and an ioredis pipeline costs more to build.
+      this.redis.sadd(submitterKey, jobId),
+      this.redis.expire(submitterKey, this.retentionS),
+    ]);
     if (!idempotencyKey) return { outcome: 'created', jobId };
     // Two concurrent first submissions with one key: BullMQ keeps the first; tell the second apart.
     const stored = await this.findJob(jobId);
@@ -173,10 +179,14 @@ export class RetargetQueue {
   private async admit(priority: Priority, submittedBy: string): Promise<AdmissionRefusal | null> {
     const limits = this.admission;
     const bullPriority = priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine;
-    const waiting = (await this.queue.getCountsPerPriority([bullPriority]))[bullPriority] ?? 0;
+    // Both counts in one wait (two round trips in flight at once).
+    const [counts, unfinished] = await Promise.all([
+      this.queue.getCountsPerPriority([bullPriority]),
+      unfinishedJobsOf(this.redis, this.prefix, this.queue.qualifiedName, submittedBy, limits.unfinishedPerSubmitter),
+    ]);
+    const waiting = counts[bullPriority] ?? 0;
     const limit = limits.waitingPerPriority[priority];
     if (waiting >= limit) return { outcome: 'queue-full', priority, waiting, limit, retryAfterS: limits.retryAfterS };
-    const unfinished = await unfinishedJobsOf(this.redis, this.prefix, this.queue.qualifiedName, submittedBy);
     if (unfinished >= limits.unfinishedPerSubmitter) {
       return { outcome: 'submitter-full', submitter: submittedBy, unfinished, limit: limits.unfinishedPerSubmitter, retryAfterS: limits.retryAfterS };
     }

@@ -140,6 +140,20 @@ describe('rate limiting of refused tokens', () => {
       try {
         const anonymous = await own.request('GET', '/health');
         expect(anonymous.status).toBe(200);
+        // Accepted tokens never count, however many of their requests are in flight at once (4 × the limit).
+        const burst = await Promise.all(Array.from({ length: 20 }, () => own.request('GET', '/v1/jobs?limit=1', { token: own.tokens.auditor })));
+        expect(burst.map((r) => r.status)).toEqual(Array(20).fill(200));
+        // Nor do answers the client cut short (6 event streams of a waiting job, closed by the client).
+        const job = await own.request('POST', '/v1/jobs', { token: own.tokens.submitter, body: submission(schemaValidProblem()) });
+        expect(job.status).toBe(202);
+        for (let i = 0; i < 6; i++) {
+          const controller = new AbortController();
+          const stream = await fetch(`${own.url}/v1/jobs/${job.body.jobId}/events`, { headers: { authorization: `Bearer ${own.tokens.auditor}` }, signal: controller.signal });
+          expect(stream.status).toBe(200);
+          controller.abort();
+        }
+        await new Promise((r) => setTimeout(r, 300)); // the server sees the closed connections
+        expect((await own.request('GET', '/v1/jobs?limit=1', { token: own.tokens.auditor })).status).toBe(200);
         const statuses: number[] = [];
         for (let i = 0; i < 5; i++) statuses.push((await own.request('GET', '/v1/jobs?limit=1', { token: `veer_guess-${i}` })).status);
         expect(statuses).toEqual([401, 401, 401, 401, 401]);
