@@ -3,15 +3,19 @@
  * start-up), measured in the same run, alternating one of each per round; wall time of the whole process.
  * Target: `veer --help` within 4× of `node -e 0` (median of the per-round ratios).
  *
- * Then `npm run demo`'s command (`node bin/veer.js plan examples/flyby-demo.json`, compiled) against the same
- * sources run the way bin/veer.js ran them before the build existed (`node --import tsx cli/run.ts ...`),
- * alternating, median of the per-round differences. Target: at least 0.7 s faster. `--baseline DIR` adds the
- * demo of another checkout DIR (e.g. a worktree of the last commit before the build) as a third contender.
+ * Then `npm run demo`'s command (`node bin/veer.js plan examples/flyby-demo.json`) run four ways, alternating one of
+ * each per round: compiled and bundled (what bin/veer.js runs, dist/cli-bundle/), compiled without the bundle
+ * (dist/cli/run.js, tsc's module tree: shows the bundle's share), the same sources through tsx
+ * (`node --import tsx cli/run.ts`), and "today's" of the issue: the checkout of the commit before the build existed
+ * (ISSUE_COMMIT, extracted with `git archive` into a temporary folder and run as it ran then, tsx registered by its
+ * bin/veer.js; its planner is that commit's). Target: at least 0.7 s faster than the issue's demo, median of the
+ * per-round differences. `--baseline-commit REV` picks another commit, `--no-baseline` leaves it out.
  *
  * Writes bench/results/startup.md. Needs `npm run build` first (the bench refuses a missing dist/).
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
+import os, { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { codeVersion, formatSpread, historyRows, machineLine, spreadOf } from './bench-stats.ts';
 
@@ -23,7 +27,9 @@ const arg = (name: string): string | undefined => {
 };
 const ROUNDS = Number(arg('--rounds') ?? 31);
 const DEMO_ROUNDS = Number(arg('--demo-rounds') ?? 7);
-const baseline = arg('--baseline');
+/** The last commit before `npm ci` built anything: `veer` ran the TypeScript through tsx (the issue's "today"). */
+const ISSUE_COMMIT = '19a7e4f^';
+const baselineCommit = process.argv.includes('--no-baseline') ? null : arg('--baseline-commit') ?? ISSUE_COMMIT;
 
 /** Wall time of one process run to its exit, ms; fails loudly on a non-zero exit. */
 function wallMs(args: string[], cwd = ROOT): number {
@@ -42,7 +48,18 @@ function alternate(contenders: ReadonlyArray<() => number>, rounds: number): num
   return out;
 }
 
-if (!existsSync(join(ROOT, 'dist/cli/main.js'))) throw new Error('dist/ is missing: run `npm run build` first');
+if (!existsSync(join(ROOT, 'dist/cli-bundle/run.js')) || !existsSync(join(ROOT, 'dist/cli/run.js'))) {
+  throw new Error('dist/ is missing: run `npm run build` first');
+}
+
+/** `rev`'s files in a temporary folder (git archive), sharing this checkout's node_modules. */
+function checkout(rev: string): string {
+  const dir = mkdtempSync(join(tmpdir(), 'veer-bench-startup-'));
+  const run = spawnSync('sh', ['-c', 'git archive "$1" | tar -x -C "$2"', 'sh', rev, dir], { cwd: ROOT, stdio: ['ignore', 'ignore', 'pipe'] });
+  if (run.status !== 0) throw new Error(`git archive ${rev} failed: ${run.stderr.toString().slice(0, 400)}`);
+  symlinkSync(join(ROOT, 'node_modules'), join(dir, 'node_modules'));
+  return dir;
+}
 
 const lines: string[] = ['# Start-up benchmark (npm run bench:startup)', '', `Machine: ${machineLine()}; code ${codeVersion()}.`, ''];
 const [nodeMs, helpMs] = alternate([() => wallMs(['-e', '0']), () => wallMs(['bin/veer.js', '--help'])], ROUNDS);
@@ -55,24 +72,40 @@ lines.push(`## \`veer --help\` against \`node -e 0\`, ${ROUNDS} alternating roun
   `Ratio veer --help / node -e 0 (per round): ${formatSpread(ratio, 2)} (target ≤ 4): ${met ? 'met' : 'NOT met'}.`, '');
 
 const demo = ['plan', 'examples/flyby-demo.json'];
+const baselineDir = baselineCommit ? checkout(baselineCommit) : null;
 const contenders: { name: string; run: () => number }[] = [
+  { name: 'compiled, bundled (node bin/veer.js: dist/cli-bundle/)', run: () => wallMs(['bin/veer.js', ...demo]) },
+  { name: 'compiled, not bundled (node dist/cli/run.js)', run: () => wallMs(['dist/cli/run.js', ...demo]) },
   { name: 'same sources through tsx (node --import tsx cli/run.ts)', run: () => wallMs(['--import', 'tsx', 'cli/run.ts', ...demo]) },
-  { name: 'compiled (node bin/veer.js)', run: () => wallMs(['bin/veer.js', ...demo]) },
 ];
-if (baseline) contenders.push({ name: `checkout ${baseline} (node bin/veer.js)`, run: () => wallMs(['bin/veer.js', ...demo], resolve(baseline)) });
-const demoMs = alternate(contenders.map((c) => c.run), DEMO_ROUNDS);
-const savedVs = (i: number) => spreadOf(demoMs[i].map((t, k) => (t - demoMs[1][k]) / 1000));
-const saved = savedVs(0);
-const demoRow = saved.median.toFixed(2);
+if (baselineDir) contenders.push({ name: `the issue's demo: checkout ${baselineCommit} (node bin/veer.js, tsx)`, run: () => wallMs(['bin/veer.js', ...demo], baselineDir) });
+let demoMs: number[][];
+try {
+  demoMs = alternate(contenders.map((c) => c.run), DEMO_ROUNDS);
+} finally {
+  if (baselineDir) rmSync(baselineDir, { recursive: true, force: true });
+}
+/** Seconds the bundled build saved against contender i, per round. */
+const savedVs = (i: number) => spreadOf(demoMs[i].map((t, k) => (t - demoMs[0][k]) / 1000));
+const verdict = (s: ReturnType<typeof spreadOf>): string => `${formatSpread(s, 2)} s (target ≥ 0.7 s): ${s.median >= 0.7 ? 'met' : 'NOT met'}`;
+const savedTsx = savedVs(2);
+const savedIssue = baselineDir ? savedVs(3) : null;
 lines.push(`## \`npm run demo\`'s command, ${DEMO_ROUNDS} alternating rounds`, '',
   '| how | wall ms, median (min–max) |', '|---|---|',
   ...contenders.map((c, i) => `| ${c.name} | ${formatSpread(spreadOf(demoMs[i]), 0)} |`), '',
-  `Saved by the compiled build against the same sources through tsx (per round): ${formatSpread(saved, 2)} s (target ≥ 0.7 s): ${saved.median >= 0.7 ? 'met' : 'NOT met'}.`,
-  ...(baseline ? [`Against the checkout ${baseline}: ${formatSpread(savedVs(2), 2)} s (its planner may differ from this one's).`] : []), '');
+  ...(savedIssue ? [`Saved against the issue's demo (per round): ${verdict(savedIssue)}.`] : []),
+  `Saved against the same sources through tsx (per round; the build's share alone): ${verdict(savedTsx)}.`,
+  `Saved by the bundle against tsc's module tree (per round): ${formatSpread(savedVs(1), 2)} s.`, '');
 
 const heading = '## Run history';
-const row = `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${spreadOf(nodeMs).median.toFixed(0)} | ${spreadOf(helpMs).median.toFixed(0)} | ${ratio.median.toFixed(2)} | ${demoRow} |`;
-lines.push(heading, '', '| date | code | node -e 0 ms | veer --help ms | ratio | demo saved s |', '|---|---|---|---|---|---|',
-  ...historyRows(RESULTS, heading, row), '');
+const load = os.loadavg()[0].toFixed(1);
+/** Rows of runs before the load and issue columns existed: those columns left empty ('–'). */
+const widenOldRow = (r: string): string => {
+  const cells = r.split('|').slice(1, -1);
+  return cells.length === 6 ? `|${[...cells.slice(0, 2), ' – ', ...cells.slice(2), ' – '].join('|')}|` : r;
+};
+const row = `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${load} | ${spreadOf(nodeMs).median.toFixed(0)} | ${spreadOf(helpMs).median.toFixed(0)} | ${ratio.median.toFixed(2)} | ${savedTsx.median.toFixed(2)} | ${savedIssue ? savedIssue.median.toFixed(2) : '–'} |`;
+lines.push(heading, '', '| date | code | load at end | node -e 0 ms | veer --help ms | ratio | demo saved vs tsx s | demo saved vs issue s |', '|---|---|---|---|---|---|---|---|',
+  ...historyRows(RESULTS, heading, row).map(widenOldRow), '');
 writeFileSync(RESULTS, lines.join('\n'));
 console.log(lines.join('\n'));

@@ -1,6 +1,6 @@
 /**
  * The `veer` process: runs the CLI with this process's arguments and sets the exit code. bin/veer.js loads the
- * compiled form (dist/cli/run.js); tests and development run this file from the sources with tsx.
+ * bundled compiled form (dist/cli-bundle/run.js); tests and development run this file from the sources with tsx.
  */
 import { main } from './main.ts';
 

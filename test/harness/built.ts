@@ -1,6 +1,6 @@
 /**
  * The compiled build for tests that run what production runs (plain node on dist/, the built console):
- * `npm run build`'s two steps, the TypeScript one incremental (a few seconds when dist/ is current).
+ * `npm run build`'s three steps, the TypeScript one incremental (a few seconds when dist/ is current).
  * Call from one test file at a time: two builds writing dist/ at once would race.
  */
 import { spawnSync } from 'node:child_process';
@@ -10,11 +10,14 @@ import { buildConsole } from '../e2e/build-console.ts';
 
 export const ROOT = resolve(import.meta.dirname, '../..');
 
-/** Compiles the TypeScript to dist/ (tsconfig.build.json) and builds the console; throws with tsc's output. */
+/** `npm run build`: compiles the TypeScript to dist/ (tsconfig.build.json), bundles the CLI (dist/cli-bundle/) and
+ * builds the console; throws with the failing step's output. */
 export function buildAll(): void {
   const tsc = resolve(ROOT, 'node_modules/typescript/bin/tsc');
   const run = spawnSync(process.execPath, [tsc, '-p', 'tsconfig.build.json'], { cwd: ROOT, encoding: 'utf8' });
   if (run.status !== 0) throw new Error(`tsc -p tsconfig.build.json failed (exit ${run.status}):\n${run.stdout}\n${run.stderr}`);
+  const bundle = spawnSync(process.execPath, [resolve(ROOT, 'scripts/bundle-cli.mjs')], { cwd: ROOT, encoding: 'utf8' });
+  if (bundle.status !== 0) throw new Error(`scripts/bundle-cli.mjs failed (exit ${bundle.status}):\n${bundle.stderr}`);
   buildConsole();
 }
 

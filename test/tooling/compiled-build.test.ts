@@ -5,7 +5,7 @@
  * The other tests run the sources through vitest; this file covers the built paths.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -65,6 +65,14 @@ describe('the compiled build', () => {
       expect(run.stderr).not.toMatch(/tsx|ERR_/);
       expect(run.status).toBe(0);
       expect(JSON.parse(run.stdout).schema).toBe('veer.propagate.result/1');
+    });
+
+    it('should find every worker-thread module its bundle may start beside it (dist/cli-bundle/)', () => {
+      const dir = join(ROOT, 'dist/cli-bundle');
+      const started = readdirSync(dir).filter((f) => f.endsWith('.js'))
+        .flatMap((f) => [...readFileSync(join(dir, f), 'utf8').matchAll(/"\.\/([\w-]+-thread\.js)"/g)].map((m) => m[1]));
+      expect(started).toEqual(expect.arrayContaining(['verify-thread.js', 'export-thread.js']));
+      for (const file of new Set(started)) expect(existsSync(join(dir, file)), file).toBe(true);
     });
   });
 

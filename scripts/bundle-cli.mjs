@@ -1,0 +1,50 @@
+#!/usr/bin/env node
+// The `veer` command as a few bundled files (dist/cli-bundle/), built by `npm run build` after tsc. Why: the
+// compiled dist/ tree is ~200 small ES modules plus zod's ~200, and on Node 20 resolving and compiling each one
+// costs more than the whole `veer --help`; one bundle per command (esbuild, code splitting, so `veer --help`
+// still loads no numerics) starts `veer plan` in a fraction of that time.
+//   - entry points: cli/run.ts (the process) and the worker-thread modules the CLI's code may start (archive
+//     verification, CCSDS export; test/tooling/compiled-build checks none is missing); a thread module is found
+//     beside the module that starts it
+//     (new URL('./verify-thread.js', import.meta.url)), so every output lands flat in one folder, named as in dist/.
+//   - bundled: the project's code, zod and astronomy-engine (pure ESM, no files read at run time); every other
+//     dependency stays in node_modules (native addons, libraries that load files or threads by path).
+// Plain JavaScript like setup.mjs; esbuild is a dev dependency (the same binary tsx and vite use).
+import { build } from 'esbuild';
+import { readFileSync, rmSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+
+export const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
+export const OUT_DIR = join(ROOT, 'dist', 'cli-bundle');
+const BUNDLED_DEPENDENCIES = ['zod', 'astronomy-engine'];
+const ENTRY_POINTS = ['cli/run.ts', 'archive/verify-thread.ts', 'ccsds/export/export-thread.ts'];
+
+/** Writes dist/cli-bundle/ afresh; resolves to the output files' names (relative to ROOT). */
+export async function bundleCli() {
+  const pkg = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8'));
+  const external = Object.keys(pkg.dependencies ?? {}).filter((d) => !BUNDLED_DEPENDENCIES.includes(d));
+  rmSync(OUT_DIR, { recursive: true, force: true });
+  const result = await build({
+    absWorkingDir: ROOT,
+    entryPoints: ENTRY_POINTS,
+    outdir: OUT_DIR,
+    entryNames: '[name]',
+    chunkNames: 'chunk-[hash]',
+    bundle: true,
+    splitting: true,
+    format: 'esm',
+    platform: 'node',
+    target: 'node20',
+    external,
+    sourcemap: true,
+    metafile: true,
+    logLevel: 'warning',
+  });
+  return Object.keys(result.metafile.outputs).filter((f) => f.endsWith('.js'));
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const files = await bundleCli();
+  process.stderr.write(`bundle-cli: ${files.length} files in ${OUT_DIR.slice(ROOT.length + 1)}/\n`);
+}
