@@ -3,6 +3,7 @@
  * across process boundaries) that also carries the 1-based line number of the offending text.
  */
 import { InvalidInputError } from '../propagator/index.ts';
+import { failureOf } from '../contract/errors.ts';
 
 /** Malformed or unsupported content in an OPM or OEM. `field` is the keyword (or `file`), `line` the
  * 1-based line number in the text that was read (0 when the problem is the end of the text). */
@@ -22,9 +23,7 @@ export function withLine<T>(field: string, line: number, convert: () => T): T {
   } catch (error) {
     if (error instanceof CcsdsFormatError) throw error;
     if (error instanceof Error && (error.name === 'InvalidInputError' || error.name === 'OutOfSpanError')) {
-      const detail = error.message.startsWith(`${(error as InvalidInputError).field}: `)
-        ? error.message.slice((error as InvalidInputError).field.length + 2) : error.message;
-      throw new CcsdsFormatError(field, line, detail);
+      throw new CcsdsFormatError(field, line, failureOf(error).message);
     }
     throw error;
   }

@@ -8,9 +8,12 @@ export class InvalidInputError extends Error {
   override readonly name = 'InvalidInputError';
   readonly code: string;
   readonly field: string;
+  /** The message without the `field: ` prefix `message` carries. */
+  readonly detail: string;
   constructor(field: string, message: string, code = 'INVALID_INPUT') {
     super(`${field}: ${message}`);
     this.field = field;
+    this.detail = message;
     this.code = code;
   }
 }
@@ -20,9 +23,12 @@ export class OutOfSpanError extends Error {
   override readonly name = 'OutOfSpanError';
   readonly code = 'OUT_OF_SPAN';
   readonly field: string;
+  /** The message without the `field: ` prefix `message` carries. */
+  readonly detail: string;
   constructor(field: string, message: string) {
     super(`${field}: ${message}`);
     this.field = field;
+    this.detail = message;
   }
 }
 
@@ -52,8 +58,51 @@ export function isFinalError(error: unknown): boolean {
   return error instanceof Error && FINAL_ERROR_NAMES.has(error.name);
 }
 
-/** A failure as data, the shape in which it crosses a process boundary and reaches clients. */
-export interface FailureData { name: string; code?: string; field?: string; message: string }
+/**
+ * A failure as data, the shape in which it crosses thread, process and queue boundaries and reaches clients:
+ * `name` classifies it (FINAL_ERROR_NAMES), `code` is stable for programs, `field` the dotted path of the
+ * offending input when known, and `message` the explanation without that field prefix.
+ */
+export interface FailureData { name: string; code: string; field?: string; message: string }
+
+/** The code of a failure whose error carries none. */
+const DEFAULT_FAILURE_CODE = 'FAILED';
+
+/**
+ * Any thrown value as FailureData: the one place an error becomes data. Reads `name`, `code`, `field` and
+ * `detail` (the message without its field prefix) when the error has them, so nothing parses text back.
+ */
+export function failureOf(error: unknown): FailureData {
+  if (!(error instanceof Error)) return { name: 'Error', code: DEFAULT_FAILURE_CODE, message: String(error) };
+  const e = error as Error & { code?: unknown; field?: unknown; detail?: unknown };
+  return {
+    name: e.name,
+    code: typeof e.code === 'string' ? e.code : DEFAULT_FAILURE_CODE,
+    ...(typeof e.field === 'string' ? { field: e.field } : {}),
+    message: typeof e.detail === 'string' ? e.detail : e.message,
+  };
+}
+
+/** A failure rebuilt as an Error on the far side of a boundary; `name` keeps the original kind, so
+ * isFinalError classifies it as it would the original. */
+export class FailureError extends Error {
+  override readonly name: string;
+  readonly code: string;
+  readonly field?: string;
+  readonly detail: string;
+  constructor(readonly failure: FailureData) {
+    super(failure.field ? `${failure.field}: ${failure.message}` : failure.message);
+    this.name = failure.name;
+    this.code = failure.code;
+    this.detail = failure.message;
+    if (failure.field !== undefined) this.field = failure.field;
+  }
+}
+
+/** One line for people (logs, the queue library's failedReason): `Name [field]: message`. Never parsed back. */
+export function failureText(f: FailureData): string {
+  return `${f.name}${f.field ? ` [${f.field}]` : ''}: ${f.message}`;
+}
 
 /** Dotted path of a field from a zod issue path: `burns[0].epoch`, or `body.problem.burns[0].epoch` under
  * `root`; `(problem)` for the whole value. */

@@ -47,7 +47,7 @@ export const jobStatusSchema = z.object({
   result: z.object({
     planId: z.string(), planStatus: z.enum(['converged', 'not-converged']), problemHash: z.string(), storedIn: z.string(),
   }).nullable(),
-  error: z.object({ name: z.string(), code: z.string().optional(), field: z.string().optional(), message: z.string() }).nullable(),
+  error: z.object({ name: z.string(), code: z.string(), field: z.string().optional(), message: z.string() }).nullable(),
   cancelRequested: z.boolean(),
 });
 // Compile-time check that the documented shape is the one the queue returns.

@@ -63,6 +63,8 @@ export interface RetargetJobData {
   batches?: number;
   /** ISO UTC time the job first started; its time limit counts from here (set by the first run). */
   firstStartedAt?: string;
+  /** How the job ended when it failed or was cancelled for good, as data (set by the worker). */
+  failure?: FailureData;
 }
 
 /** Data of a `dispersion-samples` child job. */

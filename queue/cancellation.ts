@@ -35,7 +35,3 @@ export async function readCancel(redis: Redis, prefix: string, jobId: string): P
   return raw ? (JSON.parse(raw) as CancelRecord) : null;
 }
 
-/** Prefix of failure reasons of cancelled jobs, so status readers can tell them from failures. */
-export const CANCELLED_REASON_PREFIX = 'CancelledError';
-/** Prefix of failure reasons of jobs stopped by the time limit. */
-export const TIME_LIMIT_REASON_PREFIX = 'TimeLimitError';

@@ -4,7 +4,7 @@
  */
 import type { Request, Response } from 'express';
 import { z } from 'zod';
-import { findProblemIssue, type JobRequest } from '../../queue/index.ts';
+import { findProblemIssue, recordRemovedJob, type JobRequest } from '../../queue/index.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
@@ -109,7 +109,7 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
 
 /**
  * The cancel door shared by retargeting and budget jobs: `statusOf` reads the job of that kind. A waiting job
- * is removed (200) and, since no worker recorded it, its submission and cancellation are archived here; a
+ * is removed (200) and, since no worker recorded it, its submission and cancellation are archived (recordRemovedJob); a
  * running one is told to stop (202); a finished one answers 409. Submitters cancel only their own jobs.
  */
 export async function cancelQueuedJob(deps: AppDeps, req: Request, res: Response, statusOf: (jobId: string) => Promise<{ submittedBy: string } | undefined>): Promise<void> {
@@ -128,13 +128,8 @@ export async function cancelQueuedJob(deps: AppDeps, req: Request, res: Response
     return;
   }
   if (outcome.outcome === 'cancelled' && deps.archive) {
-    // The job never ran, so no worker recorded it: record its submission and its cancellation here.
-    const archive = deps.archive;
-    const { removed } = outcome;
-    await archive.recordJobSubmitted({
-      jobId: params.jobId, actor: removed.submittedBy, problem: removed.problem, problemHash: removed.problemHash, reason: removed.reason,
-    })
-      .then(() => archive.recordJobCancelled({ jobId: params.jobId, actor: identity.name, reason: body.reason }))
+    // The job never ran, so no worker recorded it: its submission and cancellation are recorded here.
+    await recordRemovedJob(deps.archive, params.jobId, outcome.removed, identity.name, body.reason)
       .catch((err: unknown) => deps.logger.error({ err, jobId: params.jobId }, 'archive: job-cancelled not recorded'));
   }
   const after = await statusOf(params.jobId);

@@ -4,6 +4,7 @@
  */
 import { checkProblem, parseBudgetRequest, type PlanningProblem } from '../../planner/index.ts';
 import type { LeapSecondTable } from '../../propagator/index.ts';
+import { failureOf } from '../../contract/errors.ts';
 
 /** A semantic problem with a submitted problem: `field` is the dotted path inside the problem. */
 export interface ProblemIssue { field: string; message: string }
@@ -33,13 +34,11 @@ export function findBudgetIssue(request: unknown, leapSeconds: LeapSecondTable):
   }
 }
 
-/** An input error as an issue (field, message without the field prefix); any other error is rethrown. */
+/** An input error as an issue (its field and message, as data); any other error is rethrown. */
 function issueOf(error: unknown): ProblemIssue {
-  const e = error as Error & { field?: unknown };
-  if (e.name === 'InvalidInputError' || e.name === 'OutOfSpanError') {
-    const field = typeof e.field === 'string' ? e.field : '';
-    const prefix = `${field}: `;
-    return { field, message: e.message.startsWith(prefix) ? e.message.slice(prefix.length) : e.message };
+  if (error instanceof Error && (error.name === 'InvalidInputError' || error.name === 'OutOfSpanError')) {
+    const { field, message } = failureOf(error);
+    return { field: field ?? '', message };
   }
   throw error;
 }

@@ -11,9 +11,8 @@ import {
   BUDGET_JOB_NAMES, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus,
 } from '../../contract/budget-job-types.ts';
 import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../../propagator/index.ts';
-import {
-  CANCELLED_REASON_PREFIX, cancelKey, readCancel, requestCancel, type CancelRecord,
-} from '../cancellation.ts';
+import { cancelKey, readCancel, requestCancel, type CancelRecord } from '../cancellation.ts';
+import type { FailureData } from '../../contract/errors.ts';
 import { createRedis } from '../config/connection.ts';
 import type { Priority } from '../../contract/index.ts';
 import { DEFAULT_ADMISSION, submitterJobsKey, unfinishedJobsOf, type AdmissionLimits, type AdmissionRefusal } from './admission.ts';
@@ -45,7 +44,8 @@ export type SubmitOutcome =
   | AdmissionRefusal;
 
 export type CancelOutcome =
-  | { outcome: 'cancelled'; jobId: string; removed: Pick<RetargetJobData, 'problem' | 'problemHash' | 'reason' | 'submittedBy'> }
+  /** `removed`: the data of the job removed before any worker ran it (its submission is recorded from it). */
+  | { outcome: 'cancelled'; jobId: string; removed: RetargetJobData | BudgetJobData }
   | { outcome: 'cancelling'; jobId: string }
   | { outcome: 'already-finished'; jobId: string; state: JobState }
   | { outcome: 'not-found'; jobId: string };
@@ -228,7 +228,7 @@ export class RetargetQueue {
         id: jobId, state: 'cancelled', priority: w.priority === 'urgent' ? 'urgent' : 'routine', submittedBy: w.submittedBy,
         submittedAt: w.submittedAt, reason: w.reason, spacecraftName: w.spacecraftName, attemptsMade: 0, progress: null,
         startedAt: null, finishedAt: cancel.at, result: null, cancelRequested: true,
-        error: { name: 'CancelledError', message: `cancelled by ${cancel.by} before it ran: ${cancel.reason}` },
+        error: { name: 'CancelledError', code: 'CANCELLED', message: `cancelled by ${cancel.by} before it ran: ${cancel.reason}` },
       };
     }
     const status = this.describe(job, state, cancel);
@@ -302,8 +302,7 @@ export class RetargetQueue {
       await requestCancel(this.redis, this.prefix, jobId, record, this.retentionS);
       try {
         await job.remove();
-        const { problem, problemHash: hash, reason: why, submittedBy } = job.data;
-        return { outcome: 'cancelled', jobId, removed: { problem, problemHash: hash, reason: why, submittedBy } };
+        return { outcome: 'cancelled', jobId, removed: job.data };
       } catch {
         // It became active meanwhile (a locked job cannot be removed): the worker sees the marker.
         delete record.removedWhileWaiting;
@@ -368,7 +367,7 @@ export class RetargetQueue {
   cancelKey(jobId: string): string { return cancelKey(this.prefix, jobId); }
 
   private clientState(state: string, job: Job<RetargetJobData>, cancel: CancelRecord | null): JobState {
-    if (state === 'failed' && (cancel || job.failedReason?.startsWith(CANCELLED_REASON_PREFIX))) return 'cancelled';
+    if (state === 'failed' && (cancel || job.data.failure?.name === 'CancelledError')) return 'cancelled';
     return CLIENT_STATE[state] ?? 'unknown';
   }
 
@@ -384,18 +383,21 @@ export class RetargetQueue {
       startedAt: job.processedOn ? new Date(job.processedOn).toISOString() : null,
       finishedAt: job.finishedOn ? new Date(job.finishedOn).toISOString() : null,
       result: clientState === 'completed' ? result : null,
-      error: clientState === 'failed' || clientState === 'cancelled' ? parseFailure(job.failedReason, cancel) : null,
+      error: clientState === 'failed' || clientState === 'cancelled' ? failureOfJob(job, cancel) : null,
       cancelRequested: cancel !== null,
     };
   }
 }
 
-/** Splits `Name [field]: message` (as the processor writes failures) back into parts. */
-export function parseFailure(reason: string | undefined, cancel: CancelRecord | null): { name: string; field?: string; message: string } {
-  if (cancel && !(reason ?? '').startsWith(CANCELLED_REASON_PREFIX)) {
-    return { name: 'CancelledError', message: `cancelled by ${cancel.by}: ${cancel.reason}` };
+/**
+ * The failure of a job that ended for good, as the worker recorded it in the job's data. A job cancelled
+ * while its run was ending reads as cancelled; one the queue library failed on its own (a stalled job over
+ * its limit) has only the library's text, given as the message.
+ */
+function failureOfJob(job: Job<RetargetJobData>, cancel: CancelRecord | null): FailureData {
+  const recorded = job.data.failure;
+  if (cancel && recorded?.name !== 'CancelledError') {
+    return { name: 'CancelledError', code: 'CANCELLED', message: `cancelled by ${cancel.by}: ${cancel.reason}` };
   }
-  const m = /^([A-Za-z]+)(?: \[([^\]]+)\])?: ([\s\S]*)$/.exec(reason ?? '');
-  if (!m) return { name: 'Error', message: reason ?? 'unknown failure' };
-  return { name: m[1] ?? 'Error', ...(m[2] ? { field: m[2] } : {}), message: m[3] ?? '' };
+  return recorded ?? { name: 'Error', code: 'FAILED', message: job.failedReason || 'unknown failure' };
 }

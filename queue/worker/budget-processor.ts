@@ -1,20 +1,19 @@
 /**
- * The Δv budget job processors, on the same machinery as retargeting (processor.ts): time limit,
+ * The Δv budget job processors, on the same machinery as retargeting (job-run.ts): time limit,
  * cancellation, progress, final-error classification, and the BullMQ parent/child flow of the Monte Carlo
  * fan-out. A `budget` job: prepare (nominal plan + linear model, on a planner thread) → add
  * `budget-samples` child jobs for the non-linear path and wait → assemble (linear path + statistics) →
  * store the study through the sink once → result. Sample i of a batch depends on (seed, i) only, so the
  * result does not depend on how many workers ran the batches.
  */
-import { WaitingChildrenError, type Job } from 'bullmq';
+import type { Job } from 'bullmq';
 import type { BudgetResult, BudgetSample } from '../../planner/index.ts';
 import {
   BUDGET_JOB_NAMES, type BudgetBatchData, type BudgetBatchResult, type BudgetJobData, type BudgetJobResult,
 } from '../../contract/budget-job-types.ts';
-import { readCancel } from '../cancellation.ts';
 import {
-  addChildBatches, classify, progressWriter, recordFinal, releaseChildBatches, runChildBatch, runControl, sampleBatches, type ProcessorDeps,
-} from './processor.ts';
+  addChildBatches, collectChildSamples, releaseChildBatches, runChildBatch, runParentJob, sampleBatches, type ProcessorDeps,
+} from './job-run.ts';
 
 async function finishStudy(deps: ProcessorDeps, job: Job<BudgetJobData>, result: BudgetResult): Promise<BudgetJobResult> {
   const stored = await deps.sink.storeStudy({ jobId: String(job.id), actor: deps.actor, submittedBy: job.data.submittedBy, study: result });
@@ -28,59 +27,37 @@ async function finishStudy(deps: ProcessorDeps, job: Job<BudgetJobData>, result:
 
 /** Processes a `budget` job (see the file comment). */
 export async function processBudget(deps: ProcessorDeps, job: Job<BudgetJobData>, token: string | undefined, bullSignal?: AbortSignal): Promise<BudgetJobResult> {
-  const jobId = String(job.id);
-  if (!job.data.firstStartedAt) await job.updateData({ ...job.data, firstStartedAt: new Date().toISOString() });
-  const deadlineMs = Date.parse(job.data.firstStartedAt ?? '') + deps.jobTimeLimitS * 1000;
-  const control = runControl(deps, jobId, null, deadlineMs, bullSignal);
-  const report = progressWriter(job, deps.logger);
-  try {
-    const cancel = await readCancel(deps.redis, deps.prefix, jobId);
-    if (cancel) control.cancel(cancel.by);
-    if (control.signal.aborted) throw new Error('stopped before start');
+  return runParentJob(deps, job, bullSignal, async (run) => {
     const request = job.data.budget;
     const total = request.nonlinearSamples;
     if (job.data.step === 'prepare') {
-      await deps.sink.recordSubmitted({ jobId, actor: job.data.submittedBy, problem: request, problemHash: job.data.problemHash, reason: job.data.reason });
+      await deps.sink.recordSubmitted(run.jobId, job.data);
       const leapSeconds = job.data.leapSeconds ?? deps.leapSeconds;
-      const prepared = await deps.pool.run({ kind: 'budget-prepare', request, leapSeconds }, { signal: control.signal, onProgress: report });
+      const prepared = await deps.pool.run({ kind: 'budget-prepare', request, leapSeconds }, { signal: run.signal, onProgress: run.report });
       if (!prepared.nominal || total === 0) {
-        const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: prepared.plan, nominal: prepared.nominal, nonlinear: [] }, { signal: control.signal });
-        return await finishStudy(deps, job, result);
+        const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: prepared.plan, nominal: prepared.nominal, nonlinear: [] }, { signal: run.signal });
+        return finishStudy(deps, job, result);
       }
       await job.updateData({ ...job.data, step: 'await-samples', nominal: prepared.nominal });
     }
     const nominal = job.data.nominal;
-    if (!nominal) throw new Error(`budget job ${jobId} is waiting for samples but holds no nominal model`);
-    const values = await job.getChildrenValues<BudgetBatchResult>();
-    if (Object.keys(values).length < sampleBatches(total, deps.batchSize).length) {
-      const batches = await addChildBatches(deps, job, BUDGET_JOB_NAMES.samples, total, (b) => ({
-        parentId: jobId, budget: request, nominal, firstIndex: b.firstIndex, count: b.count,
-        priority: job.data.priority, deadlineAt: new Date(deadlineMs).toISOString(),
-      } satisfies BudgetBatchData));
-      await job.updateData({ ...job.data, batches });
-      report({ stage: 'dispersion', fraction: 0.2, message: `non-linear budget samples: ${batches} batches queued`, samplesDone: 0, samplesTotal: total });
-      if (!token) throw new Error('no lock token to wait for child jobs');
-      if (await job.moveToWaitingChildren(token)) throw new WaitingChildrenError();
-    }
-    const all = await job.getChildrenValues<BudgetBatchResult>();
-    const samples: BudgetSample[] = Object.values(all).sort((a, b) => a.firstIndex - b.firstIndex).flatMap((b) => b.samples);
-    if (samples.length !== total) throw new Error(`expected ${total} non-linear budget samples from child jobs, got ${samples.length}`);
-    report({ stage: 'dispersion', fraction: 0.95, message: 'linear path and statistics', samplesDone: total, samplesTotal: total });
-    const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: nominal.plan, nominal, nonlinear: samples }, { signal: control.signal });
-    report({ stage: 'done', fraction: 1, message: 'budget study ready for review', samplesDone: total, samplesTotal: total });
+    if (!nominal) throw new Error(`budget job ${run.jobId} is waiting for samples but holds no nominal model`);
+    const samples = await collectChildSamples<BudgetSample>(job, token, sampleBatches(total, deps.batchSize).length, total,
+      () => addChildBatches(deps, job, BUDGET_JOB_NAMES.samples, total, (b) => ({
+        parentId: run.jobId, budget: request, nominal, firstIndex: b.firstIndex, count: b.count,
+        priority: job.data.priority, deadlineAt: new Date(run.deadlineMs).toISOString(),
+      } satisfies BudgetBatchData)),
+      (batches) => run.report({ stage: 'dispersion', fraction: 0.2, message: `non-linear budget samples: ${batches} batches queued`, samplesDone: 0, samplesTotal: total }));
+    run.report({ stage: 'dispersion', fraction: 0.95, message: 'linear path and statistics', samplesDone: total, samplesTotal: total });
+    const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: nominal.plan, nominal, nonlinear: samples }, { signal: run.signal });
+    run.report({ stage: 'done', fraction: 1, message: 'budget study ready for review', samplesDone: total, samplesTotal: total });
     const finished = await finishStudy(deps, job, result);
     // As a retarget job does: once the study is stored, the batches and the nominal model are dead weight.
     await releaseChildBatches(deps, job, total);
     const { nominal: _released, ...data } = job.data;
     await job.updateData(data);
     return finished;
-  } catch (error) {
-    const outcome = classify(error, control.stopReason(), deps);
-    await recordFinal(deps, job, outcome);
-    throw outcome;
-  } finally {
-    control.dispose();
-  }
+  });
 }
 
 /** Processes a `budget-samples` child job: one batch of non-linear budget samples. */

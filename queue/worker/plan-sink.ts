@@ -7,6 +7,9 @@
  * - `ArchivePlanSink`: appends to the hash-chained archive (archive/), whose appends are idempotent by job id.
  */
 import type { BudgetResult, ManeuverPlan } from '../../planner/index.ts';
+import type { FailureData } from '../../contract/errors.ts';
+import type { RetargetJobData } from '../../contract/job-types.ts';
+import type { BudgetJobData } from '../../contract/budget-job-types.ts';
 
 export interface ProposedPlanInput {
   jobId: string;
@@ -30,14 +33,14 @@ export interface PlanSink {
   readonly kind: string;
   /** True when the plan must also be kept in the job's result (no other store holds it). */
   readonly keepsPlanInJobResult: boolean;
-  /** Records a submission (idempotent by jobId). */
-  recordSubmitted(input: { jobId: string; actor: string; problem: unknown; problemHash: string; reason: string }): Promise<void>;
+  /** Records a job's submission from its queued data (idempotent by jobId): the one writer of `job-submitted`. */
+  recordSubmitted(jobId: string, data: RetargetJobData | BudgetJobData): Promise<void>;
   /** Stores the proposed plan exactly once per job; a repeat returns the first plan's id with created false. */
   storeProposedPlan(input: ProposedPlanInput): Promise<{ planId: string; created: boolean }>;
   /** Stores a job's study exactly once per job; its id is the job id. */
   storeStudy(input: StudyInput): Promise<{ studyId: string; created: boolean }>;
-  /** Records a final failure (idempotent). */
-  recordFailed(input: { jobId: string; actor: string; errorName: string; message: string }): Promise<void>;
+  /** Records a final failure, given as data (idempotent). */
+  recordFailed(input: { jobId: string; actor: string; failure: FailureData }): Promise<void>;
   /** Records a cancellation (idempotent). */
   recordCancelled(input: { jobId: string; actor: string; reason: string }): Promise<void>;
   close(): Promise<void>;
@@ -74,8 +77,11 @@ export class ArchivePlanSink implements PlanSink {
   readonly kind = 'archive';
   readonly keepsPlanInJobResult = false;
   constructor(private readonly archive: ArchiveAppends, private readonly ownsArchive = true) {}
-  async recordSubmitted(input: { jobId: string; actor: string; problem: unknown; problemHash: string; reason: string }): Promise<void> {
-    await this.archive.recordJobSubmitted(input);
+  async recordSubmitted(jobId: string, data: RetargetJobData | BudgetJobData): Promise<void> {
+    // A budget job's submission is its whole request (problem and budget settings); a retarget job's its problem.
+    await this.archive.recordJobSubmitted({
+      jobId, actor: data.submittedBy, problem: 'budget' in data ? data.budget : data.problem, problemHash: data.problemHash, reason: data.reason,
+    });
   }
   async storeProposedPlan(input: ProposedPlanInput): Promise<{ planId: string; created: boolean }> {
     const result = await this.archive.recordPlanProposed(input);
@@ -85,8 +91,9 @@ export class ArchivePlanSink implements PlanSink {
     const result = await this.archive.recordStudy(input);
     return { studyId: input.jobId, created: result.created };
   }
-  async recordFailed(input: { jobId: string; actor: string; errorName: string; message: string }): Promise<void> {
-    await this.archive.recordJobFailed(input);
+  async recordFailed(input: { jobId: string; actor: string; failure: FailureData }): Promise<void> {
+    const { failure: f } = input;
+    await this.archive.recordJobFailed({ jobId: input.jobId, actor: input.actor, errorName: f.name, message: f.field ? `${f.field}: ${f.message}` : f.message });
   }
   async recordCancelled(input: { jobId: string; actor: string; reason: string }): Promise<void> {
     await this.archive.recordJobCancelled(input);
@@ -94,4 +101,14 @@ export class ArchivePlanSink implements PlanSink {
   async close(): Promise<void> {
     if (this.ownsArchive) await this.archive.close();
   }
+}
+
+/**
+ * Records a job removed from the queue before any worker ran it (so no worker recorded its submission): its
+ * submission, through the sink's one writer, then its cancellation by `by`.
+ */
+export async function recordRemovedJob(archive: ArchiveAppends, jobId: string, data: RetargetJobData | BudgetJobData, by: string, reason: string): Promise<void> {
+  const sink = new ArchivePlanSink(archive, false);
+  await sink.recordSubmitted(jobId, data);
+  await sink.recordCancelled({ jobId, actor: by, reason });
 }

@@ -4,9 +4,8 @@
  * and replaced, so a stuck computation cannot hold a worker slot.
  */
 import { Worker } from 'node:worker_threads';
-import {
-  PlannerTaskError, type FromThread, type PlannerTask, type PlannerTaskResult, type ToThread,
-} from './planner-task.ts';
+import type { FromThread, PlannerTask, PlannerTaskResult, ToThread } from './planner-task.ts';
+import { FailureError } from '../../contract/errors.ts';
 import type { PlanProgress } from '../../planner/index.ts';
 
 export interface PlannerPoolOptions {
@@ -83,17 +82,17 @@ export class PlannerPool {
         graceTimer = setTimeout(() => {
           finish();
           this.replace(slot);
-          reject(new PlannerTaskError({ name: 'CancelledError', message: `${reason} (planner thread stopped after ${this.cancelGraceMs} ms)` }));
+          reject(new FailureError({ name: 'CancelledError', code: 'CANCELLED', message: `${reason} (planner thread stopped after ${this.cancelGraceMs} ms)` }));
         }, this.cancelGraceMs);
       };
       slot.onMessage = (m) => {
         if (m.type === 'progress' && m.taskId === taskId) opts.onProgress?.(m.progress);
         else if (m.type === 'done' && m.taskId === taskId) { finish(); resolve(m.result); }
-        else if (m.type === 'failed' && m.taskId === taskId) { finish(); reject(new PlannerTaskError(m.error)); }
+        else if (m.type === 'failed' && m.taskId === taskId) { finish(); reject(new FailureError(m.error)); }
       };
       slot.onExit = (code) => {
         finish();
-        reject(new PlannerTaskError({ name: 'PlannerThreadExited', message: `planner thread exited with code ${code}` }));
+        reject(new FailureError({ name: 'PlannerThreadExited', code: 'PLANNER_THREAD_EXITED', message: `planner thread exited with code ${code}` }));
       };
       if (signal?.aborted) { onAbort(); } else { signal?.addEventListener('abort', onAbort, { once: true }); }
       slot.worker.postMessage({ type: 'run', taskId, task } satisfies ToThread);

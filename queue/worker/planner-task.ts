@@ -2,6 +2,7 @@
 import type {
   BudgetNominal, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress,
 } from '../../planner/index.ts';
+import type { FailureData } from '../../contract/errors.ts';
 
 export type PlannerTask =
   | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds }
@@ -19,9 +20,6 @@ export type PlannerTaskResult<T extends PlannerTask> =
     : T extends { kind: 'budget-assemble' } ? BudgetResult
     : ManeuverPlan;
 
-/** An error as it crosses the thread boundary: classified by `name`. */
-export interface SerialisedError { name: string; message: string; code?: string; field?: string }
-
 export type ToThread =
   | { type: 'run'; taskId: number; task: PlannerTask }
   | { type: 'cancel'; taskId: number; reason: string };
@@ -30,29 +28,4 @@ export type FromThread =
   | { type: 'ready' }
   | { type: 'progress'; taskId: number; progress: PlanProgress }
   | { type: 'done'; taskId: number; result: unknown }
-  | { type: 'failed'; taskId: number; error: SerialisedError };
-
-export function serialiseError(error: unknown): SerialisedError {
-  if (error instanceof Error) {
-    const e = error as Error & { code?: unknown; field?: unknown };
-    return {
-      name: e.name, message: e.message,
-      ...(typeof e.code === 'string' ? { code: e.code } : {}),
-      ...(typeof e.field === 'string' ? { field: e.field } : {}),
-    };
-  }
-  return { name: 'Error', message: String(error) };
-}
-
-/** An error rebuilt on the worker side; `name` keeps the original kind (InvalidInputError, CancelledError...). */
-export class PlannerTaskError extends Error {
-  override readonly name: string;
-  readonly code?: string;
-  readonly field?: string;
-  constructor(e: SerialisedError) {
-    super(e.message);
-    this.name = e.name;
-    if (e.code !== undefined) this.code = e.code;
-    if (e.field !== undefined) this.field = e.field;
-  }
-}
+  | { type: 'failed'; taskId: number; error: FailureData };

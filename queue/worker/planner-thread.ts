@@ -8,7 +8,8 @@ import type {
   BudgetNominal, BudgetProgress, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, EphemerisCache, ManeuverPlan, MonteCarloSummary, PlanLeapSeconds, PlanningProblem, PlanProgress,
 } from '../../planner/index.ts';
 import type { LeapSecondTable } from '../../propagator/index.ts';
-import { serialiseError, type FromThread, type PlannerTask, type ToThread } from './planner-task.ts';
+import { failureOf } from '../../contract/errors.ts';
+import type { FromThread, PlannerTask, ToThread } from './planner-task.ts';
 
 /** The planner functions this thread calls (names and signatures fixed by the planner's contract). */
 interface PlannerFunctions {
@@ -80,7 +81,7 @@ port.on('message', (message: ToThread) => {
   controllers.set(message.taskId, controller);
   run(message.taskId, message.task, controller.signal).then(
     (result) => send({ type: 'done', taskId: message.taskId, result }),
-    (error: unknown) => send({ type: 'failed', taskId: message.taskId, error: serialiseError(error) }),
+    (error: unknown) => send({ type: 'failed', taskId: message.taskId, error: failureOf(error) }),
   ).finally(() => controllers.delete(message.taskId));
 });
 send({ type: 'ready' });

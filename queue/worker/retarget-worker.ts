@@ -12,7 +12,8 @@ import { createRedis } from '../config/connection.ts';
 import { JOB_NAMES, RETARGET_QUEUE, type RetargetJobData, type SampleBatchData } from '../../contract/job-types.ts';
 import type { PlanSink } from './plan-sink.ts';
 import { PlannerPool } from './planner-pool.ts';
-import { processRetarget, processSamples, type ProcessorDeps } from './processor.ts';
+import { processRetarget, processSamples } from './processor.ts';
+import type { ProcessorDeps } from './job-run.ts';
 import { processBudget, processBudgetBatch } from './budget-processor.ts';
 import { BUDGET_JOB_NAMES, type BudgetBatchData, type BudgetJobData } from '../../contract/budget-job-types.ts';
 
@@ -97,7 +98,9 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
     opts.logger.warn({ jobId: job?.id, attemptsMade: job?.attemptsMade, reason: err.message }, 'job failed');
     // A job failed by the stalled-job check never reached the processor's error path: record it here.
     if (job && (job.name === JOB_NAMES.retarget || job.name === BUDGET_JOB_NAMES.budget) && /stalled/i.test(err.message)) {
-      opts.sink.recordFailed({ jobId: String(job.id), actor: name, errorName: 'StalledJobError', message: err.message })
+      const failure = { name: 'StalledJobError', code: 'STALLED', message: err.message };
+      job.updateData({ ...job.data, failure })
+        .then(() => opts.sink.recordFailed({ jobId: String(job.id), actor: name, failure }))
         .catch((e: unknown) => opts.logger.error({ err: e, jobId: job.id }, 'could not record the stalled job\'s failure'));
     }
   });

@@ -2,8 +2,10 @@
  * Worker behaviour against a real Redis: priority (urgent first), cancellation of a running job through
  * the planner's AbortSignal, the time limit (final, not retried; counted from the job's first start, so it
  * also bounds a fanned-out run), lock renewal while the planner runs on its thread (a lock far shorter than
- * the job, with a stalled-job check running often, must not let the job stall), and which failures are final.
+ * the job, with a stalled-job check running often, must not let the job stall), which failures are final, and
+ * that a final failure reaches clients and the archive as data ({ name, code, field, message }).
  */
+import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InvalidInputError } from '../../propagator/index.ts';
 import { isFinalFailure } from '../../queue/index.ts';
@@ -125,5 +127,29 @@ describe('failure classification', () => {
       expect(isFinalFailure(Object.assign(new Error('job j-1 was cancelled; no plan is recorded for it'), { name: 'ArchiveConflictError' }))).toBe(true);
       expect(isFinalFailure(new Error('connect ECONNREFUSED 127.0.0.1:5432'))).toBe(false);
     });
+  });
+});
+
+describe('a final failure as data', () => {
+  describe('when a job whose problem fails the relation checks reaches a worker (queued past the API\'s checks)', () => {
+    it('should end failed without retry, its status and archive entry naming the field', async () => {
+      const worker = await svc.startWorkerInProcess({ concurrency: 1 });
+      // The span ends before it starts: a final InvalidInputError from the worker's own parse of the job data.
+      const problem = { ...reachableProblem({ samples: 0, name: 'BACKWARDSAT' }), endEpoch: '2031-02-28T00:00:00 TDB' };
+      const jobId = `j-${randomUUID()}`;
+      await svc.api.deps.queue.queue.add('retarget', {
+        problem: problem as never, reason: 'queued past the API checks', priority: 'routine', submittedBy: 'sam',
+        submittedAt: new Date().toISOString(), problemHash: '0'.repeat(64), requestHash: '0'.repeat(64), submissionId: randomUUID(), step: 'plan',
+      }, { jobId, attempts: 3 });
+      const end = await waitForJob(svc, jobId, (s) => s.state === 'failed' || s.state === 'completed', 60_000);
+      expect(end.state).toBe('failed');
+      expect(end.attemptsMade).toBe(1);
+      expect(end.error).toEqual({
+        name: 'InvalidInputError', code: 'INVALID_INPUT', field: 'endEpoch', message: 'the end of the span must come after initialState.epoch',
+      });
+      const failed = (await svc.archive!.entries()).find((e) => e.jobId === jobId && e.kind === 'job-failed');
+      expect(failed?.payload).toEqual({ errorName: 'InvalidInputError', message: 'endEpoch: the end of the span must come after initialState.epoch' });
+      await worker.close();
+    }, 120_000);
   });
 });
