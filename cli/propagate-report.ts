@@ -57,6 +57,12 @@ export function propagateResultJson(result: PropagationResult, info: PropagateRu
     final: stateJson(result.final, info.leapSeconds),
     stm: result.stm ?? null,
     burnSensitivities: result.burnSensitivities ?? null,
+    finalMassKg: result.finalMassKg ?? null,
+    finiteBurns: result.finiteBurns === undefined ? null : result.finiteBurns.map((b) => (b === null ? null : {
+      startTdbS: b.startTdbS, start: formatEpoch(b.startTdbS, 'TDB', 6), endTdbS: b.endTdbS, end: formatEpoch(b.endTdbS, 'TDB', 6),
+      massBeforeKg: b.massBeforeKg, massAfterKg: b.massAfterKg, idealDeltaVKmS: b.idealDeltaVKmS,
+      directionAtStartInertial: b.directionAtStartInertial, directionAtEndInertial: b.directionAtEndInertial,
+    })),
     samples: result.samples.map((s) => stateJson(s, info.leapSeconds)),
     events: result.events.map((e) => ({ kind: e.kind, body: e.body ?? null, epochTdbS: e.epochTdbS,
       epoch: formatEpoch(e.epochTdbS, 'TDB', 6), utc: utcTextOrNull(e.epochTdbS, info.leapSeconds, 6),
@@ -92,6 +98,12 @@ export function formatPropagateReport(result: PropagationResult, info: Propagate
       + `${result.stats.evaluations} force evaluations, ${result.stats.rectifications} rectifications, `
       + `${result.samples.length} samples, ${Math.round(info.wallTimeMs)} ms`,
   ];
+  (result.finiteBurns ?? []).forEach((b, i) => {
+    lines.push(b === null ? `finite burn ${i + 1}: not flown to cut-off`
+      : `finite burn ${i + 1}: ignition ${epochText(b.startTdbS, info.leapSeconds, 3)}, cut-off ${epochText(b.endTdbS, info.leapSeconds, 3)}, `
+        + `mass ${b.massBeforeKg.toFixed(6)} -> ${b.massAfterKg.toFixed(6)} kg, ideal Δv ${(b.idealDeltaVKmS * 1000).toFixed(6)} m/s`);
+  });
+  if (result.finalMassKg !== undefined) lines.push(`final mass ${result.finalMassKg.toFixed(6)} kg`);
   for (const e of result.events) {
     lines.push(`event: ${e.kind}${e.body ? ` ${e.body}` : ''} at ${epochText(e.epochTdbS, info.leapSeconds, 6)}`
       + `${e.distanceKm !== undefined ? `, distance ${e.distanceKm.toFixed(3)} km` : ''}`);

@@ -9,13 +9,35 @@ import { RELATIVE_TOLERANCE_RANGE } from '../contract/problem-bounds.ts';
 import {
   BODY_NAMES, BUILTIN_LEAP_SECONDS, formatEpoch, INERTIAL_FRAMES, InvalidInputError, OutOfSpanError, parseEpoch,
   type LeapSecondTable, type EventSpec, type VelocityImpulse, type PropagationRequest, type Ephemeris, type TdbSpan, type Vec3,
+  type FiniteBurnSpec, checkFiniteBurns,
 } from '../propagator/index.ts';
+import { massFlowRateKgS } from '../planner/index.ts';
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()]);
 const body = z.enum(BODY_NAMES);
 const epoch = z.union([
   z.string().min(10).max(64).describe("ISO-8601 with scale: '2031-03-01T00:00:00 TDB' or '...Z' (UTC)"),
   z.number().describe('TDB seconds from J2000'),
+]);
+
+/**
+ * A burn, with the problem's burn models: `impulsive` (the default) is Δv at `epoch` (J2000 equatorial);
+ * `finite` fires `thrustN` from `epoch` (ignition) for `durationS` along the unit `direction` held fixed in
+ * `frame` axes (inertial = J2000 equatorial; RTN / VNB of the instantaneous state relative to the central
+ * body), the mass falling at ṁ = thrustN/(ispS·g0) or at the `massFlowKgS` given (a plan's finite block).
+ */
+const burnSchema = z.discriminatedUnion('model', [
+  z.object({ model: z.literal('impulsive').default('impulsive'), epoch, deltaVKmS: vec3 }).strict(),
+  z.object({
+    model: z.literal('finite'),
+    epoch,
+    durationS: z.number().positive(),
+    thrustN: z.number().positive(),
+    ispS: z.number().positive().optional(),
+    massFlowKgS: z.number().min(0).optional(),
+    frame: z.enum(['inertial', 'RTN', 'VNB']),
+    direction: vec3,
+  }).strict(),
 ]);
 
 const stop = z.boolean().optional();
@@ -55,7 +77,10 @@ export const propagateRequestSchema = z.object({
   relativeTolerance: z.number().min(RELATIVE_TOLERANCE_RANGE.min).max(RELATIVE_TOLERANCE_RANGE.max).optional(),
   absoluteTolerance: z.number().positive().max(1).optional(),
   maxSteps: z.number().int().positive().optional(),
-  burns: z.array(z.object({ epoch, deltaVKmS: vec3 }).strict()).default([]),
+  /** Spacecraft mass at the initial epoch, kg: needed with finite burns unless forces.solarPressure.massKg
+   * gives it (both given: they must agree). Finite burns lower it; solar pressure follows it. */
+  massKg: z.number().positive().optional(),
+  burns: z.array(burnSchema).default([]),
   outputStepS: z.number().positive().optional(),
   withStm: z.boolean().optional(),
   events: z.array(eventSchema).default([]),
@@ -95,6 +120,11 @@ export function parsePropagateRequest(json: unknown, leapSeconds: LeapSecondTabl
   if ((file.endEpoch === undefined) === (file.durationS === undefined)) {
     throw new InvalidInputError('endEpoch', 'give exactly one of endEpoch and durationS');
   }
+  file.burns.forEach((b, i) => {
+    if (b.model === 'finite' && (b.ispS === undefined) === (b.massFlowKgS === undefined)) {
+      throw new InvalidInputError(`burns[${i}].ispS`, 'a finite burn needs exactly one of ispS and massFlowKgS');
+    }
+  });
   return file;
 }
 
@@ -125,14 +155,54 @@ export function checkRequestSpan(file: PropagateRequestFile, span: TdbSpan, sour
   }
 }
 
-/** The propagator's request for a parsed file and an ephemeris. */
+/** Where each of the propagator's impulsive and finite burns sits in the file's `burns`. */
+interface FileIndex { impulsive: number[]; finite: number[] }
+
+/** The request file's name for a field of the propagator's finite-burn checks (`finiteBurns[k].startTdbS`
+ * is `burns[j].epoch` of the file, `initialMassKg` is `massKg`). */
+function fileField(field: string, index: FileIndex): string {
+  if (field === 'initialMassKg') return 'massKg';
+  const m = /^(finiteBurns|burns)\[(\d+)\](?:\.(\w+))?(.*)$/.exec(field);
+  if (m === null) return field;
+  const names: Record<string, string> = { startTdbS: 'epoch', epochTdbS: 'epoch', axes: 'frame' };
+  const key = m[3] === undefined ? '' : `.${names[m[3]] ?? m[3]}`;
+  return `burns[${(m[1] === 'burns' ? index.impulsive : index.finite)[Number(m[2])]}]${key}${m[4]}`;
+}
+
+/** Runs the propagator's finite-burn checks now, so a bad burn is named as the file names it. */
+function checkFileFiniteBurns(request: PropagationRequest, index: FileIndex): void {
+  try {
+    checkFiniteBurns(request);
+  } catch (error) {
+    if (!(error instanceof InvalidInputError)) throw error;
+    const message = error.message.slice(error.field.length + 2)
+      .replace(/finiteBurns\[(\d+)\]/g, (_m, k: string) => `burns[${index.finite[Number(k)]}]`)
+      .replace(/finite burn (\d+)/g, (_m, k: string) => `finite burn burns[${index.finite[Number(k)]}]`);
+    throw new InvalidInputError(fileField(error.field, index), message);
+  }
+}
+
+/** The propagator's request for a parsed file and an ephemeris; finite burns are checked here (spans,
+ * overlaps, unit directions, the mass), InvalidInputError naming the file's field. */
 export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephemeris): PropagationRequest {
   const { startTdbS, endTdbS } = requestSpan(file);
-  const burns: VelocityImpulse[] = file.burns.map((b, i) => ({
-    epochTdbS: epochSeconds(file, b.epoch, `burns[${i}].epoch`),
-    deltaVKmS: b.deltaVKmS as Vec3,
-  }));
-  return {
+  const burns: VelocityImpulse[] = [];
+  const finiteBurns: FiniteBurnSpec[] = [];
+  const index: FileIndex = { impulsive: [], finite: [] };
+  file.burns.forEach((b, i) => {
+    const epochTdbS = epochSeconds(file, b.epoch, `burns[${i}].epoch`);
+    if (b.model === 'impulsive') {
+      index.impulsive.push(i);
+      burns.push({ epochTdbS, deltaVKmS: b.deltaVKmS as Vec3 });
+    } else {
+      index.finite.push(i);
+      finiteBurns.push({
+        startTdbS: epochTdbS, durationS: b.durationS, thrustN: b.thrustN, axes: b.frame, direction: b.direction as Vec3,
+        massFlowKgS: b.massFlowKgS ?? massFlowRateKgS(b.thrustN, b.ispS as number),
+      });
+    }
+  });
+  const request: PropagationRequest = {
     initial: {
       epochTdbS: startTdbS,
       centre: file.initial.centre,
@@ -148,6 +218,8 @@ export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephe
     absoluteTolerance: file.absoluteTolerance,
     maxSteps: file.maxSteps,
     burns,
+    ...(finiteBurns.length > 0 ? { finiteBurns } : {}),
+    ...(file.massKg !== undefined ? { initialMassKg: file.massKg } : {}),
     outputStepS: file.outputStepS,
     withStm: file.withStm,
     events: file.events.map((e, i): EventSpec => (e.kind === 'epoch'
@@ -155,4 +227,6 @@ export function toPropagationRequest(file: PropagateRequestFile, ephemeris: Ephe
       : e)),
     switching: file.switching,
   };
+  if (finiteBurns.length > 0) checkFileFiniteBurns(request, index);
+  return request;
 }

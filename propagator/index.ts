@@ -21,4 +21,4 @@ export {
 export { laplaceSoiRadiusKm, soiRadiusKm, PRIMARY_OF, MEAN_SEMI_MAJOR_AXIS_KM } from './switching/index.ts';
 export { brentRoot, EVENT_TIME_TOLERANCE_S, type RootResult } from './events/index.ts';
 export { ENCKE_DEFAULTS } from './encke/index.ts';
-export { ThrustDirection, arcMassKg, DIRECTION_UNIT_TOLERANCE } from './finite-burn/index.ts';
+export { ThrustDirection, arcMassKg, checkFiniteBurns, DIRECTION_UNIT_TOLERANCE } from './finite-burn/index.ts';

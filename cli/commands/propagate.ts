@@ -19,7 +19,7 @@ const USAGE = `usage: veer propagate <request.json> [--json] [--leap-seconds FIL
 
 Propagates an initial state (epoch, centre, frame, position, velocity) under a force model (central
 body, perturbing bodies in Battin's f(q) form, optional J2 and solar radiation pressure) over a span,
-with optional impulsive burns, output samples and the state transition matrix. The request file is
+with optional impulsive or finite burns (mass carried), output samples and the state transition matrix. The request file is
 described in README.md ("veer propagate"); see examples/propagate-two-body.json and
 examples/propagate-cruise.json. Progress goes to stderr.
 

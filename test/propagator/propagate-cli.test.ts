@@ -119,7 +119,7 @@ describe('veer propagate', () => {
       const json = JSON.parse(out.text()) as Record<string, unknown>;
       expect(json.schema).toBe(PROPAGATE_JSON_SCHEMA);
       expect(json.outcome).toBe('finished');
-      expect(Object.keys(json)).toEqual(['schema', 'outcome', 'message', 'final', 'stm', 'burnSensitivities', 'samples', 'events', 'stats', 'warnings', 'run']);
+      expect(Object.keys(json)).toEqual(['schema', 'outcome', 'message', 'final', 'stm', 'burnSensitivities', 'finalMassKg', 'finiteBurns', 'samples', 'events', 'stats', 'warnings', 'run']);
       expect((json.final as { epoch: string }).epoch).toBe('2031-03-01T00:50:00.000000 TDB');
       expect(json.stm).toHaveLength(36);
       expect(json.samples).toHaveLength(4);
