@@ -33,7 +33,7 @@
 import type { ForceModel } from '../forces/index.ts';
 import { battinF } from '../forces/index.ts';
 import { keplerSolve } from '../kepler/universal-kepler.ts';
-import { keplerStm } from '../kepler/two-body-stm.ts';
+import { keplerStmInto, KeplerStmWork } from '../kepler/two-body-stm.ts';
 import { deviationStmRatesInto, EnckeStmScratch, foldReferenceStm, keplerGradientInto } from './encke-stm.ts';
 
 /** Settings of Encke's method (dimensionless ratios), one frozen object that code and README point to. */
@@ -88,7 +88,9 @@ export class EnckeDynamics {
   private readonly speedKmS: number;
   /** Index of Encke's own clock τ (time since the reference epoch) in the integration vector. */
   private readonly clock: number;
-  private refState = new Float64Array(6);
+  /** The reference conic's start: position (km) and velocity (km/s) at refEpoch. */
+  private readonly refR = new Float64Array(3);
+  private readonly refV = new Float64Array(3);
   private refEpoch: number;
   private readonly acc = new Float64Array(3);
   private readonly grad = new Float64Array(9);
@@ -96,6 +98,10 @@ export class EnckeDynamics {
   private readonly scratch = new Float64Array(6);
   private readonly gradK = new Float64Array(9);
   private readonly stmScratch = new EnckeStmScratch();
+  // keplerStmInto's work space and outputs: the STM path evaluates it at every right-hand side.
+  private readonly keplerWork = new KeplerStmWork();
+  private readonly refStateAtTau = new Float64Array(6);
+  private readonly refStm = new Float64Array(36);
 
   /**
    * @param epoch0 start epoch, TDB s from J2000
@@ -120,26 +126,34 @@ export class EnckeDynamics {
 
   /** Restarts the reference conic at the true state `total` (δ = 0 and τ = 0 from here). */
   private setReference(total: ArrayLike<number>): void {
-    this.refState = Float64Array.from({ length: 6 }, (_, i) => total[i]);
+    for (let i = 0; i < 3; i++) {
+      this.refR[i] = total[i];
+      this.refV[i] = total[3 + i];
+    }
   }
 
   /** Reference conic after τ seconds (τ from the integration vector, not from the epoch label). */
   private reference(tau: number): { r: number[]; v: number[] } {
-    const s = keplerSolve(this.refState.subarray(0, 3), this.refState.subarray(3, 6), tau, this.mu);
+    const s = keplerSolve(this.refR, this.refV, tau, this.mu);
     return { r: s.positionKm, v: s.velocityKmS };
   }
 
-  /** Reference conic after τ seconds with its analytic STM Φ_K(τ) (row-major 6x6). */
-  private referenceWithStm(tau: number): { r: number[]; v: number[]; stm: number[] } {
-    const s = keplerStm(Array.from(this.refState.subarray(0, 3)), Array.from(this.refState.subarray(3, 6)), tau, this.mu);
-    return { r: s.positionKm, v: s.velocityKmS, stm: s.stm };
+  /** Reference conic after τ seconds into refStateAtTau (r km, v km/s) with its analytic STM Φ_K(τ) into
+   * refStm (row-major 6x6); no allocation. */
+  private referenceWithStm(tau: number): void {
+    keplerStmInto(this.refR, this.refV, tau, this.mu, this.keplerWork, this.refStateAtTau, this.refStm);
   }
 
   readonly rhs = (t: number, y: Float64Array, dydt: Float64Array): void => {
     const L = this.lengthKm;
     const V = this.speedKmS;
-    const ref: { r: number[]; stm?: number[] } = this.withStm ? this.referenceWithStm(y[this.clock]) : this.reference(y[this.clock]);
-    const rho = ref.r;
+    let rho: ArrayLike<number>;
+    if (this.withStm) {
+      this.referenceWithStm(y[this.clock]);
+      rho = this.refStateAtTau;
+    } else {
+      rho = this.reference(y[this.clock]).r;
+    }
     dydt[this.clock] = 1;
     const d0 = y[0] * L;
     const d1 = y[1] * L;
@@ -169,7 +183,7 @@ export class EnckeDynamics {
       // ΔG = G(x) − G_K(ρ): the part of the gravity gradient the reference conic's Φ_K does not carry.
       keplerGradientInto(rho, this.mu, this.gradK);
       for (let k = 0; k < 9; k++) this.gradK[k] = this.grad[k] - this.gradK[k];
-      if (ref.stm !== undefined) deviationStmRatesInto(ref.stm, this.gradK, y, 6, dydt, this.stmScratch);
+      deviationStmRatesInto(this.refStm, this.gradK, y, 6, dydt, this.stmScratch);
     }
   };
 
@@ -211,16 +225,19 @@ export class EnckeDynamics {
   private restartAt(epochTdbS: number, y: Float64Array): void {
     // The new conic starts from the state the dynamics have reached (τ-consistent), labelled epochTdbS.
     const tau = y[this.clock];
-    let ref: { r: number[]; v: number[] } = this.reference(tau);
     if (this.withStm && tau !== 0) {
-      const withStm = this.referenceWithStm(tau);
-      foldReferenceStm(withStm.stm, y, 6, this.stmScratch);
-      ref = withStm;
+      this.referenceWithStm(tau);
+      foldReferenceStm(this.refStm, y, 6, this.stmScratch);
+    } else {
+      const { r, v } = this.reference(tau);
+      for (let i = 0; i < 3; i++) {
+        this.refStateAtTau[i] = r[i];
+        this.refStateAtTau[3 + i] = v[i];
+      }
     }
-    const { r, v } = ref;
     for (let i = 0; i < 3; i++) {
-      this.scratch[i] = r[i] + y[i] * this.lengthKm;
-      this.scratch[3 + i] = v[i] + y[3 + i] * this.speedKmS;
+      this.scratch[i] = this.refStateAtTau[i] + y[i] * this.lengthKm;
+      this.scratch[3 + i] = this.refStateAtTau[3 + i] + y[3 + i] * this.speedKmS;
     }
     this.refEpoch = epochTdbS;
     this.setReference(this.scratch);
