@@ -3,20 +3,20 @@
  * (read from Redis at scrape time), job run duration (observed from queue events), HTTP request durations.
  */
 import { Counter, Gauge, Histogram, Registry, collectDefaultMetrics } from 'prom-client';
-import { JOB_NAMES, leapSecondsExpired, leapSecondsExpiryMs, type JobEventHub, type RetargetQueue } from '../queue/index.ts';
+import { BUDGET_JOB_NAMES, JOB_NAMES, leapSecondsExpired, leapSecondsExpiryMs, type JobEventHub, type RetargetQueue } from '../queue/index.ts';
 
 export class ServiceMetrics {
   readonly registry = new Registry();
   readonly httpDuration: Histogram<'method' | 'route' | 'status'>;
-  readonly jobDuration: Histogram<'outcome'>;
-  readonly submissions: Counter<'outcome'>;
+  readonly jobDuration: Histogram<'kind' | 'outcome'>;
+  readonly submissions: Counter<'kind' | 'outcome'>;
   private unsubscribe: (() => void) | null = null;
 
   constructor(private readonly queue: RetargetQueue) {
     const registers = [this.registry];
     collectDefaultMetrics({ register: this.registry, prefix: 'veer_api_' });
     new Gauge({
-      name: 'veer_jobs', help: 'Jobs in the queue by state (retarget jobs and Monte Carlo batches)', labelNames: ['state'], registers,
+      name: 'veer_jobs', help: 'Jobs in the queue by state (retarget and budget jobs and their sample batches)', labelNames: ['state'], registers,
       collect: async function collect(this: Gauge<'state'>) {
         const counts = await queue.counts();
         for (const [state, n] of Object.entries(counts)) this.set({ state }, n);
@@ -45,16 +45,16 @@ export class ServiceMetrics {
       collect: function collect(this: Gauge) { this.set(leapSecondsExpired(queue.leapSeconds, new Date()) ? 1 : 0); },
     });
     this.jobDuration = new Histogram({
-      name: 'veer_job_duration_seconds', help: 'Run time of finished retarget jobs (processing start to end)',
-      labelNames: ['outcome'], buckets: [0.05, 0.1, 0.25, 0.5, 1, 2.5, 5, 10, 30, 60, 120, 300, 900], registers,
+      name: 'veer_job_duration_seconds', help: 'Run time of finished jobs by kind (retarget, delta-v-budget; processing start to end)',
+      labelNames: ['kind', 'outcome'], buckets: [0.05, 0.1, 0.25, 0.5, 1, 2.5, 5, 10, 30, 60, 120, 300, 900], registers,
     });
     this.httpDuration = new Histogram({
       name: 'veer_http_request_duration_seconds', help: 'HTTP request durations', labelNames: ['method', 'route', 'status'],
       buckets: [0.001, 0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5, 1, 2.5], registers,
     });
     this.submissions = new Counter({
-      name: 'veer_job_submissions_total', help: 'Job submissions by outcome (created, existing, conflict, invalid)',
-      labelNames: ['outcome'], registers,
+      name: 'veer_job_submissions_total', help: 'Job submissions by kind (retarget, delta-v-budget) and outcome (created, existing, conflict, invalid, queue-full, submitter-full)',
+      labelNames: ['kind', 'outcome'], registers,
     });
   }
 
@@ -63,8 +63,9 @@ export class ServiceMetrics {
     this.unsubscribe = events.subscribe('*', (e) => {
       if (e.type !== 'completed' && e.type !== 'failed') return;
       void this.queue.findJob(e.jobId).then((job) => {
-        if (!job || job.name !== JOB_NAMES.retarget || !job.processedOn || !job.finishedOn) return;
-        this.jobDuration.observe({ outcome: e.type }, (job.finishedOn - job.processedOn) / 1000);
+        if (!job || !job.processedOn || !job.finishedOn) return;
+        const kind = job.name === JOB_NAMES.retarget ? 'retarget' : job.name === BUDGET_JOB_NAMES.budget ? 'delta-v-budget' : null;
+        if (kind) this.jobDuration.observe({ kind, outcome: e.type }, (job.finishedOn - job.processedOn) / 1000);
       }, () => {});
     });
   }

@@ -62,7 +62,10 @@ export interface BudgetJobResult {
 }
 
 /** A budget job's status for clients: the job view of the queue, with the budget's own result. */
-export interface BudgetJobStatus extends Omit<JobStatus, 'result'> {
+export interface BudgetJobStatus extends Omit<JobStatus, 'result' | 'kind'> {
   kind: 'delta-v-budget';
   result: Omit<BudgetJobResult, 'result'> | null;
 }
+
+/** The status of either kind of top-level job (what `/v1/jobs` lists), told apart by `kind`. */
+export type AnyJobStatus = JobStatus | BudgetJobStatus;

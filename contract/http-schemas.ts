@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { freeTextSchema } from './free-text.ts';
 import { JOB_STATES, PRIORITIES, idempotencyKeySchema, jobRequestSchema, type JobStatus } from './job-types.ts';
+import type { BudgetJobStatus } from './budget-job-types.ts';
 
 export { jobRequestSchema };
 
@@ -22,7 +23,8 @@ export const cancelBodySchema = z.object({
 }).strict();
 
 const progressSchema = z.object({
-  stage: z.enum(['validating', 'correcting', 'cross-checking', 'dispersion', 'done']),
+  /** A retarget job's stages are the plan's; a budget job's are nominal, linear, nonlinear, summary, done. */
+  stage: z.enum(['validating', 'correcting', 'cross-checking', 'dispersion', 'nominal', 'linear', 'nonlinear', 'summary', 'done']),
   fraction: z.number().min(0).max(1),
   message: z.string(),
   iteration: z.number().int().optional(),
@@ -33,6 +35,7 @@ const progressSchema = z.object({
 
 export const jobStatusSchema = z.object({
   id: z.string(),
+  kind: z.literal('retarget'),
   state: z.enum(JOB_STATES),
   priority: z.enum(PRIORITIES),
   submittedBy: z.string(),
@@ -53,6 +56,19 @@ export const jobStatusSchema = z.object({
 // Compile-time check that the documented shape is the one the queue returns.
 const _statusShape: z.infer<typeof jobStatusSchema> = null as unknown as JobStatus;
 void _statusShape;
+
+/** A budget job's status: the job view with the study's id and the linear/non-linear agreement. */
+export const budgetJobStatusSchema = jobStatusSchema.extend({
+  kind: z.literal('delta-v-budget'),
+  result: z.object({
+    kind: z.literal('delta-v-budget'), studyId: z.string(), problemHash: z.string(), storedIn: z.string(), agreementPassed: z.boolean().nullable(),
+  }).nullable(),
+});
+const _budgetStatusShape: z.infer<typeof budgetJobStatusSchema> = null as unknown as BudgetJobStatus;
+void _budgetStatusShape;
+
+/** Either kind of top-level job, as `/v1/jobs` lists them. */
+export const anyJobStatusSchema = z.discriminatedUnion('kind', [jobStatusSchema, budgetJobStatusSchema]);
 
 export const submitResponseSchema = z.object({
   jobId: z.string(),

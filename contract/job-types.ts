@@ -8,6 +8,7 @@ import { freeTextSchema } from './free-text.ts';
 import { problemSchema } from './problem-schema.ts';
 import type { PlanningProblem } from './problem-schema.ts';
 import type { DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanProgress } from './plan-types.ts';
+import type { BudgetProgress } from './budget-types.ts';
 
 /** Queue name (Redis keys are `<QUEUE_PREFIX>:retarget:*`). */
 export const RETARGET_QUEUE = 'retarget';
@@ -83,8 +84,14 @@ export interface SampleBatchData {
 /** Result of a sample batch (what the parent collects). */
 export interface SampleBatchResult { firstIndex: number; samples: DispersionSample[] }
 
-/** Progress stored on a job and streamed to clients. */
-export interface JobProgress extends PlanProgress {
+/** Kinds of top-level jobs, as `/v1/jobs` lists them (sample batches are part of their parent). */
+export const JOB_KINDS = ['retarget', 'delta-v-budget'] as const;
+export type JobKind = (typeof JOB_KINDS)[number];
+
+/** Progress stored on a job and streamed to clients: a retarget job reports the plan's stages, a budget job
+ * its own (BudgetProgress). */
+export interface JobProgress extends Omit<PlanProgress, 'stage'> {
+  stage: PlanProgress['stage'] | BudgetProgress['stage'];
   /** ISO UTC time of this report. */
   at: string;
 }
@@ -109,6 +116,7 @@ export const FINAL_JOB_STATES: ReadonlySet<string> = new Set<JobState>(['complet
 /** A job's status for clients. */
 export interface JobStatus {
   id: string;
+  kind: 'retarget';
   state: JobState;
   priority: Priority;
   submittedBy: string;

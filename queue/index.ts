@@ -28,6 +28,6 @@ export { createLogger } from './config/logger.ts';
 export { cancelKey, type CancelRecord } from './cancellation.ts';
 export { startLocalRedis, INSTALL_REDIS_HINT, type LocalRedis } from './config/local-redis.ts';
 export {
-  BUDGET_JOB_NAMES, budgetJobRequestSchema, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus,
+  BUDGET_JOB_NAMES, budgetJobRequestSchema, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus, type AnyJobStatus,
   type BudgetBatchData, type BudgetBatchResult,
 } from '../contract/budget-job-types.ts';

@@ -32,14 +32,18 @@ export function budgetRoutes(routes: ApiRoutes, deps: AppDeps): void {
   }, async (req: Request, res: Response) => {
     const request = validOf<unknown, unknown, BudgetJobRequest>(res).body;
     const issue = findBudgetIssue(request.request, deps.queue.leapSeconds);
-    if (issue) throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.request.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
+    if (issue) {
+      deps.metrics.submissions.inc({ kind: 'delta-v-budget', outcome: 'invalid' });
+      throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.request.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
+    }
     const outcome = await deps.queue.submitBudget(request, identityOf(req).name);
+    deps.metrics.submissions.inc({ kind: 'delta-v-budget', outcome: outcome.outcome });
     if (outcome.outcome === 'queue-full' || outcome.outcome === 'submitter-full') { sendAdmissionRefusal(res, outcome); return; }
     if (outcome.outcome === 'conflict') {
       sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
       return;
     }
-    const body = { jobId: outcome.jobId, outcome: outcome.outcome, statusUrl: `/v1/budgets/${outcome.jobId}`, eventsUrl: `/v1/budgets/${outcome.jobId}` };
+    const body = { jobId: outcome.jobId, outcome: outcome.outcome, statusUrl: `/v1/budgets/${outcome.jobId}`, eventsUrl: `/v1/budgets/${outcome.jobId}/events` };
     res.status(outcome.outcome === 'created' ? 202 : 200).location(body.statusUrl).json(body);
   });
 

@@ -6,7 +6,7 @@
  */
 import type { Response } from 'express';
 import { z } from 'zod';
-import type { JobEvent, JobStatus } from '../../queue/index.ts';
+import type { AnyJobStatus, JobEvent } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
@@ -19,18 +19,26 @@ function write(res: Response, event: string, data: unknown): void {
 }
 
 export function jobEventRoutes(routes: ApiRoutes, deps: AppDeps): void {
+  eventStreamRoute(routes, deps, { path: '/v1/jobs/:jobId/events', tag: 'jobs', kind: 'retargeting', statusOf: (id) => deps.queue.status(id) });
+  eventStreamRoute(routes, deps, { path: '/v1/budgets/:jobId/events', tag: 'budgets', kind: 'Δv budget', statusOf: (id) => deps.queue.budgetStatus(id) });
+}
+
+/** The progress stream of one job kind: `statusOf` reads a job of that kind (undefined for any other). */
+function eventStreamRoute(routes: ApiRoutes, deps: AppDeps, door: {
+  path: string; tag: string; kind: string; statusOf: (jobId: string) => Promise<AnyJobStatus | undefined>;
+}): void {
   routes.add({
-    method: 'get', path: '/v1/jobs/:jobId/events', tags: ['jobs'], roles: ['submitter', 'reviewer', 'auditor'],
-    summary: 'Live progress stream (server-sent events)',
-    description: 'Events: `status` (JobStatus JSON), `progress` (JobProgress JSON), `end` (final JobStatus); then the stream closes.',
+    method: 'get', path: door.path, tags: [door.tag], roles: ['submitter', 'reviewer', 'auditor'],
+    summary: `Live progress stream of a ${door.kind} job (server-sent events)`,
+    description: 'Events: `status` (the job status JSON), `progress` (JobProgress JSON: stages of this job kind), `end` (final status); then the stream closes.',
     params: jobParamsSchema,
     responses: {
       200: { description: 'text/event-stream of status, progress and end events', schema: z.string(), contentType: 'text/event-stream' },
-      404: { description: 'No such job' },
+      404: { description: `No such ${door.kind} job` },
     },
   }, async (req, res) => {
     const { jobId } = validOf<z.infer<typeof jobParamsSchema>, unknown, unknown>(res).params;
-    const first = await deps.queue.status(jobId);
+    const first = await door.statusOf(jobId);
     if (!first) { sendError(res, 404, 'JOB_NOT_FOUND', `no job ${jobId}`); return; }
     res.status(200).set({
       'Content-Type': 'text/event-stream; charset=utf-8', 'Cache-Control': 'no-cache, no-transform',
@@ -47,8 +55,8 @@ export function jobEventRoutes(routes: ApiRoutes, deps: AppDeps): void {
       for (const c of cleanups) c();
       res.end();
     };
-    const refresh = async (): Promise<JobStatus | undefined> => {
-      const s = await deps.queue.status(jobId);
+    const refresh = async (): Promise<AnyJobStatus | undefined> => {
+      const s = await door.statusOf(jobId);
       if (closed) return s;
       if (!s) { close(); return s; } // expired or removed meanwhile: nothing more will come
       if (FINAL_JOB_STATES.has(s.state)) { write(res, 'end', s); close(); return s; }

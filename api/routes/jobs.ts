@@ -10,7 +10,7 @@ import type { AppDeps } from '../deps.ts';
 import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import {
-  cancelBodySchema, idempotencyKeySchema, jobListQuerySchema, jobParamsSchema, jobRequestSchema, jobStatusSchema,
+  anyJobStatusSchema, cancelBodySchema, idempotencyKeySchema, jobListQuerySchema, jobParamsSchema, jobRequestSchema, jobStatusSchema,
   submitResponseSchema,
 } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
@@ -50,12 +50,12 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
     const request = withHeaderKey(validOf<unknown, unknown, JobRequest>(res).body, req.get('idempotency-key'));
     const issue = findProblemIssue(request.problem, deps.queue.leapSeconds);
     if (issue) {
-      deps.metrics.submissions.inc({ outcome: 'invalid' });
+      deps.metrics.submissions.inc({ kind: 'retarget', outcome: 'invalid' });
       throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.problem.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
     }
     const identity = identityOf(req);
     const outcome = await deps.queue.submit(request, identity.name);
-    deps.metrics.submissions.inc({ outcome: outcome.outcome });
+    deps.metrics.submissions.inc({ kind: 'retarget', outcome: outcome.outcome });
     if (outcome.outcome === 'queue-full' || outcome.outcome === 'submitter-full') { sendAdmissionRefusal(res, outcome); return; }
     if (outcome.outcome === 'conflict') {
       sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
@@ -72,8 +72,8 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
 
   routes.add({
     method: 'get', path: '/v1/jobs', tags: ['jobs'], roles: [...READERS],
-    summary: 'List recent retargeting jobs', query: jobListQuerySchema,
-    responses: { 200: { description: 'Jobs, newest first', schema: z.object({ jobs: z.array(jobStatusSchema) }) } },
+    summary: 'List recent jobs of both kinds (retargeting and Δv budget; `kind` tells them apart)', query: jobListQuerySchema,
+    responses: { 200: { description: 'Jobs, newest first', schema: z.object({ jobs: z.array(anyJobStatusSchema) }) } },
   }, async (_req, res) => {
     const q = validOf<unknown, z.infer<typeof jobListQuerySchema>, unknown>(res).query;
     const states = q.state === 'waiting' ? ['waiting', 'prioritized'] as const : q.state ? [q.state] as const

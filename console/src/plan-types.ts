@@ -3,7 +3,7 @@ import type { Identity as TokenIdentity } from '../../contract/index.ts';
 
 export type {
   ManeuverPlan, PlannedBurn, PlannedFiniteBurn, TargetResult, Caveat, PlanBPlane, BPlaneEllipse, TrajectoryPoint, PlanEpoch, CrossCheck,
-  Role, JobProgress, JobStatus, PlanState, PlanSummary, PlanRecord, HistoryEntryView as HistoryEntry,
+  Role, JobProgress, JobStatus, AnyJobStatus, PlanState, PlanSummary, PlanRecord, HistoryEntryView as HistoryEntry,
 } from '../../contract/index.ts';
 export { FINAL_JOB_STATES } from '../../contract/index.ts';
 

@@ -8,7 +8,7 @@ import type { Redis } from 'ioredis';
 import { canonicalHash, sha256Hex } from '../../archive/index.ts';
 import { budgetRequestHash, planLeapSeconds, problemHash, type PlanningProblem } from '../../planner/index.ts';
 import {
-  BUDGET_JOB_NAMES, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus,
+  BUDGET_JOB_NAMES, type BudgetJobData, type BudgetJobRequest, type BudgetJobResult, type BudgetJobStatus, type AnyJobStatus,
 } from '../../contract/budget-job-types.ts';
 import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../../propagator/index.ts';
 import { cancelKey, readCancel, requestCancel, type CancelRecord } from '../cancellation.ts';
@@ -199,10 +199,14 @@ export class RetargetQueue {
     if (!isIssuedJobId(jobId)) return undefined;
     const { job, state } = await this.snapshot(jobId);
     if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
-    const cancel = await readCancel(this.redis, this.prefix, jobId);
-    const status = this.describe(job, state, cancel);
+    const status = this.describeBudget(job, state, await readCancel(this.redis, this.prefix, jobId));
     const data = job.data as unknown as BudgetJobData;
-    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples') ?? status.progress;
+    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples', 'nonlinear') ?? status.progress;
+    return status;
+  }
+
+  private describeBudget(job: Job<RetargetJobData, RetargetJobResult>, state: string, cancel: CancelRecord | null): BudgetJobStatus {
+    const status = this.describe(job, state, cancel);
     const result = status.state === 'completed' && job.returnvalue ? { ...(job.returnvalue as unknown as BudgetJobResult) } : null;
     if (result) delete result.result;
     return { ...status, kind: 'delta-v-budget', result };
@@ -225,7 +229,7 @@ export class RetargetQueue {
       if (!cancel?.removedWhileWaiting) return undefined;
       const w = cancel.removedWhileWaiting;
       return {
-        id: jobId, state: 'cancelled', priority: w.priority === 'urgent' ? 'urgent' : 'routine', submittedBy: w.submittedBy,
+        id: jobId, kind: 'retarget', state: 'cancelled', priority: w.priority === 'urgent' ? 'urgent' : 'routine', submittedBy: w.submittedBy,
         submittedAt: w.submittedAt, reason: w.reason, spacecraftName: w.spacecraftName, attemptsMade: 0, progress: null,
         startedAt: null, finishedAt: cancel.at, result: null, cancelRequested: true,
         error: { name: 'CancelledError', code: 'CANCELLED', message: `cancelled by ${cancel.by} before it ran: ${cancel.reason}` },
@@ -240,7 +244,8 @@ export class RetargetQueue {
    * Progress of a fanned-out Monte Carlo run, from its child jobs (ids end in `-mc-<firstIndex>`): samples in
    * finished batches over all samples. Exact, since batch sizes follow from the first indices.
    */
-  async fanOutProgress(job: Job<RetargetJobData>, total = job.data.problem.dispersion.samples, label = 'Monte Carlo'): Promise<JobProgress | null> {
+  async fanOutProgress(job: Job<RetargetJobData>, total = job.data.problem.dispersion.samples, label = 'Monte Carlo',
+    stage: JobProgress['stage'] = 'dispersion'): Promise<JobProgress | null> {
     const deps = await job.getDependencies({ processed: { count: 10_000 }, unprocessed: { count: 10_000 } });
     const firstIndex = (key: string): number => Number(/-mc-(\d+)$/.exec(key)?.[1] ?? NaN);
     const done = Object.keys(deps.processed ?? {}).map(firstIndex);
@@ -252,7 +257,7 @@ export class RetargetQueue {
     };
     const samplesDone = done.filter(Number.isFinite).reduce((sum, f) => sum + sizeOf(f), 0);
     return {
-      stage: 'dispersion', fraction: 0.5 + 0.45 * (samplesDone / total),
+      stage, fraction: 0.5 + 0.45 * (samplesDone / total),
       message: `${label}: ${done.length} of ${all.length} batches done`, samplesDone, samplesTotal: total,
       at: new Date().toISOString(),
     };
@@ -336,14 +341,17 @@ export class RetargetQueue {
     return performance.now() - t0;
   }
 
-  /** Lists recent retarget jobs, newest first, in the given BullMQ states. */
-  async list(states: BullState[], start: number, end: number): Promise<JobStatus[]> {
+  /** Lists recent top-level jobs of both kinds (retarget and budget; not sample batches), newest first, in the
+   * given BullMQ states. */
+  async list(states: BullState[], start: number, end: number): Promise<AnyJobStatus[]> {
     this.assertConnected();
     const jobs = await this.queue.getJobs(states, start, end, false);
-    const out: JobStatus[] = [];
+    const out: AnyJobStatus[] = [];
     for (const job of jobs) {
-      if (!job || job.name !== JOB_NAMES.retarget) continue;
-      out.push(this.describe(job, await job.getState(), await readCancel(this.redis, this.prefix, String(job.id))));
+      if (!job || (job.name !== JOB_NAMES.retarget && job.name !== BUDGET_JOB_NAMES.budget)) continue;
+      const state = await job.getState();
+      const cancel = await readCancel(this.redis, this.prefix, String(job.id));
+      out.push(job.name === BUDGET_JOB_NAMES.budget ? this.describeBudget(job, state, cancel) : this.describe(job, state, cancel));
     }
     return out;
   }
@@ -377,7 +385,7 @@ export class RetargetQueue {
     const result = job.returnvalue ? { ...job.returnvalue } : null;
     if (result) delete result.plan;
     return {
-      id: String(job.id), state: clientState, priority: job.data.priority, submittedBy: job.data.submittedBy,
+      id: String(job.id), kind: 'retarget', state: clientState, priority: job.data.priority, submittedBy: job.data.submittedBy,
       submittedAt: job.data.submittedAt, reason: job.data.reason, spacecraftName: job.data.problem.spacecraft.name,
       problemHash: job.data.problemHash, attemptsMade: job.attemptsMade, progress,
       startedAt: job.processedOn ? new Date(job.processedOn).toISOString() : null,

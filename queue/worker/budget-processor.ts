@@ -47,8 +47,8 @@ export async function processBudget(deps: ProcessorDeps, job: Job<BudgetJobData>
         parentId: run.jobId, budget: request, nominal, firstIndex: b.firstIndex, count: b.count,
         priority: job.data.priority, deadlineAt: new Date(run.deadlineMs).toISOString(),
       } satisfies BudgetBatchData)),
-      (batches) => run.report({ stage: 'dispersion', fraction: 0.2, message: `non-linear budget samples: ${batches} batches queued`, samplesDone: 0, samplesTotal: total }));
-    run.report({ stage: 'dispersion', fraction: 0.95, message: 'linear path and statistics', samplesDone: total, samplesTotal: total });
+      (batches) => run.report({ stage: 'nonlinear', fraction: 0.2, message: `non-linear budget samples: ${batches} batches queued`, samplesDone: 0, samplesTotal: total }));
+    run.report({ stage: 'summary', fraction: 0.95, message: 'linear path and statistics', samplesDone: total, samplesTotal: total });
     const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: nominal.plan, nominal, nonlinear: samples }, { signal: run.signal });
     run.report({ stage: 'done', fraction: 1, message: 'budget study ready for review', samplesDone: total, samplesTotal: total });
     const finished = await finishStudy(deps, job, result);

@@ -11,7 +11,8 @@
 import { UnrecoverableError, WaitingChildrenError, type Job, type Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import type { Logger } from 'pino';
-import type { PlanLeapSeconds, PlanProgress } from '../../planner/index.ts';
+import type { PlanLeapSeconds } from '../../planner/index.ts';
+import type { TaskProgress } from './planner-task.ts';
 import { failureOf, failureText, isFinalError, type FailureData } from '../../contract/errors.ts';
 import { BULL_PRIORITY, type JobProgress, type Priority } from '../../contract/job-types.ts';
 import { readCancel } from '../cancellation.ts';
@@ -120,7 +121,7 @@ export function progressWriter(job: Job, logger: Logger) {
   let lastAt = 0;
   let lastStage = '';
   let pending: Promise<unknown> = Promise.resolve();
-  return (p: PlanProgress): void => {
+  return (p: TaskProgress): void => {
     const now = Date.now();
     if (p.stage === lastStage && now - lastAt < 250 && p.stage !== 'done') return;
     lastAt = now;
@@ -138,7 +139,7 @@ export interface ParentRun {
   /** End of the job's overall time (Unix ms), for its child batches. */
   deadlineMs: number;
   signal: AbortSignal;
-  report: (p: PlanProgress) => void;
+  report: (p: TaskProgress) => void;
 }
 
 /**

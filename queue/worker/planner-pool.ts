@@ -4,9 +4,8 @@
  * and replaced, so a stuck computation cannot hold a worker slot.
  */
 import { Worker } from 'node:worker_threads';
-import type { FromThread, PlannerTask, PlannerTaskResult, ToThread } from './planner-task.ts';
+import type { FromThread, PlannerTask, PlannerTaskResult, TaskProgress, ToThread } from './planner-task.ts';
 import { FailureError } from '../../contract/errors.ts';
-import type { PlanProgress } from '../../planner/index.ts';
 
 export interface PlannerPoolOptions {
   /** Threads at most (one per concurrent job). */
@@ -36,7 +35,7 @@ export class PlannerPool {
   get threadCount(): number { return this.slots.length; }
 
   /** Runs one task on a free thread; rejects with the planner's error (by `name`) or CancelledError. */
-  async run<T extends PlannerTask>(task: T, opts: { signal?: AbortSignal; onProgress?: (p: PlanProgress) => void } = {}): Promise<PlannerTaskResult<T>> {
+  async run<T extends PlannerTask>(task: T, opts: { signal?: AbortSignal; onProgress?: (p: TaskProgress) => void } = {}): Promise<PlannerTaskResult<T>> {
     if (this.closed) throw new Error('planner pool is closed');
     const slot = await this.acquire();
     try {
@@ -65,7 +64,7 @@ export class PlannerPool {
     await Promise.all(this.slots.splice(0).map((s) => s.worker.terminate()));
   }
 
-  private runOn(slot: Slot, task: PlannerTask, opts: { signal?: AbortSignal; onProgress?: (p: PlanProgress) => void }): Promise<unknown> {
+  private runOn(slot: Slot, task: PlannerTask, opts: { signal?: AbortSignal; onProgress?: (p: TaskProgress) => void }): Promise<unknown> {
     const taskId = this.nextTaskId++;
     const { signal } = opts;
     return new Promise((resolve, reject) => {

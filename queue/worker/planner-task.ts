@@ -1,8 +1,11 @@
 /** Messages between the worker process and its planner threads (structured-clone plain data only). */
 import type {
-  BudgetNominal, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress,
+  BudgetNominal, BudgetProgress, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress,
 } from '../../planner/index.ts';
 import type { FailureData } from '../../contract/errors.ts';
+
+/** Progress a task reports: the plan's stages for plan tasks, the budget's own for budget tasks. */
+export type TaskProgress = PlanProgress | BudgetProgress;
 
 export type PlannerTask =
   | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds }
@@ -26,6 +29,6 @@ export type ToThread =
 
 export type FromThread =
   | { type: 'ready' }
-  | { type: 'progress'; taskId: number; progress: PlanProgress }
+  | { type: 'progress'; taskId: number; progress: TaskProgress }
   | { type: 'done'; taskId: number; result: unknown }
   | { type: 'failed'; taskId: number; error: FailureData };

@@ -58,9 +58,8 @@ async function run(taskId: number, task: PlannerTask, signal: AbortSignal): Prom
     case 'combine':
       return attachMonteCarlo(task.plan, summariseDispersion(task.problem, task.plan, task.samples));
     case 'budget-prepare':
-      // Budget progress in the job-progress stages: the nominal plan is the correcting stage.
       return prepareBudget(task.request, {
-        signal, leapSeconds: leapSecondTableOfPlan(task.leapSeconds), onProgress: (p) => send({ type: 'progress', taskId, progress: { stage: 'correcting', fraction: p.fraction, message: p.message } }),
+        signal, leapSeconds: leapSecondTableOfPlan(task.leapSeconds), onProgress: (progress) => send({ type: 'progress', taskId, progress }),
       });
     case 'budget-samples':
       return runBudgetSamples(task.request, task.nominal, { path: 'nonlinear', firstIndex: task.firstIndex, count: task.count, signal });

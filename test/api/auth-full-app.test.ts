@@ -57,6 +57,7 @@ const ADMITTED_STATUS: Record<string, number> = {
   'get /v1/budgets/:jobId': 404,
   'get /v1/budgets/:jobId/study': 404,
   'post /v1/budgets/:jobId/cancel': 404,
+  'get /v1/budgets/:jobId/events': 404,
 };
 
 describe('role matrix over the whole service', () => {

@@ -50,7 +50,7 @@ describe('metrics', () => {
       expect(res.text).toMatch(/^veer_queue_depth [1-9]\d*$/m);
       expect(res.text).toMatch(/^veer_workers \d+$/m);
       expect(res.text).toMatch(/^# TYPE veer_job_duration_seconds histogram$/m);
-      expect(res.text).toMatch(/^veer_job_submissions_total\{outcome="created"\} [1-9]/m);
+      expect(res.text).toMatch(/^veer_job_submissions_total\{kind="retarget",outcome="created"\} [1-9]/m);
     });
   });
 });

@@ -1,56 +1,98 @@
 /**
- * The Δv budget as a service job: its non-linear samples fan out as `budget-samples` child jobs over two
- * workers, the parent assembles them, and — sample i depending on (seed, i) only — the study equals the
- * single-process run exactly. The study is archived once, names no plan, and can be cancelled.
+ * The Δv budget as a service job: its non-linear samples fan out as `budget-samples` child jobs, the parent
+ * assembles them, and — sample i depending on (seed, i) only — the study is identical with 1, 2 and 4
+ * workers and equals the single-process run exactly. The study is archived once, names no plan, leaves no
+ * sample copies in Redis, and can be cancelled. A budget job is a first-class job: listed by `/v1/jobs` with
+ * its kind, streamed at its eventsUrl with the budget's own progress stages, counted in the metrics.
  */
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runBudget } from '../../planner/index.ts';
-import { startService, waitForJob, type TestService } from '../harness/service.ts';
+import { readEventStream, startService, waitForJob, type TestService } from '../harness/service.ts';
 import { keysOf } from './fixtures.ts';
 
 let svc: TestService;
 const processedBy = new Map<string, string>();
 const demo = JSON.parse(readFileSync(new URL('../../examples/flyby-budget-demo.json', import.meta.url), 'utf8')) as Record<string, unknown>;
 const body = (request: Record<string, unknown>) => ({ request, reason: 'service test: Δv budget of the remaining correction burns' });
+const BUDGET_STAGES = ['nominal', 'linear', 'nonlinear', 'summary', 'done'];
 
-beforeAll(async () => {
-  svc = await startService();
-  for (let i = 0; i < 2; i++) {
-    const w = await svc.startWorkerInProcess({ concurrency: 1, batchSize: 3 });
+async function addWorkers(n: number): Promise<void> {
+  for (let i = 0; i < n; i++) {
+    const w = await svc.startWorkerInProcess({ concurrency: 1, batchSize: 2 });
     w.worker.on('completed', (job) => processedBy.set(String(job.id), w.name));
   }
-});
+}
+
+/** Submits `request`, waits for the end, and returns the job id, its final status and its study. */
+async function runJob(request: Record<string, unknown>, onSubmitted?: (jobId: string, eventsUrl: string) => void) {
+  const res = await svc.request('POST', '/v1/budgets', { token: svc.tokens.submitter, body: body(request) });
+  expect(res.status).toBe(202);
+  const jobId = res.body.jobId as string;
+  onSubmitted?.(jobId, res.body.eventsUrl as string);
+  const end = await waitForJob(svc, jobId, (s) => s.state === 'completed' || s.state === 'failed', 240_000, '/v1/budgets');
+  expect(end.state, JSON.stringify(end.error)).toBe('completed');
+  const fetched = await svc.request('GET', `/v1/budgets/${jobId}/study`, { token: svc.tokens.reviewer });
+  expect(fetched.status).toBe(200);
+  const workers = new Set([...processedBy].filter(([id]) => id.startsWith(`${jobId}-mc-`)).map(([, name]) => name));
+  return { jobId, end, fetched: fetched.body, workers };
+}
+
+beforeAll(async () => { svc = await startService(); });
 afterAll(async () => { await svc?.close(); });
 
 describe('Δv budget jobs', () => {
-  describe('when a budget is submitted', () => {
-    it('should fan the non-linear samples out and give exactly the single-process study, archived as a study', async () => {
-      const request = { ...demo, linearSamples: 300, nonlinearSamples: 9 };
-      const res = await svc.request('POST', '/v1/budgets', { token: svc.tokens.submitter, body: body(request) });
-      expect(res.status).toBe(202);
-      const jobId = res.body.jobId as string;
-      const end = await waitForJob(svc, jobId, (s) => s.state === 'completed' || s.state === 'failed', 240_000, '/v1/budgets');
-      expect(end.state).toBe('completed');
-      expect(end.kind).toBe('delta-v-budget');
-      expect(end.result.agreementPassed).toBe(true);
-      const children = [...processedBy.keys()].filter((id) => id.startsWith(`${jobId}-mc-`)).sort();
-      expect(children).toHaveLength(3);
+  describe('when the same budget runs on 1, 2 and 4 workers', () => {
+    it('should fan the non-linear samples out and give identical studies, equal to the single-process run', async () => {
+      // 8 non-linear samples in batches of 2: 4 child jobs per run.
+      const request = { ...demo, linearSamples: 300, nonlinearSamples: 8 };
+      await addWorkers(1);
+      const one = await runJob(request);
+      await addWorkers(1);
+      const two = await runJob(request);
+      await addWorkers(2);
+      let stream: ReturnType<typeof readEventStream> | null = null;
+      const four = await runJob(request, (_id, eventsUrl) => { stream = readEventStream(`${svc.url}${eventsUrl}`, svc.tokens.auditor, 240_000); });
+
+      expect(one.workers.size).toBe(1);
+      // Which worker takes which batch is the queue's choice; with idle workers the batches spread out.
+      expect(two.workers.size, [...two.workers].join(', ')).toBeGreaterThan(1);
+      expect(four.workers.size, [...four.workers].join(', ')).toBeGreaterThan(1);
+      const local = JSON.parse(JSON.stringify(await runBudget(request)));
+      for (const run of [one, two, four]) {
+        expect(run.end.kind).toBe('delta-v-budget');
+        expect(run.end.result.agreementPassed).toBe(true);
+        expect([...processedBy.keys()].filter((id) => id.startsWith(`${run.jobId}-mc-`))).toHaveLength(4);
+        expect(run.fetched.study).toEqual(local);
+      }
+      expect(four.fetched.study.caveats[0].code).toBe('PROPOSAL_REQUIRES_REVIEW');
+      expect(four.fetched.storedIn).toBe('archive');
+      expect((await svc.archive!.getStudyByJob(four.jobId))?.study).toEqual(four.fetched.study);
+      expect(await svc.archive!.getPlanByJob(four.jobId)).toBeUndefined();
+
       // Once combined and stored, no batch job and no copy of the samples stays in Redis (as for a plan's Monte Carlo).
       const redis = svc.api.deps.queue.redis;
-      expect(await keysOf(redis, `${svc.prefix}:*${jobId}-mc-*`)).toEqual([]);
-      expect(await keysOf(redis, `${svc.prefix}:*:${jobId}:processed`)).toEqual([]);
-      expect(await redis.hget(`${svc.prefix}:retarget:${jobId}`, 'data')).not.toContain('"nominal"');
+      expect(await keysOf(redis, `${svc.prefix}:*-mc-*`)).toEqual([]);
+      expect(await keysOf(redis, `${svc.prefix}:*:processed`)).toEqual([]);
+      expect(await redis.hget(`${svc.prefix}:retarget:${four.jobId}`, 'data')).not.toContain('"nominal"');
 
-      const fetched = await svc.request('GET', `/v1/budgets/${jobId}/study`, { token: svc.tokens.reviewer });
-      expect(fetched.status).toBe(200);
-      const local = await runBudget(request);
-      expect(fetched.body.study).toEqual(JSON.parse(JSON.stringify(local)));
-      expect(fetched.body.study.caveats[0].code).toBe('PROPOSAL_REQUIRES_REVIEW');
-      expect(fetched.body.storedIn).toBe('archive');
-      expect((await svc.archive!.getStudyByJob(jobId))?.study).toEqual(fetched.body.study);
-      expect(await svc.archive!.getPlanByJob(jobId)).toBeUndefined();
-    }, 300_000);
+      // First-class job: its own event stream with the budget's stages, listed with its kind, in the metrics.
+      const events = (await stream!).events;
+      expect(events.at(-1)).toMatchObject({ event: 'end', data: { id: four.jobId, kind: 'delta-v-budget', state: 'completed' } });
+      const stages = new Set(events.filter((e) => e.event === 'progress').map((e) => e.data.stage as string));
+      expect(stages.size, [...stages].join(', ')).toBeGreaterThan(0);
+      for (const stage of stages) expect(BUDGET_STAGES).toContain(stage);
+      const listed = (await svc.request('GET', '/v1/jobs?limit=50', { token: svc.tokens.auditor })).body.jobs as { id: string; kind: string }[];
+      expect(listed.filter((j) => j.kind === 'delta-v-budget').map((j) => j.id).sort()).toEqual([one.jobId, two.jobId, four.jobId].sort());
+      expect(listed.some((j) => j.id.includes('-mc-'))).toBe(false);
+      let metrics = '';
+      for (let i = 0; i < 50 && !/^veer_job_duration_seconds_count\{kind="delta-v-budget",outcome="completed"\} 3$/m.test(metrics); i++) {
+        await new Promise((r) => setTimeout(r, 100));
+        metrics = (await svc.request('GET', '/metrics')).text;
+      }
+      expect(metrics).toMatch(/^veer_job_duration_seconds_count\{kind="delta-v-budget",outcome="completed"\} 3$/m);
+      expect(metrics).toMatch(/^veer_job_submissions_total\{kind="delta-v-budget",outcome="created"\} 3$/m);
+    }, 600_000);
   });
 
   describe('when the request is invalid', () => {

@@ -3,7 +3,7 @@ import { ApiError, api } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
 import { h, replaceChildren, scrollingTable } from '../dom.ts';
 import { isoShort } from '../format.ts';
-import { FINAL_JOB_STATES, type JobProgress, type JobStatus } from '../plan-types.ts';
+import { FINAL_JOB_STATES, type AnyJobStatus, type JobProgress, type JobStatus } from '../plan-types.ts';
 import { hasRole } from '../session.ts';
 import { followEvents } from '../sse.ts';
 import { jobOutcomeText } from '../job-outcome.ts';
@@ -43,11 +43,13 @@ export const jobsScreen: ScreenFactory = (ctx) => {
 
   const refreshList = async (): Promise<void> => {
     try {
-      const { jobs } = await api<{ jobs: JobStatus[] }>(session, 'GET', '/v1/jobs?limit=30');
+      const { jobs } = await api<{ jobs: AnyJobStatus[] }>(session, 'GET', '/v1/jobs?limit=30');
       replaceChildren(listBody, jobs.length === 0 ? h('tr', {}, h('td', { colspan: 5 }, 'No jobs yet.')) : jobs.map((j) => {
         const pct = j.state === 'completed' ? 100 : Math.round((j.progress?.fraction ?? 0) * 100);
         return h('tr', { ...(j.id === selected ? { class: 'selected', 'aria-current': 'true' } : {}) },
-          h('td', {}, h('a', { href: `#/jobs/${encodeURIComponent(j.id)}` }, j.spacecraftName), h('div', { class: 'mono small' }, j.id)),
+          // A Δv budget job opens on the budget screen (a study, never a plan).
+          h('td', {}, h('a', { href: `${j.kind === 'delta-v-budget' ? '#/budgets/' : '#/jobs/'}${encodeURIComponent(j.id)}` }, j.spacecraftName),
+            h('div', { class: 'mono small' }, j.kind === 'delta-v-budget' ? `${j.id} · Δv budget study` : j.id)),
           h('td', {}, stateBadge(j.state)),
           h('td', { class: 'num' }, `${pct} %`),
           h('td', {}, j.submittedBy),
