@@ -10,9 +10,9 @@
  */
 import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
 import {
-  type BodyName, CancelledError, changeCentre, createBuiltinEphemeris, type Ephemeris, type EphemerisCache,
+  type BodyName, CancelledError, changeCentre, congruence, createBuiltinEphemeris, type Ephemeris, type EphemerisCache,
   type ForceModelSpec, InvalidInputError,
-  type LeapSecondTable, leapSecondTableOfPlan, parseEpoch, propagateAsync, type StateVector, stateToFrame,
+  type LeapSecondTable, leapSecondTableOfPlan, parseEpoch, propagateAsync, rowsOf6, type StateVector, stateToFrame,
 } from '../../propagator/index.ts';
 import { rotateInertialCovariance } from '../messages/initial-state.ts';
 import { CENTRE_NAME_OF_BODY, type MessageFrame, WRITTEN_FRAME_NAME } from '../messages/frames.ts';
@@ -51,18 +51,26 @@ function exportEphemeris(problem: PlanningProblem, startTdbS: number, endTdbS: n
 /** Most lines one export may write (a guard against a step far too small for the span). */
 export const MAX_OEM_LINES = 200_000;
 
-function multiply(a: number[][], b: number[][]): number[][] {
-  return a.map((row) => b[0].map((_, j) => row.reduce((s, v, k) => s + v * b[k][j], 0)));
+/** What every arc of one export shares: the problem's force model and epochs, the output frame and scale. */
+interface OemExportRun {
+  plan: ManeuverPlan;
+  options: PlanOemOptions;
+  /** Start and end of the exported span, TDB s from J2000. */
+  startTdbS: number;
+  endTdbS: number;
+  leap: LeapSecondTable;
+  scale: PlanOemOptions['timeSystem'];
+  frame: MessageFrame;
+  ephemeris: Ephemeris;
+  forces: ForceModelSpec;
+  interpolation: { method: InterpolationMethod; degree: number };
+  withCovariance: boolean;
+  /** A propagated state in the problem's initial centre and the output frame. */
+  toOutput: (x: StateVector) => StateVector;
 }
 
-function transpose(a: number[][]): number[][] {
-  return a[0].map((_, j) => a.map((row) => row[j]));
-}
-
-/** Propagates the plan arc by arc and builds the OEM (throws InvalidInputError for a plan that did not
- * converge or failed its cross-check). */
-export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, options: PlanOemOptions): Promise<Oem> {
-  assertExportable(plan);
+/** Checks the export's options against the plan and builds what the arcs share (errors name the field). */
+function exportRun(problem: PlanningProblem, plan: ManeuverPlan, options: PlanOemOptions): OemExportRun {
   if (!(options.stepS > 0) || !Number.isFinite(options.stepS)) {
     throw new InvalidInputError('stepS', `step ${options.stepS} s must be a finite number > 0`);
   }
@@ -85,8 +93,17 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
   }
   const ephemeris = options.ephemeris ?? exportEphemeris(problem, startTdbS, endTdbS, options.ephemerisCache);
   const interpolation = options.interpolation ?? { method: 'HERMITE', degree: 7 };
+  const withCovariance = (options.covariance ?? true) && s.covarianceKmKmS !== undefined;
+  const toOutput = (x: StateVector): StateVector => stateToFrame(x.centre === s.centre ? x : changeCentre(x, s.centre, ephemeris), frame);
+  return {
+    plan, options, startTdbS, endTdbS, leap, scale, frame, ephemeris, forces: exportForces(problem), interpolation, withCovariance, toOutput,
+  };
+}
+
+/** The problem's force model as the propagator takes it (solar pressure with the spacecraft's mass). */
+function exportForces(problem: PlanningProblem): ForceModelSpec {
   const f = problem.forceModel;
-  const forces: ForceModelSpec = {
+  return {
     centralBody: f.centralBody,
     perturbingBodies: f.perturbingBodies,
     centralJ2: f.centralJ2,
@@ -94,43 +111,29 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
       solarPressure: { ...problem.spacecraft.solarPressure, massKg: problem.spacecraft.massKg },
     } : {}),
   };
-  const withCovariance = (options.covariance ?? true) && s.covarianceKmKmS !== undefined;
-  let covariance = s.covarianceKmKmS && rotateInertialCovariance(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL');
+}
 
+/** Propagates the plan arc by arc and builds the OEM (throws InvalidInputError for a plan that did not
+ * converge or failed its cross-check). */
+export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, options: PlanOemOptions): Promise<Oem> {
+  assertExportable(plan);
+  const run = exportRun(problem, plan, options);
+  const s = problem.initialState;
+  let covariance = s.covarianceKmKmS && rotateInertialCovariance(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL');
   let state: StateVector = {
-    epochTdbS: startTdbS, centre: s.centre, frame: s.frame, positionKm: [...s.positionKm], velocityKmS: [...s.velocityKmS],
+    epochTdbS: run.startTdbS, centre: s.centre, frame: s.frame, positionKm: [...s.positionKm], velocityKmS: [...s.velocityKmS],
   };
   const burns = [...plan.burns].sort((a, b) => a.epoch.tdbS - b.epoch.tdbS);
-  const arcEnds = [...burns.map((b) => b.epoch.tdbS), endTdbS];
+  const arcEnds = [...burns.map((b) => b.epoch.tdbS), run.endTdbS];
   const segments: OemSegment[] = [];
-  const toOutput = (x: StateVector): StateVector => stateToFrame(x.centre === s.centre ? x : changeCentre(x, s.centre, ephemeris), frame);
   for (let arc = 0; arc < arcEnds.length; arc++) {
     if (options.signal?.aborted) throw new CancelledError('OEM export cancelled');
     const arcEnd = arcEnds[arc];
     if (arcEnd > state.epochTdbS) {
-      const result = await propagateAsync({
-        initial: state, endEpochTdbS: arcEnd, forces, ephemeris, method: f.method,
-        relativeTolerance: f.relativeTolerance, outputStepS: options.stepS, withStm: withCovariance,
-        switching: { enabled: f.switching },
-      }, {
-        ...(options.signal ? { signal: options.signal } : {}),
-        onProgress: (x) => options.onProgress?.((arc + x) / arcEnds.length),
-      });
-      if (result.outcome === 'cancelled') throw new CancelledError('OEM export cancelled');
-      if (result.outcome !== 'finished') {
-        throw new InvalidInputError('plan', `propagation of arc ${arc + 1} ended '${result.outcome}': ${result.message ?? ''}`);
-      }
-      const samples = result.samples.map(toOutput);
-      const covariances: OemCovariance[] = [];
-      if (withCovariance && covariance && result.stm) {
-        const phi = Array.from({ length: 6 }, (_, i) => result.stm!.slice(6 * i, 6 * i + 6));
-        if (arc === 0) covariances.push(covarianceBlock(startTdbS, covariance, scale, leap, 'Initial-state covariance'));
-        covariance = multiply(multiply(phi, covariance), transpose(phi));
-        covariances.push(covarianceBlock(arcEnd, covariance, scale, leap,
-          'Initial-state covariance mapped linearly (STM); burn execution errors not included'));
-      }
-      segments.push(segment(plan, options, samples, covariances, arc, interpolation, frame, scale, leap));
-      state = result.final;
+      const flown = await propagateArc(run, problem.forceModel, arc, arcEnds.length, state, arcEnd, covariance);
+      segments.push(flown.segment);
+      state = flown.final;
+      covariance = flown.covariance;
     }
     const burn = burns[arc];
     if (burn) {
@@ -142,6 +145,37 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
     }
   }
   return { header: planHeader(plan, options), segments };
+}
+
+/** Arc `arc` (of `arcs`) from `state` to `arcEnd` (TDB s): its segment, its end state and the covariance
+ * (J2000 equatorial, km and km/s) mapped to its end through the arc's STM. */
+async function propagateArc(run: OemExportRun, f: PlanningProblem['forceModel'], arc: number, arcs: number,
+  state: StateVector, arcEnd: number, covariance: number[][] | undefined,
+): Promise<{ segment: OemSegment; final: StateVector; covariance: number[][] | undefined }> {
+  const { options, leap, scale } = run;
+  const result = await propagateAsync({
+    initial: state, endEpochTdbS: arcEnd, forces: run.forces, ephemeris: run.ephemeris, method: f.method,
+    relativeTolerance: f.relativeTolerance, outputStepS: options.stepS, withStm: run.withCovariance,
+    switching: { enabled: f.switching },
+  }, {
+    ...(options.signal ? { signal: options.signal } : {}),
+    onProgress: (x) => options.onProgress?.((arc + x) / arcs),
+  });
+  if (result.outcome === 'cancelled') throw new CancelledError('OEM export cancelled');
+  if (result.outcome !== 'finished') {
+    throw new InvalidInputError('plan', `propagation of arc ${arc + 1} ended '${result.outcome}': ${result.message ?? ''}`);
+  }
+  const samples = result.samples.map(run.toOutput);
+  const covariances: OemCovariance[] = [];
+  let mapped = covariance;
+  if (run.withCovariance && covariance && result.stm) {
+    if (arc === 0) covariances.push(covarianceBlock(run.startTdbS, covariance, scale, leap, 'Initial-state covariance'));
+    mapped = congruence(rowsOf6(result.stm), covariance);
+    covariances.push(covarianceBlock(arcEnd, mapped, scale, leap,
+      'Initial-state covariance mapped linearly (STM); burn execution errors not included'));
+  }
+  const seg = segment(run.plan, options, samples, covariances, arc, run.interpolation, run.frame, scale, leap);
+  return { segment: seg, final: result.final, covariance: mapped };
 }
 
 /** A covariance block; `matrix` is in J2000 equatorial axes, written as EME2000. */

@@ -12,7 +12,7 @@
  */
 import { InvalidInputError } from '../../propagator/index.ts';
 import type { StateVector, Vec3 } from '../../propagator/index.ts';
-import { pseudoSolve, svd } from '../../propagator/index.ts';
+import { identity, pseudoSolve, rowsOf6, svd } from '../../propagator/index.ts';
 import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import { covarianceToEquatorial } from '../plan/planning-context.ts';
 import type { PlanningContext } from '../plan/planning-context.ts';
@@ -26,8 +26,6 @@ import { gmOf, radiusOf } from '../targeting/target-components.ts';
 import type { BudgetNominal, NominalBurn } from '../../contract/budget-types.ts';
 import { localAxes } from '../../propagator/index.ts';
 
-const identity6 = (): number[][] => Array.from({ length: 6 }, (_, i) => Array.from({ length: 6 }, (__, j) => (i === j ? 1 : 0)));
-const toMatrix6 = (rowMajor: readonly number[]): number[][] => Array.from({ length: 6 }, (_, i) => rowMajor.slice(i * 6, i * 6 + 6));
 const vec = (s: StateVector): number[] => [...s.positionKm, ...s.velocityKmS];
 
 /** The evaluation context started at `state` (J2000 equatorial) with the spacecraft's mass there. */
@@ -85,7 +83,7 @@ export async function budgetNominal(request: BudgetRequest, ctx: PlanningContext
       const post: StateVector = { ...pre, velocityKmS: [pre.velocityKmS[0] + dv[0], pre.velocityKmS[1] + dv[1], pre.velocityKmS[2] + dv[2]] };
       const seg = await propagateSegment(ctx.problem, ctx.ephemeris, post, pb.massAfterKg, settings[k + 1].epochTdbS, { ...opts, withStm: true });
       if (seg.outcome !== 'finished' || !seg.stm) throw new InvalidInputError('problem', `propagation between burns ${k + 1} and ${k + 2} ended '${seg.outcome}'`);
-      transitionToNext = toMatrix6(seg.stm);
+      transitionToNext = rowsOf6(seg.stm);
     }
     burns.push({
       label: pb.label, epochTdbS: pb.epoch.tdbS, frame: b.frame, deltaVInertialKmS: [...pb.deltaVInertialKmS] as Vec3,
@@ -94,11 +92,11 @@ export async function budgetNominal(request: BudgetRequest, ctx: PlanningContext
       gain: burnGain(ctx, fromK.initialStateJacobian as number[][], axes, b.freeComponents), transitionToNext,
     });
   }
-  let transitionToFirst = identity6();
+  let transitionToFirst = identity(6);
   if (settings[0].epochTdbS > ctx.evaluation.initial.epochTdbS) {
     const seg = await propagateSegment(ctx.problem, ctx.ephemeris, ctx.evaluation.initial, ctx.problem.spacecraft.massKg, settings[0].epochTdbS, { ...opts, withStm: true });
     if (seg.outcome !== 'finished' || !seg.stm) throw new InvalidInputError('problem', `propagation to the first burn ended '${seg.outcome}'`);
-    transitionToFirst = toMatrix6(seg.stm);
+    transitionToFirst = rowsOf6(seg.stm);
   }
   const idx = ctx.bPlaneIndex;
   const approach = idx ? whole.approaches.find((a) => a.body === idx.body) : undefined;

@@ -119,125 +119,164 @@ function merit(scaled: number[]): number {
   return 0.5 * scaled.reduce((s, v) => s + v * v, 0);
 }
 
+/** What the stages of one run share: the spec, the iteration records so far and the evaluation count. */
+interface CorrectorRun {
+  spec: CorrectorSpec;
+  /** More residuals than controls. */
+  leastSquares: boolean;
+  iterations: CorrectorIteration[];
+  evaluations: number;
+}
+
+/** Where an iteration starts: controls, residuals scaled by their tolerances, and the largest of them. */
+interface IterationStart {
+  k: number;
+  x: number[];
+  rs: number[];
+  maxScaled: number;
+}
+
+type JacobianSource = CorrectorIteration['jacobianSource'];
+
+function evaluateAt(run: CorrectorRun, x: number[], withJ: boolean): Promise<CorrectorEvaluation> {
+  run.evaluations += 1;
+  return run.spec.evaluate(x, withJ && !run.spec.finiteDifferenceOnly);
+}
+
+function scaled(spec: CorrectorSpec, r: number[]): number[] {
+  return r.map((v, i) => v / spec.tolerances[i]);
+}
+
+function finish(run: CorrectorRun, outcome: CorrectorOutcome, message: string, x: number[], r: number[], J: Matrix | null,
+  src: CorrectorResult['jacobianSource']): CorrectorResult {
+  return {
+    outcome, message, controls: x, residuals: r, jacobian: J, jacobianSource: src, iterations: run.iterations,
+    leastSquares: run.leastSquares, evaluations: run.evaluations,
+  };
+}
+
+function record(run: CorrectorRun, at: IterationStart, cond: number | null, stepNorm: number, src: JacobianSource, note?: string): void {
+  const rec: CorrectorIteration = {
+    iteration: at.k, controls: at.x.slice(), scaledResiduals: at.rs, maxScaledResidual: at.maxScaled,
+    conditionNumber: cond !== null && Number.isFinite(cond) ? cond : null, stepNorm, jacobianSource: src, note,
+  };
+  run.iterations.push(rec);
+  run.spec.onIteration?.(rec);
+}
+
+/** The caller's Jacobian when there is one, else finite differences about x (residuals r there). */
+async function jacobianAt(run: CorrectorRun, x: number[], r: number[], analyticJ: Matrix | undefined):
+  Promise<{ J: Matrix; src: JacobianSource } | { failed: string }> {
+  if (analyticJ) return { J: analyticJ, src: 'analytic' };
+  const { spec } = run;
+  const fd = await finiteDifferenceJacobian((xx) => evaluateAt(run, xx, false), x, spec.finiteDifferenceStep,
+    spec.centralDifferences ? undefined : r, spec.centralDifferences);
+  if ('failed' in fd) return fd;
+  return { J: fd.jacobian, src: 'finite-difference' };
+}
+
+/** The Newton step in the controls' units: the SVD pseudo-inverse of the scaled system (rows by
+ * tolerance, columns by control scale), shrunk as a whole until no control moves more than its limit. */
+function newtonStep(spec: CorrectorSpec, J: Matrix, rs: number[]): { dx: number[]; cond: number; rank: number; note?: string } {
+  const Js = J.map((row, i) => row.map((v, j) => (v * spec.controlScales[j]) / spec.tolerances[i]));
+  const d = svd(Js);
+  const cond = conditionNumber(d.s);
+  const { x: dxs, rank } = pseudoSolve(d, rs.map((v) => -v));
+  if (rank === 0) return { dx: [], cond, rank };
+  let dx = dxs.map((v, j) => v * spec.controlScales[j]);
+  const ratio = Math.max(...dx.map((v, j) => Math.abs(v) / spec.maxStep[j]));
+  let note: string | undefined;
+  if (ratio > 1) {
+    dx = dx.map((v) => v / ratio);
+    note = `step limited by ${ratio.toPrecision(3)}x`;
+  }
+  return { dx, cond, rank, note };
+}
+
+/** Backtracking line search on ½‖r_s‖² along dx from x (halving α up to six times). */
+async function lineSearch(run: CorrectorRun, x: number[], dx: number[], rs: number[]): Promise<{
+  accepted: { x: number[]; ev: Extract<CorrectorEvaluation, { ok: true }> } | null; alpha: number; lastFailure: string;
+}> {
+  const { spec } = run;
+  const f0 = merit(rs);
+  let alpha = 1;
+  let lastFailure = '';
+  for (let trial = 0; trial < 6; trial++) {
+    const xt = clip(x.map((v, j) => v + alpha * dx[j]), spec.lower, spec.upper);
+    const et = await evaluateAt(run, xt, true);
+    if (et.ok && merit(scaled(spec, et.residuals)) < f0 * (1 - 1e-4 * alpha)) return { accepted: { x: xt, ev: et }, alpha, lastFailure };
+    if (et.ok && run.leastSquares && trial === 0 && merit(scaled(spec, et.residuals)) <= f0 * (1 + 1e-12)) {
+      // At a least-squares minimum the merit cannot fall further.
+      lastFailure = 'no further decrease';
+    } else if (!et.ok) {
+      lastFailure = et.reason;
+    }
+    alpha *= 0.5;
+  }
+  return { accepted: null, alpha, lastFailure };
+}
+
+/** The result when no step along the Newton direction helps: a least-squares minimum or divergence. */
+function noDescent(run: CorrectorRun, at: IterationStart, cond: number, src: JacobianSource, J: Matrix, r: number[],
+  lastFailure: string): CorrectorResult {
+  const { x, maxScaled } = at;
+  if (run.leastSquares) {
+    record(run, at, cond, 0, src, 'least-squares minimum: residuals cannot be reduced further');
+    return finish(run, 'least-squares-stationary', `the targets outnumber the free variables and cannot all be met; least-squares minimum has largest |residual|/tolerance = ${maxScaled.toPrecision(4)}`, x, r, J, src);
+  }
+  record(run, at, cond, 0, src, `line search failed${lastFailure ? `: ${lastFailure}` : ''}`);
+  return finish(run, 'diverged', `no step along the Newton direction reduces the residuals (largest |residual|/tolerance = ${maxScaled.toPrecision(4)})${lastFailure ? `; ${lastFailure}` : ''}`, x, r, J, src);
+}
+
 /** Runs the corrector; see the file comment. */
 export async function runCorrector(spec: CorrectorSpec): Promise<CorrectorResult> {
-  const n = spec.initial.length;
-  const m = spec.tolerances.length;
-  const leastSquares = m > n;
-  const iterations: CorrectorIteration[] = [];
-  let evaluations = 0;
-  const evalAt = async (x: number[], withJ: boolean): Promise<CorrectorEvaluation> => {
-    evaluations += 1;
-    return spec.evaluate(x, withJ && !spec.finiteDifferenceOnly);
-  };
-  const scale = (r: number[]): number[] => r.map((v, i) => v / spec.tolerances[i]);
-  const done = (outcome: CorrectorOutcome, message: string, x: number[], r: number[], J: Matrix | null,
-    src: CorrectorResult['jacobianSource']): CorrectorResult => ({
-    outcome, message, controls: x, residuals: r, jacobian: J, jacobianSource: src, iterations, leastSquares, evaluations,
-  });
-
+  const run: CorrectorRun = { spec, leastSquares: spec.tolerances.length > spec.initial.length, iterations: [], evaluations: 0 };
   let x = clip(spec.initial.slice(), spec.lower, spec.upper);
-  let ev = await evalAt(x, true);
-  if (!ev.ok) return done('evaluation-failed', ev.reason, x, [], null, 'none');
-  let r = ev.residuals;
-  let analyticJ = ev.jacobian;
+  const first = await evaluateAt(run, x, true);
+  if (!first.ok) return finish(run, 'evaluation-failed', first.reason, x, [], null, 'none');
+  let r = first.residuals;
+  let analyticJ = first.jacobian;
   let lastJ: Matrix | null = null;
   let lastSrc: CorrectorResult['jacobianSource'] = 'none';
 
   for (let k = 0; ; k++) {
-    const rs = scale(r);
-    const maxScaled = Math.max(...rs.map(Math.abs));
-    const record = (cond: number | null, stepNorm: number, src: CorrectorIteration['jacobianSource'], note?: string): void => {
-      const rec: CorrectorIteration = {
-        iteration: k, controls: x.slice(), scaledResiduals: rs, maxScaledResidual: maxScaled,
-        conditionNumber: cond !== null && Number.isFinite(cond) ? cond : null, stepNorm, jacobianSource: src, note,
-      };
-      iterations.push(rec);
-      spec.onIteration?.(rec);
-    };
-    if (maxScaled <= 1) {
-      record(null, 0, 'none', 'every residual within tolerance');
-      return done('converged', `every residual within tolerance after ${k} iteration(s)`, x, r, lastJ, lastSrc);
+    const rs = scaled(spec, r);
+    const at: IterationStart = { k, x, rs, maxScaled: Math.max(...rs.map(Math.abs)) };
+    if (at.maxScaled <= 1) {
+      record(run, at, null, 0, 'none', 'every residual within tolerance');
+      return finish(run, 'converged', `every residual within tolerance after ${k} iteration(s)`, x, r, lastJ, lastSrc);
     }
     if (k >= spec.maxIterations) {
-      record(null, 0, 'none', 'iteration limit');
-      return done('iteration-limit', `iteration limit ${spec.maxIterations} reached; largest |residual|/tolerance = ${maxScaled.toPrecision(4)}`, x, r, lastJ, lastSrc);
+      record(run, at, null, 0, 'none', 'iteration limit');
+      return finish(run, 'iteration-limit', `iteration limit ${spec.maxIterations} reached; largest |residual|/tolerance = ${at.maxScaled.toPrecision(4)}`, x, r, lastJ, lastSrc);
     }
-
-    let J: Matrix;
-    let src: CorrectorIteration['jacobianSource'];
-    if (analyticJ) {
-      J = analyticJ;
-      src = 'analytic';
-    } else {
-      const fd = await finiteDifferenceJacobian((xx) => evalAt(xx, false), x, spec.finiteDifferenceStep,
-        spec.centralDifferences ? undefined : r, spec.centralDifferences);
-      if ('failed' in fd) {
-        record(null, 0, 'none', fd.failed);
-        return done('evaluation-failed', `finite-difference Jacobian failed: ${fd.failed}`, x, r, lastJ, lastSrc);
-      }
-      J = fd.jacobian;
-      src = 'finite-difference';
+    const jac = await jacobianAt(run, x, r, analyticJ);
+    if ('failed' in jac) {
+      record(run, at, null, 0, 'none', jac.failed);
+      return finish(run, 'evaluation-failed', `finite-difference Jacobian failed: ${jac.failed}`, x, r, lastJ, lastSrc);
     }
+    const { J, src } = jac;
     lastJ = J;
     lastSrc = src;
-
-    // Scaled system: rows by tolerance, columns by control scale.
-    const Js = J.map((row, i) => row.map((v, j) => (v * spec.controlScales[j]) / spec.tolerances[i]));
-    const d = svd(Js);
-    const cond = conditionNumber(d.s);
-    const { x: dxs, rank } = pseudoSolve(d, rs.map((v) => -v));
-    if (rank === 0) {
-      record(cond, 0, src, 'Jacobian is zero: the targets do not depend on the free variables');
-      return done('singular', 'the Jacobian is zero: no free variable moves any target', x, r, J, src);
+    const step = newtonStep(spec, J, rs);
+    if (step.rank === 0) {
+      record(run, at, step.cond, 0, src, 'Jacobian is zero: the targets do not depend on the free variables');
+      return finish(run, 'singular', 'the Jacobian is zero: no free variable moves any target', x, r, J, src);
     }
-    let dx = dxs.map((v, j) => v * spec.controlScales[j]);
-    const ratio = Math.max(...dx.map((v, j) => Math.abs(v) / spec.maxStep[j]));
-    let note: string | undefined;
-    if (ratio > 1) {
-      dx = dx.map((v) => v / ratio);
-      note = `step limited by ${ratio.toPrecision(3)}x`;
-    }
-
-    // Backtracking line search on ½‖r_s‖².
-    const f0 = merit(rs);
-    let alpha = 1;
-    let accepted: { x: number[]; ev: Extract<CorrectorEvaluation, { ok: true }> } | null = null;
-    let lastFailure = '';
-    for (let trial = 0; trial < 6; trial++) {
-      const xt = clip(x.map((v, j) => v + alpha * dx[j]), spec.lower, spec.upper);
-      const et = await evalAt(xt, true);
-      if (et.ok && merit(scale(et.residuals)) < f0 * (1 - 1e-4 * alpha)) {
-        accepted = { x: xt, ev: et };
-        break;
-      }
-      if (et.ok && leastSquares && trial === 0 && merit(scale(et.residuals)) <= f0 * (1 + 1e-12)) {
-        // At a least-squares minimum the merit cannot fall further.
-        lastFailure = 'no further decrease';
-      } else if (!et.ok) {
-        lastFailure = et.reason;
-      }
-      alpha *= 0.5;
-    }
-    const stepNorm = norm2(dx.map((v, j) => (alpha * v) / spec.controlScales[j]));
+    const { accepted, alpha, lastFailure } = await lineSearch(run, x, step.dx, rs);
     if (!accepted) {
       if (src === 'analytic' && !spec.finiteDifferenceOnly) {
         // The analytic Jacobian may be poor here: retry this iteration with finite differences.
-        record(cond, 0, src, 'no descent along the analytic-Jacobian step; retrying with finite differences');
+        record(run, at, step.cond, 0, src, 'no descent along the analytic-Jacobian step; retrying with finite differences');
         analyticJ = undefined;
         continue;
       }
-      if (leastSquares) {
-        record(cond, 0, src, 'least-squares minimum: residuals cannot be reduced further');
-        return done('least-squares-stationary', `the targets outnumber the free variables and cannot all be met; least-squares minimum has largest |residual|/tolerance = ${maxScaled.toPrecision(4)}`, x, r, J, src);
-      }
-      record(cond, 0, src, `line search failed${lastFailure ? `: ${lastFailure}` : ''}`);
-      return done('diverged', `no step along the Newton direction reduces the residuals (largest |residual|/tolerance = ${maxScaled.toPrecision(4)})${lastFailure ? `; ${lastFailure}` : ''}`, x, r, J, src);
+      return noDescent(run, at, step.cond, src, J, r, lastFailure);
     }
-    record(cond, stepNorm, src, alpha < 1 ? `${note ? `${note}; ` : ''}line search α = ${alpha}` : note);
+    const stepNorm = norm2(step.dx.map((v, j) => (alpha * v) / spec.controlScales[j]));
+    record(run, at, step.cond, stepNorm, src, alpha < 1 ? `${step.note ? `${step.note}; ` : ''}line search α = ${alpha}` : step.note);
     x = accepted.x;
-    ev = accepted.ev;
-    r = ev.residuals;
-    analyticJ = spec.finiteDifferenceOnly ? undefined : ev.jacobian;
+    r = accepted.ev.residuals;
+    analyticJ = spec.finiteDifferenceOnly ? undefined : accepted.ev.jacobian;
   }
 }

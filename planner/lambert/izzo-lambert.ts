@@ -5,7 +5,7 @@
  * 121:1–15 — the x-variable formulation with Householder (third-order) iterations and Izzo's initial
  * guesses, velocity reconstruction from his eq. (31) (from memory).
  */
-import { InvalidInputError, type Vec3 } from '../../propagator/index.ts';
+import { cross3 as cross, dot3 as dot, InvalidInputError, norm2 as norm, type Vec3 } from '../../propagator/index.ts';
 import { LAMBERT_DEFAULTS, type LambertOptions, type LambertSolution } from './lambert-types.ts';
 import { izzoTimeDerivatives, izzoTimeOfFlight } from './time-of-flight.ts';
 
@@ -16,10 +16,6 @@ const RESIDUAL_TOLERANCE = 1e-15;
 /** Within this of x = ±1 the derivative formulas lose precision (0/0 at the parabola). */
 const NEAR_PARABOLA = 1e-7;
 
-const dot = (a: Vec3, b: Vec3): number => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
-const norm = (a: Vec3): number => Math.sqrt(dot(a, a));
-const cross = (a: Vec3, b: Vec3): Vec3 => [
-  a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
 const scale = (a: Vec3, k: number): Vec3 => [a[0] * k, a[1] * k, a[2] * k];
 
 function checkVector(field: string, v: Vec3): void {
@@ -73,24 +69,17 @@ function initialGuess(t: number, lambda: number): number {
   return Math.pow(t00 / t, 1 / Math.log2(t00 / t1)) - 1;
 }
 
-/**
- * Solves Lambert's problem with zero (default) or more complete revolutions.
- *
- * @param r1Km departure position, km, any inertial frame (same frame as r2Km).
- * @param r2Km arrival position, km, same frame.
- * @param timeOfFlightS transfer time, s, > 0.
- * @param muKm3S2 gravitational parameter of the attracting body, km^3/s^2, > 0.
- * @param options direction ('prograde' | 'retrograde' about `referenceNormal`, default +z), revolutions
- *   and branch for multi-revolution transfers, tolerance.
- * @returns velocities at both ends (km/s, input frame), iteration count and a converged flag.
- * @throws InvalidInputError for non-finite or non-positive inputs, for a transfer angle within ~1e-9 rad
- *   of 0° or 180° (the transfer plane is undefined: split the arc or give an out-of-plane position), and
- *   for a transfer plane containing the reference normal (prograde/retrograde undefined), and for a time
- *   of flight below the minimum for the requested revolutions (the message gives that minimum).
- */
-export function solveLambert(
-  r1Km: Vec3, r2Km: Vec3, timeOfFlightS: number, muKm3S2: number, options: LambertOptions,
-): LambertSolution {
+/** The checked options of one solve, defaults applied. */
+interface SolveSettings {
+  normal: Vec3;
+  tolerance: number;
+  maxIterations: number;
+  revolutions: number;
+  branch: 'left' | 'right';
+}
+
+/** Checks the inputs (errors name the field) and applies the defaults. */
+function checkInputs(r1Km: Vec3, r2Km: Vec3, timeOfFlightS: number, muKm3S2: number, options: LambertOptions): SolveSettings {
   checkVector('r1Km', r1Km);
   checkVector('r2Km', r2Km);
   checkPositive('timeOfFlightS', timeOfFlightS);
@@ -110,7 +99,26 @@ export function solveLambert(
   if (branch !== 'left' && branch !== 'right') {
     throw new InvalidInputError('options.branch', `must be 'left' or 'right', got ${String(branch)}`);
   }
+  return { normal, tolerance, maxIterations, revolutions, branch };
+}
 
+/** The transfer's geometry in Izzo's terms: radii r1, r2 and chord (km), semi-perimeter s (km), the radial
+ * and tangential unit vectors at both ends (input frame), λ and the transfer angle (rad) in the chosen
+ * direction. */
+interface TransferGeometry {
+  r1: number;
+  r2: number;
+  chord: number;
+  s: number;
+  ir1: Vec3;
+  ir2: Vec3;
+  it1: Vec3;
+  it2: Vec3;
+  lambda: number;
+  angle: number;
+}
+
+function transferGeometry(r1Km: Vec3, r2Km: Vec3, normal: Vec3, direction: LambertOptions['direction']): TransferGeometry {
   const r1 = norm(r1Km);
   const r2 = norm(r2Km);
   checkPositive('r1Km (magnitude)', r1);
@@ -150,26 +158,20 @@ export function solveLambert(
     it1 = cross(ih, ir1);
     it2 = cross(ih, ir2);
   }
-  if (options.direction === 'retrograde') {
+  if (direction === 'retrograde') {
     lambda = -lambda;
     it1 = scale(it1, -1);
     it2 = scale(it2, -1);
     angle = 2 * Math.PI - angle;
   }
+  return { r1, r2, chord, s, ir1, ir2, it1, it2, lambda, angle };
+}
 
-  const timeScale = Math.sqrt((2 * muKm3S2) / (s * s * s));
-  const t = timeScale * timeOfFlightS;
-  let x: number;
-  if (revolutions === 0) {
-    x = initialGuess(t, lambda);
-  } else {
-    const tMin = minimumTime(lambda, revolutions);
-    if (t < tMin) {
-      throw new InvalidInputError('timeOfFlightS', `${timeOfFlightS} s is below the minimum ${(tMin / timeScale).toFixed(3)} s `
-        + `for ${revolutions} complete revolution(s) on this geometry`, 'LAMBERT_NO_SOLUTION');
-    }
-    x = multiRevolutionGuess(t, revolutions, branch);
-  }
+/** Householder iterations on T(x) = t (non-dimensional time) from the starting x. */
+function householderRoot(x0: number, t: number, lambda: number, settings: SolveSettings):
+  { x: number; iterations: number; converged: boolean } {
+  const { revolutions, tolerance, maxIterations } = settings;
+  let x = x0;
   let iterations = 0;
   let converged = false;
   while (iterations < maxIterations) {
@@ -200,10 +202,13 @@ export function solveLambert(
       break;
     }
   }
-  const residual = Math.abs(izzoTimeOfFlight(x, lambda, revolutions) - t);
+  return { x, iterations, converged };
+}
 
-  // Velocity reconstruction, Izzo (2015) eq. (31).
-  const gamma = Math.sqrt((muKm3S2 * s) / 2);
+/** Velocities at both ends (km/s, input frame) from x: Izzo (2015) eq. (31). */
+function endVelocities(g: TransferGeometry, x: number, muKm3S2: number): { v1KmS: Vec3; v2KmS: Vec3 } {
+  const { r1, r2, chord, lambda, ir1, ir2, it1, it2 } = g;
+  const gamma = Math.sqrt((muKm3S2 * g.s) / 2);
   const rho = (r1 - r2) / chord;
   const sigma = Math.sqrt(Math.max(0, 1 - rho * rho));
   const y = Math.sqrt(1 - lambda * lambda + lambda * lambda * x * x);
@@ -216,9 +221,48 @@ export function solveLambert(
     vr1 * ir1[0] + vt1 * it1[0], vr1 * ir1[1] + vt1 * it1[1], vr1 * ir1[2] + vt1 * it1[2]];
   const v2KmS: Vec3 = [
     vr2 * ir2[0] + vt2 * it2[0], vr2 * ir2[1] + vt2 * it2[1], vr2 * ir2[2] + vt2 * it2[2]];
-  converged = converged && v1KmS.every(Number.isFinite) && v2KmS.every(Number.isFinite);
+  return { v1KmS, v2KmS };
+}
+
+/**
+ * Solves Lambert's problem with zero (default) or more complete revolutions.
+ *
+ * @param r1Km departure position, km, any inertial frame (same frame as r2Km).
+ * @param r2Km arrival position, km, same frame.
+ * @param timeOfFlightS transfer time, s, > 0.
+ * @param muKm3S2 gravitational parameter of the attracting body, km^3/s^2, > 0.
+ * @param options direction ('prograde' | 'retrograde' about `referenceNormal`, default +z), revolutions
+ *   and branch for multi-revolution transfers, tolerance.
+ * @returns velocities at both ends (km/s, input frame), iteration count and a converged flag.
+ * @throws InvalidInputError for non-finite or non-positive inputs, for a transfer angle within ~1e-9 rad
+ *   of 0° or 180° (the transfer plane is undefined: split the arc or give an out-of-plane position), and
+ *   for a transfer plane containing the reference normal (prograde/retrograde undefined), and for a time
+ *   of flight below the minimum for the requested revolutions (the message gives that minimum).
+ */
+export function solveLambert(
+  r1Km: Vec3, r2Km: Vec3, timeOfFlightS: number, muKm3S2: number, options: LambertOptions,
+): LambertSolution {
+  const settings = checkInputs(r1Km, r2Km, timeOfFlightS, muKm3S2, options);
+  const { revolutions } = settings;
+  const g = transferGeometry(r1Km, r2Km, settings.normal, options.direction);
+  const timeScale = Math.sqrt((2 * muKm3S2) / (g.s * g.s * g.s));
+  const t = timeScale * timeOfFlightS;
+  let x0: number;
+  if (revolutions === 0) {
+    x0 = initialGuess(t, g.lambda);
+  } else {
+    const tMin = minimumTime(g.lambda, revolutions);
+    if (t < tMin) {
+      throw new InvalidInputError('timeOfFlightS', `${timeOfFlightS} s is below the minimum ${(tMin / timeScale).toFixed(3)} s `
+        + `for ${revolutions} complete revolution(s) on this geometry`, 'LAMBERT_NO_SOLUTION');
+    }
+    x0 = multiRevolutionGuess(t, revolutions, settings.branch);
+  }
+  const { x, iterations, converged } = householderRoot(x0, t, g.lambda, settings);
+  const residual = Math.abs(izzoTimeOfFlight(x, g.lambda, revolutions) - t);
+  const { v1KmS, v2KmS } = endVelocities(g, x, muKm3S2);
   return {
-    v1KmS, v2KmS, iterations, converged, transferAngleRad: angle, x, revolutions, residual,
-    method: 'izzo-2015-householder',
+    v1KmS, v2KmS, iterations, converged: converged && v1KmS.every(Number.isFinite) && v2KmS.every(Number.isFinite),
+    transferAngleRad: g.angle, x, revolutions, residual, method: 'izzo-2015-householder',
   };
 }

@@ -21,6 +21,7 @@ import type { TargetComponent } from './target-components.ts';
 import { forcesFor } from './propagate-segment.ts';
 import { evaluateComponent } from './target-geometry.ts';
 import { type Rotation3, axesToInertial, localAxes } from '../../propagator/index.ts';
+import { identity, multiply, rowsOf6, zeros } from '../../propagator/index.ts';
 
 type M = number[][];
 
@@ -93,186 +94,218 @@ export interface EvaluationFailure {
   burns: BurnRecord[];
 }
 
-const zeros = (r: number, c: number): M => Array.from({ length: r }, () => new Array<number>(c).fill(0));
-const identity6 = (): M => Array.from({ length: 6 }, (_, i) => Array.from({ length: 6 }, (__, j) => (i === j ? 1 : 0)));
-
-/** Φ (row-major 36) times a 6 x k matrix. */
-function phiTimes(phi: readonly number[], a: M): M {
-  const k = a[0]?.length ?? 0;
-  const out = zeros(6, k);
-  for (let i = 0; i < 6; i++) {
-    for (let p = 0; p < 6; p++) {
-      const f = phi[i * 6 + p];
-      if (f === 0) continue;
-      for (let j = 0; j < k; j++) out[i][j] += f * a[p][j];
-    }
-  }
-  return out;
-}
-
-function rowTimes(row: readonly number[], a: M): number[] {
-  const k = a[0]?.length ?? 0;
-  const out = new Array<number>(k).fill(0);
-  for (let p = 0; p < 6; p++) for (let j = 0; j < k; j++) out[j] += row[p] * a[p][j];
-  return out;
-}
-
 function vec(s: StateVector): number[] {
   return [...s.positionKm, ...s.velocityKmS];
 }
 
-/** Evaluates the trajectory for the given burn settings; see the file comment. */
-export async function evaluateTrajectory(
-  ctx: EvaluationContext, settings: BurnSetting[], opts: EvaluationOptions,
-): Promise<TrajectoryEvaluation | EvaluationFailure> {
-  const { problem } = ctx;
+/** The running state handed from stage to stage: where the spacecraft is, its mass, the chained partials
+ * (ChainState) and the counts of the propagations so far. */
+interface Walk extends ChainState {
+  readonly ctx: EvaluationContext;
+  readonly opts: EvaluationOptions;
+  readonly stm: boolean;
+  /** Exhaust velocity of the engine, km/s. */
+  readonly exhaust: number;
+  mass: number;
+  state: StateVector;
+  readonly burns: BurnRecord[];
+  readonly samples: StateVector[];
+  propagations: number;
+  evaluations: number;
+  readonly warnings: Set<string>;
+}
+
+/** A station's snapshot: the state there, the partials chained so far, the bodies' relative states. */
+interface Station { rel: Map<BodyName, number[]>; epochTdbS: number; G: M; P: M; B: M[]; state: StateVector }
+
+interface StationsReached { ok: true; stations: Map<string, Station>; approaches: ApproachRecord[] }
+
+type TargetReadings = Pick<TrajectoryEvaluation, 'ok' | 'values' | 'jacobian' | 'initialStateJacobian' | 'burnJacobians'>;
+
+function startWalk(ctx: EvaluationContext, opts: EvaluationOptions): Walk {
   const n = ctx.controlMap.length;
   const stm = opts.withStm;
-  const exhaust = exhaustVelocityKmS(problem.spacecraft.engine.ispS);
-  let mass = problem.spacecraft.massKg;
-  let state: StateVector = ctx.initial;
-  let G = stm ? zeros(6, n) : [];
-  let P = stm ? identity6() : [];
-  let B: M[] = [];
-  // d(mass)/d(controls) and d(mass)/d(Δv) of each burn: a finite burn's acceleration depends on the mass.
-  let massRow = new Array<number>(n).fill(0);
-  let massB: number[][] = [];
-  const burns: BurnRecord[] = [];
-  const samples: StateVector[] = [];
-  let propagations = 0;
-  let evaluations = 0;
-  const warnings = new Set<string>();
+  return {
+    ctx, opts, stm, exhaust: exhaustVelocityKmS(ctx.problem.spacecraft.engine.ispS), mass: ctx.problem.spacecraft.massKg,
+    state: ctx.initial, G: stm ? zeros(6, n) : [], P: stm ? identity(6) : [], B: [],
+    // d(mass)/d(controls) and d(mass)/d(Δv) of each burn: a finite burn's acceleration depends on the mass.
+    massRow: new Array<number>(n).fill(0), massB: [],
+    burns: [], samples: [], propagations: 0, evaluations: 0, warnings: new Set<string>(),
+  };
+}
 
-  const fail = (reason: string, impact: EvaluationFailure['impact'] = null): EvaluationFailure => ({ ok: false, reason, impact, burns });
-  const impactOf = (res: PropagationResult): EvaluationFailure['impact'] => {
-    if (res.outcome !== 'impact') return null;
-    const ev = res.events.find((e) => e.kind === 'impact');
-    const body = ev?.body ?? null;
-    let rel: number[] | null = null;
-    if (ev && body) rel = ev.state.centre === body ? vec(ev.state) : vec(changeCentre(ev.state, body, ctx.ephemeris));
-    return { body, epochTdbS: res.final.epochTdbS, stateRelBody: rel };
-  };
-  const run = async (endTdbS: number, events: EventSpec[], extra: Partial<PropagationRequest> = {}): Promise<PropagationResult> => {
-    if (opts.signal?.aborted) throw new CancelledError();
-    const result = await propagateAsync({
-      ...extra,
-      initial: state, endEpochTdbS: endTdbS, forces: forcesFor(problem, mass), ephemeris: ctx.ephemeris,
-      method: opts.method, relativeTolerance: opts.relativeTolerance, withStm: stm, events,
-      switching: (opts.switching ?? problem.forceModel.switching) ? { enabled: true } : undefined,
-      outputStepS: opts.outputStepS,
-    }, { signal: opts.signal });
-    propagations += 1;
-    evaluations += result.stats.evaluations;
-    result.warnings.forEach((w) => warnings.add(w));
-    if (result.outcome === 'cancelled') throw new CancelledError();
-    if (opts.outputStepS) samples.push(...result.samples);
-    return result;
-  };
-  const advance = (result: PropagationResult): void => {
-    if (stm) {
-      const phi = result.stm as number[];
-      G = phiTimes(phi, G);
-      P = phiTimes(phi, P);
-      B = B.map((b) => phiTimes(phi, b));
-    }
-    state = result.final;
-  };
+function failure(walk: Walk, reason: string, impact: EvaluationFailure['impact'] = null): EvaluationFailure {
+  return { ok: false, reason, impact, burns: walk.burns };
+}
 
+/** Where and on what a run that ended in an impact hit, relative to that body; null for other outcomes. */
+function impactOf(walk: Walk, res: PropagationResult): EvaluationFailure['impact'] {
+  if (res.outcome !== 'impact') return null;
+  const ev = res.events.find((e) => e.kind === 'impact');
+  const body = ev?.body ?? null;
+  let rel: number[] | null = null;
+  if (ev && body) rel = ev.state.centre === body ? vec(ev.state) : vec(changeCentre(ev.state, body, walk.ctx.ephemeris));
+  return { body, epochTdbS: res.final.epochTdbS, stateRelBody: rel };
+}
+
+/** Propagates from the walk's state to `endTdbS` (TDB s) with the current mass; counts and collects. */
+async function propagateLeg(walk: Walk, endTdbS: number, events: EventSpec[],
+  extra: Partial<PropagationRequest> = {}): Promise<PropagationResult> {
+  const { ctx, opts, ctx: { problem } } = walk;
+  if (opts.signal?.aborted) throw new CancelledError();
+  const result = await propagateAsync({
+    ...extra,
+    initial: walk.state, endEpochTdbS: endTdbS, forces: forcesFor(problem, walk.mass), ephemeris: ctx.ephemeris,
+    method: opts.method, relativeTolerance: opts.relativeTolerance, withStm: walk.stm, events,
+    switching: (opts.switching ?? problem.forceModel.switching) ? { enabled: true } : undefined,
+    outputStepS: opts.outputStepS,
+  }, { signal: opts.signal });
+  walk.propagations += 1;
+  walk.evaluations += result.stats.evaluations;
+  result.warnings.forEach((w) => walk.warnings.add(w));
+  if (result.outcome === 'cancelled') throw new CancelledError();
+  if (opts.outputStepS) walk.samples.push(...result.samples);
+  return result;
+}
+
+/** Moves the walk to the end of a coast, carrying the partials through its Φ. */
+function advance(walk: Walk, result: PropagationResult): void {
+  if (walk.stm) {
+    const phi = rowsOf6(result.stm as number[]);
+    walk.G = multiply(phi, walk.G);
+    walk.P = multiply(phi, walk.P);
+    walk.B = walk.B.map((b) => multiply(phi, b));
+  }
+  walk.state = result.final;
+}
+
+/** Stage 1: coasts to each burn and flies it; null when every burn was flown. */
+async function flyBurns(walk: Walk, settings: BurnSetting[]): Promise<EvaluationFailure | null> {
   for (let i = 0; i < settings.length; i++) {
     const s = settings[i];
-    if (s.epochTdbS < state.epochTdbS) return fail(`burn ${i + 1} epoch precedes the previous burn (free epochs crossed)`);
-    if (s.epochTdbS > state.epochTdbS) {
-      const res = await run(s.epochTdbS, []);
+    if (s.epochTdbS < walk.state.epochTdbS) return failure(walk, `burn ${i + 1} epoch precedes the previous burn (free epochs crossed)`);
+    if (s.epochTdbS > walk.state.epochTdbS) {
+      const res = await propagateLeg(walk, s.epochTdbS, []);
       if (res.outcome !== 'finished') {
-        return fail(`propagation to burn ${i + 1} ended '${res.outcome}': ${res.message ?? ''}`.trim(), impactOf(res));
+        return failure(walk, `propagation to burn ${i + 1} ended '${res.outcome}': ${res.message ?? ''}`.trim(), impactOf(walk, res));
       }
-      advance(res);
+      advance(walk, res);
     }
-    const axes = localAxes(s.frame, state.positionKm, state.velocityKmS);
+    const axes = localAxes(s.frame, walk.state.positionKm, walk.state.velocityKmS);
     if (s.finite) {
-      const spec = finiteSpec(s);
-      const res = await run(spec.startTdbS + spec.durationS, [], { finiteBurns: [spec], initialMassKg: mass });
-      if (res.outcome !== 'finished') return fail(`finite burn ${i + 1} ended '${res.outcome}': ${res.message ?? ''}`.trim(), impactOf(res));
-      const record = res.finiteBurns![0];
-      const eq = equivalentDeltaVKmS(record, s);
-      burns.push({ epochTdbS: spec.startTdbS, preBurn: state, axes, deltaVInertialKmS: eq.inertial, deltaVLocalKmS: eq.local, finite: { spec, record } });
-      if (stm) {
-        const chain: ChainState = { G, P, B, massRow, massB };
-        chainFiniteArc(chain, res, s, axes, ctx.controlMap, i);
-        ({ G, P, B, massRow, massB } = chain);
-      }
-      state = res.final;
-      mass = res.finalMassKg!;
-      continue;
-    }
-    const dv = axesToInertial(axes, s.deltaVLocalKmS);
-    burns.push({ epochTdbS: s.epochTdbS, preBurn: state, axes, deltaVInertialKmS: dv, deltaVLocalKmS: [...s.deltaVLocalKmS] as Vec3 });
-    state = { ...state, velocityKmS: [state.velocityKmS[0] + dv[0], state.velocityKmS[1] + dv[1], state.velocityKmS[2] + dv[2]] };
-    const massFactor = Math.exp(-Math.hypot(...dv) / exhaust);
-    mass *= massFactor;
-    // m_after = m·exp(−|Δv|/v_e): dm_after = exp(·)·dm − (m_after/v_e)·Δv̂·dΔv.
-    const dvHat = dv.map((x) => x / Math.max(Math.hypot(...dv), 1e-300));
-    massRow = massRow.map((v) => v * massFactor);
-    massB = massB.map((row) => row.map((v) => v * massFactor));
-    massB.push(dvHat.map((x) => (-mass / exhaust) * x));
-    if (stm) {
-      ctx.controlMap.forEach((c, j) => {
-        if (c.burnIndex !== i) return;
-        if (c.kind === 'epoch') {
-          for (let k = 0; k < 3; k++) G[k][j] -= dv[k];
-        } else if (c.kind === 'dv0' || c.kind === 'dv1' || c.kind === 'dv2') {
-          const axis = axes[Number(c.kind[2])];
-          for (let k = 0; k < 3; k++) G[3 + k][j] += axis[k];
-          massRow[j] += (-mass / exhaust) * (dvHat[0] * axis[0] + dvHat[1] * axis[1] + dvHat[2] * axis[2]);
-        }
-      });
-      const b = zeros(6, 3);
-      for (let k = 0; k < 3; k++) b[3 + k][k] = 1;
-      B.push(b);
+      const failed = await flyFiniteBurn(walk, s, i, axes);
+      if (failed) return failed;
+    } else {
+      applyImpulse(walk, s, i, axes);
     }
   }
+  return null;
+}
 
-  // After the last burn: fixed target epochs in order, closest approaches found on the way.
+/** Flies finite burn `i` from its ignition (the walk's state); its arc's sensitivities join the chain. */
+async function flyFiniteBurn(walk: Walk, s: BurnSetting, i: number, axes: Rotation3): Promise<EvaluationFailure | null> {
+  const spec = finiteSpec(s);
+  const res = await propagateLeg(walk, spec.startTdbS + spec.durationS, [], { finiteBurns: [spec], initialMassKg: walk.mass });
+  if (res.outcome !== 'finished') return failure(walk, `finite burn ${i + 1} ended '${res.outcome}': ${res.message ?? ''}`.trim(), impactOf(walk, res));
+  const record = res.finiteBurns![0];
+  const eq = equivalentDeltaVKmS(record, s);
+  walk.burns.push({ epochTdbS: spec.startTdbS, preBurn: walk.state, axes, deltaVInertialKmS: eq.inertial, deltaVLocalKmS: eq.local, finite: { spec, record } });
+  if (walk.stm) chainFiniteArc(walk, res, s, axes, walk.ctx.controlMap, i);
+  walk.state = res.final;
+  walk.mass = res.finalMassKg!;
+  return null;
+}
+
+/** Applies impulsive burn `i` at the walk's state: velocity, mass and (with the STM) the partials. */
+function applyImpulse(walk: Walk, s: BurnSetting, i: number, axes: Rotation3): void {
+  const dv = axesToInertial(axes, s.deltaVLocalKmS);
+  const state = walk.state;
+  walk.burns.push({ epochTdbS: s.epochTdbS, preBurn: state, axes, deltaVInertialKmS: dv, deltaVLocalKmS: [...s.deltaVLocalKmS] as Vec3 });
+  walk.state = { ...state, velocityKmS: [state.velocityKmS[0] + dv[0], state.velocityKmS[1] + dv[1], state.velocityKmS[2] + dv[2]] };
+  const massFactor = Math.exp(-Math.hypot(...dv) / walk.exhaust);
+  walk.mass *= massFactor;
+  // m_after = m·exp(−|Δv|/v_e): dm_after = exp(·)·dm − (m_after/v_e)·Δv̂·dΔv.
+  const dvHat = dv.map((x) => x / Math.max(Math.hypot(...dv), 1e-300));
+  walk.massRow = walk.massRow.map((v) => v * massFactor);
+  walk.massB = walk.massB.map((row) => row.map((v) => v * massFactor));
+  walk.massB.push(dvHat.map((x) => (-walk.mass / walk.exhaust) * x));
+  if (walk.stm) chainImpulse(walk, dv, dvHat, i, axes);
+}
+
+/** The impulse's columns: a free epoch moves the post-burn state by [−Δv; 0] per second, a Δv component
+ * adds its axis to the velocity rows; B gains [0; I] for this burn. */
+function chainImpulse(walk: Walk, dv: Vec3, dvHat: number[], i: number, axes: Rotation3): void {
+  const { G, massRow } = walk;
+  walk.ctx.controlMap.forEach((c, j) => {
+    if (c.burnIndex !== i) return;
+    if (c.kind === 'epoch') {
+      for (let k = 0; k < 3; k++) G[k][j] -= dv[k];
+    } else if (c.kind === 'dv0' || c.kind === 'dv1' || c.kind === 'dv2') {
+      const axis = axes[Number(c.kind[2])];
+      for (let k = 0; k < 3; k++) G[3 + k][j] += axis[k];
+      massRow[j] += (-walk.mass / walk.exhaust) * (dvHat[0] * axis[0] + dvHat[1] * axis[1] + dvHat[2] * axis[2]);
+    }
+  });
+  const b = zeros(6, 3);
+  for (let k = 0; k < 3; k++) b[3 + k][k] = 1;
+  walk.B.push(b);
+}
+
+/** Stage 2: after the last burn, the fixed target epochs in order, closest approaches found on the way. */
+async function reachStations(walk: Walk): Promise<StationsReached | EvaluationFailure> {
+  const { ctx } = walk;
   const fixed = [...new Set(ctx.components.flatMap((c) => (c.station.kind === 'epoch' ? [c.station.epochTdbS] : [])))].sort((a, b) => a - b);
   const pending = new Set(ctx.components.flatMap((c) => (c.station.kind === 'approach' ? [c.station.body] : [])));
-  const atStation = new Map<string, { rel: Map<BodyName, number[]>; epochTdbS: number; G: M; P: M; B: M[]; state: StateVector }>();
+  const stations = new Map<string, Station>();
   const approaches: ApproachRecord[] = [];
   const snapshot = (key: string, rel: Map<BodyName, number[]>): void => {
-    atStation.set(key, { rel, epochTdbS: state.epochTdbS, G, P, B, state });
+    stations.set(key, { rel, epochTdbS: walk.state.epochTdbS, G: walk.G, P: walk.P, B: walk.B, state: walk.state });
   };
-  const stops = [...fixed, ctx.endTdbS];
-  for (const stopAt of stops) {
-    while (state.epochTdbS < stopAt) {
+  for (const stopAt of [...fixed, ctx.endTdbS]) {
+    while (walk.state.epochTdbS < stopAt) {
       const events: EventSpec[] = [...pending].map((body) => ({ kind: 'closest-approach', body, stop: true }));
-      const res = await run(stopAt, events);
+      const res = await propagateLeg(walk, stopAt, events);
       if (res.outcome === 'stopped-by-event') {
-        const ev = res.events.find((e) => e.kind === 'closest-approach' && e.body !== undefined && pending.has(e.body)
-          && Math.abs(e.epochTdbS - res.final.epochTdbS) < 1e-3);
-        if (!ev || !ev.body) return fail(`propagation stopped at ${res.final.epochTdbS} without a closest-approach record`);
-        advance(res);
-        const relState = ev.state.centre === ev.body ? vec(ev.state) : vec(changeCentre(ev.state, ev.body, ctx.ephemeris));
-        approaches.push({ body: ev.body, epochTdbS: ev.epochTdbS, stateRelBody: relState, distanceKm: Math.hypot(relState[0], relState[1], relState[2]) });
-        snapshot(`approach:${ev.body}`, new Map([[ev.body, relState]]));
-        pending.delete(ev.body);
+        const approach = approachAt(walk, res, pending);
+        if (approach === null) return failure(walk, `propagation stopped at ${res.final.epochTdbS} without a closest-approach record`);
+        approaches.push(approach);
+        snapshot(`approach:${approach.body}`, new Map([[approach.body, approach.stateRelBody]]));
+        pending.delete(approach.body);
         continue;
       }
       if (res.outcome !== 'finished') {
-        return fail(`propagation ended '${res.outcome}' at TDB ${res.final.epochTdbS.toFixed(3)} s: ${res.message ?? ''}`.trim(), impactOf(res));
+        return failure(walk, `propagation ended '${res.outcome}' at TDB ${res.final.epochTdbS.toFixed(3)} s: ${res.message ?? ''}`.trim(), impactOf(walk, res));
       }
-      advance(res);
+      advance(walk, res);
     }
     if (stopAt !== ctx.endTdbS || fixed.includes(stopAt)) snapshot(`epoch:${stopAt}`, new Map());
   }
-  if (pending.size > 0) return fail(`no closest approach to ${[...pending].join(', ')} found between the last burn and the end of the span`);
+  if (pending.size > 0) return failure(walk, `no closest approach to ${[...pending].join(', ')} found between the last burn and the end of the span`);
+  return { ok: true, stations, approaches };
+}
 
+/** The closest approach to a pending body that stopped `res`: advances the walk to it and returns its
+ * record (state relative to the body); null when the run stopped without one. */
+function approachAt(walk: Walk, res: PropagationResult, pending: Set<BodyName>): ApproachRecord | null {
+  const ev = res.events.find((e) => e.kind === 'closest-approach' && e.body !== undefined && pending.has(e.body)
+    && Math.abs(e.epochTdbS - res.final.epochTdbS) < 1e-3);
+  if (!ev || !ev.body) return null;
+  advance(walk, res);
+  const relState = ev.state.centre === ev.body ? vec(ev.state) : vec(changeCentre(ev.state, ev.body, walk.ctx.ephemeris));
+  return { body: ev.body, epochTdbS: ev.epochTdbS, stateRelBody: relState, distanceKm: Math.hypot(relState[0], relState[1], relState[2]) };
+}
+
+/** Stage 3: every target component's value at its station and, with the STM, its rows of the Jacobians. */
+function readTargets(walk: Walk, stations: Map<string, Station>, settings: BurnSetting[]): TargetReadings | EvaluationFailure {
+  const { ctx, stm } = walk;
   const values: number[] = [];
   const jacobian: M | null = stm ? [] : null;
   const initialStateJacobian: M | null = stm ? [] : null;
   const burnJacobians: M[] | null = stm ? settings.map(() => []) : null;
   for (const c of ctx.components) {
     const key = c.station.kind === 'epoch' ? `epoch:${c.station.epochTdbS}` : `approach:${c.station.body}`;
-    const st = atStation.get(key);
-    if (!st) return fail(`internal: no station ${key}`);
+    const st = stations.get(key);
+    if (!st) return failure(walk, `internal: no station ${key}`);
     let rel: number[];
     if (c.station.kind === 'approach') rel = st.rel.get(c.station.body) as number[];
     else {
@@ -283,18 +316,33 @@ export async function evaluateTrajectory(
     try {
       ev = evaluateComponent(c, rel, st.epochTdbS);
     } catch (error) {
-      return fail(`target ${c.targetIndex} (${c.component}): ${(error as Error).message}`);
+      return failure(walk, `target ${c.targetIndex} (${c.component}): ${(error as Error).message}`);
     }
     values.push(ev.value);
     if (stm && jacobian && initialStateJacobian && burnJacobians) {
-      const row = ev.partial ?? [0, 0, 0, 0, 0, 0];
-      jacobian.push(rowTimes(row, st.G));
-      initialStateJacobian.push(rowTimes(row, st.P));
-      st.B.forEach((b, i) => burnJacobians[i].push(rowTimes(row, b)));
+      const row = [ev.partial ?? [0, 0, 0, 0, 0, 0]];
+      jacobian.push(multiply(row, st.G)[0]);
+      initialStateJacobian.push(multiply(row, st.P)[0]);
+      st.B.forEach((b, i) => burnJacobians[i].push(multiply(row, b)[0]));
     }
   }
+  return { ok: true, values, jacobian, initialStateJacobian, burnJacobians };
+}
+
+/** Evaluates the trajectory for the given burn settings (see the file comment): burns, then stations, then
+ * the target components read there. */
+export async function evaluateTrajectory(
+  ctx: EvaluationContext, settings: BurnSetting[], opts: EvaluationOptions,
+): Promise<TrajectoryEvaluation | EvaluationFailure> {
+  const walk = startWalk(ctx, opts);
+  const burnFailure = await flyBurns(walk, settings);
+  if (burnFailure) return burnFailure;
+  const reached = await reachStations(walk);
+  if (!reached.ok) return reached;
+  const read = readTargets(walk, reached.stations, settings);
+  if (!read.ok) return read;
   return {
-    ok: true, values, jacobian, initialStateJacobian, burnJacobians, burns, approaches, samples, final: state,
-    propagations, evaluations, warnings: [...warnings],
+    ...read, burns: walk.burns, approaches: reached.approaches, samples: walk.samples, final: walk.state,
+    propagations: walk.propagations, evaluations: walk.evaluations, warnings: [...walk.warnings],
   };
 }

@@ -4,7 +4,7 @@
  * here (through propagator/index.ts).
  */
 export {
-  zeros, transpose, multiply, multiplyVector, norm2, congruence, add, symmetrise, requireCovariance,
+  zeros, identity, transpose, multiply, multiplyVector, norm2, congruence, add, symmetrise, requireCovariance,
   choleskySemidefinite, invert, determinant, trace, subMatrix, symmetricEigenvalues, type Matrix,
 } from './matrix.ts';
 export { svd, conditionNumber, pseudoSolve, type Svd } from './svd.ts';
@@ -12,4 +12,4 @@ export {
   multiplyMatrixVector, multiplyTransposeVector, transpose3, multiplyMatrices3, determinant3, cross3, dot3,
   type Matrix3,
 } from './matrix3.ts';
-export { identity6, multiply6, velocityColumns, multiply6Columns } from './matrix6.ts';
+export { identity6, multiply6, velocityColumns, multiply6Columns, rowsOf6 } from './matrix6.ts';

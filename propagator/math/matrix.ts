@@ -12,6 +12,11 @@ export function zeros(rows: number, cols: number): Matrix {
   return Array.from({ length: rows }, () => new Array<number>(cols).fill(0));
 }
 
+/** The n × n identity (unitless). */
+export function identity(n: number): Matrix {
+  return Array.from({ length: n }, (_, i) => Array.from({ length: n }, (__, j) => (i === j ? 1 : 0)));
+}
+
 /** Aᵀ (m×n → n×m; an empty matrix stays empty); units carried through. */
 export function transpose(a: Matrix): Matrix {
   const m = a.length;

@@ -1,4 +1,5 @@
 /** Small dense 6x6 matrix helpers (row-major, 36 numbers) for state transition matrices. */
+import type { Matrix } from './matrix.ts';
 
 /** The 6x6 identity as a fresh Float64Array. */
 export function identity6(): Float64Array {
@@ -38,4 +39,10 @@ export function multiply6Columns(a: ArrayLike<number>, b: ArrayLike<number>, col
     }
   }
   return out;
+}
+
+/** A 6x6 row-major flat matrix (36 numbers) as a dense Matrix of 6 rows, for the number[][] arithmetic of
+ * matrix.ts (Φ · G with `multiply`); units carried through. */
+export function rowsOf6(m: ArrayLike<number>): Matrix {
+  return [0, 1, 2, 3, 4, 5].map((i) => Array.from({ length: 6 }, (_, j) => m[6 * i + j]));
 }
