@@ -5,10 +5,15 @@
  * component differs by at most `crossCheckToleranceFraction` × its tolerance AND the re-propagation itself
  * meets every target. Same ephemeris and force model: it checks the numerics and the formulation (an error
  * in either method or in the switched equations disagrees), not the models.
+ * Finite-burn arcs: they run about the central body without switching, in Cowell form whenever the STM
+ * rides along (their partials exist in that form only) and in Encke form otherwise. The plan's own runs
+ * carry the STM, the check's do not: a Cowell plan is checked with Encke arcs, but an Encke plan's arcs
+ * are Cowell in both, differing only in tolerance. The message says which.
  */
 import type { CrossCheck } from '../../contract/plan-types.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
+import { hasFiniteBurns } from './finite-stage.ts';
 import type { PlanningContext } from './planning-context.ts';
 
 /** Runs the cross-check of `settings` whose primary target values are `primary`. */
@@ -52,13 +57,16 @@ export async function runCrossCheck(ctx: PlanningContext, settings: BurnSetting[
     };
   });
   const bad = differences.filter((d) => !d.withinTolerance || !d.metByCheck);
+  const arcs = !hasFiniteBurns(ctx.problem) ? ''
+    : method === 'encke' ? '; finite-burn arcs: Encke form in the check, Cowell form in the plan (neither switched)'
+    : '; finite-burn arcs: Cowell form in both (unswitched), so on the arcs only the tolerance differs';
   // A check that silently ran the plan's own method would not be independent.
   const fallback = ev.warnings.filter((w) => /fell back/i.test(w));
   const passed = bad.length === 0 && fallback.length === 0;
   const message = fallback.length > 0
     ? `not independent: ${fallback.join('; ')}`
     : passed
-    ? `${how} at relative tolerance ${relativeTolerance} agrees on every target within ${fraction} × its tolerance and meets every target`
-    : `${how} at relative tolerance ${relativeTolerance} disagrees: ${bad.map((d) => `${d.component} differs by ${d.difference?.toPrecision(3)} (allowed ${d.allowed.toPrecision(3)})${d.metByCheck ? '' : ', target not met'}`).join('; ')}`;
+    ? `${how} at relative tolerance ${relativeTolerance} agrees on every target within ${fraction} × its tolerance and meets every target${arcs}`
+    : `${how} at relative tolerance ${relativeTolerance} disagrees: ${bad.map((d) => `${d.component} differs by ${d.difference?.toPrecision(3)} (allowed ${d.allowed.toPrecision(3)})${d.metByCheck ? '' : ', target not met'}`).join('; ')}${arcs}`;
   return { check: { ...base, passed, message, differences }, propagations: ev.propagations, evaluations: ev.evaluations };
 }

@@ -25,6 +25,10 @@
  * interval does not; evaluating the conic at the label made δ and Φ inconsistent with ρ (Φ errors of 1e-6
  * measured at t = 8e8 s against 4e-10 at 1e5 s). The Cartesian read-out uses the label.
  *
+ * Added acceleration (a thrust arc, finite-burn/thrust-arc-dynamics.ts): an optional term evaluated at the
+ * true state (position and velocity) before the force model and added to a_p; runs without the STM only
+ * (its partials are not carried here).
+ *
  * STM: y[6..41] holds M with Φ = Φ_K(τ)·M (encke-stm.ts): the reference conic's analytic two-body STM
  * carries the fast part of Φ, and the integrated M follows only the deviation's variational part, so the
  * STM costs no extra steps. Φ stays out of the error norm, as in Cowell's variational equations. Φ is a
@@ -70,6 +74,12 @@ export function degenerateReason(state: ArrayLike<number>, mu: number): string |
   return null;
 }
 
+/** An acceleration added to the force model's, km/s², J2000 equatorial, at the true state (km, km/s, from
+ * the model's centre) and epoch TDB s; evaluated before the force model (it may set the model's mass scale). */
+export interface AddedAcceleration {
+  accelerationInto(epochTdbS: number, state: ArrayLike<number>, out: Float64Array): void;
+}
+
 /** Encke formulation over one force model (one central body); shaped as PropagationDynamics. */
 export class EnckeDynamics {
   readonly forces: ForceModel;
@@ -102,16 +112,21 @@ export class EnckeDynamics {
   private readonly keplerWork = new KeplerStmWork();
   private readonly refStateAtTau = new Float64Array(6);
   private readonly refStm = new Float64Array(36);
+  private readonly added: AddedAcceleration | null;
+  private readonly addedAcc = new Float64Array(3);
 
   /**
    * @param epoch0 start epoch, TDB s from J2000
    * @param total0 true state at epoch0 (km, km/s, J2000 equatorial, from the force model's centre)
    * @param tolerances the run's relative and absolute tolerances (they set the deviation's scaling)
+   * @param added an acceleration added to the force model's (without the STM only)
    */
   constructor(forces: ForceModel, epoch0: number, total0: ArrayLike<number>, withStm: boolean,
-    tolerances: { relativeTolerance: number; absoluteTolerance: number }) {
+    tolerances: { relativeTolerance: number; absoluteTolerance: number }, added: AddedAcceleration | null = null) {
+    if (added !== null && withStm) throw new Error('EnckeDynamics: an added acceleration runs without the STM only');
     this.forces = forces;
     this.withStm = withStm;
+    this.added = added;
     this.mu = forces.centralGmKm3S2;
     const { relativeTolerance: rtol, absoluteTolerance: atol } = tolerances;
     this.lengthKm = (atol + rtol * Math.hypot(total0[0], total0[1], total0[2])) / atol;
@@ -148,11 +163,15 @@ export class EnckeDynamics {
     const L = this.lengthKm;
     const V = this.speedKmS;
     let rho: ArrayLike<number>;
+    // The reference velocity, without the STM (where an added acceleration may need the true velocity).
+    let refV: ArrayLike<number> = this.refV;
     if (this.withStm) {
       this.referenceWithStm(y[this.clock]);
       rho = this.refStateAtTau;
     } else {
-      rho = this.reference(y[this.clock]).r;
+      const ref = this.reference(y[this.clock]);
+      rho = ref.r;
+      refV = ref.v;
     }
     dydt[this.clock] = 1;
     const d0 = y[0] * L;
@@ -171,8 +190,14 @@ export class EnckeDynamics {
     // avoid this cancellation but needs a switch in ForceModel (forces/), which the STM also needs: the
     // gradient must keep the central term. The cost is an absolute round-off of ~1e-16·μ/r² in the
     // perturbation — the same absolute error Cowell carries in its total acceleration.
+    const extra = this.addedAcc;
+    if (this.added !== null) {
+      for (let i = 0; i < 3; i++) tot[3 + i] = refV[i] + y[3 + i] * V;
+      this.added.accelerationInto(t, tot, extra);
+    }
     this.forces.accelerationInto(t, tot, this.acc, this.withStm ? this.grad : null);
     const acc = this.acc;
+    if (this.added !== null) for (let i = 0; i < 3; i++) acc[i] += extra[i];
     dydt[0] = (y[3] * V) / L;
     dydt[1] = (y[4] * V) / L;
     dydt[2] = (y[5] * V) / L;

@@ -11,6 +11,7 @@
  * Units: km, s, km/s, kg, N; J2000 equatorial relative to the force model's central body; TDB s.
  */
 import { InvalidInputError } from '../../contract/errors.ts';
+import type { AddedAcceleration } from '../encke/encke-dynamics.ts';
 import type { ForceModel } from '../forces/index.ts';
 import type { PropagationDynamics } from '../run/propagation-dynamics.ts';
 import type { ThrustAxes } from '../run/propagation-types.ts';
@@ -49,6 +50,22 @@ export function thrustAccelerationInto(arc: ThrustArc, epochTdbS: number, y: Arr
   dir.update(y, false);
   const k = arc.thrustN / 1000 / arcMassKg(arc, epochTdbS);
   for (let i = 0; i < 3; i++) out[i] = k * dir.inertial[i];
+}
+
+/** The arc's thrust as an acceleration added to another formulation's force model (Encke without the STM):
+ * F/m(t) along the direction at the true state, km/s², J2000 equatorial; it also sets the model's SRP mass
+ * scale for the epoch, as the Cowell arc below does. */
+export function thrustAddedAcceleration(forces: ForceModel, arc: ThrustArc): AddedAcceleration {
+  const dir = new ThrustDirection(arc.axes, arc.direction);
+  return {
+    accelerationInto(epochTdbS, state, out) {
+      const m = arcMassKg(arc, epochTdbS);
+      forces.srpMassScale = arc.massAtStartKg / m;
+      dir.update(state, false);
+      const k = arc.thrustN / 1000 / m;
+      for (let i = 0; i < 3; i++) out[i] = k * dir.inertial[i];
+    },
+  };
 }
 
 /**

@@ -20,7 +20,7 @@ import type {
   EventRecord, PropagationOptions, PropagationOutcome, PropagationRequest, PropagationResult,
 } from './propagation-types.ts';
 import { resetStm, StmSegments } from '../variational.ts';
-import { createThrustArcDynamics, finiteBurnSteps, type ThrustArc } from '../finite-burn/index.ts';
+import { createThrustArcDynamics, finiteBurnSteps, thrustAddedAcceleration, type ThrustArc } from '../finite-burn/index.ts';
 
 /** Ends a run inside the step just accepted (impact, a stopping event). */
 export interface WatchStop {
@@ -75,7 +75,13 @@ function finishProgress(result: PropagationResult, options: PropagationOptions):
 
 /** Equations of motion for the requested method. */
 function createDynamics(checked: CheckedRequest, forces: ForceModel, cart: number[], arc?: ThrustArc): PropagationDynamics {
-  if (arc !== undefined) return createThrustArcDynamics(forces, cart, checked.withStm, arc);
+  if (arc !== undefined) {
+    // Encke carries the thrust as a perturbation; its arc partials (direction, mass) exist in Cowell form only.
+    if (checked.method === 'encke' && !checked.withStm) {
+      return createEnckeOrFallback(checked, forces, cart, (f, c, w) => createThrustArcDynamics(f, c, w, arc), thrustAddedAcceleration(forces, arc));
+    }
+    return createThrustArcDynamics(forces, cart, checked.withStm, arc);
+  }
   if (checked.method === 'cowell') return createCowellDynamics(forces, cart, checked.withStm);
   if (checked.method === 'encke') return createEnckeOrFallback(checked, forces, cart, createCowellDynamics);
   throw new InvalidInputError('method', `'${checked.method}' is not available in this build`);
