@@ -29,6 +29,6 @@ export { assertExportable, ephemerisComments, planToOpm, REVIEW_COMMENTS, type P
 export { planToOem, MAX_OEM_LINES, type PlanOemOptions } from './export/plan-oem.ts';
 export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from './export/export-plan.ts';
 export {
-  CcsdsExportThreads, ExportTimeLimitError, type CcsdsExportThreadsOptions, type ThreadExportOptions,
+  CcsdsExportThreads, ExportTimeLimitError, type CcsdsExportThreadsOptions, type ExportRun, type ThreadExportOptions,
 } from './export/export-off-thread.ts';
 export { compareWithReference, type ReferenceComparison } from './messages/compare-reference.ts';

@@ -1,9 +1,12 @@
 /**
- * A plan's CCSDS export in a worker thread of its own, so a long propagation (with the STM) and the
- * rendering of up to MAX_OEM_LINES lines never hold the caller's event loop — the API's HTTP loop above all.
- * The threads start with the tsx loader registered the same way as the planner's (queue/planner-pool.ts);
- * that pool is bound to planner tasks, so this is its own small runner: one thread per export, at most
- * `maxThreads` at once (the others wait), each terminated when its caller aborts or the time limit passes.
+ * A plan's CCSDS export in a worker thread, so a long propagation (with the STM) and the rendering of up to
+ * MAX_OEM_LINES lines never hold the caller's event loop — the API's HTTP loop above all. The threads start
+ * with the tsx loader registered the same way as the planner's (queue/planner-pool.ts); that pool is bound to
+ * planner tasks, so this is its own small runner: at most `maxThreads` exports at once (the others wait).
+ * Threads are long-lived: each keeps one EphemerisCache for all the exports it runs (export-thread.ts), so a
+ * second export over the same epochs and bodies fits no block again. A thread whose caller aborts, or that
+ * passes the time limit, is terminated (the next export starts a fresh one); an idle thread does not keep the
+ * process alive and ends after `idleMs`.
  */
 import { Worker } from 'node:worker_threads';
 import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
@@ -19,10 +22,17 @@ export interface ExportThreadInput {
 
 export type ThreadExportOptions = Omit<CcsdsExportOptions, 'signal' | 'onProgress' | 'ephemeris'>;
 
-/** The one message a thread sends back. */
+/** The thread's ephemeris cache counters after an export (EphemerisCacheStats, totals over the thread's life). */
+export interface ExportCacheCounters { blocksFitted: number; blocksReused: number }
+
+/** The one message a thread sends back per export. */
 export type ExportThreadOutput =
-  | { ok: true; text: string }
+  | { ok: true; text: string; cache: ExportCacheCounters }
   | { ok: false; error: { name: string; message: string; field?: string; code?: string } };
+
+/** An export's text with what it cost the thread's cache: blocks fitted and reused by this export, and
+ * whether the thread had run an export before. */
+export interface ExportRun { text: string; blocksFitted: number; blocksReused: number; threadReused: boolean }
 
 /** The export did not finish within the time limit (its thread was stopped). */
 export class ExportTimeLimitError extends Error {
@@ -38,7 +48,12 @@ export interface CcsdsExportThreadsOptions {
   maxThreads?: number;
   /** Longest an export may take, waiting included, ms. @defaultValue 120000 */
   timeLimitMs?: number;
+  /** An idle thread ends after this long, ms (its cache with it). @defaultValue 300000 */
+  idleMs?: number;
 }
+
+/** A long-lived export thread and its cache counters as last reported. */
+interface ExportThread { worker: Worker; exports: number; cache: ExportCacheCounters; idleTimer?: NodeJS.Timeout }
 
 // Compiled (dist/, plain node) the thread runs the built module; from the TypeScript sources (tests, tsx) the .mjs
 // entry registers tsx in the fresh thread first.
@@ -58,19 +73,23 @@ function revive(e: Extract<ExportThreadOutput, { ok: false }>['error']): Error {
 export class CcsdsExportThreads {
   private running = 0;
   private readonly waiting: (() => void)[] = [];
+  private readonly idle: ExportThread[] = [];
   readonly maxThreads: number;
   readonly timeLimitMs: number;
+  readonly idleMs: number;
 
   constructor(options: CcsdsExportThreadsOptions = {}) {
     this.maxThreads = options.maxThreads ?? 2;
     this.timeLimitMs = options.timeLimitMs ?? 120_000;
+    this.idleMs = options.idleMs ?? 300_000;
     if (!(Number.isInteger(this.maxThreads) && this.maxThreads >= 1)) {
       throw new InvalidInputError('maxThreads', `${this.maxThreads} must be an integer ≥ 1`);
     }
     if (!(this.timeLimitMs > 0)) throw new InvalidInputError('timeLimitMs', `${this.timeLimitMs} must be > 0`);
+    if (!(this.idleMs > 0)) throw new InvalidInputError('idleMs', `${this.idleMs} must be > 0`);
   }
 
-  /** Exports running now (threads alive). */
+  /** Exports running now. */
   get active(): number { return this.running; }
 
   /**
@@ -78,34 +97,95 @@ export class CcsdsExportThreads {
    * export's own errors (InvalidInputError naming the field...), CancelledError when `signal` fires, or
    * ExportTimeLimitError; in the last two cases the thread is terminated at once.
    */
-  run(problem: PlanningProblem, plan: ManeuverPlan, options: ThreadExportOptions, signal?: AbortSignal): Promise<string> {
-    return new Promise<string>((resolve, reject) => {
-      let worker: Worker | undefined;
+  async run(problem: PlanningProblem, plan: ManeuverPlan, options: ThreadExportOptions, signal?: AbortSignal): Promise<string> {
+    return (await this.runWithStats(problem, plan, options, signal)).text;
+  }
+
+  /** As `run`, with the cache blocks this export fitted and reused in its thread. */
+  runWithStats(problem: PlanningProblem, plan: ManeuverPlan, options: ThreadExportOptions, signal?: AbortSignal): Promise<ExportRun> {
+    return new Promise<ExportRun>((resolve, reject) => {
+      let thread: ExportThread | undefined;
       let holding = false;
       let done = false;
-      const finish = (settle: () => void): void => {
+      let onMessage = (_m: ExportThreadOutput): void => {};
+      let onError = (_e: Error): void => {};
+      let onExit = (_code: number): void => {};
+      const finish = (keepThread: boolean, settle: () => void): void => {
         if (done) return;
         done = true;
         clearTimeout(timer);
         signal?.removeEventListener('abort', onAbort);
-        if (worker) void worker.terminate();
+        if (thread) {
+          thread.worker.off('message', onMessage).off('error', onError).off('exit', onExit);
+          if (keepThread) this.park(thread); else void thread.worker.terminate();
+        }
         if (holding) this.release();
         settle();
       };
-      const onAbort = (): void => finish(() => reject(new CancelledError('CCSDS export cancelled')));
-      const timer = setTimeout(() => finish(() => reject(new ExportTimeLimitError(this.timeLimitMs))), this.timeLimitMs);
+      const onAbort = (): void => finish(false, () => reject(new CancelledError('CCSDS export cancelled')));
+      const timer = setTimeout(() => finish(false, () => reject(new ExportTimeLimitError(this.timeLimitMs))), this.timeLimitMs);
       if (signal?.aborted) { onAbort(); return; }
       signal?.addEventListener('abort', onAbort, { once: true });
       void this.acquire().then(() => {
         if (done) { this.release(); return; }
         holding = true;
-        const input: ExportThreadInput = { problem, plan, options };
-        worker = new Worker(ENTRY, { workerData: input });
-        worker.once('message', (m: ExportThreadOutput) => finish(() => (m.ok ? resolve(m.text) : reject(revive(m.error)))));
-        worker.once('error', (error) => finish(() => reject(error)));
-        worker.once('exit', (code) => finish(() => reject(new Error(`CCSDS export thread exited with code ${code}`))));
+        const t = this.take();
+        thread = t;
+        const before = t.cache;
+        const threadReused = t.exports > 0;
+        onMessage = (m: ExportThreadOutput): void => {
+          t.exports += 1;
+          if (!m.ok) { finish(true, () => reject(revive(m.error))); return; }
+          t.cache = m.cache;
+          finish(true, () => resolve({
+            text: m.text, threadReused,
+            blocksFitted: m.cache.blocksFitted - before.blocksFitted, blocksReused: m.cache.blocksReused - before.blocksReused,
+          }));
+        };
+        onError = (error: Error): void => finish(false, () => reject(error));
+        onExit = (code: number): void => finish(false, () => reject(new Error(`CCSDS export thread exited with code ${code}`)));
+        t.worker.on('message', onMessage).on('error', onError).on('exit', onExit);
+        t.worker.postMessage({ problem, plan, options } satisfies ExportThreadInput);
       });
     });
+  }
+
+  /** Ends the idle threads now (running exports finish first; their threads end when they do). */
+  async close(): Promise<void> {
+    const threads = this.idle.splice(0);
+    await Promise.all(threads.map((t) => { clearTimeout(t.idleTimer); return t.worker.terminate(); }));
+  }
+
+  /** An idle thread (most recently used first: its cache is the warmest), or a new one. */
+  private take(): ExportThread {
+    const t = this.idle.pop() ?? this.start();
+    clearTimeout(t.idleTimer);
+    t.worker.ref();
+    return t;
+  }
+
+  /** A new thread; should it fail or end while idle, it leaves the idle list (a running export sees it itself). */
+  private start(): ExportThread {
+    const t: ExportThread = { worker: new Worker(ENTRY), exports: 0, cache: { blocksFitted: 0, blocksReused: 0 } };
+    const forget = (): void => {
+      clearTimeout(t.idleTimer);
+      const at = this.idle.indexOf(t);
+      if (at >= 0) this.idle.splice(at, 1);
+    };
+    t.worker.on('error', forget).on('exit', forget);
+    return t;
+  }
+
+  /** Back to the idle list: it no longer keeps the process alive, and ends after idleMs unused. */
+  private park(t: ExportThread): void {
+    t.worker.unref();
+    t.idleTimer = setTimeout(() => {
+      const at = this.idle.indexOf(t);
+      if (at >= 0) this.idle.splice(at, 1);
+      void t.worker.terminate();
+    }, this.idleMs);
+    t.idleTimer.unref();
+    this.idle.push(t);
   }
 
   private acquire(): Promise<void> {

@@ -1,30 +1,38 @@
 /**
- * Runs inside a CCSDS export thread (started by export-off-thread.ts): one export per thread, its input in
- * `workerData`, one message back — the text, or the error reduced to what survives the thread boundary.
+ * Runs inside a CCSDS export thread (started by export-off-thread.ts): a long-lived thread that takes one
+ * export per message ({problem, plan, options}) and answers each with one message — the text and its cache
+ * counters, or the error reduced to what survives the thread boundary. The runner sends the next export only
+ * after the answer to the previous one.
  */
-import { parentPort, workerData } from 'node:worker_threads';
+import { parentPort } from 'node:worker_threads';
 import { EphemerisCache } from '../../propagator/index.ts';
 import { exportPlanAsCcsds } from './export-plan.ts';
 import type { ExportThreadInput, ExportThreadOutput } from './export-off-thread.ts';
 
 const port = parentPort;
 if (!port) throw new Error('export-thread.ts must run in a worker thread');
-const { problem, plan, options } = workerData as ExportThreadInput;
 const send = (message: ExportThreadOutput): void => port.postMessage(message);
 
-// The thread's ephemeris cache (one export per thread): the export's body positions come from the same
-// block fits the planner uses, fitted as the propagation reaches them.
-exportPlanAsCcsds(problem, plan, { ...options, ephemerisCache: new EphemerisCache() }).then(
-  (text) => send({ ok: true, text }),
-  (error: unknown) => {
-    const e = (error instanceof Error ? error : new Error(String(error))) as Error & { field?: unknown; code?: unknown };
-    send({
-      ok: false,
-      error: {
-        name: e.name, message: e.message,
-        ...(typeof e.field === 'string' ? { field: e.field } : {}),
-        ...(typeof e.code === 'string' ? { code: e.code } : {}),
-      },
-    });
-  },
-);
+// The thread's ephemeris cache, kept for every export the thread runs: body positions come from the same
+// block fits the planner uses, fitted as a propagation first reaches them and reused by later exports.
+const ephemerisCache = new EphemerisCache();
+
+port.on('message', ({ problem, plan, options }: ExportThreadInput) => {
+  exportPlanAsCcsds(problem, plan, { ...options, ephemerisCache }).then(
+    (text) => {
+      const { blocksFitted, blocksReused } = ephemerisCache.stats();
+      send({ ok: true, text, cache: { blocksFitted, blocksReused } });
+    },
+    (error: unknown) => {
+      const e = (error instanceof Error ? error : new Error(String(error))) as Error & { field?: unknown; code?: unknown };
+      send({
+        ok: false,
+        error: {
+          name: e.name, message: e.message,
+          ...(typeof e.field === 'string' ? { field: e.field } : {}),
+          ...(typeof e.code === 'string' ? { code: e.code } : {}),
+        },
+      });
+    },
+  );
+});

@@ -1,6 +1,7 @@
 /**
  * CcsdsExportThreads: the export computed in a worker thread gives the same text as in this thread, keeps
- * the export's error kinds, and stops the thread on abort and at the time limit.
+ * the export's error kinds, reuses its thread and that thread's ephemeris cache for the next export, and
+ * stops the thread on abort and at the time limit.
  */
 import { describe, expect, it } from 'vitest';
 import { CcsdsExportThreads, exportPlanAsCcsds, ExportTimeLimitError, type ThreadExportOptions } from '../../ccsds/index.ts';
@@ -33,6 +34,26 @@ describe('CCSDS export threads', () => {
       const [a, b] = await both;
       expect(a).toBe(b);
       expect(threads.active).toBe(0);
+    });
+  });
+
+  describe('when a second export follows in the same runner', () => {
+    it('should run it in the same thread, from the ephemeris blocks the first one fitted', async () => {
+      const threads = new CcsdsExportThreads({ maxThreads: 1 });
+      // With the Moon and the Sun perturbing, body positions come from the thread's ephemeris cache.
+      const perturbed = { ...problem, forceModel: { ...problem.forceModel, perturbingBodies: ['moon', 'sun'] } } as typeof problem;
+      try {
+        const first = await threads.runWithStats(perturbed, plan('converged'), OEM);
+        const second = await threads.runWithStats(perturbed, plan('converged'), OEM);
+        expect(first.threadReused).toBe(false);
+        expect(first.blocksFitted).toBeGreaterThan(0);
+        expect(second.threadReused).toBe(true);
+        expect(second.blocksFitted).toBe(0);
+        expect(second.blocksReused).toBeGreaterThan(0);
+        expect(second.text).toBe(first.text);
+      } finally {
+        await threads.close();
+      }
     });
   });
 
