@@ -6,7 +6,7 @@
  * mass against the constant-flow law of the rocket equation, ṁ = F/(Isp·g0), g0 = 9.80665 m/s² exactly
  * (3rd CGPM, 1901). Bad finite burns are refused naming the request file's field.
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
@@ -97,6 +97,21 @@ describe('veer propagate with finite burns', () => {
       const r = await run(request, false);
       expect(r.out).toMatch(/finite burn 1: ignition .* cut-off .* mass 500\.000000 -> \d+\.\d+ kg, ideal Δv \d+\.\d+ m\/s/);
       expect(r.out).toMatch(/final mass \d+\.\d{6} kg/);
+    });
+  });
+
+  describe('when the example request examples/propagate-finite-burn.json is run', () => {
+    it('should finish with the mass of the constant-flow law', async () => {
+      const example = JSON.parse(readFileSync(new URL('../../examples/propagate-finite-burn.json', import.meta.url), 'utf8')) as {
+        massKg: number; burns: { durationS: number; thrustN: number; ispS: number }[];
+      };
+      const r = await run(example);
+      expect(r.code).toBe(0);
+      const json = JSON.parse(r.out) as ResultJson;
+      const b = example.burns[0];
+      // m1 = m0 − F/(Isp·g0)·D = 480 − 10/(225 × 9.80665) × 900 = 475.921 kg (hand arithmetic: ṁ = 4.532e-3 kg/s).
+      expect(json.finalMassKg).toBeCloseTo(example.massKg - (b.thrustN / (b.ispS * 9.80665)) * b.durationS, 9);
+      expect(json.finalMassKg).toBeCloseTo(475.921, 3);
     });
   });
 

@@ -91,11 +91,12 @@ describe('retargeting a Mars flyby with a low-thrust finite burn', () => {
       expect(Math.abs(m[0])).toBeLessThan(TOLERANCE.km);
       expect(Math.abs(m[1])).toBeLessThan(TOLERANCE.km);
       expect(Math.abs(m[2])).toBeLessThan(TOLERANCE.s);
-      // Against the plan's own achieved values: measured 0.023 km, 0.010 km, 0.013 s; limits ~4x above (as
-      // in flyby-targeting.test.ts, the same two propagations).
+      // Against the plan's own achieved values: measured 0.023 km, 0.010 km, 0.013 s; limits 4-5x above (the
+      // same two propagations as flyby-targeting.test.ts, which sees the same disagreement).
       const achieved = json.targets.map((t, i) => (t.achieved as number) - (t.requested as number) - m[i]);
+      console.info(`finite plan, plan's achieved minus re-flight: ${achieved.map((x) => x.toExponential(2)).join(', ')}`);
       expect(Math.abs(achieved[0])).toBeLessThan(0.1);
-      expect(Math.abs(achieved[1])).toBeLessThan(0.1);
+      expect(Math.abs(achieved[1])).toBeLessThan(0.05);
       expect(Math.abs(achieved[2])).toBeLessThan(0.07);
     });
 
