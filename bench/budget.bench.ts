@@ -116,7 +116,7 @@ log('|---|---|---|---|---|---|');
 for (const x of linearSummary.burns) log(`| ${x.label} | ${x.deltaVMS.mean.toFixed(4)} | ${x.deltaVMS.sigma.toFixed(4)} | ${x.deltaVMS.p95.toFixed(4)} | ${x.deltaVMS.p99.toFixed(4)} | ${x.propellantKg.p99.toFixed(3)} |`);
 log(`| total (per-sample sums) | ${linearSummary.total.deltaVMS.mean.toFixed(4)} | ${linearSummary.total.deltaVMS.sigma.toFixed(4)} | ${linearSummary.total.deltaVMS.p95.toFixed(4)} | ${linearSummary.total.deltaVMS.p99.toFixed(4)} | ${linearSummary.total.propellantKg.p99.toFixed(3)} |`);
 log();
-log(`Linear vs non-linear on ${nonlinear.length} paired samples: ${both.agreement?.passed ? 'agree' : 'DISAGREE'} — ${both.agreement?.message}; `
-  + `paired RMS / σ per burn ${both.agreement?.burns.map((x) => `${x.label} ${x.pairedRms.toExponential(2)}`).join(', ')}; re-plans not converged ${both.nonlinear?.notConverged.count}.`);
+log(`Linear vs non-linear on ${nonlinear.length} non-linear samples: ${both.agreement?.passed ? 'agree' : 'DISAGREE'} — ${both.agreement?.message}; `
+  + `p-values (mean, covariance) per burn ${both.agreement?.burns.map((x) => `${x.label} ${x.meanPValue?.toPrecision(3)}, ${x.covariancePValue?.toPrecision(3)}`).join('; ')}; re-plans not converged ${both.nonlinear?.notConverged.count}.`);
 log();
 writeFileSync(new URL('./results/budget.md', import.meta.url), `${lines.join('\n')}\n`);

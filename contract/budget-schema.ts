@@ -23,7 +23,6 @@ export const BUDGET_DEFAULTS = Object.freeze({
   nonlinearSamples: 200,
   seed: 1,
   replanToleranceFraction: 0.01,
-  agreementFraction: 0.1,
 });
 
 export const budgetRequestSchema = z.object({
@@ -42,9 +41,9 @@ export const budgetRequestSchema = z.object({
   /** Re-plans are solved to this fraction of each target's tolerance, so the re-planned Δv is not
    * quantised by the tolerance (a re-plan stopping anywhere inside it). */
   replanToleranceFraction: z.number().positive().max(1).default(BUDGET_DEFAULTS.replanToleranceFraction),
-  /** The linear and non-linear paths agree on a burn when its mean, σ and Δv99 differ by at most this
-   * fraction of the linear σ (mean, σ) or of the linear Δv99. */
-  agreementFraction: z.number().positive().max(10).default(BUDGET_DEFAULTS.agreementFraction),
+  /** Significance of the per-burn linear/non-linear check (the plan's linear/Monte Carlo check: a burn fails
+   * when a p-value is below it). Absent: that check's own default (planner LINEARITY_CHECK_DEFAULTS, 1e-3). */
+  agreementSignificance: z.number().gt(0).lt(1).optional(),
 }).strict();
 
 /** A validated budget request (defaults filled in). */

@@ -134,24 +134,37 @@ export interface BudgetSummary {
   limits: { impact: LimitCrossing; belowSafeAltitude: LimitCrossing | null; safeAltitudeKm: number };
 }
 
-/** Linear vs non-linear, per burn, on the samples both paths ran. */
+/**
+ * Linear vs non-linear for one burn, by the plan's linear/Monte Carlo check (mean χ² test and covariance
+ * likelihood-ratio test with p-values) on the burn's free Δv components along its nominal local axes, m/s.
+ */
 export interface BurnAgreement {
   label: string;
+  /** Non-linear samples checked (those that did every burn). */
   samples: number;
+  /** The checked quantities, e.g. `Δv T` (free components only). */
+  components: string[];
+  /** |Δv| of each path, m/s, for reading beside the check. */
   linear: { mean: number; sigma: number; p99: number };
   nonlinear: { mean: number; sigma: number; p99: number };
-  /** |difference| / linear σ (mean, σ) and / linear Δv99. */
-  meanDifference: number;
-  sigmaDifference: number;
-  p99Difference: number;
-  /** RMS over the paired samples of |Δv_linear − Δv_nonlinear| / linear σ. */
-  pairedRms: number;
+  /** False when the check could not run (too few samples, a component without dispersion): see `message`. */
+  checked: boolean;
+  meanStatistic: number | null;
+  meanPValue: number | null;
+  covarianceStatistic: number | null;
+  covariancePValue: number | null;
+  /** Non-linear / linear σ per component. */
+  sigmaRatios: number[];
+  /** Checked, and both p-values ≥ the significance. */
   passed: boolean;
+  message: string;
 }
 
 export interface BudgetAgreement {
+  /** Every burn checked and passed. */
   passed: boolean;
-  limit: number;
+  /** A p-value below this fails the burn. */
+  significance: number;
   burns: BurnAgreement[];
   message: string;
 }

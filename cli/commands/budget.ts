@@ -18,7 +18,7 @@ then simulates it many times — true initial state drawn from the initial covar
 on a navigation estimate drawn from that burn's knowledge covariance, executed with Gates errors — by a
 linear path (STM gains) and a non-linear path (a corrector run per re-plan), and compares the two.
 The request: { "problem": <retargeting problem>, "knowledge": [{ "covarianceKmKmS": 6x6 }, ... one per burn],
-"linearSamples", "nonlinearSamples", "seed", "replanToleranceFraction", "agreementFraction" }.
+"linearSamples", "nonlinearSamples", "seed", "replanToleranceFraction", "agreementSignificance" }.
 Progress goes to stderr (Ctrl-C stops it); the readable report to stdout.
 
   --json       print the result as JSON on stdout instead of the report

@@ -39,9 +39,12 @@ export function formatBudgetReport(r: BudgetResult): string {
   ];
   for (const s of [r.linear, r.nonlinear]) if (s) lines.push(...summaryLines(s), '');
   if (r.agreement) {
-    lines.push(`Linear vs non-linear: ${r.agreement.passed ? 'AGREE' : 'DISAGREE'} — ${r.agreement.message}`,
-      ...table(['burn', 'paired', 'mean diff/σ', 'σ diff/σ', 'Δv99 diff', 'paired RMS/σ', 'verdict'], r.agreement.burns.map((b) => [
-        b.label, String(b.samples), num(b.meanDifference, 4), num(b.sigmaDifference, 4), `${num(100 * b.p99Difference, 2)} %`, num(b.pairedRms, 4), b.passed ? 'agree' : 'DISAGREE',
+    const a = r.agreement;
+    lines.push(`Linear vs non-linear: ${a.passed ? 'AGREE' : 'DISAGREE'} — ${a.message} (per burn, the plan's linear/Monte Carlo check: mean χ² and covariance likelihood-ratio p-values, significance ${a.significance})`,
+      ...table(['burn', 'checked', 'samples', 'p-value mean', 'p-value covariance', 'σ non-linear/linear', 'verdict'], a.burns.map((b) => [
+        b.label, b.components.join(', '), String(b.samples), b.meanPValue === null ? 'n/a' : b.meanPValue.toPrecision(3),
+        b.covariancePValue === null ? 'n/a' : b.covariancePValue.toPrecision(3), b.sigmaRatios.map((x) => num(x, 3)).join(', ') || 'n/a',
+        b.passed ? 'agree' : b.checked ? 'DISAGREE' : 'NOT CHECKED',
       ])), '');
   }
   lines.push(...r.notes.map((n) => `Note: ${n}`), '', ...caveatBlock(r, TAIL));

@@ -1,45 +1,78 @@
 /**
- * Linear vs non-linear Δv, per burn, on the samples both paths completed. Sample i of both paths shares its
- * draws, so besides the distributions' mean, σ and Δv99 the paths are compared sample by sample (paired
- * RMS difference). A burn agrees when every measure is at most `agreementFraction` of the linear σ (mean,
- * σ, paired RMS) or of the linear Δv99.
+ * Linear vs non-linear, per burn, by the same check as the plan's linear/Monte Carlo comparison
+ * (planner/dispersion/linearity-check.ts: the mean test, χ²(p), and the covariance likelihood-ratio test,
+ * χ²(p(p+1)/2), each with its p-value). For burn k the p quantities are its free Δv components along the
+ * burn's nominal local axes, m/s. The linear prediction N(μ, Σ) is the linear path's mean and covariance of
+ * them over all its samples (the linear path is a linear map of Gaussian draws, up to the Gates errors'
+ * scaling with |Δv|); the non-linear samples that did every burn are the sample checked against it.
+ * A burn agrees when both p-values are at least the significance (request.agreementSignificance, else the
+ * check's own default). Each path's |Δv| mean, σ and Δv99 are reported beside it for reading.
  */
+import { InvalidInputError, axesFromInertial, localAxes } from '../../propagator/index.ts';
+import { LINEARITY_CHECK_DEFAULTS, checkLinearity } from '../dispersion/linearity-check.ts';
+import { sampleCovariance, sampleMean } from '../dispersion/sample-statistics.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { distribution } from './budget-statistics.ts';
-import type { BudgetAgreement, BudgetNominal, BudgetSample, BurnAgreement } from '../../contract/budget-types.ts';
+import type { BudgetAgreement, BudgetNominal, BudgetSample, BurnAgreement, NominalBurn } from '../../contract/budget-types.ts';
 
-/** Compares the two paths' samples; see the file comment. */
+const AXIS_NAMES: Record<NominalBurn['frame'], [string, string, string]> = { inertial: ['x', 'y', 'z'], RTN: ['R', 'T', 'N'], VNB: ['V', 'N', 'B'] };
+
+/** Burn k's free Δv components along its nominal local axes, m/s, for each sample. */
+function freeComponentsMS(burn: NominalBurn, k: number, samples: readonly BudgetSample[]): number[][] {
+  const axes = localAxes(burn.frame, burn.preBurnState.slice(0, 3), burn.preBurnState.slice(3, 6));
+  return samples.map((s) => axesFromInertial(axes, s.burns[k].commandedKmS).filter((_, j) => burn.freeComponents[j]).map((v) => v * 1000));
+}
+
+const finiteOrNull = (v: number): number | null => (Number.isFinite(v) ? v : null);
+const summary = (values: number[]): { mean: number; sigma: number; p99: number } => {
+  const d = distribution(values);
+  return { mean: d.mean, sigma: d.sigma, p99: d.p99 };
+};
+
+function burnAgreement(nominal: BudgetNominal, k: number, linear: readonly BudgetSample[], nonlinear: readonly BudgetSample[], significance: number): BurnAgreement {
+  const burn = nominal.burns[k];
+  const components = AXIS_NAMES[burn.frame].filter((_, j) => burn.freeComponents[j]).map((a) => `Δv ${a}`);
+  const base = {
+    label: burn.label, samples: nonlinear.length, components,
+    linear: summary(linear.map((s) => s.burns[k].magnitudeMS)), nonlinear: summary(nonlinear.map((s) => s.burns[k].magnitudeMS)),
+  };
+  const notChecked = (why: string): BurnAgreement => ({
+    ...base, checked: false, meanStatistic: null, meanPValue: null, covarianceStatistic: null, covariancePValue: null, sigmaRatios: [],
+    passed: false, message: `${burn.label}: not checked — ${why}`,
+  });
+  const p = components.length;
+  if (linear.length < p + 2 || nonlinear.length < p + 2) {
+    return notChecked(`needs at least ${p + 2} samples of each path (linear ${linear.length}, non-linear ${nonlinear.length})`);
+  }
+  const lin = freeComponentsMS(burn, k, linear);
+  const mean = sampleMean(lin);
+  try {
+    const c = checkLinearity(freeComponentsMS(burn, k, nonlinear), mean, sampleCovariance(lin, mean), { significance });
+    return {
+      ...base, checked: true, meanStatistic: finiteOrNull(c.meanStatistic), meanPValue: c.meanPValue,
+      covarianceStatistic: finiteOrNull(c.covarianceStatistic), covariancePValue: c.covariancePValue,
+      sigmaRatios: c.sigmaRatios.map((r) => finiteOrNull(r) ?? 0), passed: c.passed, message: `${burn.label}: ${c.message}`,
+    };
+  } catch (error) {
+    // A linear covariance that is not positive definite (a component without dispersion) cannot be tested.
+    if (error instanceof InvalidInputError) return notChecked(`the linear covariance of ${components.join(', ')} cannot be used (${error.message})`);
+    throw error;
+  }
+}
+
+/** Checks the non-linear samples against the linear path's prediction, burn by burn; see the file comment. */
 export function compareBudgetPaths(request: BudgetRequest, nominal: BudgetNominal, linear: readonly BudgetSample[], nonlinear: readonly BudgetSample[]): BudgetAgreement {
   const n = nominal.burns.length;
-  const limit = request.agreementFraction;
-  const byIndex = new Map(linear.filter((s) => s.burns.length === n).map((s) => [s.index, s]));
-  const pairs = nonlinear.filter((s) => s.burns.length === n && byIndex.has(s.index))
-    .sort((a, b) => a.index - b.index)
-    .map((s) => [byIndex.get(s.index) as BudgetSample, s] as const);
-  const burns: BurnAgreement[] = nominal.burns.map((b, k) => {
-    const lin = distribution(pairs.map(([l]) => l.burns[k].magnitudeMS));
-    const non = distribution(pairs.map(([, q]) => q.burns[k].magnitudeMS));
-    const sigma = lin.sigma > 0 ? lin.sigma : Number.MIN_VALUE;
-    const paired = pairs.length > 0 ? Math.sqrt(pairs.reduce((acc, [l, q]) => {
-      const d = [0, 1, 2].map((i) => l.burns[k].commandedKmS[i] - q.burns[k].commandedKmS[i]);
-      return acc + (Math.hypot(...d) * 1000) ** 2;
-    }, 0) / pairs.length) / sigma : Number.POSITIVE_INFINITY;
-    const meanDifference = Math.abs(lin.mean - non.mean) / sigma;
-    const sigmaDifference = Math.abs(lin.sigma - non.sigma) / sigma;
-    const p99Difference = lin.p99 > 0 ? Math.abs(lin.p99 - non.p99) / lin.p99 : Math.abs(non.p99) > 0 ? Number.POSITIVE_INFINITY : 0;
-    return {
-      label: b.label, samples: pairs.length,
-      linear: { mean: lin.mean, sigma: lin.sigma, p99: lin.p99 }, nonlinear: { mean: non.mean, sigma: non.sigma, p99: non.p99 },
-      meanDifference, sigmaDifference, p99Difference, pairedRms: paired,
-      passed: pairs.length >= 2 && Math.max(meanDifference, sigmaDifference, p99Difference, paired) <= limit,
-    };
-  });
+  const significance = request.agreementSignificance ?? LINEARITY_CHECK_DEFAULTS.significance;
+  const complete = (samples: readonly BudgetSample[]): BudgetSample[] => samples.filter((s) => s.burns.length === n).sort((a, b) => a.index - b.index);
+  const lin = complete(linear);
+  const non = complete(nonlinear);
+  const burns = nominal.burns.map((_, k) => burnAgreement(nominal, k, lin, non, significance));
   const passed = burns.every((b) => b.passed);
-  const worst = (b: BurnAgreement): string => `${b.label}: mean ${b.meanDifference.toFixed(3)}σ, σ ${b.sigmaDifference.toFixed(3)}σ, Δv99 ${(100 * b.p99Difference).toFixed(1)} %, paired RMS ${b.pairedRms.toFixed(3)}σ`;
   return {
-    passed, limit, burns,
+    passed, significance, burns,
     message: passed
-      ? `linear and non-linear paths agree on every burn within ${limit} (${pairs.length} paired samples)`
-      : `linear and non-linear paths disagree (limit ${limit}): ${burns.filter((b) => !b.passed).map(worst).join('; ')}`,
+      ? `linear and non-linear paths agree on every burn (${non.length} non-linear samples against ${lin.length} linear; p-values ≥ ${significance})`
+      : `linear and non-linear paths ${burns.some((b) => b.checked && !b.passed) ? 'disagree' : 'could not be compared'}: ${burns.filter((b) => !b.passed).map((b) => b.message).join('; ')}`,
   };
 }

@@ -9,6 +9,7 @@ import {
   assembleBudget, parseBudgetRequest, planManeuvers, prepareBudget, runBudget, runBudgetSamples, runDispersionSamples,
   summariseDispersion,
 } from '../../planner/index.ts';
+import { LINEARITY_CHECK_DEFAULTS } from '../../planner/dispersion/index.ts';
 import type { BudgetRequestInput, BudgetSample } from '../../planner/index.ts';
 
 const demo = (): BudgetRequestInput => JSON.parse(readFileSync(new URL('../../examples/flyby-budget-demo.json', import.meta.url), 'utf8')) as BudgetRequestInput;
@@ -92,11 +93,15 @@ describe('budget samples', () => {
       const result = await runBudget({ ...demo(), linearSamples: 2000, nonlinearSamples: 40 });
       expect(result.agreement).not.toBeNull();
       const a = result.agreement!;
-      expect(a.passed).toBe(true);
-      // Observed on 40 paired samples: paired RMS 2.2e-4 σ (TCM-1) and 2.8e-5 σ (TCM-2); limit a few times above.
+      // The plan's linear/Monte Carlo check per burn (mean χ² and covariance likelihood-ratio p-values).
+      expect(a.significance).toBe(LINEARITY_CHECK_DEFAULTS.significance);
+      expect(a.passed, a.message).toBe(true);
       for (const b of a.burns) {
         expect(b.samples).toBe(40);
-        expect(b.pairedRms).toBeLessThan(1e-3);
+        expect(b.checked).toBe(true);
+        expect(b.components).toEqual(['Δv x', 'Δv y', 'Δv z']);
+        expect(b.meanPValue!).toBeGreaterThanOrEqual(a.significance);
+        expect(b.covariancePValue!).toBeGreaterThanOrEqual(a.significance);
       }
       expect(result.nonlinear!.notConverged.count).toBe(0);
       expect(result.caveats[0].code).toBe('PROPOSAL_REQUIRES_REVIEW');
@@ -105,6 +110,34 @@ describe('budget samples', () => {
       const l = result.linear!;
       expect(l.total.deltaVMS.p99).toBeLessThanOrEqual(l.burns[0].deltaVMS.p99 + l.burns[1].deltaVMS.p99);
       expect(l.burns[1].propellantKg.p99).toBeGreaterThan(0);
+    });
+  });
+
+  describe('when the non-linear samples do not follow the linear prediction', () => {
+    it('should fail the burn by the p-values of the linear/Monte Carlo check, and say when it cannot check', async () => {
+      const request = parseBudgetRequest({ ...demo(), linearSamples: 2000, nonlinearSamples: 0 });
+      const { plan, nominal } = await prepareBudget(request);
+      const linear = await runBudgetSamples(request, nominal!, { path: 'linear', firstIndex: 0, count: 2000 });
+      const mean = [0, 1, 2].map((i) => linear.reduce((acc, s) => acc + s.burns[1].commandedKmS[i], 0) / linear.length);
+      // Stand-ins for non-linear samples: the linear path's own first 60, with TCM-2's spread about its mean
+      // stretched by 1.5 (the covariance test must fail) — TCM-1 untouched (must pass).
+      const stretched = linear.slice(0, 60).map((s) => ({
+        ...s, burns: [s.burns[0], { ...s.burns[1], commandedKmS: [0, 1, 2].map((i) => mean[i] + 1.5 * (s.burns[1].commandedKmS[i] - mean[i])) as [number, number, number] }],
+      }));
+      const a = assembleBudget(request, plan, nominal, linear, stretched).agreement!;
+      expect(a.passed).toBe(false);
+      expect(a.burns[0].passed, a.burns[0].message).toBe(true);
+      expect(a.burns[1].checked).toBe(true);
+      expect(a.burns[1].passed).toBe(false);
+      expect(a.burns[1].covariancePValue!).toBeLessThan(a.significance);
+      // Control: the same 60 samples unstretched pass, and stretching scales each σ ratio by exactly 1.5.
+      const plain = assembleBudget(request, plan, nominal, linear, linear.slice(0, 60)).agreement!;
+      expect(plain.passed, plain.message).toBe(true);
+      a.burns[1].sigmaRatios.forEach((r, i) => expect(Math.abs(r / plain.burns[1].sigmaRatios[i] - 1.5)).toBeLessThan(1e-9));
+      const few = assembleBudget(request, plan, nominal, linear, linear.slice(0, 4));
+      expect(few.agreement!.burns[0].checked).toBe(false);
+      expect(few.agreement!.message).toContain('could not be compared');
+      expect(few.caveats.map((c) => c.code)).toContain('BUDGET_PATHS_DISAGREE');
     });
   });
 
