@@ -12,7 +12,7 @@ import { spawn } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { assembleBudget, parseBudgetRequest, planManeuvers, prepareBudget, runBudgetSamples } from '../planner/index.ts';
-import type { BudgetRequest, BudgetSample } from '../planner/index.ts';
+import type { BudgetSample, CheckedBudgetRequest } from '../planner/index.ts';
 import { cpuMs, machineLine } from './bench-stats.ts';
 
 const here = fileURLToPath(import.meta.url);
@@ -21,7 +21,7 @@ const demo = JSON.parse(readFileSync(new URL('../examples/flyby-budget-demo.json
 };
 const diag = (pKm: number, vKmS: number): number[][] => Array.from({ length: 6 }, (_, i) => Array.from({ length: 6 }, (__, j) => (i !== j ? 0 : i < 3 ? pKm ** 2 : vKmS ** 2)));
 const LINEAR_N = 10_000;
-const request: BudgetRequest = parseBudgetRequest({
+const request: CheckedBudgetRequest = parseBudgetRequest({
   ...demo,
   problem: { ...demo.problem, burns: [...demo.problem.burns, { label: 'TCM-3', epoch: '2031-10-06T12:00:00 TDB', frame: 'inertial', deltaVGuessKmS: [0, 0, 0] }] },
   knowledge: [...demo.knowledge, { covarianceKmKmS: diag(0.2, 2e-8) }],

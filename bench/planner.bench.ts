@@ -16,7 +16,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { parseProblem, planManeuvers, runDispersionSamples, summariseDispersion, attachMonteCarlo } from '../planner/index.ts';
-import type { DispersionSample, ManeuverPlan, PlanningProblem } from '../planner/index.ts';
+import type { CheckedProblem, DispersionSample, ManeuverPlan } from '../planner/index.ts';
 import {
   createBuiltinEphemeris, EphemerisCache, parseEpoch, propagateAsync,
 } from '../propagator/index.ts';
@@ -26,7 +26,7 @@ import { finiteRetargeting } from './finite-retargeting.ts';
 
 const here = fileURLToPath(import.meta.url);
 const demo = JSON.parse(readFileSync(new URL('../examples/flyby-demo.json', import.meta.url), 'utf8')) as Record<string, unknown>;
-const problem: PlanningProblem = parseProblem({ ...demo, dispersion: { samples: 0, seed: 20310 } });
+const problem: CheckedProblem = parseProblem({ ...demo, dispersion: { samples: 0, seed: 20310 } });
 const MC_SEED = 20310;
 
 async function basePlan(): Promise<ManeuverPlan> {

@@ -3,8 +3,8 @@ export { problemSchema, epochTextSchema, REFERENCE_PLANES } from '../contract/pr
 export type {
   PlanningProblem, PlanningProblemInput, ProblemBurn, ProblemTarget, TargetKind, ExecutionErrors, ReferencePlane,
 } from '../contract/problem-schema.ts';
-export { parseProblem, checkProblem, problemEpochs } from './problem-checks.ts';
-export type { ProblemEpochs } from './problem-checks.ts';
+export { parseProblem, checkParsedProblem, checkProblem, checksOf, problemEpochs } from './problem-checks.ts';
+export type { CheckedProblem, ProblemChecks, ProblemEpochs } from './problem-checks.ts';
 export { canonicalJson } from '../contract/canonical-json.ts';
 export { problemHash, targetSetKey } from './problem-hash.ts';
 export { planLeapSeconds, leapSecondTableOfPlan } from '../propagator/index.ts';

@@ -1,6 +1,8 @@
 /**
  * parseProblem: the zod shape check, then the checks that relate fields to each other, all before any
- * computation. Every failure is an InvalidInputError naming the dotted path of the first bad field.
+ * computation. Every failure is an InvalidInputError naming the dotted path of the first bad field. The result
+ * is a CheckedProblem, the only form the planner takes: each door parses once and nothing downstream re-checks.
+ * (The schema lives in contract/; the checks live here because reading epochs needs the propagator's time scales.)
  */
 import type { z } from 'zod';
 import {
@@ -192,16 +194,49 @@ function checkCovariance(problem: PlanningProblem): void {
   }
 }
 
+/** Brand of a problem that passed the checks (see CheckedProblem); a symbol, so JSON and hashes never see it. */
+const CHECKED: unique symbol = Symbol('veer.checked-problem');
+
+/** What the checks established about a problem: its epochs as TDB seconds, read with `leapSeconds`. */
+export interface ProblemChecks {
+  readonly epochs: ProblemEpochs;
+  /** The table its UTC epochs were read with; the plan records it and its problem hash covers it. */
+  readonly leapSeconds: LeapSecondTable;
+}
+
+/**
+ * A problem that passed parseProblem (zod shape with defaults, then the relation checks), carrying its epochs
+ * in TDB and the leap-second table they were read with. The planner takes only this and never checks again.
+ * The record is a non-enumerable symbol property: JSON, hashes and structured clone (a thread boundary) drop
+ * it, and so does a copy made by spreading, so an edited copy cannot pass with stale epochs (checksOf throws).
+ */
+export type CheckedProblem = PlanningProblem & { readonly [CHECKED]: ProblemChecks };
+
+/** The relation checks on a problem the zod schema already parsed (the HTTP door's body schema embeds it):
+ * returns it as a CheckedProblem; throws InvalidInputError naming the field. */
+export function checkParsedProblem(problem: PlanningProblem, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): CheckedProblem {
+  const checks: ProblemChecks = { epochs: checkProblem(problem, leapSeconds), leapSeconds };
+  Object.defineProperty(problem, CHECKED, { value: checks, enumerable: false });
+  return problem as CheckedProblem;
+}
+
+/** The epochs and table of a checked problem; a TypeError (a bug, final for the queue) when the value never
+ * passed the checks, e.g. a spread copy of a checked problem. */
+export function checksOf(problem: CheckedProblem): ProblemChecks {
+  const checks = (problem as Partial<CheckedProblem>)[CHECKED];
+  if (!checks) throw new TypeError('not a checked problem: parse it with parseProblem first (a spread copy is no longer checked)');
+  return checks;
+}
+
 /**
  * Validates anything from outside (a parsed JSON file, a request body, job data) as a retargeting problem:
  * the zod shape first (every issue listed, the first one's path as `field`), then the semantic checks.
- * Throws InvalidInputError; returns the problem with defaults filled in.
+ * Throws InvalidInputError; returns the problem with defaults filled in, checked (CheckedProblem).
  */
-export function parseProblem(input: unknown, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): PlanningProblem {
+export function parseProblem(input: unknown, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): CheckedProblem {
   const parsed = problemSchema.safeParse(input);
   if (!parsed.success) throw fromZodError(parsed.error);
-  checkProblem(parsed.data, leapSeconds);
-  return parsed.data;
+  return checkParsedProblem(parsed.data, leapSeconds);
 }
 
 /** The planner runs on the built-in ephemeris: both ends of the span must lie inside it (never clipped). */

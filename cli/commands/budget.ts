@@ -56,7 +56,7 @@ export const budgetCommand: CliCommand = {
     process.once('SIGINT', onSigint);
     let result: BudgetResult;
     try {
-      result = await runBudget(request, { onProgress: bar.update, signal: controller.signal, leapSeconds });
+      result = await runBudget(request, { onProgress: bar.update, signal: controller.signal });
     } finally {
       bar.end();
       process.removeListener('SIGINT', onSigint);

@@ -8,7 +8,7 @@ import { readFile, writeFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
 import { exportPlanAsCcsds, readOpmAsInitialState } from '../../ccsds/index.ts';
 import {
-  leapSecondTableOfPlan, type ManeuverPlan, parseProblem, planLeapSeconds, type PlanningProblem, problemHash,
+  leapSecondTableOfPlan, type CheckedProblem, type ManeuverPlan, parseProblem, planLeapSeconds, type PlanningProblem, problemHash,
 } from '../../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS, InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
 import { printableText } from '../../contract/free-text.ts';
@@ -40,7 +40,7 @@ export async function problemWithOpmState(problemJson: unknown, opmPath: string)
 }
 
 /** Reads a problem file, replaces its initial state by the OPM's (notes to stderr) and validates it. */
-export async function readProblemFileWithOpmState(problemPath: string, opmPath: string, leapSeconds: LeapSecondTable): Promise<PlanningProblem> {
+export async function readProblemFileWithOpmState(problemPath: string, opmPath: string, leapSeconds: LeapSecondTable): Promise<CheckedProblem> {
   let json: unknown;
   try {
     json = JSON.parse(await readFile(problemPath, 'utf8'));

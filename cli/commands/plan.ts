@@ -3,7 +3,7 @@ import { constants } from 'node:fs';
 import { access, stat, writeFile } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
 import { InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
-import { parseProblem, planManeuvers } from '../../planner/index.ts';
+import { parseProblem, planManeuvers, type CheckedProblem } from '../../planner/index.ts';
 import type { ManeuverPlan } from '../../planner/index.ts';
 import { cliEphemerisCache } from '../cli-ephemeris-cache.ts';
 import { progressBar } from '../progress-bar.ts';
@@ -35,7 +35,7 @@ Every plan is a PROPOSAL: it requires review and approval by qualified flight-dy
 independent verification before any commanding; follow the mission's own procedures.`;
 
 /** Reads and validates a problem file; InvalidInputError names the file or the field. */
-export async function readProblemFile(path: string, leapSeconds: LeapSecondTable): Promise<ReturnType<typeof parseProblem>> {
+export async function readProblemFile(path: string, leapSeconds: LeapSecondTable): Promise<CheckedProblem> {
   return parseProblem(await readJsonFile(path, 'problem', (field, message) => new InvalidInputError(field, message)), leapSeconds);
 }
 
@@ -82,7 +82,7 @@ export const planCommand: CliCommand = {
     process.once('SIGINT', onSigint);
     let plan: ManeuverPlan;
     try {
-      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal, ephemerisCache: cliEphemerisCache, leapSeconds, ephemerisFiles });
+      plan = await planManeuvers(problem, { onProgress: bar.update, signal: controller.signal, ephemerisCache: cliEphemerisCache, ephemerisFiles });
     } finally {
       bar.end();
       process.removeListener('SIGINT', onSigint);

@@ -7,23 +7,27 @@ import { BUILTIN_LEAP_SECONDS, InvalidInputError, type LeapSecondTable } from '.
 import { budgetRequestSchema } from '../../contract/budget-schema.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { choleskySemidefinite, requireCovariance } from '../../propagator/index.ts';
-import { checkProblem, fromZodError } from '../problem-checks.ts';
+import { checkParsedProblem, fromZodError, type CheckedProblem } from '../problem-checks.ts';
+
+/** A budget request that passed parseBudgetRequest: its problem checked (CheckedProblem, never re-checked). */
+export type CheckedBudgetRequest = BudgetRequest & { problem: CheckedProblem };
 
 /** Validates anything from outside as a budget request (UTC epochs through `leapSeconds`); returns it with
- * defaults filled in. */
-export function parseBudgetRequest(input: unknown, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): BudgetRequest {
+ * defaults filled in and its problem checked. */
+export function parseBudgetRequest(input: unknown, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): CheckedBudgetRequest {
   const parsed = budgetRequestSchema.safeParse(input);
   if (!parsed.success) {
     const e = fromZodError(parsed.error);
     throw e;
   }
-  const request = parsed.data;
+  let problem: CheckedProblem;
   try {
-    checkProblem(request.problem, leapSeconds);
+    problem = checkParsedProblem(parsed.data.problem, leapSeconds);
   } catch (error) {
-    if (error instanceof InvalidInputError) throw new InvalidInputError(`problem.${error.field}`, error.message.slice(error.field.length + 2), error.code);
+    if (error instanceof InvalidInputError) throw new InvalidInputError(`problem.${error.field}`, error.detail, error.code);
     throw error;
   }
+  const request: CheckedBudgetRequest = { ...parsed.data, problem };
   const burns = request.problem.burns.length;
   if (request.knowledge.length !== burns) {
     throw new InvalidInputError('knowledge', `needs one entry per burn: ${burns} burns, ${request.knowledge.length} entries`);

@@ -8,9 +8,7 @@
  * 3. assembleBudget: statistics of both paths, their per-burn agreement, caveats.
  * runBudget does all three in this process. A budget is a study: never a plan to approve.
  */
-import {
-  BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, type LeapSecondTable, leapSecondTableOfPlan, planLeapSeconds,
-} from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, planLeapSeconds } from '../../propagator/index.ts';
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
 import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-types.ts';
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
@@ -21,7 +19,7 @@ import { problemHash } from '../problem-hash.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import { createHash } from 'node:crypto';
 import { compareBudgetPaths } from './budget-agreement.ts';
-import { parseBudgetRequest } from './budget-checks.ts';
+import type { CheckedBudgetRequest } from './budget-checks.ts';
 import { createBudgetSampler } from './budget-draws.ts';
 import { linearBudgetSample } from './budget-linear.ts';
 import { budgetNominal } from './budget-nominal.ts';
@@ -32,8 +30,6 @@ import type { BudgetNominal, BudgetPath, BudgetProgress, BudgetResult, BudgetSam
 export interface BudgetRunOptions {
   onProgress?: (p: BudgetProgress) => void;
   signal?: AbortSignal;
-  /** Leap-second table for UTC epochs (recorded in the nominal plan). @defaultValue BUILTIN_LEAP_SECONDS */
-  leapSeconds?: LeapSecondTable;
 }
 
 export interface BudgetSampleOptions {
@@ -43,31 +39,28 @@ export interface BudgetSampleOptions {
   signal?: AbortSignal;
   /** Called after each sample with the number done in this range. */
   onSample?: (done: number) => void;
-  /** The leap-second table for the problem's UTC epochs. @defaultValue the nominal plan's own table */
-  leapSeconds?: LeapSecondTable;
 }
 
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
 
-/** Step 1: the nominal plan, and its linear model when it converged (null otherwise). */
-export async function prepareBudget(request: BudgetRequest, options: BudgetRunOptions = {}): Promise<{ plan: ManeuverPlan; nominal: BudgetNominal | null }> {
-  const leapSeconds = options.leapSeconds ?? BUILTIN_LEAP_SECONDS;
+/** Step 1: the nominal plan, and its linear model when it converged (null otherwise). UTC epochs go through
+ * the table the request's problem was checked with (parseBudgetRequest). */
+export async function prepareBudget(request: CheckedBudgetRequest, options: BudgetRunOptions = {}): Promise<{ plan: ManeuverPlan; nominal: BudgetNominal | null }> {
   const plan = await planManeuvers(request.problem, {
-    monteCarlo: 'skip', signal: options.signal, leapSeconds,
+    monteCarlo: 'skip', signal: options.signal,
     onProgress: (p: PlanProgress) => options.onProgress?.({ stage: 'nominal', fraction: 0.1 * p.fraction, message: `nominal plan: ${p.message}` }),
   });
   if (plan.status !== 'converged') return { plan, nominal: null };
-  return { plan, nominal: await budgetNominal(request, planningContext(request.problem, leapSeconds), plan, options.signal) };
+  return { plan, nominal: await budgetNominal(request, planningContext(request.problem), plan, options.signal) };
 }
 
 /** Step 2: samples of one path; see the file comment. Checks `signal` before each sample. */
-export async function runBudgetSamples(request: BudgetRequest, nominal: BudgetNominal, options: BudgetSampleOptions): Promise<BudgetSample[]> {
+export async function runBudgetSamples(request: CheckedBudgetRequest, nominal: BudgetNominal, options: BudgetSampleOptions): Promise<BudgetSample[]> {
   const { firstIndex, count, signal } = options;
   if (!Number.isInteger(firstIndex) || firstIndex < 0) throw new InvalidInputError('firstIndex', `must be an integer >= 0, got ${firstIndex}`);
   if (!Number.isInteger(count) || count < 0) throw new InvalidInputError('count', `must be an integer >= 0, got ${count}`);
   const sampler = createBudgetSampler(nominal.burns.length, nominal.initialCovariance, nominal.knowledgeCovariances);
-  const leapSeconds = options.leapSeconds ?? leapSecondTableOfPlan(nominal.plan.leapSeconds);
-  const ctx = options.path === 'nonlinear' ? planningContext(request.problem, leapSeconds) : null;
+  const ctx = options.path === 'nonlinear' ? planningContext(request.problem) : null;
   const out: BudgetSample[] = [];
   for (let k = 0; k < count; k++) {
     if (signal?.aborted) throw new CancelledError(`budget cancelled after ${k} of ${count} ${options.path} samples`);
@@ -132,9 +125,8 @@ export function budgetRequestHash(request: BudgetRequest): string {
   return createHash('sha256').update(canonicalJson(request), 'utf8').digest('hex');
 }
 
-/** The whole budget in this process (validates `input` first); see the file comment. */
-export async function runBudget(input: unknown, options: BudgetRunOptions = {}): Promise<BudgetResult> {
-  const request = parseBudgetRequest(input, options.leapSeconds);
+/** The whole budget in this process, for a request parseBudgetRequest checked; see the file comment. */
+export async function runBudget(request: CheckedBudgetRequest, options: BudgetRunOptions = {}): Promise<BudgetResult> {
   const progress = (p: BudgetProgress): void => options.onProgress?.(p);
   progress({ stage: 'nominal', fraction: 0, message: 'planning the nominal sequence' });
   const { plan, nominal } = await prepareBudget(request, options);
@@ -142,11 +134,11 @@ export async function runBudget(input: unknown, options: BudgetRunOptions = {}):
   const nl = request.linearSamples;
   const nn = request.nonlinearSamples;
   const linear = await runBudgetSamples(request, nominal, {
-    path: 'linear', firstIndex: 0, count: nl, signal: options.signal, leapSeconds: options.leapSeconds,
+    path: 'linear', firstIndex: 0, count: nl, signal: options.signal,
     onSample: (done) => { if (done % 1000 === 0 || done === nl) progress({ stage: 'linear', fraction: 0.1 + 0.1 * (done / nl), message: `linear sample ${done}/${nl}`, samplesDone: done, samplesTotal: nl }); },
   });
   const nonlinear = await runBudgetSamples(request, nominal, {
-    path: 'nonlinear', firstIndex: 0, count: nn, signal: options.signal, leapSeconds: options.leapSeconds,
+    path: 'nonlinear', firstIndex: 0, count: nn, signal: options.signal,
     onSample: (done) => progress({ stage: 'nonlinear', fraction: 0.2 + 0.79 * (done / nn), message: `non-linear sample ${done}/${nn}`, samplesDone: done, samplesTotal: nn }),
   });
   progress({ stage: 'summary', fraction: 0.99, message: 'statistics' });

@@ -4,7 +4,7 @@
  * gives exactly the single-process result. summariseDispersion compares the samples with the plan's linear
  * B-plane covariance; attachMonteCarlo stores the summary and recomputes the dispersion caveats.
  */
-import { InvalidInputError, leapSecondTableOfPlan } from '../../propagator/index.ts';
+import { InvalidInputError } from '../../propagator/index.ts';
 import type { EphemerisCache, StateVector } from '../../propagator/index.ts';
 import { bPlaneEllipse, compareEllipses } from '../dispersion/ellipse.ts';
 import { binomialEstimate } from '../dispersion/impact-probability.ts';
@@ -13,6 +13,7 @@ import { checkLinearity, LINEARITY_CHECK_DEFAULTS } from '../dispersion/linearit
 import { mergeSampleBatches, sampleCovariance, sampleMean } from '../dispersion/sample-statistics.ts';
 import type { DispersionSample, ManeuverPlan, MonteCarloSummary } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
+import type { CheckedProblem } from '../problem-checks.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import { evaluateComponent } from '../targeting/target-geometry.ts';
@@ -88,14 +89,14 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
 }
 
 /** Queue fan-out entry: runs samples [firstIndex, firstIndex + count) for a converged plan. */
-export async function runDispersionSamples(problem: PlanningProblem, plan: ManeuverPlan, options: SampleRunOptions): Promise<DispersionSample[]> {
+export async function runDispersionSamples(problem: CheckedProblem, plan: ManeuverPlan, options: SampleRunOptions): Promise<DispersionSample[]> {
   // The samples must fly on the plan's own ephemeris: a plan made on files cannot be sampled without them.
   const files = (plan.ephemerisSources ?? []).filter((s) => s.source === 'oem');
   if (files.length > 0) {
     throw new InvalidInputError('ephemeris', `the plan used ephemeris files (${files.map((f) => `${f.body}: ${f.file}`).join(', ')}) `
       + 'that separate dispersion samples cannot load here; run the Monte Carlo in the planning process');
   }
-  return runDispersionSamplesWithContext(planningContext(problem, leapSecondTableOfPlan(plan.leapSeconds), options.ephemerisCache), plan, options);
+  return runDispersionSamplesWithContext(planningContext(problem, options.ephemerisCache), plan, options);
 }
 
 function std(values: number[]): number | null {

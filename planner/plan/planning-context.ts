@@ -11,8 +11,7 @@ import {
 import type { BodyName, Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import type { PlanEphemerisSource } from '../../contract/plan-types.ts';
 import { ephemerisWithFiles, type EphemerisFileTable } from '../ephemeris-files.ts';
-import { checkProblem } from '../problem-checks.ts';
-import type { ProblemEpochs } from '../problem-checks.ts';
+import { checksOf, type CheckedProblem, type ProblemEpochs } from '../problem-checks.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { controlLayout } from '../targeting/controls.ts';
 import type { ControlLayout } from '../targeting/controls.ts';
@@ -21,7 +20,7 @@ import { targetComponents } from '../targeting/target-components.ts';
 import type { TargetComponent } from '../targeting/target-components.ts';
 
 export interface PlanningContext {
-  problem: PlanningProblem;
+  problem: CheckedProblem;
   /** The table every UTC epoch of this run is read and written with. */
   leapSeconds: LeapSecondTable;
   epochs: ProblemEpochs;
@@ -56,11 +55,11 @@ function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | nu
   return c ? covarianceToEquatorial(c, problem.initialState.frame) : null;
 }
 
-/** Builds the context; throws InvalidInputError for a problem that fails the semantic checks. UTC epochs go
- * through `leapSeconds`; `cache`: the process's shared ephemeris cache (a fresh one when absent). */
-export function planningContext(problem: PlanningProblem, leapSeconds: LeapSecondTable, cache?: EphemerisCache,
+/** Builds the context of a checked problem from the epochs and leap-second table its checks recorded (no
+ * check runs again); `cache`: the process's shared ephemeris cache (a fresh one when absent). */
+export function planningContext(problem: CheckedProblem, cache?: EphemerisCache,
   files: readonly EphemerisFileTable[] = []): PlanningContext {
-  const epochs = checkProblem(problem, leapSeconds);
+  const { epochs, leapSeconds } = checksOf(problem);
   const components = targetComponents(problem, epochs);
   const targetCount = components.length;
   let bPlaneIndex: PlanningContext['bPlaneIndex'] = null;

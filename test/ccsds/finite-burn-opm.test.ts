@@ -6,11 +6,11 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { exportPlanAsCcsds, readOpm } from '../../ccsds/index.ts';
 import { formatPlanReport } from '../../cli/report/plan-report.ts';
-import { parseProblem, planManeuvers, type ManeuverPlan, type PlanningProblem } from '../../planner/index.ts';
+import { parseProblem, planManeuvers, type ManeuverPlan, type CheckedProblem } from '../../planner/index.ts';
 import { twoBodyProblem } from '../planner/two-body-fixture.ts';
 
 describe('a finite-burn plan exported', () => {
-  let problem: PlanningProblem;
+  let problem: CheckedProblem;
   let plan: ManeuverPlan;
   beforeAll(async () => {
     const base = twoBodyProblem({ dispersion: { samples: 0, seed: 1 } });

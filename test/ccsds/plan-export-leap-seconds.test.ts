@@ -7,7 +7,7 @@ import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { exportPlanAsCcsds, readOem } from '../../ccsds/index.ts';
 import { leapSecondsFromFileBytes, parseProblem, planManeuvers } from '../../planner/index.ts';
-import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
+import type { CheckedProblem, ManeuverPlan } from '../../planner/index.ts';
 import { twoBodyProblemInUtc } from '../planner/two-body-fixture.ts';
 
 const INVENTED_PATH = 'test/fixtures/leap-seconds/invented-2027.list';
@@ -16,15 +16,15 @@ const CREATED = '2026-12-03T10:00:00';
 /** The header comments as one text (the writer wraps long comments over several COMMENT lines). */
 const commentText = (text: string): string => text.split('\n').filter((l) => l.startsWith('COMMENT ')).map((l) => l.slice(8)).join(' ');
 
-let builtinProblem: PlanningProblem;
+let builtinProblem: CheckedProblem;
 let builtinPlan: ManeuverPlan;
-let fileProblem: PlanningProblem;
+let fileProblem: CheckedProblem;
 let filePlan: ManeuverPlan;
 beforeAll(async () => {
   builtinProblem = parseProblem(twoBodyProblemInUtc('2027-08-11T00:00:00Z'));
   builtinPlan = await planManeuvers(builtinProblem);
   fileProblem = parseProblem(twoBodyProblemInUtc('2027-08-11T00:00:00Z'), INVENTED);
-  filePlan = await planManeuvers(fileProblem, { leapSeconds: INVENTED });
+  filePlan = await planManeuvers(fileProblem); // planned with the table it was checked with
 });
 
 describe('plan export with UTC epochs', () => {

@@ -90,7 +90,7 @@ describe('budget samples', () => {
 
   describe('when the demo flyby has two correction burns', () => {
     it('should have the linear and non-linear paths agree burn by burn', async () => {
-      const result = await runBudget({ ...demo(), linearSamples: 2000, nonlinearSamples: 40 });
+      const result = await runBudget(parseBudgetRequest({ ...demo(), linearSamples: 2000, nonlinearSamples: 40 }));
       expect(result.agreement).not.toBeNull();
       const a = result.agreement!;
       // The plan's linear/Monte Carlo check per burn (mean χ² and covariance likelihood-ratio p-values).
@@ -144,7 +144,7 @@ describe('budget samples', () => {
   describe('when cancelled', () => {
     it('should reject with CancelledError', async () => {
       const controller = new AbortController();
-      const run = runBudget({ ...demo(), linearSamples: 100, nonlinearSamples: 50 }, {
+      const run = runBudget(parseBudgetRequest({ ...demo(), linearSamples: 100, nonlinearSamples: 50 }), {
         signal: controller.signal, onProgress: (p) => { if (p.stage === 'nonlinear') controller.abort(); },
       });
       await expect(run).rejects.toMatchObject({ name: 'CancelledError' });

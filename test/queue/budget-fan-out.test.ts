@@ -7,7 +7,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { runBudget } from '../../planner/index.ts';
+import { parseBudgetRequest, runBudget } from '../../planner/index.ts';
 import { readEventStream, startService, waitForJob, type TestService } from '../harness/service.ts';
 import { keysOf } from './fixtures.ts';
 
@@ -58,7 +58,7 @@ describe('Δv budget jobs', () => {
       // Which worker takes which batch is the queue's choice; with idle workers the batches spread out.
       expect(two.workers.size, [...two.workers].join(', ')).toBeGreaterThan(1);
       expect(four.workers.size, [...four.workers].join(', ')).toBeGreaterThan(1);
-      const local = JSON.parse(JSON.stringify(await runBudget(request)));
+      const local = JSON.parse(JSON.stringify(await runBudget(parseBudgetRequest(request))));
       for (const run of [one, two, four]) {
         expect(run.end.kind).toBe('delta-v-budget');
         expect(run.end.result.agreementPassed).toBe(true);

@@ -19,7 +19,7 @@
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
-import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
+import type { CheckedProblem, ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
 import { reflyDemoPlan, type FlownBurn } from './independent-flyby.ts';
 
 const demo = JSON.parse(readFileSync(new URL('../../examples/flyby-demo.json', import.meta.url), 'utf8')) as Record<string, unknown>;
@@ -28,7 +28,7 @@ const TOLERANCE = { km: 0.1, s: 0.1 };
 const REQUESTED = { bDotTKm: 7878, bDotRKm: -2901.4, epoch: '2031-10-11T12:00:00 TDB' };
 
 /** The problem with the burn `model`; everything else the same. */
-function problemWith(model: 'impulsive' | 'finite'): PlanningProblem {
+function problemWith(model: 'impulsive' | 'finite'): CheckedProblem {
   return parseProblem({
     ...demo,
     title: 'Saltmarsh (invented probe): late approach retargeting of the Mars flyby with a low-thrust engine',
