@@ -1,11 +1,15 @@
 #!/usr/bin/env node
 // `npm run setup`: makes sure the real parts the tests use are on this machine, and installs the missing ones.
-//   redis-server                  Debian package `redis-server`   (skipped when REDIS_URL is set)
-//   PostgreSQL initdb and pg_ctl  Debian package `postgresql`     (skipped when DATABASE_URL is set)
+//   redis-server                  Debian package `redis-server`
+//   PostgreSQL initdb and pg_ctl  Debian package `postgresql`     (PG_BIN, else /usr/lib/postgresql/<newest>/bin)
 //   Chromium                      Debian package `chromium`       (CHROMIUM_PATH, else /usr/bin/chromium)
-// Missing ones come from apt-get when running as root (or through `sudo -n` when that needs no password);
-// otherwise it stops with the exact command to run. When everything is present it only looks (a few ms).
-// Plain JavaScript on purpose: it runs before anything is built. `--check` reports without installing.
+// Needed even when REDIS_URL / DATABASE_URL name servers: the Redis restart tests and the PostgreSQL harness
+// tests start servers of their own. Missing ones come from apt-get when running as root (or through `sudo -n`
+// when that needs no password); otherwise it stops with the exact command to run. Before installing it prints
+// every package apt-get will install or upgrade for them (dependencies included, from `apt-get -s`), after it
+// what is installed. When everything is present it only looks (a few ms) and installs nothing: run it any
+// number of times. Plain JavaScript on purpose: it runs before anything is built. `--check` reports without
+// installing.
 import { spawnSync } from 'node:child_process';
 import { accessSync, constants, existsSync, readdirSync } from 'node:fs';
 import { delimiter, join } from 'node:path';
@@ -34,16 +38,35 @@ export function chromiumPath(env = process.env) {
 /** Debian packages still needed for the tests, given the environment (what the test harness will look for). */
 export function missingPackages(env = process.env, pgRoot = '/usr/lib/postgresql') {
   const need = [];
-  if (!env.REDIS_URL && !onPath('redis-server', env.PATH)) need.push('redis-server');
-  if (!env.DATABASE_URL && !postgresBinDir(env, pgRoot)) need.push('postgresql');
+  if (!onPath('redis-server', env.PATH)) need.push('redis-server');
+  if (!postgresBinDir(env, pgRoot)) need.push('postgresql');
   if (!existsSync(chromiumPath(env))) need.push('chromium');
   return need;
 }
 
-function run(cmd, args) {
-  process.stderr.write(`setup: ${cmd} ${args.join(' ')}\n`);
-  const r = spawnSync(cmd, args, { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
-  if (r.status !== 0) throw new Error(`${cmd} ${args[0]} failed (exit ${r.status ?? r.signal ?? r.error?.message})`);
+/**
+ * What `apt-get -s install` (a simulation) says it would do: one entry per `Inst` line, the package, the
+ * version installed now (null when new) and the version it brings.
+ */
+export function parseAptSimulation(text) {
+  return text.split('\n').flatMap((line) => {
+    const m = /^Inst (\S+) (?:\[([^\]]+)\] )?\((\S+)/.exec(line);
+    return m ? [{ name: m[1], from: m[2] ?? null, to: m[3] }] : [];
+  });
+}
+
+/** One line per package: `name version (new)` or `name old → new (upgrade)`. */
+export function describePlan(plan) {
+  return plan.map((p) => (p.from ? `${p.name} ${p.from} → ${p.to} (upgrade)` : `${p.name} ${p.to} (new)`));
+}
+
+function run(cmd, args, capture = false) {
+  if (!capture) process.stderr.write(`setup: ${cmd} ${args.join(' ')}\n`);
+  const r = spawnSync(cmd, args, {
+    stdio: capture ? ['ignore', 'pipe', 'inherit'] : 'inherit', encoding: 'utf8', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+  });
+  if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} failed (exit ${r.status ?? r.signal ?? r.error?.message})`);
+  return r.stdout ?? '';
 }
 
 function install(need) {
@@ -52,13 +75,17 @@ function install(need) {
   const sudoOk = !asRoot && onPath('sudo') && spawnSync('sudo', ['-n', 'true'], { stdio: 'ignore' }).status === 0;
   if (!onPath('apt-get') || (!asRoot && !sudoOk)) {
     throw new Error(`missing ${need.join(', ')}; install them (Debian: sudo apt-get ${aptArgs.join(' ')}), `
-      + 'or point REDIS_URL / DATABASE_URL / PG_BIN / CHROMIUM_PATH at your own');
+      + 'or point PG_BIN / CHROMIUM_PATH at your own (redis-server must be on PATH)');
   }
   const [cmd, ...pre] = asRoot ? ['apt-get'] : ['sudo', '-n', 'apt-get'];
   run(cmd, [...pre, 'update', '-q']);
+  const plan = parseAptSimulation(run(cmd, [...pre, '-s', '-q', 'install', '--no-install-recommends', ...need], true));
+  process.stderr.write(`setup: apt-get will install ${plan.length} package(s) for ${need.join(', ')}:\n`
+    + describePlan(plan).map((l) => `setup:   ${l}\n`).join(''));
   run(cmd, [...pre, ...aptArgs]);
   const still = missingPackages();
   if (still.length) throw new Error(`still missing after apt-get: ${still.join(', ')}`);
+  process.stderr.write(`setup: installed ${need.join(', ')}; the tests' parts are all present now\n`);
 }
 
 function main(argv) {

@@ -1,10 +1,13 @@
 /**
- * The PostgreSQL test harness itself (test/harness/postgres.ts), where it starts its own server as root: it must
- * work from a folder the `postgres` user cannot enter, and create a missing system user. Real processes and real
- * OS users; skipped when a DATABASE_URL is given or when not running as root (nothing of this path runs then).
+ * The PostgreSQL test harness itself (test/harness/postgres.ts) on the path where it starts its own server
+ * (initdb + pg_ctl): as an ordinary user it runs them directly; as root the cluster belongs to the `postgres`
+ * system user (created when missing) and it must work from a folder that user cannot enter. Real processes and
+ * real OS users. Every case runs under any user: run as root, the ordinary-user case runs as `nobody`; run as an
+ * ordinary user, the root-only steps are checked to refuse with a clear error. DATABASE_URL is removed from the
+ * harness's environment here (it would take the server it names instead).
  */
 import { execFile } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { chmodSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -13,22 +16,45 @@ import { describe, expect, it } from 'vitest';
 import { ensureSystemUser } from '../harness/postgres.ts';
 
 const run = promisify(execFile);
-const asRoot = process.getuid?.() === 0 && !process.env.DATABASE_URL;
+const asRoot = process.getuid?.() === 0;
 const HARNESS = fileURLToPath(new URL('../harness/postgres.ts', import.meta.url));
 
-describe.skipIf(!asRoot)('PostgreSQL test harness as root', () => {
-  describe('when started from a folder the postgres user cannot enter', () => {
-    it('should still start a server and answer a query', async () => {
-      const closed = mkdtempSync(join(tmpdir(), 'veer-closed-')); // mode 0700, owned by root
+/** Starts the harness in a fresh node process in `cwd` (optionally as another user through runuser), asks the
+ * server one query, stops it; resolves to what the harness reported. */
+async function harnessInChild(cwd: string, user?: string): Promise<{ kind: string; two: number; uid: number }> {
+  const script = `const m = await import(${JSON.stringify(HARNESS)}); const s = await m.startPostgres();
+    const pg = (await import(${JSON.stringify(import.meta.resolve('pg'))})).default;
+    const c = new pg.Client({ connectionString: await s.freshDatabase() });
+    await c.connect(); const r = await c.query('SELECT 1 + 1 AS two'); await c.end(); await s.stop();
+    console.log(JSON.stringify({ kind: s.kind, two: r.rows[0].two, uid: process.getuid() }));`;
+  const env: NodeJS.ProcessEnv = { ...process.env, TMPDIR: tmpdir() };
+  delete env.DATABASE_URL;
+  const node = [process.execPath, '--import', import.meta.resolve('tsx'), '--input-type=module', '-e', script];
+  const [cmd, ...args] = user ? ['runuser', '-u', user, '--', ...node] : node;
+  const { stdout } = await run(cmd, args, { cwd, env, timeout: 90_000 });
+  return JSON.parse(stdout.trim().split('\n').at(-1)!);
+}
+
+describe('PostgreSQL test harness', () => {
+  describe('when it starts its own server as an ordinary user', () => {
+    it('should run initdb and pg_ctl as that user and answer a query', async () => {
+      const dir = mkdtempSync(join(tmpdir(), 'veer-pg-user-'));
+      chmodSync(dir, 0o777); // `nobody` (when run as root) works in it too
       try {
-        const script = `const m = await import(${JSON.stringify(HARNESS)}); const s = await m.startPostgres();
-          const pg = (await import('pg')).default; const c = new pg.Client({ connectionString: await s.freshDatabase() });
-          await c.connect(); const r = await c.query('SELECT 1 + 1 AS two'); await c.end(); await s.stop(); console.log(JSON.stringify(r.rows[0]));`;
-        const env: NodeJS.ProcessEnv = { ...process.env };
-        delete env.DATABASE_URL;
-        const { stdout } = await run(process.execPath, ['--import', import.meta.resolve('tsx'), '--input-type=module', '-e',
-          script.replace("import('pg')", `import(${JSON.stringify(import.meta.resolve('pg'))})`)], { cwd: closed, env, timeout: 90_000 });
-        expect(JSON.parse(stdout.trim())).toEqual({ two: 2 });
+        const user = asRoot ? 'nobody' : undefined;
+        const expectedUid = asRoot ? Number((await run('id', ['-u', 'nobody'])).stdout.trim()) : process.getuid!();
+        expect(await harnessInChild(dir, user)).toEqual({ kind: 'process', two: 2, uid: expectedUid });
+      } finally {
+        rmSync(dir, { recursive: true, force: true });
+      }
+    }, 100_000);
+  });
+
+  describe('when it is started from a folder closed to all but the caller', () => {
+    it('should still start its server (as root: owned by the postgres user, who cannot enter it) and answer a query', async () => {
+      const closed = mkdtempSync(join(tmpdir(), 'veer-closed-')); // mode 0700, owned by whoever runs the tests
+      try {
+        expect(await harnessInChild(closed)).toEqual({ kind: 'process', two: 2, uid: process.getuid!() });
       } finally {
         rmSync(closed, { recursive: true, force: true });
       }
@@ -36,16 +62,21 @@ describe.skipIf(!asRoot)('PostgreSQL test harness as root', () => {
   });
 
   describe('when the system user is missing', () => {
-    it('should create it with useradd --system', async () => {
+    it(asRoot ? 'should create it with useradd --system' : 'should refuse without root, naming the user and useradd', async () => {
       const name = `veer-t${process.pid % 100000}`;
       await run('userdel', [name]).catch(() => undefined);
       try {
+        if (!asRoot) {
+          await expect(ensureSystemUser(name)).rejects.toThrow(new RegExp(`\`${name}\` system user .*useradd failed`));
+          await expect(run('id', ['-u', name])).rejects.toThrow(); // nothing half-made
+          return;
+        }
         const made = await ensureSystemUser(name);
         expect(Number((await run('id', ['-u', name])).stdout.trim())).toBe(made.uid);
         expect(made.uid).toBeLessThan(1000); // a system account (Debian's SYS_UID_MAX is 999, common practice)
         expect(await ensureSystemUser(name)).toEqual(made); // second call: found, not created again
       } finally {
-        await run('userdel', [name]).catch(() => undefined);
+        if (asRoot) await run('userdel', [name]).catch(() => undefined);
       }
     });
   });

@@ -1,6 +1,6 @@
 /**
  * A real Redis for tests (never a mock). Order of preference:
- *  1. REDIS_URL from the environment (used as is; cannot be restarted by the harness);
+ *  1. REDIS_URL from the environment (used as is; cannot be restarted by the harness; `own: true` passes it by);
  *  2. testcontainers (redis:7-alpine) when a Docker engine answers;
  *  3. a `redis-server` process from PATH on a free port in a temporary folder.
  * Append-only persistence is on in cases 2 and 3 (`appendfsync always`, as in docker-compose.yml) so a
@@ -119,9 +119,15 @@ export async function startRedisProcess(port?: number): Promise<TestRedis> {
   };
 }
 
+export interface StartRedisOptions {
+  /** A Redis of the harness's own even when REDIS_URL is set (a container, else a redis-server process), for
+   * tests that restart or crash it. @defaultValue false */
+  own?: boolean;
+}
+
 /** Starts (or finds) a real Redis for a test file. Call `stop()` in afterAll. */
-export async function startRedis(): Promise<TestRedis> {
-  const fromEnv = process.env.REDIS_URL;
+export async function startRedis(options: StartRedisOptions = {}): Promise<TestRedis> {
+  const fromEnv = options.own ? undefined : process.env.REDIS_URL;
   if (fromEnv) {
     return { url: fromEnv, kind: 'env', restartable: false, restart: async () => {
       throw new Error('REDIS_URL given: the harness cannot restart that Redis');

@@ -1,14 +1,14 @@
 /**
  * `npm run setup` (scripts/setup.mjs), run by `npm test` before vitest: finds what the tests need and names the
  * Debian packages still missing. Installing is not exercised here (it would change the machine); the decision of
- * what to install is, against folders and PATHs made up for the test.
+ * what to install is, against folders and PATHs made up for the test, and so is the reading of apt-get's plan.
  */
 import { spawnSync } from 'node:child_process';
 import { chmodSync, mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { missingPackages, onPath, postgresBinDir } from '../../scripts/setup.mjs';
+import { describePlan, missingPackages, onPath, parseAptSimulation, postgresBinDir } from '../../scripts/setup.mjs';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 const dirs: string[] = [];
@@ -50,10 +50,34 @@ describe('setup script', () => {
       expect(missingPackages({ PATH: join(d, 'bin'), CHROMIUM_PATH: join(d, 'chromium') }, join(d, 'pg'))).toEqual([]);
     });
 
-    it('should not ask for Redis or PostgreSQL when REDIS_URL and DATABASE_URL name servers', () => {
+    it('should still ask for redis-server and PostgreSQL when REDIS_URL and DATABASE_URL name servers', () => {
+      // The Redis restart tests and the PostgreSQL harness tests start servers of their own.
       const empty = tempDir();
       expect(missingPackages({ PATH: empty, REDIS_URL: 'redis://h:6379', DATABASE_URL: 'postgres://h/db', CHROMIUM_PATH: join(empty, 'c') }, empty))
-        .toEqual(['chromium']);
+        .toEqual(['redis-server', 'postgresql', 'chromium']);
+    });
+  });
+
+  describe('when apt-get simulates the install', () => {
+    it('should list every package it brings, new ones and upgrades, and nothing else', () => {
+      // Lines as apt 2.6 (Debian 12) printed them on this machine for `apt-get -s install redis-server` after
+      // redis-server was removed; the Conf lines repeat the same packages and are not counted.
+      const text = [
+        'NOTE: This is only a simulation!',
+        'Inst redis-tools [5:7.0.15-1~deb12u7] (5:7.0.15-1~deb12u10 Debian-Security:12/oldstable-security [amd64])',
+        'Inst redis-server (5:7.0.15-1~deb12u10 Debian-Security:12/oldstable-security [amd64]) []',
+        'Conf redis-tools (5:7.0.15-1~deb12u10 Debian-Security:12/oldstable-security [amd64])',
+        'Conf redis-server (5:7.0.15-1~deb12u10 Debian-Security:12/oldstable-security [amd64])',
+      ].join('\n');
+      const plan = parseAptSimulation(text);
+      expect(plan).toEqual([
+        { name: 'redis-tools', from: '5:7.0.15-1~deb12u7', to: '5:7.0.15-1~deb12u10' },
+        { name: 'redis-server', from: null, to: '5:7.0.15-1~deb12u10' },
+      ]);
+      expect(describePlan(plan)).toEqual([
+        'redis-tools 5:7.0.15-1~deb12u7 → 5:7.0.15-1~deb12u10 (upgrade)',
+        'redis-server 5:7.0.15-1~deb12u10 (new)',
+      ]);
     });
   });
 
