@@ -138,7 +138,7 @@ const HISTORY = '## Run history';
 const history = historyRows(resultsFile, HISTORY,
   `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${machineLine().split('; ').find((l) => l.startsWith('load')) ?? ''} | `
   + `${formatSpread(fromSun.ratio, 0)} | ${formatSpread(fromSun.cacheNs, 0)} | ${formatSpread(rows[6].ratio, 0)} | `
-  + `${formatSpread(shared.coldRatio, 2)} | ${(100 * shared.secondShare).toFixed(1)} % |`);
+  + `${formatSpread(shared.coldRatio, 2)} | ${(100 * shared.secondShare).toPrecision(2)} % (replayed) |`);
 const lines = [
   '# Ephemeris look-up benchmark (npm run bench:ephemeris)',
   '',
@@ -183,7 +183,7 @@ const lines = [
   '',
   'Headline figures of this run and the previous ones (medians, min–max over rounds in brackets).',
   '',
-  '| run (UTC) | code | load | 9 from the Sun, batch: ratio | 9 from the Sun, batch: cache ns per look-up | 9 from the Earth, batch: ratio | cold one-year run: veer / peer CPU | second plan\'s fit time / first\'s |',
+  '| run (UTC) | code | load | 9 from the Sun, batch: ratio | 9 from the Sun, batch: cache ns per look-up | 9 from the Earth, batch: ratio | cold one-year run: veer / peer CPU | second plan\'s ephemeris time / first\'s |',
   '|---|---|---|---|---|---|---|---|',
   ...history,
   '',

@@ -47,6 +47,8 @@ interface FitKey {
   source: Ephemeris;
   bodies: readonly BodyName[];
   key: string;
+  /** Short stand-in for `key` in block ids ("<n>#"), so a look-up builds and hashes a short string. */
+  prefix: string;
 }
 
 /** Process-wide store of fitted ephemeris blocks; see the file comment. */
@@ -56,6 +58,8 @@ export class EphemerisCache {
   /** Insertion order = recency order (a hit moves the entry to the end). */
   private readonly blocks = new Map<string, ChebyshevEphemerisCache>();
   private readonly counters = { blocksFitted: 0, blocksReused: 0, blocksEvicted: 0 };
+  /** Fit key → its short prefix (one per distinct key for the cache's life; a handful in practice). */
+  private readonly prefixes = new Map<string, string>();
 
   constructor(options: EphemerisCacheOptions = {}) {
     this.blockS = options.blockS ?? EPHEMERIS_CACHE_DEFAULTS.blockS;
@@ -80,12 +84,17 @@ export class EphemerisCache {
     const all = [...new Set<BodyName>([CHEBYSHEV_DEFAULTS.origin, ...bodies])].sort();
     all.forEach((b, i) => assertBody(source.name, source.bodies, b, `bodies[${i}]`));
     const key = `${source.name}|${all.join(',')}|${CHEBYSHEV_DEFAULTS.origin}|${CHEBYSHEV_DEFAULTS.toleranceKm}|${CHEBYSHEV_DEFAULTS.coefficients}`;
-    return new CachedEphemeris(this, { source, bodies: all, key }, Object.freeze({ ...span }));
+    let prefix = this.prefixes.get(key);
+    if (prefix === undefined) {
+      prefix = `${this.prefixes.size}#`;
+      this.prefixes.set(key, prefix);
+    }
+    return new CachedEphemeris(this, { source, bodies: all, key, prefix }, Object.freeze({ ...span }));
   }
 
   /** The fitted block `index` for `fit` (fits it now when missing). */
   block(fit: FitKey, index: number): ChebyshevEphemerisCache {
-    const id = `${fit.key}#${index}`;
+    const id = fit.prefix + index;
     const held = this.blocks.get(id);
     if (held !== undefined) {
       this.blocks.delete(id);
