@@ -12,7 +12,7 @@ import { buildEvents, EventWatcher, type CartesianSource, type DenseStepper, typ
 import { changeCentre, stateToFrame } from '../frames/index.ts';
 import { multiply6Columns } from '../math/matrix6.ts';
 import type {
-  EventRecord, PropagationOptions, PropagationRequest, PropagationResult,
+  EventRecord, PropagationOptions, PropagationRequest, PropagationResult, VelocityImpulse,
 } from '../run/propagation-types.ts';
 import type { BodyName, StateVector } from '../types.ts';
 import { PRIMARY_OF, soiRadiusKm } from './sphere-of-influence.ts';
@@ -56,121 +56,183 @@ function insideAtStart(state: StateVector, c: Candidates, request: PropagationRe
   return null;
 }
 
-/** The chained run as a generator yielding the fraction of the whole span done. */
-export function* segmentedSteps(request: PropagationRequest, options: PropagationOptions,
-  segmentSteps: SegmentSteps): Generator<number, PropagationResult, void> {
+type IndexedBurn = VelocityImpulse & { index: number };
+
+/** What the whole run keeps constant: its span, direction and the attracting bodies. */
+interface RunFrame {
+  request: PropagationRequest;
+  start: number;
+  end: number;
+  direction: 1 | -1;
+  bodies: BodyName[];
+  j2Body: BodyName | null;
+  referenceBody: BodyName;
+  burns: IndexedBurn[];
+  maxSteps: number;
+}
+
+/** What the segments add up to: records, counts, the chained Φ and burn sensitivities. */
+interface SegmentTotals {
+  events: EventRecord[];
+  warnings: string[];
+  switches: PropagationResult['stats']['switches'];
+  counts: { steps: number; acceptedSteps: number; rejectedSteps: number; evaluations: number };
+  rectifications: number;
+  stm: number[] | undefined;
+  sens: (number[] | undefined)[];
+  methodsUsed: Set<PropagationResult['methodUsed']>;
+  samples: StateVector[];
+  last: PropagationResult | null;
+}
+
+function runFrame(request: PropagationRequest): RunFrame {
   const start = request.initial.epochTdbS;
   const end = request.endEpochTdbS;
-  const direction: 1 | -1 = end >= start ? 1 : -1;
-  const span = Math.abs(end - start);
-  const bodies: BodyName[] = [request.forces.centralBody, ...request.forces.perturbingBodies];
-  const j2Body = request.forces.centralJ2 === true ? request.forces.centralBody : null;
-  const referenceBody = request.forces.referenceBody ?? request.forces.centralBody;
-  const burns = (request.burns ?? []).map((b, i) => ({ ...b, index: i }));
-  const maxSteps = request.maxSteps ?? PROPAGATION_DEFAULTS.maxSteps;
-  const events: EventRecord[] = [];
-  const warnings: string[] = [];
-  const switches: PropagationResult['stats']['switches'] = [];
-  const counts = { steps: 0, acceptedSteps: 0, rejectedSteps: 0, evaluations: 0 };
-  let rectifications = 0;
-  let stm: number[] | undefined;
-  const sens: (number[] | undefined)[] = burns.map(() => undefined);
-  const initial = changeCentre(stateToFrame(request.initial, 'J2000_EQUATORIAL'), request.forces.centralBody, request.ephemeris);
-  let state: StateVector = initial;
-  let centre = request.forces.centralBody;
-  let last: PropagationResult | null = null;
-  const methodsUsed = new Set<PropagationResult['methodUsed']>();
-  const samples: StateVector[] = [];
+  return {
+    request, start, end, direction: end >= start ? 1 : -1,
+    bodies: [request.forces.centralBody, ...request.forces.perturbingBodies],
+    j2Body: request.forces.centralJ2 === true ? request.forces.centralBody : null,
+    referenceBody: request.forces.referenceBody ?? request.forces.centralBody,
+    burns: (request.burns ?? []).map((b, i) => ({ ...b, index: i })),
+    maxSteps: request.maxSteps ?? PROPAGATION_DEFAULTS.maxSteps,
+  };
+}
 
-  for (let segment = 0; segment < 1000; segment++) {
-    const cand = switchCandidates(centre, bodies, request);
-    const jump = segment === 0 ? insideAtStart(state, cand, request) : null;
-    if (jump !== null) {
-      switches.push({ epochTdbS: state.epochTdbS, from: centre, to: jump });
-      state = changeCentre(state, jump, request.ephemeris);
-      centre = jump;
-      segment -= 1;
-      continue;
-    }
-    const segStart = state.epochTdbS;
-    const segBurns = burns.filter((b) => (b.epochTdbS - segStart) * direction > 0 && (b.epochTdbS - end) * direction <= 0);
-    const segRequest: PropagationRequest = {
-      ...request, initial: state, events: [], switching: undefined, burns: segBurns, outputStepS: undefined,
-      // Every segment keeps the equations of a run about the requested central body: switching changes
-      // the integration variable, not the physics (forces/moving-centre.ts).
-      forces: { ...request.forces, centralBody: centre, perturbingBodies: bodies.filter((b) => b !== centre),
-        centralJ2: centre === j2Body, referenceBody },
-      maxSteps: Math.max(1, maxSteps - counts.steps),
-    };
-    let watcher: EventWatcher | null = null;
-    const factory: SegmentWatcher = {
-      afterStep(stepper, out, dynamics) {
-        if (dynamics === undefined) throw new InvalidInputError('events', 'the propagation loop gave no dynamics to the event watcher');
-        if (watcher === null) {
-          const active = buildEvents(request.events ?? [], {
-            ephemeris: request.ephemeris, centre, integrationDirection: direction, impactBodies: [],
-            soiEntries: cand.entries, soiExit: cand.exit,
-          });
-          const grid = request.outputStepS === undefined ? undefined
-            : { originTdbS: start, endTdbS: end, stepS: request.outputStepS };
-          watcher = new EventWatcher(active, dynamics, request.ephemeris, direction, grid);
-        }
-        return watcher.afterStep(stepper, out);
-      },
-    };
-    const run = segmentSteps(segRequest, options, [factory]);
-    const done = Math.abs(segStart - start);
-    let next = run.next();
-    while (next.done !== true) {
-      yield span === 0 ? 1 : Math.min(1, (done + next.value * Math.abs(end - segStart)) / span);
-      next = run.next();
-    }
-    const result = next.value;
-    last = result;
-    methodsUsed.add(result.methodUsed);
-    events.push(...result.events);
-    warnings.push(...result.warnings.filter((w) => !w.includes('not reached')));
-    for (const k of Object.keys(counts) as (keyof typeof counts)[]) counts[k] += result.stats[k];
-    rectifications += result.stats.rectifications;
-    const tEnd = result.final.epochTdbS;
-    if (watcher !== null) samples.push(...(watcher as EventWatcher).samples.filter((s) => (s.epochTdbS - tEnd) * direction <= 0));
-    if (result.stm !== undefined) {
-      // Earlier burns' sensitivities pass through this segment's Φ; this segment's burns start here.
-      sens.forEach((s, k) => { if (s !== undefined) sens[k] = multiply6Columns(result.stm!, s, 3); });
-      segBurns.forEach((b, k) => {
-        if ((b.epochTdbS - tEnd) * direction <= 0) sens[b.index] = result.burnSensitivities![k];
-      });
-      stm = stm === undefined ? result.stm : multiply6Columns(result.stm, stm, 6);
-    }
-    const sw = (watcher as EventWatcher | null)?.switchTo ?? null;
-    if (result.outcome !== 'stopped-by-event' || sw === null || sw.epochTdbS !== tEnd) break;
-    switches.push({ epochTdbS: tEnd, from: centre, to: sw.body });
-    state = changeCentre(result.final, sw.body, request.ephemeris);
-    centre = sw.body;
-    if (tEnd === end) break;
+/** One single-centre segment from `state` about `centre`, with the burns inside it. */
+function segmentRequest(run: RunFrame, state: StateVector, centre: BodyName, stepsSoFar: number):
+  { segRequest: PropagationRequest; segBurns: IndexedBurn[] } {
+  const { request, direction, end, bodies } = run;
+  const segStart = state.epochTdbS;
+  const segBurns = run.burns.filter((b) => (b.epochTdbS - segStart) * direction > 0 && (b.epochTdbS - end) * direction <= 0);
+  const segRequest: PropagationRequest = {
+    ...request, initial: state, events: [], switching: undefined, burns: segBurns, outputStepS: undefined,
+    // Every segment keeps the equations of a run about the requested central body: switching changes
+    // the integration variable, not the physics (forces/moving-centre.ts).
+    forces: { ...request.forces, centralBody: centre, perturbingBodies: bodies.filter((b) => b !== centre),
+      centralJ2: centre === run.j2Body, referenceBody: run.referenceBody },
+    maxSteps: Math.max(1, run.maxSteps - stepsSoFar),
+  };
+  return { segRequest, segBurns };
+}
+
+/** The segment's event watcher, built on the first step (it needs the loop's dynamics). */
+function segmentWatcher(run: RunFrame, centre: BodyName, cand: Candidates): { factory: SegmentWatcher; watcher(): EventWatcher | null } {
+  const { request, direction } = run;
+  let watcher: EventWatcher | null = null;
+  const factory: SegmentWatcher = {
+    afterStep(stepper, out, dynamics) {
+      if (dynamics === undefined) throw new InvalidInputError('events', 'the propagation loop gave no dynamics to the event watcher');
+      if (watcher === null) {
+        const active = buildEvents(request.events ?? [], {
+          ephemeris: request.ephemeris, centre, integrationDirection: direction, impactBodies: [],
+          soiEntries: cand.entries, soiExit: cand.exit,
+        });
+        const grid = request.outputStepS === undefined ? undefined
+          : { originTdbS: run.start, endTdbS: run.end, stepS: request.outputStepS };
+        watcher = new EventWatcher(active, dynamics, request.ephemeris, direction, grid);
+      }
+      return watcher.afterStep(stepper, out);
+    },
+  };
+  return { factory, watcher: () => watcher };
+}
+
+/** Adds a finished segment to the totals; Φ and the burn sensitivities chain by multiplication. */
+function absorbSegment(totals: SegmentTotals, run: RunFrame, result: PropagationResult, watcher: EventWatcher | null,
+  segBurns: readonly IndexedBurn[]): void {
+  const { direction } = run;
+  const { counts, sens } = totals;
+  totals.last = result;
+  totals.methodsUsed.add(result.methodUsed);
+  totals.events.push(...result.events);
+  totals.warnings.push(...result.warnings.filter((w) => !w.includes('not reached')));
+  for (const k of Object.keys(counts) as (keyof typeof counts)[]) counts[k] += result.stats[k];
+  totals.rectifications += result.stats.rectifications;
+  const tEnd = result.final.epochTdbS;
+  if (watcher !== null) totals.samples.push(...watcher.samples.filter((s) => (s.epochTdbS - tEnd) * direction <= 0));
+  if (result.stm !== undefined) {
+    // Earlier burns' sensitivities pass through this segment's Φ; this segment's burns start here.
+    sens.forEach((s, k) => { if (s !== undefined) sens[k] = multiply6Columns(result.stm!, s, 3); });
+    segBurns.forEach((b, k) => {
+      if ((b.epochTdbS - tEnd) * direction <= 0) sens[b.index] = result.burnSensitivities![k];
+    });
+    totals.stm = totals.stm === undefined ? result.stm : multiply6Columns(result.stm, totals.stm, 6);
   }
+}
+
+/** The whole run's result from the totals: events in time order, samples, the last segment's outcome. */
+function assembleResult(totals: SegmentTotals, run: RunFrame, initial: StateVector, state: StateVector): PropagationResult {
+  const { last, switches, warnings } = totals;
+  const { direction } = run;
   if (last === null) throw new InvalidInputError('switching', 'no segment was run');
   const finishedBySwitch = last.outcome === 'stopped-by-event' && switches.length > 0
     && switches[switches.length - 1].epochTdbS === last.final.epochTdbS;
   const final = finishedBySwitch ? state : last.final;
   // Time order (the watchers of one step report separately), nothing past the end reached (an impact can
   // end a step in which a later event was located).
-  const ordered = events.filter((e) => (e.epochTdbS - final.epochTdbS) * direction <= 0)
+  const ordered = totals.events.filter((e) => (e.epochTdbS - final.epochTdbS) * direction <= 0)
     .sort((x, y) => (x.epochTdbS - y.epochTdbS) * direction);
   // Samples: the start, the grid (from each segment's watcher, centre of that segment), the end.
-  const allSamples = request.outputStepS === undefined ? []
-    : [initial, ...samples, final];
+  const allSamples = run.request.outputStepS === undefined ? []
+    : [initial, ...totals.samples, final];
   const result: PropagationResult = {
     outcome: finishedBySwitch ? 'finished' : last.outcome,
-    methodUsed: methodsUsed.size === 1 ? last.methodUsed : 'mixed',
+    methodUsed: totals.methodsUsed.size === 1 ? last.methodUsed : 'mixed',
     message: finishedBySwitch ? undefined : last.message,
     final, samples: allSamples, events: ordered, warnings,
-    stats: { ...counts, rectifications, switches },
+    stats: { ...totals.counts, rectifications: totals.rectifications, switches },
   };
-  if (stm !== undefined) {
-    result.stm = stm;
-    result.burnSensitivities = sens.map((s) => s ?? new Array<number>(18).fill(0));
-    if (sens.some((s) => s === undefined)) warnings.push('some burn(s) not reached; their sensitivities are zero');
+  if (totals.stm !== undefined) {
+    result.stm = totals.stm;
+    result.burnSensitivities = totals.sens.map((s) => s ?? new Array<number>(18).fill(0));
+    if (totals.sens.some((s) => s === undefined)) warnings.push('some burn(s) not reached; their sensitivities are zero');
   }
   return result;
+}
+
+/** The chained run as a generator yielding the fraction of the whole span done. */
+export function* segmentedSteps(request: PropagationRequest, options: PropagationOptions,
+  segmentSteps: SegmentSteps): Generator<number, PropagationResult, void> {
+  const run = runFrame(request);
+  const { start, end } = run;
+  const span = Math.abs(end - start);
+  const totals: SegmentTotals = {
+    events: [], warnings: [], switches: [], counts: { steps: 0, acceptedSteps: 0, rejectedSteps: 0, evaluations: 0 },
+    rectifications: 0, stm: undefined, sens: run.burns.map(() => undefined), methodsUsed: new Set(), samples: [], last: null,
+  };
+  const initial = changeCentre(stateToFrame(request.initial, 'J2000_EQUATORIAL'), request.forces.centralBody, request.ephemeris);
+  let state: StateVector = initial;
+  let centre = request.forces.centralBody;
+
+  for (let segment = 0; segment < 1000; segment++) {
+    const cand = switchCandidates(centre, run.bodies, request);
+    const jump = segment === 0 ? insideAtStart(state, cand, request) : null;
+    if (jump !== null) {
+      totals.switches.push({ epochTdbS: state.epochTdbS, from: centre, to: jump });
+      state = changeCentre(state, jump, request.ephemeris);
+      centre = jump;
+      segment -= 1;
+      continue;
+    }
+    const segStart = state.epochTdbS;
+    const { segRequest, segBurns } = segmentRequest(run, state, centre, totals.counts.steps);
+    const { factory, watcher } = segmentWatcher(run, centre, cand);
+    const steps = segmentSteps(segRequest, options, [factory]);
+    const done = Math.abs(segStart - start);
+    let next = steps.next();
+    while (next.done !== true) {
+      yield span === 0 ? 1 : Math.min(1, (done + next.value * Math.abs(end - segStart)) / span);
+      next = steps.next();
+    }
+    const result = next.value;
+    absorbSegment(totals, run, result, watcher(), segBurns);
+    const tEnd = result.final.epochTdbS;
+    const sw = watcher()?.switchTo ?? null;
+    if (result.outcome !== 'stopped-by-event' || sw === null || sw.epochTdbS !== tEnd) break;
+    totals.switches.push({ epochTdbS: tEnd, from: centre, to: sw.body });
+    state = changeCentre(result.final, sw.body, request.ephemeris);
+    centre = sw.body;
+    if (tEnd === end) break;
+  }
+  return assembleResult(totals, run, initial, state);
 }
