@@ -26,7 +26,8 @@ export const BUDGET_DEFAULTS = Object.freeze({
 });
 
 export const budgetRequestSchema = z.object({
-  /** The retargeting problem: burns (the correction sequence, impulsive), targets, initial covariance,
+  /** The retargeting problem: burns (the correction sequence; impulsive only — parseBudgetRequest refuses a
+   * finite burn, naming problem.burns[i].model), targets, initial covariance,
    * execution errors, limits. Burn epochs are taken from its nominal plan (epoch windows are not re-solved
    * per sample). */
   problem: problemSchema,

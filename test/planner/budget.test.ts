@@ -40,6 +40,10 @@ describe('budget request', () => {
       expect(fieldOf({ ...r, seed: -1 })).toBe('seed');
       expect(fieldOf({ ...r, problem: { ...r.problem, burns: [r.problem.burns[1], r.problem.burns[0]] } })).toBe('problem.burns[1].epoch');
       expect(fieldOf({ ...r, linearSamples: 0, nonlinearSamples: 0 })).toBe('linearSamples');
+      // Finite burns are refused, never flown as impulses without a word.
+      const finite = structuredClone(r);
+      (finite.problem.burns[1] as { model?: string }).model = 'finite';
+      expect(fieldOf(finite)).toBe('problem.burns[1].model');
     });
   });
 });
