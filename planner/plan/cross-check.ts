@@ -5,10 +5,10 @@
  * component differs by at most `crossCheckToleranceFraction` × its tolerance AND the re-propagation itself
  * meets every target. Same ephemeris and force model: it checks the numerics and the formulation (an error
  * in either method or in the switched equations disagrees), not the models.
- * Finite-burn arcs: they run about the central body without switching, in Cowell form whenever the STM
- * rides along (their partials exist in that form only) and in Encke form otherwise. The plan's own runs
- * carry the STM, the check's do not: a Cowell plan is checked with Encke arcs, but an Encke plan's arcs
- * are Cowell in both, differing only in tolerance. The message says which.
+ * Finite-burn arcs run about the central body without switching, and in Cowell form whenever the STM
+ * rides along (their partials exist in that form only): the plan's arcs are Cowell. The check flies them
+ * in Encke form whatever the plan's method (for an Encke plan: Cowell coasts, Encke arcs), so the arcs'
+ * formulation is varied too; the message says so.
  */
 import type { CrossCheck } from '../../contract/plan-types.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
@@ -25,7 +25,7 @@ export async function runCrossCheck(ctx: PlanningContext, settings: BurnSetting[
   const fraction = ctx.problem.limits.crossCheckToleranceFraction;
   let ev: Awaited<ReturnType<typeof evaluateTrajectory>>;
   try {
-    ev = await evaluateTrajectory(ctx.evaluation, settings, { withStm: false, method, switching, relativeTolerance, signal });
+    ev = await evaluateTrajectory(ctx.evaluation, settings, { withStm: false, method, arcMethod: 'encke', switching, relativeTolerance, signal });
   } catch (error) {
     if ((error as Error).name === 'CancelledError') throw error;
     ev = { ok: false, reason: `${(error as Error).name}: ${(error as Error).message}`, impact: null, burns: [] };
@@ -57,9 +57,7 @@ export async function runCrossCheck(ctx: PlanningContext, settings: BurnSetting[
     };
   });
   const bad = differences.filter((d) => !d.withinTolerance || !d.metByCheck);
-  const arcs = !hasFiniteBurns(ctx.problem) ? ''
-    : method === 'encke' ? '; finite-burn arcs: Encke form in the check, Cowell form in the plan (neither switched)'
-    : '; finite-burn arcs: Cowell form in both (unswitched), so on the arcs only the tolerance differs';
+  const arcs = hasFiniteBurns(ctx.problem) ? '; finite-burn arcs: Encke form in the check, Cowell form in the plan (neither switched)' : '';
   // A check that silently ran the plan's own method would not be independent.
   const fallback = ev.warnings.filter((w) => /fell back/i.test(w));
   const passed = bad.length === 0 && fallback.length === 0;

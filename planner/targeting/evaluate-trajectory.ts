@@ -39,6 +39,9 @@ export interface EvaluationContext {
 export interface EvaluationOptions {
   withStm: boolean;
   method: PropagationMethod;
+  /** Method of finite-burn thrust arcs; @defaultValue `method` (the cross-check sets it; arcs with the STM
+   * run in Cowell form whatever is asked). */
+  arcMethod?: PropagationMethod;
   /** Central-body switching; @defaultValue the problem's forceModel.switching (the cross-check flips it). */
   switching?: boolean;
   relativeTolerance: number;
@@ -156,7 +159,7 @@ async function propagateLeg(walk: Walk, endTdbS: number, events: EventSpec[],
   const result = await propagateAsync({
     ...extra,
     initial: walk.state, endEpochTdbS: endTdbS, forces: forcesFor(problem, walk.mass), ephemeris: ctx.ephemeris,
-    method: opts.method, relativeTolerance: opts.relativeTolerance, withStm: walk.stm, events,
+    method: opts.method, arcMethod: opts.arcMethod, relativeTolerance: opts.relativeTolerance, withStm: walk.stm, events,
     switching: (opts.switching ?? problem.forceModel.switching) ? { enabled: true } : undefined,
     outputStepS: opts.outputStepS,
   }, { signal: opts.signal });

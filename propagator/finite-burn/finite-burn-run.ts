@@ -2,8 +2,8 @@
  * A propagation with finite burns, run as a chain of pieces of the generic loop (propagate.ts): coasts
  * (the requested method, impulsive burns, events and switching as asked) and thrust arcs about the
  * requested central body, without switching (Cowell with thrust and its parameter partials,
- * thrust-arc-dynamics.ts, when the STM is asked or the method is Cowell; Encke with the thrust as a
- * perturbation otherwise), so the integrator lands exactly on every ignition and cut-off. Mass falls only inside arcs. With the STM the pieces chain by
+ * thrust-arc-dynamics.ts, when the STM is asked or the arc method — `arcMethod`, else `method` — is
+ * Cowell; Encke with the thrust as a perturbation otherwise), so the integrator lands exactly on every ignition and cut-off. Mass falls only inside arcs. With the STM the pieces chain by
  * multiplication, and each finite burn's parameter sensitivities are carried to the end:
  *   ∂x(t_f)/∂u  = Φ(t_f, t_e) ψ_u(t_e)
  *   ∂x(t_f)/∂t_e = Φ(t_f, t_e) [0; a_T(t_e)]                      (cut-off later: thrust for longer)
@@ -133,7 +133,7 @@ export function* finiteBurnSteps(request: PropagationRequest, options: Propagati
     } else {
       state = changeCentre(stateToFrame(state, 'J2000_EQUATORIAL'), central, request.ephemeris);
       arc = { startTdbS: b.startTdbS, thrustN: b.thrustN, massFlowKgS: b.massFlowKgS, massAtStartKg: mass, axes: b.axes, direction: b.direction };
-      sub = { ...base, initial: state, burns: [], events: [], switching: undefined };
+      sub = { ...base, initial: state, burns: [], events: [], switching: undefined, method: request.arcMethod ?? request.method };
     }
     const run = steps(sub, options, [], arc);
     const done = piece.startTdbS - start;

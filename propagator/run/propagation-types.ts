@@ -144,6 +144,9 @@ export interface PropagationRequest {
   burns?: VelocityImpulse[];
   /** Finite burns (forward propagations only; none may overlap another or contain an impulsive burn). */
   finiteBurns?: FiniteBurnSpec[];
+  /** Method of the finite burns' thrust arcs; @defaultValue `method`. With the STM an arc runs in Cowell
+   * form whatever is asked (its parameter partials exist in that form only). */
+  arcMethod?: PropagationMethod;
   /** Spacecraft mass at the initial epoch, kg (> 0); needed with finite burns unless forces.solarPressure
    * gives it (both given: they must agree). The mass falls during finite burns only; it scales SRP. */
   initialMassKg?: number;

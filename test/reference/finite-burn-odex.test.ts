@@ -67,12 +67,12 @@ function odexFlight(axes: ThrustAxes, u: Vec3): number[] {
   return y;
 }
 
-function veerFlight(axes: ThrustAxes, u: Vec3, method: 'cowell' | 'encke' = 'cowell') {
+function veerFlight(axes: ThrustAxes, u: Vec3, method: 'cowell' | 'encke' = 'cowell', arcMethod?: 'cowell' | 'encke') {
   const burn: FiniteBurnSpec = { startTdbS: T0 + BURN.startS, durationS: BURN.durationS, thrustN: THRUST_N, massFlowKgS: MDOT, axes, direction: u };
   const result = propagate({
     initial: { epochTdbS: T0, centre: 'earth', frame: 'J2000_EQUATORIAL', positionKm: r0, velocityKmS: v0 },
     endEpochTdbS: T0 + BURN.endS, forces: { centralBody: 'earth', perturbingBodies: [] }, ephemeris,
-    finiteBurns: [burn], initialMassKg: 1200, relativeTolerance: 1e-13, absoluteTolerance: 1e-13, method,
+    finiteBurns: [burn], initialMassKg: 1200, relativeTolerance: 1e-13, absoluteTolerance: 1e-13, method, arcMethod,
   });
   expect(result.outcome).toBe('finished');
   return result;
@@ -107,6 +107,11 @@ describe('a finite burn in a circular orbit against odex', () => {
         expect(dr).toBeLessThan(5e-9);
         expect(dv).toBeLessThan(3e-12);
         expect(dm).toBeLessThan(5e-11);
+        // Cowell coasts with an Encke arc (the planner's cross-check of an Encke plan): same limits.
+        const mixed = veerFlight(axes, u, 'cowell', 'encke');
+        expect(mixed.methodUsed).toBe('mixed');
+        mixed.final.positionKm.forEach((x, i) => expect(Math.abs(x - reference[i])).toBeLessThan(5e-9));
+        mixed.final.velocityKmS.forEach((v, i) => expect(Math.abs(v - reference[3 + i])).toBeLessThan(3e-12));
       });
 
       it('should be a burn that matters (the final position differs from the unburnt orbit by > 100 km)', () => {
