@@ -5,11 +5,12 @@
 import type { PlanArchive, PlanFilter, PlanRecord } from '../archive/index.ts';
 import type { RetargetQueue } from '../queue/index.ts';
 import type { PlanSummary } from '../contract/http-schemas.ts';
+import type { ManeuverPlan } from '../contract/plan-types.ts';
 
 export type { PlanSummary };
 
 export interface PlanReader {
-  get(planId: string): Promise<{ summary: PlanSummary; plan: Record<string, unknown> } | undefined>;
+  get(planId: string): Promise<{ summary: PlanSummary; plan: ManeuverPlan } | undefined>;
   list(filter: PlanFilter): Promise<PlanSummary[]>;
 }
 
@@ -27,7 +28,7 @@ export class ArchivePlanReader implements PlanReader {
     const record = await this.archive.getPlan(planId);
     if (!record) return undefined;
     const plan = await this.archive.getPlanDocument(planId);
-    return plan ? { summary: fromRecord(record), plan: plan as unknown as Record<string, unknown> } : undefined;
+    return plan ? { summary: fromRecord(record), plan } : undefined;
   }
   async list(filter: PlanFilter) {
     return (await this.archive.listPlans(filter)).map(fromRecord);
@@ -41,7 +42,7 @@ export class JobResultPlanReader implements PlanReader {
     const job = await this.queue.findJob(planId);
     const plan = job?.returnvalue?.plan;
     if (!job || !plan || !job.finishedOn) return undefined;
-    return { summary: this.summary(job.id ?? planId, job.data.submittedBy, job.finishedOn, plan), plan: plan as unknown as Record<string, unknown> };
+    return { summary: this.summary(job.id ?? planId, job.data.submittedBy, job.finishedOn, plan), plan };
   }
   async list(filter: PlanFilter) {
     const jobs = await this.queue.queue.getJobs(['completed'], 0, 999, false);
@@ -60,7 +61,7 @@ export class JobResultPlanReader implements PlanReader {
     out.sort((a, b) => (a.proposedAt < b.proposedAt ? 1 : -1));
     return out.slice(filter.offset ?? 0, (filter.offset ?? 0) + (filter.limit ?? 100));
   }
-  private summary(jobId: string, submittedBy: string, finishedOn: number, plan: NonNullable<Awaited<ReturnType<RetargetQueue['result']>>>['plan'] & object): PlanSummary {
+  private summary(jobId: string, submittedBy: string, finishedOn: number, plan: ManeuverPlan): PlanSummary {
     return {
       planId: jobId, jobId, spacecraftName: plan.spacecraftName, state: 'proposed', converged: plan.status === 'converged',
       crossCheckPassed: plan.crossCheck.passed, caveatCodes: plan.caveats.map((c) => c.code), submittedBy,

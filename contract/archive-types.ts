@@ -2,6 +2,7 @@
  * Shapes of the plan archive: entries of the hash chain, the plan records derived from them, the inputs
  * of each kind of append, and the `PlanArchive` interface both stores (SQLite, PostgreSQL) implement.
  */
+import type { ManeuverPlan } from './plan-types.ts';
 
 /** The kinds of entry. Every transition of a job or plan is exactly one entry. */
 export const ENTRY_KINDS = ['job-submitted', 'plan-proposed', 'review', 'plan-superseded', 'job-failed', 'job-cancelled', 'study-recorded'] as const;
@@ -241,7 +242,9 @@ export interface PlanArchive {
   getPlan(planId: string): Promise<PlanRecord | undefined>;
   getPlanByJob(jobId: string): Promise<PlanRecord | undefined>;
   /** The full plan document as archived in its plan-proposed entry. */
-  getPlanDocument(planId: string): Promise<ArchivablePlan | undefined>;
+  /** The full plan document as its plan-proposed entry holds it: a ManeuverPlan, since the service's one writer
+   * of plans (the worker's plan sink) records ManeuverPlans; the chain's hashes show it unchanged since. */
+  getPlanDocument(planId: string): Promise<ManeuverPlan | undefined>;
   getJob(jobId: string): Promise<JobRecord | undefined>;
   listPlans(filter?: PlanFilter): Promise<PlanRecord[]>;
   /** Every entry about the plan and its job, in sequence order. */

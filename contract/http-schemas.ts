@@ -53,9 +53,10 @@ export const jobStatusSchema = z.object({
   error: z.object({ name: z.string(), code: z.string(), field: z.string().optional(), message: z.string() }).nullable(),
   cancelRequested: z.boolean(),
 });
-// Compile-time check that the documented shape is the one the queue returns.
-const _statusShape: z.infer<typeof jobStatusSchema> = null as unknown as JobStatus;
-void _statusShape;
+/** Compiles only when T fits U: the compile-time check that a documented schema takes what the queue returns. */
+type Fits<T extends U, U> = T;
+/** The queue's JobStatus fits the documented status schema (a compile-time check). */
+export type JobStatusFitsSchema = Fits<JobStatus, z.infer<typeof jobStatusSchema>>;
 
 /** A budget job's status: the job view with the study's id and the linear/non-linear agreement. */
 export const budgetJobStatusSchema = jobStatusSchema.extend({
@@ -64,8 +65,8 @@ export const budgetJobStatusSchema = jobStatusSchema.extend({
     kind: z.literal('delta-v-budget'), studyId: z.string(), problemHash: z.string(), storedIn: z.string(), agreementPassed: z.boolean().nullable(),
   }).nullable(),
 });
-const _budgetStatusShape: z.infer<typeof budgetJobStatusSchema> = null as unknown as BudgetJobStatus;
-void _budgetStatusShape;
+/** The queue's BudgetJobStatus fits the documented budget status schema (a compile-time check). */
+export type BudgetJobStatusFitsSchema = Fits<BudgetJobStatus, z.infer<typeof budgetJobStatusSchema>>;
 
 /** Either kind of top-level job, as `/v1/jobs` lists them. */
 export const anyJobStatusSchema = z.discriminatedUnion('kind', [jobStatusSchema, budgetJobStatusSchema]);

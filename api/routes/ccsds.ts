@@ -14,13 +14,10 @@ import type { AppDeps } from '../deps.ts';
 import { type FieldIssue, sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { planParamsSchema, REVIEW_NOTICE } from '../../contract/http-schemas.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { validOf } from '../validate.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;
-
-// The planner's types through ccsds/'s signature, so api/ does not import planner/.
-type PlanningProblem = Parameters<typeof exportPlanAsCcsds>[0];
-type ManeuverPlan = Parameters<typeof exportPlanAsCcsds>[1];
 
 const opmBodySchema = z.object({
   /** The OPM text, KVN or XML. */
@@ -121,7 +118,7 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps, exportThreads = ne
     if (!found) { sendError(res, 404, 'PLAN_NOT_FOUND', `no plan ${params.planId}`); return; }
     // Before any lookup or propagation: an unconverged or unconfirmed result never leaves as a plan.
     try {
-      assertExportable(found.plan as unknown as ManeuverPlan);
+      assertExportable(found.plan);
     } catch (error) {
       if (!sendInputError(res, error, exportIssuePath)) throw error;
       return;
@@ -135,7 +132,7 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps, exportThreads = ne
     const controller = new AbortController();
     req.on('close', () => { if (!res.writableEnded) controller.abort(); });
     try {
-      const plan = found.plan as unknown as ManeuverPlan;
+      const { plan } = found;
       const options: ThreadExportOptions = {
         kind: params.kind, encoding: query.encoding, creationDateUtc: new Date().toISOString().slice(0, 19),
         timeSystem: query.timeSystem, maneuverFrame: query.maneuverFrame,

@@ -13,6 +13,7 @@ import type { VerifySource } from '../verify.ts';
 import { type Queryable, withPoolTransaction } from './pg-transaction.ts';
 import { POSTGRES_ARCHIVE_MIGRATIONS, type PgMigration } from './postgres-migrations.ts';
 import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyOptions, VerifyReport } from '../../contract/archive-types.ts';
+import type { ManeuverPlan } from '../../contract/plan-types.ts';
 
 /** A read-only snapshot: reads that compare tables see one moment of the store. */
 const SNAPSHOT = 'BEGIN ISOLATION LEVEL REPEATABLE READ READ ONLY';
@@ -108,10 +109,10 @@ export class PostgresArchive extends ArchiveWrites implements PlanArchive {
     await this.ready;
     return this.makeTx(this.pool).getJob(jobId);
   }
-  async getPlanDocument(planId: string): Promise<ArchivablePlan | undefined> {
+  async getPlanDocument(planId: string): Promise<ManeuverPlan | undefined> {
     await this.ready;
     const { rows } = await this.pool.query("SELECT * FROM archive_entries WHERE plan_id = $1 AND kind = 'plan-proposed' ORDER BY sequence LIMIT 1", [planId]);
-    return rows[0] ? (entryFromRow(rows[0]).payload.plan as ArchivablePlan) : undefined;
+    return rows[0] ? (entryFromRow(rows[0]).payload.plan as ManeuverPlan) : undefined;
   }
   async listPlans(filter: PlanFilter = {}): Promise<PlanRecord[]> {
     await this.ready;

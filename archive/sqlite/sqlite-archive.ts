@@ -15,6 +15,7 @@ import { verifyOffThread } from '../verify-off-thread.ts';
 import { verifySource, type VerifySource } from '../verify.ts';
 import { SQLITE_ARCHIVE_MIGRATIONS } from './sqlite-migrations.ts';
 import type { ArchivablePlan, ArchiveEntry, EntryKind, JobRecord, PlanArchive, PlanFilter, PlanRecord, VerifyOptions, VerifyReport } from '../../contract/archive-types.ts';
+import type { ManeuverPlan } from '../../contract/plan-types.ts';
 
 export interface SqliteArchiveOptions {
   /** Path of the database file (created with its folder if missing). */
@@ -138,10 +139,10 @@ export class SqliteArchive extends ArchiveWrites implements PlanArchive {
   getJob(jobId: string): Promise<JobRecord | undefined> {
     return this.read(() => this.tx.getJob(jobId));
   }
-  getPlanDocument(planId: string): Promise<ArchivablePlan | undefined> {
+  getPlanDocument(planId: string): Promise<ManeuverPlan | undefined> {
     return this.read(async () => {
       const row = this.db.prepare("SELECT * FROM archive_entries WHERE plan_id = ? AND kind = 'plan-proposed' ORDER BY sequence LIMIT 1").get(planId) as Row | undefined;
-      return row ? (entryFromRow(row).payload.plan as ArchivablePlan) : undefined;
+      return row ? (entryFromRow(row).payload.plan as ManeuverPlan) : undefined;
     });
   }
   listPlans(filter: PlanFilter = {}): Promise<PlanRecord[]> {

@@ -9,7 +9,8 @@
  * process alive and ends after `idleMs`.
  */
 import { Worker } from 'node:worker_threads';
-import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
+import type { ManeuverPlan } from '../../contract/plan-types.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { CancelledError, InvalidInputError, OutOfSpanError } from '../../propagator/index.ts';
 import type { CcsdsExportOptions } from './export-plan.ts';
 

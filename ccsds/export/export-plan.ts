@@ -1,5 +1,6 @@
 /** One call for the CLI and the API: a plan (with its problem) as OPM or OEM text. */
-import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
+import type { ManeuverPlan } from '../../contract/plan-types.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { InvalidInputError } from '../../propagator/index.ts';
 import { writeOem } from '../messages/oem-writer.ts';
 import { writeOpm } from '../messages/opm-writer.ts';

@@ -8,7 +8,8 @@
  * execution errors of the burns are not in it (said in the block's comment). States and covariances are
  * always written in EME2000 (the standard's frame table has no ecliptic frame).
  */
-import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
+import type { ManeuverPlan } from '../../contract/plan-types.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import {
   type BodyName, CancelledError, changeCentre, congruence, createBuiltinEphemeris, type Ephemeris, type EphemerisCache,
   type ForceModelSpec, InvalidInputError,

@@ -4,7 +4,8 @@
  * The state is always written in EME2000: an initial state given in J2000_ECLIPTIC is rotated (with its
  * covariance), since the standard's frame table has no ecliptic frame.
  */
-import type { ManeuverPlan, PlanningProblem } from '../../planner/index.ts';
+import type { ManeuverPlan } from '../../contract/plan-types.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { PlannedFiniteBurn } from '../../contract/index.ts';
 import {
   InvalidInputError, leapSecondTableOfPlan, parseEpoch, stateToFrame, type TimeScale, utcTextOrNull,

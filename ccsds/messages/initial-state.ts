@@ -2,7 +2,7 @@
  * An OPM as the planner's initial state: epoch (with its time scale named), centre, frame, position,
  * velocity and, when the OPM has one, the covariance rotated into the state's frame.
  */
-import type { PlanningProblem } from '../../planner/index.ts';
+import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import {
   type InertialFrame, congruence, frameRotation, localFrameMatrix, stateRotation6, transpose,
 } from '../../propagator/index.ts';
