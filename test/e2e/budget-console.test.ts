@@ -55,6 +55,13 @@ describe('Δv budget in the console', () => {
       expect(await page.getByTestId('budget-delivery').count()).toBe(2);
       const tcm2 = study.linear.burns[1];
       expect(await page.getByTestId('budget-histogram').nth(1).textContent()).toContain(`Δv99 ${tcm2.deltaVMS.p99.toFixed(4)} m/s`);
+      // The per-burn linear/non-linear check, as the study holds it.
+      const agreement = (api.body.study as { agreement: { burns: { label: string; meanPValue: number }[] } }).agreement;
+      const rows = page.getByTestId('budget-agreement').locator('tbody tr');
+      expect(await rows.count()).toBe(2);
+      for (const [i, b] of agreement.burns.entries()) {
+        expect(await rows.nth(i).textContent()).toContain(`${b.label}Δv x, Δv y, Δv z8${b.meanPValue.toPrecision(3)}`);
+      }
       expect(pageErrors).toEqual([]);
     }, 300_000);
   });

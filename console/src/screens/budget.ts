@@ -67,6 +67,21 @@ function limitsText(s: BudgetSummary): string {
   return `Impact ${c(s.limits.impact)}; closest approach below ${s.limits.safeAltitudeKm} km ${c(s.limits.belowSafeAltitude)}.`;
 }
 
+/** Per burn: the p-values of the plan's linear/Monte Carlo check on the non-linear samples, and the verdict. */
+function agreementView(a: NonNullable<BudgetResult['agreement']>): HTMLElement {
+  const p = (v: number | null): string => (v === null ? 'n/a' : v.toPrecision(3));
+  return h('section', { class: 'card' }, h('h2', {}, 'Linear vs non-linear'),
+    h('p', { class: a.passed ? '' : 'warn' }, a.message),
+    h('table', { 'data-testid': 'budget-agreement' },
+      h('caption', {}, `Per burn: mean χ² and covariance likelihood-ratio tests of the non-linear samples against the linear prediction (significance ${a.significance})`),
+      h('thead', {}, h('tr', {}, ['Burn', 'components', 'samples', 'p-value mean', 'p-value covariance', 'σ non-linear/linear', 'verdict'].map((c) => h('th', { scope: 'col' }, c)))),
+      h('tbody', {}, ...a.burns.map((b) => h('tr', {},
+        h('td', {}, b.label), h('td', {}, b.components.join(', ')), h('td', { class: 'num' }, String(b.samples)),
+        h('td', { class: 'num' }, p(b.meanPValue)), h('td', { class: 'num' }, p(b.covariancePValue)),
+        h('td', { class: 'num' }, b.sigmaRatios.map((x) => fixed(x, 3)).join(', ') || 'n/a'),
+        h('td', { class: b.passed ? '' : 'warn' }, b.passed ? 'agree' : b.checked ? 'DISAGREE' : 'not checked'))))));
+}
+
 function studyView(r: BudgetResult): HTMLElement {
   const paths = [r.linear, r.nonlinear].filter((s): s is BudgetSummary => s !== null);
   return h('div', { 'data-testid': 'budget-study' },
@@ -78,8 +93,7 @@ function studyView(r: BudgetResult): HTMLElement {
         r.nominal.burns.map((b) => `${b.label} ${b.epochTdb} ${fixed(b.magnitudeMS, 3)} m/s`).join('; '))),
     ...paths.map((s) => h('section', { class: 'card' }, h('h2', {}, s.path === 'linear' ? 'Linear path' : 'Non-linear path'),
       summaryTable(s), h('p', {}, limitsText(s)), ...s.burns.map((b) => deltaVHistogram(b, s.path)), deliveryFigure(s))),
-    r.agreement ? h('section', { class: 'card' }, h('h2', {}, 'Linear vs non-linear'),
-      h('p', { class: r.agreement.passed ? '' : 'warn' }, r.agreement.message)) : null,
+    r.agreement ? agreementView(r.agreement) : null,
     h('section', { class: 'card' }, h('h2', {}, 'Notes'), h('ul', {}, r.notes.map((n) => h('li', {}, n)))));
 }
 
