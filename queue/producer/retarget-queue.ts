@@ -17,6 +17,7 @@ import { createRedis } from '../config/connection.ts';
 import type { Priority } from '../../contract/index.ts';
 import { DEFAULT_ADMISSION, submitterJobsKey, unfinishedJobsOf, type AdmissionLimits, type AdmissionRefusal } from './admission.ts';
 import { QueueUnavailableError } from './queue-unavailable.ts';
+import { cancelledBeforeRunStatus, clientState, describeBudgetJob, describeJob, fanOutProgress } from './job-status.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
   type RetargetJobData, type RetargetJobResult,
@@ -64,11 +65,6 @@ const ISSUED_JOB_ID = /^(?:j-[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-
 export function isIssuedJobId(jobId: string): boolean {
   return ISSUED_JOB_ID.test(jobId);
 }
-
-const CLIENT_STATE: Record<string, JobState> = {
-  waiting: 'waiting', prioritized: 'waiting', 'waiting-children': 'waiting-children', delayed: 'delayed',
-  active: 'active', completed: 'completed', failed: 'failed',
-};
 
 export class RetargetQueue {
   readonly queue: Queue<RetargetJobData, RetargetJobResult>;
@@ -199,17 +195,10 @@ export class RetargetQueue {
     if (!isIssuedJobId(jobId)) return undefined;
     const { job, state } = await this.snapshot(jobId);
     if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
-    const status = this.describeBudget(job, state, await readCancel(this.redis, this.prefix, jobId));
+    const status = describeBudgetJob(job, state, await readCancel(this.redis, this.prefix, jobId));
     const data = job.data as unknown as BudgetJobData;
-    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples', 'nonlinear') ?? status.progress;
+    if (state === 'waiting-children') status.progress = await fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples', 'nonlinear') ?? status.progress;
     return status;
-  }
-
-  private describeBudget(job: Job<RetargetJobData, RetargetJobResult>, state: string, cancel: CancelRecord | null): BudgetJobStatus {
-    const status = this.describe(job, state, cancel);
-    const result = status.state === 'completed' && job.returnvalue ? { ...(job.returnvalue as unknown as BudgetJobResult) } : null;
-    if (result) delete result.result;
-    return { ...status, kind: 'delta-v-budget', result };
   }
 
   /** The finished budget job's result (with the study when no archive holds it). */
@@ -226,41 +215,11 @@ export class RetargetQueue {
     const { job, state } = await this.snapshot(jobId);
     const cancel = await readCancel(this.redis, this.prefix, jobId);
     if (!job || job.name !== JOB_NAMES.retarget) {
-      if (!cancel?.removedWhileWaiting) return undefined;
-      const w = cancel.removedWhileWaiting;
-      return {
-        id: jobId, kind: 'retarget', state: 'cancelled', priority: w.priority === 'urgent' ? 'urgent' : 'routine', submittedBy: w.submittedBy,
-        submittedAt: w.submittedAt, reason: w.reason, spacecraftName: w.spacecraftName, attemptsMade: 0, progress: null,
-        startedAt: null, finishedAt: cancel.at, result: null, cancelRequested: true,
-        error: { name: 'CancelledError', code: 'CANCELLED', message: `cancelled by ${cancel.by} before it ran: ${cancel.reason}` },
-      };
+      return cancelledBeforeRunStatus(jobId, cancel);
     }
-    const status = this.describe(job, state, cancel);
-    if (state === 'waiting-children') status.progress = await this.fanOutProgress(job) ?? status.progress;
+    const status = describeJob(job, state, cancel);
+    if (state === 'waiting-children') status.progress = await fanOutProgress(job) ?? status.progress;
     return status;
-  }
-
-  /**
-   * Progress of a fanned-out Monte Carlo run, from its child jobs (ids end in `-mc-<firstIndex>`): samples in
-   * finished batches over all samples. Exact, since batch sizes follow from the first indices.
-   */
-  async fanOutProgress(job: Job<RetargetJobData>, total = job.data.problem.dispersion.samples, label = 'Monte Carlo',
-    stage: JobProgress['stage'] = 'dispersion'): Promise<JobProgress | null> {
-    const deps = await job.getDependencies({ processed: { count: 10_000 }, unprocessed: { count: 10_000 } });
-    const firstIndex = (key: string): number => Number(/-mc-(\d+)$/.exec(key)?.[1] ?? NaN);
-    const done = Object.keys(deps.processed ?? {}).map(firstIndex);
-    const all = [...done, ...(deps.unprocessed ?? []).map(firstIndex)].filter(Number.isFinite).sort((a, b) => a - b);
-    if (all.length === 0) return null;
-    const sizeOf = (first: number): number => {
-      const next = all.find((f) => f > first);
-      return (next ?? total) - first;
-    };
-    const samplesDone = done.filter(Number.isFinite).reduce((sum, f) => sum + sizeOf(f), 0);
-    return {
-      stage, fraction: 0.5 + 0.45 * (samplesDone / total),
-      message: `${label}: ${done.length} of ${all.length} batches done`, samplesDone, samplesTotal: total,
-      at: new Date().toISOString(),
-    };
   }
 
   /**
@@ -296,7 +255,7 @@ export class RetargetQueue {
     const state = await job.getState();
     if (state === 'completed' || state === 'failed') {
       const cancel = await readCancel(this.redis, this.prefix, jobId);
-      return { outcome: 'already-finished', jobId, state: this.clientState(state, job, cancel) };
+      return { outcome: 'already-finished', jobId, state: clientState(state, job, cancel) };
     }
     const record: CancelRecord = { by, at: new Date().toISOString(), reason, requestHash: job.data.requestHash };
     if (state === 'waiting' || state === 'prioritized' || state === 'delayed') {
@@ -351,7 +310,7 @@ export class RetargetQueue {
       if (!job || (job.name !== JOB_NAMES.retarget && job.name !== BUDGET_JOB_NAMES.budget)) continue;
       const state = await job.getState();
       const cancel = await readCancel(this.redis, this.prefix, String(job.id));
-      out.push(job.name === BUDGET_JOB_NAMES.budget ? this.describeBudget(job, state, cancel) : this.describe(job, state, cancel));
+      out.push(job.name === BUDGET_JOB_NAMES.budget ? describeBudgetJob(job, state, cancel) : describeJob(job, state, cancel));
     }
     return out;
   }
@@ -373,39 +332,4 @@ export class RetargetQueue {
 
   /** Key of the cancel marker (for tests and tools). */
   cancelKey(jobId: string): string { return cancelKey(this.prefix, jobId); }
-
-  private clientState(state: string, job: Job<RetargetJobData>, cancel: CancelRecord | null): JobState {
-    if (state === 'failed' && (cancel || job.data.failure?.name === 'CancelledError')) return 'cancelled';
-    return CLIENT_STATE[state] ?? 'unknown';
-  }
-
-  private describe(job: Job<RetargetJobData, RetargetJobResult>, state: string, cancel: CancelRecord | null): JobStatus {
-    const clientState = this.clientState(state, job, cancel);
-    const progress = typeof job.progress === 'object' && job.progress !== null ? job.progress as unknown as JobProgress : null;
-    const result = job.returnvalue ? { ...job.returnvalue } : null;
-    if (result) delete result.plan;
-    return {
-      id: String(job.id), kind: 'retarget', state: clientState, priority: job.data.priority, submittedBy: job.data.submittedBy,
-      submittedAt: job.data.submittedAt, reason: job.data.reason, spacecraftName: job.data.problem.spacecraft.name,
-      problemHash: job.data.problemHash, attemptsMade: job.attemptsMade, progress,
-      startedAt: job.processedOn ? new Date(job.processedOn).toISOString() : null,
-      finishedAt: job.finishedOn ? new Date(job.finishedOn).toISOString() : null,
-      result: clientState === 'completed' ? result : null,
-      error: clientState === 'failed' || clientState === 'cancelled' ? failureOfJob(job, cancel) : null,
-      cancelRequested: cancel !== null,
-    };
-  }
-}
-
-/**
- * The failure of a job that ended for good, as the worker recorded it in the job's data. A job cancelled
- * while its run was ending reads as cancelled; one the queue library failed on its own (a stalled job over
- * its limit) has only the library's text, given as the message.
- */
-function failureOfJob(job: Job<RetargetJobData>, cancel: CancelRecord | null): FailureData {
-  const recorded = job.data.failure;
-  if (cancel && recorded?.name !== 'CancelledError') {
-    return { name: 'CancelledError', code: 'CANCELLED', message: `cancelled by ${cancel.by}: ${cancel.reason}` };
-  }
-  return recorded ?? { name: 'Error', code: 'FAILED', message: job.failedReason || 'unknown failure' };
 }
