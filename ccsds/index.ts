@@ -15,8 +15,10 @@ export { ODM_WRITE_DEFAULTS, type OdmWriteOptions } from './messages/write-optio
 export { formatCcsdsEpoch, parseCcsdsEpoch, SUPPORTED_TIME_SYSTEMS } from './syntax/values.ts';
 export {
   CENTRE_NAME_OF_BODY, WRITTEN_FRAME_NAME, centreFromName, inertialFrameFromName, frameMeaningFromName,
-  assertWritableFrame, vnbFromTnw, tnwFromVnb, type FrameMeaning, type MessageFrame,
+  assertWritableFrame, type FrameMeaning, type MessageFrame,
 } from './messages/frames.ts';
+/** Re-exported from propagator/frames (the one frames module) for readers of TNW/VNB message values. */
+export { vnbFromTnw, tnwFromVnb } from '../propagator/index.ts';
 export { assertPositiveSemiDefinite, PSD_TOLERANCE } from './messages/covariance.ts';
 export {
   readOpmAsInitialState, covarianceInStateFrame, type OpmInitialState, type PlannerInitialState,

@@ -8,9 +8,9 @@ import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { PlannedFiniteBurn } from '../../contract/index.ts';
 import {
-  InvalidInputError, leapSecondTableOfPlan, parseEpoch, stateToFrame, type TimeScale, utcTextOrNull,
+  InvalidInputError, leapSecondTableOfPlan, parseEpoch, stateToFrame, type TimeScale, tnwFromVnb, utcTextOrNull,
 } from '../../propagator/index.ts';
-import { CENTRE_NAME_OF_BODY, tnwFromVnb, WRITTEN_FRAME_NAME } from '../messages/frames.ts';
+import { CENTRE_NAME_OF_BODY, WRITTEN_FRAME_NAME } from '../messages/frames.ts';
 import { rotateInertialCovariance } from '../messages/initial-state.ts';
 import type { OdmHeader, Opm, OpmManeuver } from '../messages/odm-types.ts';
 import { formatCcsdsEpoch } from '../syntax/values.ts';

@@ -109,13 +109,3 @@ export function assertWritableFrame(field: string, name: string, centre: BodyNam
     throw new InvalidInputError(field, `not written: ${detail}`);
   }
 }
-
-/** Components in TNW → the same vector's components in VNB (exact axis permutation). */
-export function vnbFromTnw([t, n, w]: Vec3): Vec3 {
-  return [t, w, n === 0 ? 0 : -n];
-}
-
-/** Components in VNB → TNW (inverse of {@link vnbFromTnw}). */
-export function tnwFromVnb([v, n, b]: Vec3): Vec3 {
-  return [v, b === 0 ? 0 : -b, n];
-}

@@ -7,5 +7,5 @@ export {
 export { rotateVectorBetweenFrames, frameRotation, stateToFrame, changeCentre } from './state-frames.ts';
 export {
   rtnMatrix, vnbMatrix, tnwMatrix, localFrameMatrix, localToInertial, inertialToLocal, localAxes, axesToInertial,
-  axesFromInertial, axesToInertialMatrix, stateRotation6, type AxesName, type Rotation3,
+  axesFromInertial, axesToInertialMatrix, stateRotation6, vnbFromTnw, tnwFromVnb, type AxesName, type Rotation3,
 } from './local-frames.ts';

@@ -124,3 +124,14 @@ export function inertialToLocal(vec: ArrayLike<number>, frame: AxesName, positio
   velocityKmS: ArrayLike<number>): Vec3 {
   return multiplyMatrixVector(localFrameMatrix(frame, positionKm, velocityKmS), vec);
 }
+
+/** Components of a vector in TNW → the same vector's components in VNB at the same state (an exact axis
+ * permutation: V = T, N_vnb = W, B = −N_tnw); units carried through. */
+export function vnbFromTnw([t, n, w]: Vec3): Vec3 {
+  return [t, w, n === 0 ? 0 : -n];
+}
+
+/** Components in VNB → TNW at the same state (inverse of {@link vnbFromTnw}); units carried through. */
+export function tnwFromVnb([v, n, b]: Vec3): Vec3 {
+  return [v, b === 0 ? 0 : -b, n];
+}
