@@ -8,7 +8,7 @@
  * Uses REDIS_URL when set, else a private redis-server in a temp folder.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import os from 'node:os';
 import { join, resolve } from 'node:path';
@@ -26,11 +26,26 @@ function createdId(outcome: SubmitOutcome): string {
   return outcome.jobId;
 }
 
-interface CannonResult { latency: { p50: number; p99: number; average: number; max: number }; requests: { average: number }; non2xx: number; errors: number; statusCodeStats?: Record<string, { count: number }> }
+interface CannonResult { latency: { p50: number; p99: number; average: number; max: number }; requests: { average: number; total: number }; non2xx: number; errors: number; statusCodeStats?: Record<string, { count: number }> }
 type Cannon = (opts: Record<string, unknown>) => Promise<CannonResult>;
 const autocannon = createRequire(import.meta.url)('autocannon') as Cannon;
 
 const ROOT = resolve(import.meta.dirname, '..');
+
+/** CPU time a process has used so far (user + system, all its threads), ms, from /proc (Linux); NaN elsewhere.
+ * Unlike latency it does not grow with the machine's load, so it tells the request path's own cost apart. */
+function processCpuMs(pid: number | undefined): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ');
+    return ((Number(fields[11]) + Number(fields[12])) * 1000) / CLOCK_TICKS_PER_S;
+  } catch {
+    return Number.NaN;
+  }
+}
+/** USER_HZ of Linux's /proc times (100 on every common build). */
+const CLOCK_TICKS_PER_S = 100;
+/** This process's CPU time, ms. */
+const ownCpuMs = (): number => { const u = process.cpuUsage(); return (u.user + u.system) / 1000; };
 const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 9);
 const SUBMIT_ROUNDS = 3;
 
@@ -61,21 +76,24 @@ async function main(): Promise<void> {
   await autocannon({ url: `${api.url}/v1/jobs`, method: 'POST', connections: 10, duration: 1, headers, body });
   // The peer and the submission alternate in rounds, so both see the same machine load.
   const roundS = Math.max(2, Math.round(DURATION_S / SUBMIT_ROUNDS));
-  const rounds: { health: CannonResult; submit: CannonResult }[] = [];
+  const rounds: { health: CannonResult; submit: CannonResult; healthCpu: number; submitCpu: number }[] = [];
   for (let r = 0; r < SUBMIT_ROUNDS; r++) {
+    const c0 = processCpuMs(api.pid);
     const health = await autocannon({ url: `${api.url}/health`, connections: 50, duration: roundS, headers });
+    const c1 = processCpuMs(api.pid);
     const submit = await autocannon({ url: `${api.url}/v1/jobs`, method: 'POST', connections: 50, duration: roundS, headers, body });
-    rounds.push({ health, submit });
+    const c2 = processCpuMs(api.pid);
+    rounds.push({ health, submit, healthCpu: (c1 - c0) / health.requests.total, submitCpu: (c2 - c1) / submit.requests.total });
   }
   say('## Submission latency, 50 concurrent clients');
   say('');
   say(`${SUBMIT_ROUNDS} rounds of ${roundS} s each, GET /health (peer) and POST /v1/jobs alternated; latencies as autocannon reports them.`);
   say('');
-  say('| round | request | p50 ms | p99 ms | mean ms | req/s | non-2xx |');
-  say('|---|---|---|---|---|---|---|');
-  rounds.forEach(({ health, submit }, i) => {
-    for (const [name, r] of [['GET /health (peer)', health], ['POST /v1/jobs', submit]] as const) {
-      say(`| ${i + 1} | ${name} | ${r.latency.p50} | ${r.latency.p99} | ${r.latency.average.toFixed(2)} | ${r.requests.average.toFixed(0)} | ${r.non2xx} |`);
+  say('| round | request | p50 ms | p99 ms | mean ms | req/s | non-2xx | API process CPU ms per request |');
+  say('|---|---|---|---|---|---|---|---|');
+  rounds.forEach(({ health, submit, healthCpu, submitCpu }, i) => {
+    for (const [name, r, cpuPer] of [['GET /health (peer)', health, healthCpu], ['POST /v1/jobs', submit, submitCpu]] as const) {
+      say(`| ${i + 1} | ${name} | ${r.latency.p50} | ${r.latency.p99} | ${r.latency.average.toFixed(2)} | ${r.requests.average.toFixed(0)} | ${r.non2xx} | ${cpuPer.toFixed(3)} |`);
     }
   });
   const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[xs.length >> 1];
@@ -83,7 +101,9 @@ async function main(): Promise<void> {
   const healthP99 = median(rounds.map((r) => r.health.latency.p99));
   say('');
   say(`Submission p99, median over rounds: ${submitP99} ms (target < 50 ms): ${submitP99 < 50 ? 'met' : 'NOT met'}; /health p99 ${healthP99} ms; `
-    + `p99 ratio submit / health, median over rounds: ${median(rounds.map((r) => r.submit.latency.p99 / Math.max(r.health.latency.p99, 0.5))).toFixed(1)}.`);
+    + `p99 ratio submit / health, median over rounds: ${median(rounds.map((r) => r.submit.latency.p99 / Math.max(r.health.latency.p99, 0.5))).toFixed(1)}; `
+    + `API CPU per request, median over rounds: submit ${median(rounds.map((r) => r.submitCpu)).toFixed(3)} ms, /health ${median(rounds.map((r) => r.healthCpu)).toFixed(3)} ms `
+    + '(CPU time of the API process over the round, from /proc, divided by the requests answered; load does not inflate it as it does latency).');
   await api.stop();
   const submitted = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
   await submitted.queue.obliterate({ force: true });
@@ -121,9 +141,19 @@ async function main(): Promise<void> {
   const inProcess: number[] = [];
   const viaQueue: number[] = [];
   const viaQueueNoArchive: number[] = [];
-  for (let i = 0; i < 30; i++) {
+  let localCpu = 0;
+  let workerCpu = 0;
+  let submitterCpu = 0;
+  const JOBS = 30;
+  for (let i = 0; i < JOBS; i++) {
+    const c0 = ownCpuMs();
     inProcess.push(await runLocal());
+    localCpu += ownCpuMs() - c0;
+    const w0 = processCpuMs(workersA[0]?.pid);
+    const s0 = ownCpuMs();
     viaQueue.push(await runOne(queue, events));
+    submitterCpu += ownCpuMs() - s0;
+    workerCpu += processCpuMs(workersA[0]?.pid) - w0;
     viaQueueNoArchive.push(await runOne(queueNoArchive, eventsNoArchive));
   }
   await stopWorkers([...workersA, ...workersB]);
@@ -141,6 +171,15 @@ async function main(): Promise<void> {
   say(`| overhead | ${overhead.toFixed(1)} |`);
   say(`| same with PLAN_SINK=job-result (no SQLite archive writes) | ${med(viaQueueNoArchive).toFixed(1)} |`);
   say(`| overhead without archive writes | ${(med(viaQueueNoArchive) - med(inProcess)).toFixed(1)} |`);
+  say('');
+  say('CPU time per job (load does not inflate it as it does the times above; worker from /proc, so all its threads):');
+  say('');
+  say('| where | CPU ms per job |');
+  say('|---|---|');
+  say(`| planner in-process (peer) | ${(localCpu / JOBS).toFixed(1)} |`);
+  say(`| worker process (planner thread included) | ${(workerCpu / JOBS).toFixed(1)} |`);
+  say(`| worker process beyond the peer's plan | ${((workerCpu - localCpu) / JOBS).toFixed(1)} |`);
+  say(`| this process: submit and wait for the completed event | ${(submitterCpu / JOBS).toFixed(1)} |`);
   say('');
   say(`Overhead ${overhead.toFixed(1)} ms (target < 20 ms): ${overhead < 20 ? 'met' : 'NOT met'}.`);
 
@@ -198,7 +237,7 @@ async function main(): Promise<void> {
   rmSync(dir, { recursive: true, force: true });
 }
 
-async function startApiProcess(env: Record<string, string>): Promise<{ url: string; stop(): Promise<void> }> {
+async function startApiProcess(env: Record<string, string>): Promise<{ url: string; pid: number | undefined; stop(): Promise<void> }> {
   const { createServer } = await import('node:net');
   const port = await new Promise<number>((res) => {
     const srv = createServer().listen(0, '127.0.0.1', () => {
@@ -216,7 +255,7 @@ async function startApiProcess(env: Record<string, string>): Promise<{ url: stri
     await new Promise((r) => setTimeout(r, 100));
   }
   return {
-    url,
+    url, pid: child.pid,
     stop: () => new Promise<void>((res) => { child.once('exit', () => res()); child.kill('SIGTERM'); }),
   };
 }
