@@ -1,7 +1,7 @@
 /** What createApp needs: everything with I/O is passed in (tests build real ones against a real Redis). */
 import type { Logger } from 'pino';
 import type { PlanArchive } from '../archive/index.ts';
-import type { JobEventHub, RetargetQueue } from '../queue/index.ts';
+import type { EphemerisSets, JobEventHub, RetargetQueue } from '../queue/index.ts';
 import type { TokenStore } from './auth/index.ts';
 import type { ServiceMetrics } from './metrics.ts';
 import type { PlanReader } from './plan-reader.ts';
@@ -30,6 +30,8 @@ export interface AppDeps {
   metrics: ServiceMetrics;
   logger: Logger;
   limits: AppLimits;
+  /** The named ephemeris sets loaded from EPHEMERIS_DIR at start-up (empty when unset). */
+  ephemerisSets: EphemerisSets;
   /** Software version shown in the OpenAPI document. */
   version: string;
 }

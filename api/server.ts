@@ -8,7 +8,9 @@ import type { AddressInfo } from 'node:net';
 import type { Logger } from 'pino';
 import { openArchive, type PlanArchive } from '../archive/index.ts';
 import { maskConfigValue } from '../contract/env-config.ts';
-import { JobEventHub, loadServiceLeapSeconds, logLeapSecondsAtStart, RetargetQueue } from '../queue/index.ts';
+import {
+  JobEventHub, loadEphemerisSets, loadServiceLeapSeconds, logEphemerisSetsAtStart, logLeapSecondsAtStart, RetargetQueue,
+} from '../queue/index.ts';
 import { createApp } from './app.ts';
 import { openTokenStore, type TokenStore } from './auth/index.ts';
 import type { ApiConfig } from './config.ts';
@@ -41,6 +43,9 @@ function reportRedisState(queue: RetargetQueue, redisUrl: string, logger: Logger
 export async function startApiServer(config: ApiConfig, logger: Logger, overrides: { tokens?: TokenStore; archive?: PlanArchive | null } = {}): Promise<ApiServer> {
   const leapSeconds = await loadServiceLeapSeconds(config.VEER_LEAP_SECONDS);
   logLeapSecondsAtStart(leapSeconds, logger, new Date());
+  // Before anything is opened: a corrupt set stops the start naming the file, line and keyword.
+  const ephemerisSets = await loadEphemerisSets(config.EPHEMERIS_DIR, leapSeconds);
+  logEphemerisSetsAtStart(ephemerisSets, logger);
   const queue = new RetargetQueue({
     redisUrl: config.REDIS_URL, prefix: config.QUEUE_PREFIX, attempts: config.JOB_ATTEMPTS, retentionS: config.JOB_RETENTION_S,
     leapSeconds,
@@ -58,7 +63,7 @@ export async function startApiServer(config: ApiConfig, logger: Logger, override
   const metrics = new ServiceMetrics(queue);
   metrics.watch(events);
   const deps: AppDeps = {
-    queue, events, tokens, archive, metrics, logger, version: PACKAGE_VERSION,
+    queue, events, tokens, archive, metrics, logger, version: PACKAGE_VERSION, ephemerisSets,
     plans: archive ? new ArchivePlanReader(archive) : new JobResultPlanReader(queue),
     limits: {
       bodyLimitBytes: config.BODY_LIMIT_KB * 1024, rateLimitMax: config.RATE_LIMIT_MAX,

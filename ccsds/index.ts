@@ -33,4 +33,5 @@ export { exportPlanAsCcsds, type CcsdsExportKind, type CcsdsExportOptions } from
 export {
   CcsdsExportThreads, ExportTimeLimitError, type CcsdsExportThreadsOptions, type ExportRun, type ThreadExportOptions,
 } from './export/export-off-thread.ts';
+export { fileSha256, loadEphemerisFiles, oemFileTables, readEphemerisFileBytes } from './messages/oem-ephemeris-files.ts';
 export { compareWithReference, type ReferenceComparison } from './messages/compare-reference.ts';

@@ -89,5 +89,9 @@ export const sharedServiceEnvShape = {
   /** A leap-seconds.list (IERS / tz format) to read UTC epochs with; the built-in table when unset. The API's
    * table travels with each job; a worker uses its own only for jobs queued without one. */
   VEER_LEAP_SECONDS: z.string().min(1).optional(),
+  /** A folder of named ephemeris sets: one sub-folder per set, each holding CCSDS OEM files (.oem, .xml or
+   * .txt); a problem chooses a set by its folder's name (forceModel.ephemerisSet). Loaded and checked at
+   * start-up; unset: only the built-in series. */
+  EPHEMERIS_DIR: z.string().min(1).optional(),
   LOG_LEVEL: logLevelSchema,
 };

@@ -19,3 +19,4 @@ export * from './budget-schema.ts';
 export type * from './budget-types.ts';
 export { canonicalJson } from './canonical-json.ts';
 export * from './budget-job-types.ts';
+export * from './ephemeris-sets.ts';

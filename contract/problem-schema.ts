@@ -8,6 +8,7 @@
  * No transforms here, so the schema converts to JSON Schema as-is.
  */
 import { z } from 'zod';
+import { ephemerisSetNameSchema } from './ephemeris-sets.ts';
 import { BODY_NAMES, INERTIAL_FRAMES } from './bodies.ts';
 import { freeTextSchema } from './free-text.ts';
 import { PROBLEM_BOUNDS as BOUNDS, RELATIVE_TOLERANCE_RANGE } from './problem-bounds.ts';
@@ -74,6 +75,9 @@ const forceModelSchema = z.object({
   relativeTolerance: inRange(RELATIVE_TOLERANCE_RANGE).default(1e-11),
   /** Switch the integration centre inside a perturbing body's sphere of influence. */
   switching: z.boolean().default(false),
+  /** A named ephemeris set of the service (GET /v1/ephemerides): its OEM files serve the bodies they tabulate,
+   * the built-in series the rest. Absent: the built-in series throughout. */
+  ephemerisSet: ephemerisSetNameSchema.optional(),
 }).strict();
 
 const burnSchema = z.object({

@@ -1,6 +1,7 @@
 /**
  * Public face of queue/: the retarget queue (producer side for the API), the worker, job shapes and
- * configuration. queue/ imports planner/ and archive/ only, and knows nothing of HTTP.
+ * configuration. queue/ imports planner/, archive/ and ccsds/ (to read the service's OEM ephemeris sets), and
+ * knows nothing of HTTP.
  *
  * The API gets the planner's problem schema through `jobRequestSchema` here (it embeds `problemSchema`),
  * so api/ never imports planner/.
@@ -22,6 +23,10 @@ export { isFinalFailure, sampleBatches } from './worker/job-run.ts';
 export { findBudgetIssue, findProblemIssue, type ProblemIssue } from './producer/job-request-check.ts';
 export { loadServiceLeapSeconds, leapSecondsExpired, leapSecondsExpiryMs, logLeapSecondsAtStart } from './worker/leap-seconds-file.ts';
 export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from '../contract/env-config.ts';
+export {
+  EPHEMERIS_SET_FIELD, ephemerisSetFiles, loadEphemerisSets, logEphemerisSetsAtStart, type EphemerisSet, type EphemerisSetFileRef,
+  type EphemerisSets,
+} from './config/ephemeris-sets.ts';
 export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './config/worker-config.ts';
 export { createRedis } from './config/connection.ts';
 export { createLogger } from './config/logger.ts';

@@ -31,7 +31,10 @@ export function budgetRoutes(routes: ApiRoutes, deps: AppDeps): void {
     },
   }, async (req: Request, res: Response) => {
     const request = validOf<unknown, unknown, BudgetJobRequest>(res).body;
-    const issue = findBudgetIssue(request.request, deps.queue.leapSeconds);
+    const set = request.request.problem.forceModel.ephemerisSet;
+    const issue = findBudgetIssue(request.request, deps.queue.leapSeconds) ?? (set === undefined ? null : {
+      field: 'problem.forceModel.ephemerisSet', message: `a Δv budget is studied on the built-in series only; remove the ephemeris set '${set}'`,
+    });
     if (issue) {
       deps.metrics.submissions.inc({ kind: 'delta-v-budget', outcome: 'invalid' });
       throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.request.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);

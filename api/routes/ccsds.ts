@@ -9,7 +9,7 @@ import {
   assertExportable, CcsdsExportThreads, CcsdsFormatError, exportPlanAsCcsds, ExportTimeLimitError, readOpmAsInitialState,
   SUPPORTED_TIME_SYSTEMS, type ThreadExportOptions,
 } from '../../ccsds/index.ts';
-import { jobRequestSchema } from '../../queue/index.ts';
+import { ephemerisSetFiles, jobRequestSchema } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { type FieldIssue, sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
@@ -139,9 +139,10 @@ export function ccsdsRoutes(routes: ApiRoutes, deps: AppDeps, exportThreads = ne
         ...(query.stepS !== undefined ? { stepS: query.stepS } : {}),
         ...(query.objectId ? { objectId: query.objectId } : {}),
       };
-      // The OPM is a few lines from the plan as it is; the OEM propagates, so it runs in a thread.
+      // The OPM is a few lines from the plan as it is; the OEM propagates, so it runs in a thread — on the
+      // files of the problem's ephemeris set, checked there against the plan's record.
       const text = params.kind === 'opm' ? await exportPlanAsCcsds(problem, plan, options)
-        : await exportThreads.run(problem, plan, options, controller.signal);
+        : await exportThreads.run(problem, plan, options, controller.signal, ephemerisSetFiles(deps.ephemerisSets, problem.forceModel.ephemerisSet));
       const extension = query.encoding === 'xml' ? 'xml' : params.kind;
       res.set('Content-Disposition', `attachment; filename="${params.planId}.${extension}"`);
       res.type(query.encoding === 'xml' ? 'application/xml' : 'text/plain').send(text);

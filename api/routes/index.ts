@@ -7,6 +7,7 @@ import type { AppDeps } from '../deps.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { budgetRoutes } from './budgets.ts';
 import { ccsdsRoutes } from './ccsds.ts';
+import { ephemerisRoutes } from './ephemerides.ts';
 import { exportRoutes } from './export.ts';
 import { historyRoutes } from './history.ts';
 import { jobEventRoutes } from './job-events.ts';
@@ -31,5 +32,6 @@ export const ROUTE_MODULES: RouteModule[] = [
   jobEventRoutes,
   planRoutes,
   ccsdsRoutes,
+  ephemerisRoutes,
   ...REVIEW_ROUTE_MODULES,
 ];

@@ -4,7 +4,7 @@
  */
 import type { Request, Response } from 'express';
 import { z } from 'zod';
-import { findProblemIssue, recordRemovedJob, type JobRequest } from '../../queue/index.ts';
+import { EPHEMERIS_SET_FIELD, ephemerisSetFiles, findProblemIssue, recordRemovedJob, type JobRequest, type ProblemIssue } from '../../queue/index.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
@@ -33,6 +33,16 @@ function withHeaderKey(body: JobRequest, headerKey: string | undefined): JobRequ
   return request;
 }
 
+/** The issue of a problem naming an ephemeris set this service does not have, or null. */
+export function ephemerisSetIssue(deps: AppDeps, name: string | undefined): ProblemIssue | null {
+  try {
+    ephemerisSetFiles(deps.ephemerisSets, name);
+    return null;
+  } catch (error) {
+    return { field: EPHEMERIS_SET_FIELD, message: (error as Error).message.replace(`${EPHEMERIS_SET_FIELD}: `, '') };
+  }
+}
+
 export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
   routes.add({
     method: 'post', path: '/v1/jobs', tags: ['jobs'], roles: ['submitter'],
@@ -48,7 +58,7 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
     },
   }, async (req: Request, res: Response) => {
     const request = withHeaderKey(validOf<unknown, unknown, JobRequest>(res).body, req.get('idempotency-key'));
-    const issue = findProblemIssue(request.problem, deps.queue.leapSeconds);
+    const issue = findProblemIssue(request.problem, deps.queue.leapSeconds) ?? ephemerisSetIssue(deps, request.problem.forceModel.ephemerisSet);
     if (issue) {
       deps.metrics.submissions.inc({ kind: 'retarget', outcome: 'invalid' });
       throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.problem.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);

@@ -19,9 +19,11 @@ export interface ExportThreadInput {
   problem: PlanningProblem;
   plan: ManeuverPlan;
   options: ThreadExportOptions;
+  /** OEM files the thread reads for a plan made on files: path and the SHA-256 the file must still have. */
+  ephemerisFiles: { path: string; sha256: string }[];
 }
 
-export type ThreadExportOptions = Omit<CcsdsExportOptions, 'signal' | 'onProgress' | 'ephemeris'>;
+export type ThreadExportOptions = Omit<CcsdsExportOptions, 'signal' | 'onProgress' | 'ephemeris' | 'ephemerisFiles' | 'ephemerisCache'>;
 
 /** The thread's ephemeris cache counters after an export (EphemerisCacheStats, totals over the thread's life). */
 export interface ExportCacheCounters { blocksFitted: number; blocksReused: number }
@@ -96,14 +98,17 @@ export class CcsdsExportThreads {
   /**
    * Same result as exportPlanAsCcsds(problem, plan, options), computed in a thread. Rejects with the
    * export's own errors (InvalidInputError naming the field...), CancelledError when `signal` fires, or
-   * ExportTimeLimitError; in the last two cases the thread is terminated at once.
+   * ExportTimeLimitError; in the last two cases the thread is terminated at once. `ephemerisFiles`: the OEM
+   * files of a plan made on files (the thread reads them and refuses any whose SHA-256 is not the one given).
    */
-  async run(problem: PlanningProblem, plan: ManeuverPlan, options: ThreadExportOptions, signal?: AbortSignal): Promise<string> {
-    return (await this.runWithStats(problem, plan, options, signal)).text;
+  async run(problem: PlanningProblem, plan: ManeuverPlan, options: ThreadExportOptions, signal?: AbortSignal,
+    ephemerisFiles: { path: string; sha256: string }[] = []): Promise<string> {
+    return (await this.runWithStats(problem, plan, options, signal, ephemerisFiles)).text;
   }
 
   /** As `run`, with the cache blocks this export fitted and reused in its thread. */
-  runWithStats(problem: PlanningProblem, plan: ManeuverPlan, options: ThreadExportOptions, signal?: AbortSignal): Promise<ExportRun> {
+  runWithStats(problem: PlanningProblem, plan: ManeuverPlan, options: ThreadExportOptions, signal?: AbortSignal,
+    ephemerisFiles: { path: string; sha256: string }[] = []): Promise<ExportRun> {
     return new Promise<ExportRun>((resolve, reject) => {
       let thread: ExportThread | undefined;
       let holding = false;
@@ -146,7 +151,7 @@ export class CcsdsExportThreads {
         onError = (error: Error): void => finish(false, () => reject(error));
         onExit = (code: number): void => finish(false, () => reject(new Error(`CCSDS export thread exited with code ${code}`)));
         t.worker.on('message', onMessage).on('error', onError).on('exit', onExit);
-        t.worker.postMessage({ problem, plan, options } satisfies ExportThreadInput);
+        t.worker.postMessage({ problem, plan, options, ephemerisFiles } satisfies ExportThreadInput);
       });
     });
   }

@@ -5,7 +5,8 @@
  * after the answer to the previous one.
  */
 import { parentPort } from 'node:worker_threads';
-import { EphemerisCache } from '../../propagator/index.ts';
+import { EphemerisCache, leapSecondTableOfPlan } from '../../propagator/index.ts';
+import { loadEphemerisFiles } from '../messages/oem-ephemeris-files.ts';
 import { exportPlanAsCcsds } from './export-plan.ts';
 import type { ExportThreadInput, ExportThreadOutput } from './export-off-thread.ts';
 
@@ -17,22 +18,24 @@ const send = (message: ExportThreadOutput): void => port.postMessage(message);
 // block fits the planner uses, fitted as a propagation first reaches them and reused by later exports.
 const ephemerisCache = new EphemerisCache();
 
-port.on('message', ({ problem, plan, options }: ExportThreadInput) => {
-  exportPlanAsCcsds(problem, plan, { ...options, ephemerisCache }).then(
-    (text) => {
-      const { blocksFitted, blocksReused } = ephemerisCache.stats();
-      send({ ok: true, text, cache: { blocksFitted, blocksReused } });
-    },
-    (error: unknown) => {
-      const e = (error instanceof Error ? error : new Error(String(error))) as Error & { field?: unknown; code?: unknown };
-      send({
-        ok: false,
-        error: {
-          name: e.name, message: e.message,
-          ...(typeof e.field === 'string' ? { field: e.field } : {}),
-          ...(typeof e.code === 'string' ? { code: e.code } : {}),
-        },
-      });
-    },
-  );
+port.on('message', ({ problem, plan, options, ephemerisFiles }: ExportThreadInput) => {
+  // A plan made on files reads them here (each refused if its SHA-256 changed since the caller checked it).
+  loadEphemerisFiles(ephemerisFiles.map((f) => f.path), leapSecondTableOfPlan(plan.leapSeconds), 'ephemeris', ephemerisFiles.map((f) => f.sha256))
+    .then((files) => exportPlanAsCcsds(problem, plan, { ...options, ephemerisCache, ephemerisFiles: files })).then(
+      (text) => {
+        const { blocksFitted, blocksReused } = ephemerisCache.stats();
+        send({ ok: true, text, cache: { blocksFitted, blocksReused } });
+      },
+      (error: unknown) => {
+        const e = (error instanceof Error ? error : new Error(String(error))) as Error & { field?: unknown; code?: unknown };
+        send({
+          ok: false,
+          error: {
+            name: e.name, message: e.message,
+            ...(typeof e.field === 'string' ? { field: e.field } : {}),
+            ...(typeof e.code === 'string' ? { code: e.code } : {}),
+          },
+        });
+      },
+    );
 });

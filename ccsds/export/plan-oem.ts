@@ -1,6 +1,7 @@
 /**
  * The predicted post-burn trajectory of a proposed plan as an Orbit Ephemeris Message: the problem's
- * initial state propagated with the plan's burns (the problem's force model, the built-in ephemeris —
+ * initial state propagated with the plan's burns (the problem's force model, the plan's OEM files if it was made
+ * on files, else the built-in ephemeris —
  * through the caller's shared Chebyshev cache when one is given, as the planner does),
  * sampled at a chosen step, one segment per arc between burns (an ephemeris must not be interpolated
  * across a velocity jump). When the problem has an initial covariance, each segment ends with that
@@ -11,10 +12,12 @@
 import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import {
-  type BodyName, CancelledError, changeCentre, congruence, createBuiltinEphemeris, type Ephemeris, type EphemerisCache,
+  type BodyName, CancelledError, changeCentre, congruence, createBuiltinEphemeris, type Ephemeris, type EphemerisCache, type EphemerisFileTable,
+  ephemerisWithFiles,
   type ForceModelSpec, InvalidInputError,
   type LeapSecondTable, leapSecondTableOfPlan, parseEpoch, propagateAsync, rowsOf6, type StateVector, stateToFrame,
 } from '../../propagator/index.ts';
+import { ephemerisSourceMismatch } from '../../contract/ephemeris-sets.ts';
 import { rotateInertialCovariance } from '../messages/initial-state.ts';
 import { CENTRE_NAME_OF_BODY, type MessageFrame, WRITTEN_FRAME_NAME } from '../messages/frames.ts';
 import type { InterpolationMethod, Oem, OemCovariance, OemSegment, OemState } from '../messages/odm-types.ts';
@@ -28,6 +31,8 @@ export interface PlanOemOptions extends PlanExportOptions {
   interpolation?: { method: InterpolationMethod; degree: number };
   /** Source of body positions; when absent, the built-in one (through `ephemerisCache` when given). */
   ephemeris?: Ephemeris;
+  /** The OEM files a plan made on files needs again (checked body by body against the plan's record). */
+  ephemerisFiles?: readonly EphemerisFileTable[];
   /** The process's shared ephemeris cache (propagator EphemerisCache); used when `ephemeris` is absent. */
   ephemerisCache?: EphemerisCache;
   /** Write mapped covariance blocks when the problem has an initial covariance. @defaultValue true */
@@ -47,6 +52,29 @@ function exportEphemeris(problem: PlanningProblem, startTdbS: number, endTdbS: n
     startTdbS: Math.max(builtin.span.startTdbS, Math.min(startTdbS, endTdbS) - marginS),
     endTdbS: Math.min(builtin.span.endTdbS, Math.max(startTdbS, endTdbS) + marginS),
   });
+}
+
+/**
+ * The ephemeris the plan was made on: the built-in series (through the cache), or — for a plan that recorded
+ * OEM files — `options.ephemerisFiles` layered over it, refused (field `ephemeris`) when absent or when any
+ * body's source differs from the plan's record (re-propagating on other positions would export another
+ * trajectory than the one planned and reviewed).
+ */
+function planEphemeris(problem: PlanningProblem, plan: ManeuverPlan, startTdbS: number, endTdbS: number,
+  options: Pick<PlanOemOptions, 'ephemerisCache' | 'ephemerisFiles'>): Ephemeris {
+  const recorded = plan.ephemerisSources ?? [];
+  const files = recorded.filter((e) => e.source === 'oem');
+  const given = options.ephemerisFiles ?? [];
+  if (files.length === 0 && given.length === 0) return exportEphemeris(problem, startTdbS, endTdbS, options.ephemerisCache);
+  if (given.length === 0) {
+    throw new InvalidInputError('ephemeris', `the plan was made with ephemeris files (${files.map((e) => `${e.body}: ${e.file}`).join(', ')}); `
+      + 'its OEM export needs the same files (the CLI: veer export --ephemeris FILE; the service: the problem\'s ephemeris set)');
+  }
+  const span = { startTdbS: Math.min(startTdbS, endTdbS), endTdbS: Math.max(startTdbS, endTdbS) };
+  const { source, sources } = ephemerisWithFiles(given, span, recorded.map((e) => e.body), 'ephemeris');
+  const mismatch = ephemerisSourceMismatch(recorded, sources);
+  if (mismatch !== null) throw new InvalidInputError('ephemeris', `the files given are not the ones the plan was made on: ${mismatch}`);
+  return source;
 }
 
 /** Most lines one export may write (a guard against a step far too small for the span). */
@@ -86,13 +114,7 @@ function exportRun(problem: PlanningProblem, plan: ManeuverPlan, options: PlanOe
   }
   const scale = options.timeSystem ?? 'TDB';
   const frame: MessageFrame = 'J2000_EQUATORIAL';
-  const files = (plan.ephemerisSources ?? []).filter((e) => e.source === 'oem');
-  if (options.ephemeris === undefined && files.length > 0) {
-    // Re-propagating on the built-in series would export another trajectory than the one planned.
-    throw new InvalidInputError('ephemeris', `the plan was made with ephemeris files (${files.map((e) => `${e.body}: ${e.file}`).join(', ')}); `
-      + 'its OEM export needs the same files, which this export path does not load yet');
-  }
-  const ephemeris = options.ephemeris ?? exportEphemeris(problem, startTdbS, endTdbS, options.ephemerisCache);
+  const ephemeris = options.ephemeris ?? planEphemeris(problem, plan, startTdbS, endTdbS, options);
   const interpolation = options.interpolation ?? { method: 'HERMITE', degree: 7 };
   const withCovariance = (options.covariance ?? true) && s.covarianceKmKmS !== undefined;
   const toOutput = (x: StateVector): StateVector => stateToFrame(x.centre === s.centre ? x : changeCentre(x, s.centre, ephemeris), frame);

@@ -5,7 +5,8 @@
  * B-plane covariance; attachMonteCarlo stores the summary and recomputes the dispersion caveats.
  */
 import { InvalidInputError } from '../../propagator/index.ts';
-import type { EphemerisCache, StateVector } from '../../propagator/index.ts';
+import type { EphemerisCache, EphemerisFileTable, StateVector } from '../../propagator/index.ts';
+import { ephemerisSourceMismatch } from '../../contract/ephemeris-sets.ts';
 import { bPlaneEllipse, compareEllipses } from '../dispersion/ellipse.ts';
 import { binomialEstimate } from '../dispersion/impact-probability.ts';
 import { createDispersionSampler, runSampleRange } from '../dispersion/monte-carlo.ts';
@@ -31,6 +32,8 @@ export interface SampleRunOptions {
   onSample?: (done: number) => void;
   /** The process's shared ephemeris cache (see PlanOptions.ephemerisCache). */
   ephemerisCache?: EphemerisCache;
+  /** The ephemeris files the plan was made on (see PlanOptions.ephemerisFiles); checked against its record. */
+  ephemerisFiles?: readonly EphemerisFileTable[];
 }
 
 /** Runs samples [firstIndex, firstIndex + count) of a converged plan; see the file comment. */
@@ -88,15 +91,16 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
   return runs.map((r) => r.result);
 }
 
-/** Queue fan-out entry: runs samples [firstIndex, firstIndex + count) for a converged plan. */
+/** Queue fan-out entry: runs samples [firstIndex, firstIndex + count) for a converged plan, on the plan's own
+ * ephemeris: a plan made on files needs the same files (options.ephemerisFiles, their SHA-256 checked against
+ * the plan's record); any difference is refused under `ephemeris`, naming the bodies. */
 export async function runDispersionSamples(problem: CheckedProblem, plan: ManeuverPlan, options: SampleRunOptions): Promise<DispersionSample[]> {
-  // The samples must fly on the plan's own ephemeris: a plan made on files cannot be sampled without them.
-  const files = (plan.ephemerisSources ?? []).filter((s) => s.source === 'oem');
-  if (files.length > 0) {
-    throw new InvalidInputError('ephemeris', `the plan used ephemeris files (${files.map((f) => `${f.body}: ${f.file}`).join(', ')}) `
-      + 'that separate dispersion samples cannot load here; run the Monte Carlo in the planning process');
+  const ctx = planningContext(problem, options.ephemerisCache, options.ephemerisFiles);
+  const mismatch = ephemerisSourceMismatch(plan.ephemerisSources ?? [], ctx.ephemerisSources);
+  if (mismatch !== null) {
+    throw new InvalidInputError('ephemeris', `the Monte Carlo samples must fly on the plan's own ephemeris, and the files here differ: ${mismatch}`);
   }
-  return runDispersionSamplesWithContext(planningContext(problem, options.ephemerisCache), plan, options);
+  return runDispersionSamplesWithContext(ctx, plan, options);
 }
 
 function std(values: number[]): number | null {

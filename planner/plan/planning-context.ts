@@ -6,7 +6,7 @@
  * relative to the central body.
  */
 import {
-  BUILTIN_EPHEMERIS_SPAN, changeCentre, congruence, createBuiltinEphemeris, EphemerisCache, frameRotation, stateRotation6, stateToFrame,
+  BUILTIN_EPHEMERIS_SPAN, changeCentre, InvalidInputError, congruence, createBuiltinEphemeris, EphemerisCache, frameRotation, stateRotation6, stateToFrame,
 } from '../../propagator/index.ts';
 import type { BodyName, Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import type { PlanEphemerisSource } from '../../contract/plan-types.ts';
@@ -81,6 +81,11 @@ export function planningContext(problem: CheckedProblem, cache?: EphemerisCache,
   const fm = problem.forceModel;
   const bodies = [...new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies, problem.initialState.centre,
     ...components.flatMap((c) => (c.body ? [c.body] : [])), 'sun'])];
+  if (fm.ephemerisSet !== undefined && files.length === 0) {
+    // Planning on the built-in series instead would silently change the problem's physics.
+    throw new InvalidInputError('forceModel.ephemerisSet', `'${fm.ephemerisSet}' names an ephemeris set of the service, and no `
+      + 'ephemeris files were given here: submit the problem to the service, or give the set\'s files (veer plan --ephemeris FILE)');
+  }
   const builtin = createBuiltinEphemeris();
   const problemSpan = { startTdbS: Math.min(epochs.initialTdbS, epochs.endTdbS), endTdbS: Math.max(epochs.initialTdbS, epochs.endTdbS) };
   // Files replace the bodies they tabulate (span checked against the problem's); the margin stays inside them.

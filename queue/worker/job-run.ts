@@ -18,6 +18,7 @@ import { BULL_PRIORITY, type JobProgress, type Priority } from '../../contract/j
 import { readCancel } from '../cancellation.ts';
 import type { PlanSink } from './plan-sink.ts';
 import type { PlannerPool } from './planner-pool.ts';
+import type { EphemerisSets } from '../config/ephemeris-sets.ts';
 
 export interface ProcessorDeps {
   pool: PlannerPool;
@@ -34,6 +35,8 @@ export interface ProcessorDeps {
   fanOutMinSamples: number;
   batchSize: number;
   retentionS: number;
+  /** The service's named ephemeris sets; a job's problem may choose one (forceModel.ephemerisSet). */
+  ephemerisSets: EphemerisSets;
   /** Registers a running job so cancel requests reach it (`cancel(by)`); returns the unregister function. */
   track(jobId: string, parentId: string | null, cancel: (by: string) => void): () => void;
 }

@@ -11,21 +11,47 @@ import {
   runBudgetSamples, runDispersionSamples, summariseDispersion,
 } from '../../planner/index.ts';
 import type { EphemerisCache } from '../../planner/index.ts';
+import { loadEphemerisFiles } from '../../ccsds/index.ts';
+import type { EphemerisFileTable, LeapSecondTable } from '../../propagator/index.ts';
+import { EPHEMERIS_SET_FIELD, type EphemerisSetFileRef } from '../config/ephemeris-sets.ts';
 import type { PlannerTask, TaskProgress } from './planner-task.ts';
+
+// Ephemeris-set files this thread has read, by path and SHA-256: a queue of jobs on one set reads each file once.
+const fileTables = new Map<string, EphemerisFileTable[]>();
+
+/** The tables of a set's files, read here (each refused if its SHA-256 is no longer the one checked at start-up). */
+async function setTables(refs: readonly EphemerisSetFileRef[], leapSeconds: LeapSecondTable): Promise<EphemerisFileTable[]> {
+  const tables: EphemerisFileTable[] = [];
+  for (const ref of refs) {
+    const key = `${ref.path}\n${ref.sha256}`;
+    let loaded = fileTables.get(key);
+    if (loaded === undefined) {
+      loaded = await loadEphemerisFiles([ref.path], leapSeconds, EPHEMERIS_SET_FIELD, [ref.sha256]);
+      fileTables.set(key, loaded);
+    }
+    tables.push(...loaded);
+  }
+  return tables;
+}
 
 /** Runs one task; `ephemerisCache` is the thread's own, shared by its tasks. */
 export async function runPlannerTask(task: PlannerTask, signal: AbortSignal, onProgress: (p: TaskProgress) => void,
   ephemerisCache: EphemerisCache): Promise<unknown> {
   switch (task.kind) {
-    case 'plan':
-      return planManeuvers(parseProblem(task.problem, leapSecondTableOfPlan(task.leapSeconds)), {
-        signal, monteCarlo: task.monteCarlo, ephemerisCache, onProgress,
+    case 'plan': {
+      const leapSeconds = leapSecondTableOfPlan(task.leapSeconds);
+      return planManeuvers(parseProblem(task.problem, leapSeconds), {
+        signal, monteCarlo: task.monteCarlo, ephemerisCache, onProgress, ephemerisFiles: await setTables(task.ephemerisFiles ?? [], leapSeconds),
       });
-    case 'samples':
-      // The samples fly the plan's problem with the plan's own leap-second table.
-      return runDispersionSamples(parseProblem(task.problem, leapSecondTableOfPlan(task.plan.leapSeconds)), task.plan, {
+    }
+    case 'samples': {
+      // The samples fly the plan's problem with the plan's own leap-second table, on the plan's own files.
+      const leapSeconds = leapSecondTableOfPlan(task.plan.leapSeconds);
+      return runDispersionSamples(parseProblem(task.problem, leapSeconds), task.plan, {
         seed: task.seed, firstIndex: task.firstIndex, count: task.count, signal, ephemerisCache,
+        ephemerisFiles: await setTables(task.ephemerisFiles ?? [], leapSeconds),
       });
+    }
     case 'combine':
       // Combining reads the samples and the problem's dispersion seed only: nothing to check or plan.
       return attachMonteCarlo(task.plan, summariseDispersion(task.problem, task.plan, task.samples));

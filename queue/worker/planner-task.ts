@@ -1,4 +1,5 @@
 /** Messages between the worker process and its planner threads (structured-clone plain data only). */
+import type { EphemerisSetFileRef } from '../config/ephemeris-sets.ts';
 import type {
   BudgetNominal, BudgetProgress, BudgetRequest, BudgetResult, BudgetSample, DispersionSample, ManeuverPlan, PlanLeapSeconds, PlanningProblem, PlanProgress,
 } from '../../planner/index.ts';
@@ -8,8 +9,9 @@ import type { FailureData } from '../../contract/errors.ts';
 export type TaskProgress = PlanProgress | BudgetProgress;
 
 export type PlannerTask =
-  | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds }
-  | { kind: 'samples'; problem: PlanningProblem; plan: ManeuverPlan; seed: number; firstIndex: number; count: number }
+  /** `ephemerisFiles`: the files of the problem's ephemeris set, with the SHA-256 each had when the set was checked. */
+  | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds; ephemerisFiles?: EphemerisSetFileRef[] }
+  | { kind: 'samples'; problem: PlanningProblem; plan: ManeuverPlan; seed: number; firstIndex: number; count: number; ephemerisFiles?: EphemerisSetFileRef[] }
   | { kind: 'combine'; problem: PlanningProblem; plan: ManeuverPlan; samples: DispersionSample[] }
   | { kind: 'budget-prepare'; request: BudgetRequest; leapSeconds: PlanLeapSeconds }
   | { kind: 'budget-samples'; request: BudgetRequest; nominal: BudgetNominal; firstIndex: number; count: number }

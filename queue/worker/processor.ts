@@ -15,6 +15,7 @@ import {
 import {
   addChildBatches, collectChildSamples, releaseChildBatches, runChildBatch, runParentJob, sampleBatches, type ParentRun, type ProcessorDeps,
 } from './job-run.ts';
+import { ephemerisSetFiles } from '../config/ephemeris-sets.ts';
 
 async function finishPlan(deps: ProcessorDeps, job: Job<RetargetJobData>, plan: ManeuverPlan): Promise<RetargetJobResult> {
   const stored = await deps.sink.storeProposedPlan({
@@ -52,10 +53,11 @@ async function addSampleBatches(deps: ProcessorDeps, job: Job<RetargetJobData>, 
 async function planStep(deps: ProcessorDeps, job: Job<RetargetJobData>, run: ParentRun): Promise<RetargetJobResult | null> {
   const { problem } = job.data;
   const fanOut = problem.dispersion.samples >= deps.fanOutMinSamples && problem.executionErrors !== undefined;
-  const planning = deps.pool.run(
-    { kind: 'plan', problem, monteCarlo: fanOut ? 'skip' : 'in-process', leapSeconds: job.data.leapSeconds ?? deps.leapSeconds },
-    { signal: run.signal, onProgress: run.report },
-  );
+  // An unknown set fails the planning (after the submission is recorded, as any other final error).
+  const planning = Promise.resolve().then(() => deps.pool.run({
+    kind: 'plan', problem, monteCarlo: fanOut ? 'skip' : 'in-process', leapSeconds: job.data.leapSeconds ?? deps.leapSeconds,
+    ephemerisFiles: ephemerisSetFiles(deps.ephemerisSets, problem.forceModel.ephemerisSet),
+  }, { signal: run.signal, onProgress: run.report }));
   planning.catch(() => undefined); // handled below; avoids an unhandled rejection while the archive write runs
   // Recorded while the planner thread already works (the archive write blocks this loop for a few ms).
   try {
@@ -97,6 +99,7 @@ export async function processSamples(deps: ProcessorDeps, job: Job<SampleBatchDa
   const samples = await runChildBatch(deps, job, bullSignal, (signal) => deps.pool.run({
     kind: 'samples', problem: job.data.problem, plan: job.data.plan, seed: job.data.seed,
     firstIndex: job.data.firstIndex, count: job.data.count,
+    ephemerisFiles: ephemerisSetFiles(deps.ephemerisSets, job.data.problem.forceModel.ephemerisSet),
   }, { signal }));
   return { firstIndex: job.data.firstIndex, samples };
 }

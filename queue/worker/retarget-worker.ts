@@ -10,6 +10,7 @@ import { BUILTIN_LEAP_SECONDS, type LeapSecondTable } from '../../propagator/ind
 import { cancelChannel, readCancel } from '../cancellation.ts';
 import { createRedis } from '../config/connection.ts';
 import { JOB_NAMES, RETARGET_QUEUE, type RetargetJobData, type SampleBatchData } from '../../contract/job-types.ts';
+import type { EphemerisSets } from '../config/ephemeris-sets.ts';
 import type { PlanSink } from './plan-sink.ts';
 import { PlannerPool } from './planner-pool.ts';
 import { processRetarget, processSamples } from './processor.ts';
@@ -42,6 +43,9 @@ export interface RetargetWorkerOptions {
   name?: string;
   /** Table for jobs queued without one (each job normally carries the API's). @defaultValue BUILTIN_LEAP_SECONDS */
   leapSeconds?: LeapSecondTable;
+  /** The service's named ephemeris sets (loadEphemerisSets of EPHEMERIS_DIR) a problem may choose.
+   * @defaultValue none */
+  ephemerisSets?: EphemerisSets;
 }
 
 export interface RetargetWorker {
@@ -67,7 +71,7 @@ export async function startRetargetWorker(opts: RetargetWorkerOptions): Promise<
     pool, sink: opts.sink, redis: connection, prefix: opts.prefix, queue, actor: name, logger: opts.logger,
     jobTimeLimitS: opts.jobTimeLimitS ?? 900, leapSeconds: planLeapSeconds(opts.leapSeconds ?? BUILTIN_LEAP_SECONDS),
     fanOutMinSamples: opts.fanOutMinSamples ?? 1_000,
-    batchSize: opts.batchSize ?? 250, retentionS: opts.retentionS ?? 7 * 86_400,
+    batchSize: opts.batchSize ?? 250, ephemerisSets: opts.ephemerisSets ?? new Map(), retentionS: opts.retentionS ?? 7 * 86_400,
     track: (jobId, parentId, cancel) => {
       running.set(jobId, { parentId, cancel });
       return () => { running.delete(jobId); };

@@ -12,7 +12,8 @@ import { pino } from 'pino';
 import { openArchive, type PlanArchive } from '../../archive/index.ts';
 import { loadApiConfig, startApiServer, type ApiServer } from '../../api/index.ts';
 import { openTokenStore, type TokenStore } from '../../api/auth/index.ts';
-import { ArchivePlanSink, JobResultSink, startRetargetWorker, type RetargetWorker } from '../../queue/index.ts';
+import { ArchivePlanSink, JobResultSink, loadEphemerisSets, startRetargetWorker, type RetargetWorker } from '../../queue/index.ts';
+import { BUILTIN_LEAP_SECONDS } from '../../propagator/index.ts';
 import { startRedis, type TestRedis } from './redis.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
@@ -23,6 +24,8 @@ export interface ServiceOptions {
   apiEnv?: Record<string, string>;
   /** Reuse a Redis (several services per file). */
   redis?: TestRedis;
+  /** EPHEMERIS_DIR of the API and of the workers (in-process and processes alike). */
+  ephemerisDir?: string;
 }
 
 export interface WorkerProcess {
@@ -72,13 +75,16 @@ export async function startService(opts: ServiceOptions = {}): Promise<TestServi
   };
   const config = loadApiConfig({
     REDIS_URL: redis.url, QUEUE_PREFIX: prefix, PORT: '0', HOST: '127.0.0.1', DATA_DIR: dataDir, PLAN_SINK: planSink,
-    JOB_ATTEMPTS: '3', ...opts.apiEnv,
+    JOB_ATTEMPTS: '3', ...(opts.ephemerisDir ? { EPHEMERIS_DIR: opts.ephemerisDir } : {}), ...opts.apiEnv,
   });
   const api = await startApiServer(config, quietLogger, { tokens: tokenStore, archive });
   await api.deps.events.ready(); // the API listens before Redis answers; tests want its event listener connected
   const workers: RetargetWorker[] = [];
   const processes: WorkerProcess[] = [];
-  const workerEnv = { REDIS_URL: redis.url, QUEUE_PREFIX: prefix, DATA_DIR: dataDir, PLAN_SINK: planSink, LOG_LEVEL: 'info' };
+  const workerEnv: Record<string, string> = {
+    REDIS_URL: redis.url, QUEUE_PREFIX: prefix, DATA_DIR: dataDir, PLAN_SINK: planSink, LOG_LEVEL: 'info',
+    ...(opts.ephemerisDir ? { EPHEMERIS_DIR: opts.ephemerisDir } : {}),
+  };
 
   const service: TestService = {
     redis, api, url: api.url, prefix, dataDir, archive, tokenStore, tokens, workerEnv,
@@ -102,6 +108,7 @@ export async function startService(opts: ServiceOptions = {}): Promise<TestServi
         fanOutMinSamples: w.fanOutMinSamples ?? 1_000_000, batchSize: w.batchSize ?? 250,
         stalledIntervalMs: w.stalledIntervalMs ?? 30_000, lockDurationMs: w.lockDurationMs ?? 30_000,
         name: `test-worker-${workers.length + 1}`,
+        ephemerisSets: await loadEphemerisSets(opts.ephemerisDir, BUILTIN_LEAP_SECONDS),
       });
       workers.push(worker);
       return worker;

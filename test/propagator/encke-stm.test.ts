@@ -2,6 +2,16 @@
  * Encke's STM (Φ = Φ_K · M, propagator/encke/encke-stm.ts) through a switched Mars flyby with a burn:
  * checked against central finite differences of the same Encke propagation and against Cowell's
  * variational equations, and its step count against the same run without the STM.
+ *
+ * The Encke-vs-Cowell limit, and why it is 2e-9 (measured on this fixture, block-relative):
+ * - the reference is good to far better: Cowell switched at rtol 1e-13 against rtol 1e-14 differs by 3.5e-11;
+ * - Encke (switched) against that reference: 2.3e-10 at rtol 1e-11, 3.9e-10 at 1e-12 (the run below), 1.1e-10
+ *   at 1e-13 — not falling with Encke's tolerance, so it is a floor of Encke's STM here (the analytic conic STM
+ *   times the integrated part, restarted at every rectification and switch), not the reference's error and not
+ *   a wrong comparison; the switch epochs of both methods agree to 4e-7 s;
+ * - an unswitched reference would be worse, not better: heliocentric Cowell through the flyby differs by 1e-8
+ *   between rtol 1e-13 and 1e-14.
+ * The limit is about 5x the largest of the three (3.9e-10); the earlier 5e-10 sat 1.3x above it.
  */
 import { describe, expect, it } from 'vitest';
 import { propagate, type PropagationRequest, type StateVector, type VelocityImpulse, type Vec3 } from '../../propagator/index.ts';
@@ -62,10 +72,8 @@ describe("Encke's STM", () => {
       const cowell = run(helio, { method: 'cowell', relativeTolerance: 1e-13, absoluteTolerance: 1e-13 });
       const error = blockRelativeError(encke.stm!, cowell.stm!);
       console.info(`Encke STM vs Cowell STM: ${error.toExponential(2)} (block-relative)`);
-      // Measured 7.4e-11 when the planet-centred segments took Mars's motion as Newtonian; 3.9e-10 since they
-      // follow Mars as tabulated (its heliocentric position's rounding, ~1.5e-8 km, now reaches the trajectory,
-      // and Φ follows the trajectory). Limit unchanged.
-      expect(error).toBeLessThan(5e-10);
+      // Measured 3.9e-10 (see the file comment: a floor of Encke's STM, 1.1e-10 to 3.9e-10 over rtol 1e-11..1e-13).
+      expect(error).toBeLessThan(2e-9);
     });
     it('should take no more than 1.5x the steps of the same run without the STM', () => {
       const without = run(helio, { withStm: false });
