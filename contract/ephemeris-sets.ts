@@ -37,6 +37,17 @@ export const ephemerisSetsResponseSchema = z.object({
 
 export type EphemerisSetListing = z.infer<typeof ephemerisSetSchema>;
 
+/** One line per source of a plan's bodies (the CCSDS COMMENT text, the CLI report and the console's review show
+ * these): each file-served body with its file, SHA-256 and span, then the built-in bodies together. */
+export function ephemerisSourceLines(sources: readonly PlanEphemerisSource[]): string[] {
+  const builtin = sources.flatMap((e) => (e.source === 'built-in' ? [e] : []));
+  return [
+    ...sources.flatMap((e) => (e.source === 'oem'
+      ? [`ephemeris ${e.body}: OEM ${e.file} sha256 ${e.sha256} covering ${e.startTdb} to ${e.endTdb}`] : [])),
+    ...(builtin.length > 0 ? [`ephemeris ${builtin.map((e) => e.body).join(', ')}: built-in ${builtin[0].version}`] : []),
+  ];
+}
+
 /**
  * How the sources rebuilt from the files at hand differ from the plan's record, body by body (null when they
  * agree): a body the plan took from a file must come from a file with the same SHA-256 (and so the same span),

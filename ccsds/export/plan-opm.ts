@@ -14,6 +14,7 @@ import { CENTRE_NAME_OF_BODY, WRITTEN_FRAME_NAME } from '../messages/frames.ts';
 import { rotateInertialCovariance } from '../messages/initial-state.ts';
 import type { OdmHeader, Opm, OpmManeuver } from '../messages/odm-types.ts';
 import { formatCcsdsEpoch } from '../syntax/values.ts';
+import { ephemerisSourceLines } from '../../contract/ephemeris-sets.ts';
 
 /** The review statement every exported message carries in its header comments. */
 export const REVIEW_COMMENTS: readonly string[] = Object.freeze([
@@ -66,13 +67,7 @@ function leapSecondsComment(plan: ManeuverPlan): string {
 /** One COMMENT per ephemeris file (body, file, SHA-256, span) and one naming the bodies of the built-in
  * series with its version; nothing for plans made before sources were recorded. */
 export function ephemerisComments(plan: ManeuverPlan): string[] {
-  const sources = plan.ephemerisSources ?? [];
-  const builtin = sources.flatMap((e) => (e.source === 'built-in' ? [e] : []));
-  return [
-    ...sources.flatMap((e) => (e.source === 'oem'
-      ? [`ephemeris ${e.body}: OEM ${e.file} sha256 ${e.sha256} covering ${e.startTdb} to ${e.endTdb}`] : [])),
-    ...(builtin.length > 0 ? [`ephemeris ${builtin.map((e) => e.body).join(', ')}: built-in ${builtin[0].version}`] : []),
-  ];
+  return ephemerisSourceLines(plan.ephemerisSources ?? []);
 }
 
 /** Header with the review statement, the plan's identity, its leap-second table, and its critical caveats

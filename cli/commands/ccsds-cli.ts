@@ -6,7 +6,7 @@
  */
 import { readFile, writeFile } from 'node:fs/promises';
 import { basename, extname } from 'node:path';
-import { exportPlanAsCcsds, readOpmAsInitialState } from '../../ccsds/index.ts';
+import { exportPlanAsCcsds, loadEphemerisFiles, readOpmAsInitialState } from '../../ccsds/index.ts';
 import {
   leapSecondTableOfPlan, type CheckedProblem, type ManeuverPlan, parseProblem, planLeapSeconds, type PlanningProblem, problemHash,
 } from '../../planner/index.ts';
@@ -102,6 +102,8 @@ export interface OfflineCcsdsExport {
   /** Seconds between OEM lines. */
   stepS?: number;
   xml?: boolean;
+  /** The OEM ephemeris files the plan was made with (`veer plan --ephemeris`), for an OEM export. */
+  ephemerisPaths?: readonly string[];
 }
 
 async function readJson(path: string, field: string): Promise<unknown> {
@@ -142,9 +144,11 @@ export async function exportPlanFilesAsCcsds(o: OfflineCcsdsExport): Promise<{ t
       + `${String(plan.problemHash).slice(0, 12)}… differs from ${hash.slice(0, 12)}… of '${o.problemPath}'`
       + `${o.statePath === undefined ? '; if it was planned with --state, give the same --state' : ''})`);
   }
+  // The plan's own files again (each body's SHA-256 is checked against the plan's record by the export).
+  const ephemerisFiles = await loadEphemerisFiles(o.ephemerisPaths ?? [], leapSeconds);
   const text = await exportPlanAsCcsds(problem, plan, {
     kind: o.kind, encoding: o.xml ? 'xml' : 'kvn', creationDateUtc: new Date().toISOString().slice(0, 19),
-    ...(o.stepS !== undefined ? { stepS: o.stepS } : {}),
+    ...(o.stepS !== undefined ? { stepS: o.stepS } : {}), ephemerisFiles,
   });
   const stem = basename(o.planPath, extname(o.planPath));
   return { text, defaultFileName: `${stem}.${o.xml ? 'xml' : o.kind}` };
@@ -153,7 +157,7 @@ export async function exportPlanFilesAsCcsds(o: OfflineCcsdsExport): Promise<{ t
 /** The `veer export` options the offline path reads (as parsed by the export command). */
 export interface OfflineExportValues {
   plan?: string; problem?: string; state?: string; ccsds?: string; format?: string; step?: string; xml?: boolean;
-  out?: string; stdout?: boolean;
+  out?: string; stdout?: boolean; ephemeris?: string[];
 }
 
 /**
@@ -174,7 +178,7 @@ export async function runOfflineCcsdsExport(values: OfflineExportValues, positio
   const { text, defaultFileName } = await exportPlanFilesAsCcsds({
     kind, planPath: values.plan, problemPath: values.problem, xml: values.xml ?? false,
     ...(values.state !== undefined ? { statePath: values.state } : {}),
-    ...(stepS !== undefined ? { stepS } : {}),
+    ...(stepS !== undefined ? { stepS } : {}), ...(values.ephemeris ? { ephemerisPaths: values.ephemeris } : {}),
   });
   if (values.stdout) { process.stdout.write(text); return 0; }
   const file = values.out ?? defaultFileName;

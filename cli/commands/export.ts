@@ -36,7 +36,9 @@ ${Object.entries(EXPORT_FORMATS).map(([name, f]) => `  ${name.padEnd(8)} ${f.sum
   --stdout     write to stdout instead of a file
   --to-head    carry chain headers up to the archive head (ties the plan to the current head hash)
   --ccsds opm|oem  same as --format ccsds-opm|ccsds-oem; --step SECONDS (OEM line spacing), --xml (NDM/XML)
-  --plan FILE --problem FILE [--state FILE.opm]   CCSDS export without a server, from veer plan --out (no plan id)
+  --plan FILE --problem FILE [--state FILE.opm] [--ephemeris FILE.oem ...]   CCSDS export without a server, from
+               veer plan --out (no plan id); a plan made with --ephemeris needs the same files again for an
+               OEM export (refused when a file's SHA-256 differs from the plan's record)
   --url URL / --token TOKEN   the API ($VEER_URL / $VEER_TOKEN); needs the reviewer or auditor role
 ${PROPOSAL_NOTICE}`;
 
@@ -49,7 +51,7 @@ export const exportCommand: CliCommand = {
       options: { url: REMOTE_OPTIONS.url, token: REMOTE_OPTIONS.token, format: { type: 'string', default: 'json' }, out: { type: 'string' },
         stdout: { type: 'boolean', default: false }, 'to-head': { type: 'boolean', default: false },
         ccsds: { type: 'string' }, step: { type: 'string' }, xml: { type: 'boolean', default: false },
-        plan: { type: 'string' }, problem: { type: 'string' }, state: { type: 'string' } },
+        plan: { type: 'string' }, problem: { type: 'string' }, state: { type: 'string' }, ephemeris: { type: 'string', multiple: true } },
     });
     if (values.plan !== undefined || values.problem !== undefined) return runOfflineCcsdsExport(values, positionals);
     const planId = positionals[0];

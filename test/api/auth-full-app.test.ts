@@ -58,6 +58,7 @@ const ADMITTED_STATUS: Record<string, number> = {
   'get /v1/budgets/:jobId/study': 404,
   'post /v1/budgets/:jobId/cancel': 404,
   'get /v1/budgets/:jobId/events': 404,
+  'get /v1/ephemerides': 200,
 };
 
 describe('role matrix over the whole service', () => {

@@ -41,8 +41,8 @@ function writeSet(dir: string, set: string, file: string, text: string): string 
 
 const setsDir = join(root, 'sets');
 const marsPath = writeSet(setsDir, 'mission-a', 'mars.oem', marsOemText('MARS', t0 - 3 * DAY_S, t0 + 3 * DAY_S, OFFSET_KM));
-// Mars tabulated only until 01:00 TDB on the problem's day, which ends at 02:00 TDB.
-writeSet(setsDir, 'too-short', 'mars-short.oem', marsOemText('MARS', t0 - 3 * DAY_S, t0 + 3600, OFFSET_KM));
+// Mars tabulated only until the problem's start (00:00 TDB); it ends at 02:00 TDB.
+writeSet(setsDir, 'too-short', 'mars-short.oem', marsOemText('MARS', t0 - 3 * DAY_S, t0, OFFSET_KM));
 const marsSha256 = createHash('sha256').update(readFileSync(marsPath)).digest('hex');
 
 /** The queue tests' fast Earth-orbit problem, with Mars perturbing and (when given) an ephemeris set. */
@@ -148,7 +148,7 @@ describe('a problem choosing a set', () => {
       const end = await waitForJob(svc, res.body.jobId, (s) => s.state === 'completed' || s.state === 'failed', 120_000);
       expect(end.state).toBe('failed');
       expect(end.error).toMatchObject({ name: 'OutOfSpanError', field: 'ephemeris' });
-      expect(end.error.message).toMatch(/mars-short\.oem: mars is tabulated from 2031-02-26T00:00:00\.000 TDB to 2031-03-01T01:00:00\.000 TDB, which does not cover 2031-03-01T01:00:00\.000 TDB to 2031-03-01T02:00:00\.000 TDB/);
+      expect(end.error.message).toMatch(/mars-short\.oem: mars is tabulated from 2031-02-26T00:00:00\.000 TDB to 2031-03-01T00:00:00\.000 TDB, which does not cover 2031-03-01T00:00:00\.000 TDB to 2031-03-01T02:00:00\.000 TDB/);
     }, 150_000);
   });
 });

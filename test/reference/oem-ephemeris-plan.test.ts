@@ -5,8 +5,10 @@
  * exactly that offset. A plan made with the file must aim at the file's Mars: the independent re-flight
  * (test/reference/independent-flyby.ts: odex + astronomy-engine, on the same offset Mars) lands within 0.1 km
  * of the aim point, while a plan made without the file misses it by about the offset's component across the
- * approach. Refusals: a file that does not cover the problem, a body the propagator does not know, a
- * corrupted file (line and keyword named). Limits a few times above the measured (in brackets).
+ * approach. A plan made on the file is exported again on the same file (`veer export --ephemeris`); refusals:
+ * an export or Monte Carlo samples without it or with another file, a problem naming a service set with no
+ * files, a file that does not cover the problem, a body the propagator does not know, a corrupted file (line
+ * and keyword named). Limits a few times above the measured (in brackets).
  */
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -15,7 +17,8 @@ import { describe, expect, it } from 'vitest';
 import { planToOem, planToOpm } from '../../ccsds/index.ts';
 import { loadEphemerisFiles } from '../../cli/ephemeris-option.ts';
 import { formatPlanReport } from '../../cli/report/plan-report.ts';
-import { parseProblem, planManeuvers, type ManeuverPlan } from '../../planner/index.ts';
+import { parseProblem, planManeuvers, runDispersionSamples, type ManeuverPlan } from '../../planner/index.ts';
+import { exportPlanFilesAsCcsds } from '../../cli/commands/ccsds-cli.ts';
 import { parseEpoch } from '../../propagator/index.ts';
 import { marsOemText } from './mars-oem.ts';
 import { runVeer } from '../harness/run-cli.ts';
@@ -87,6 +90,31 @@ describe('planning on an OEM ephemeris', () => {
       expect(formatPlanReport(withFile)).toContain('ephemeris mars: OEM mars-offset.oem sha256 ');
       await expect(planToOem(problem, withFile, { creationDateUtc: '2031-08-12T00:00:00', stepS: 86400 }))
         .rejects.toThrow(expect.objectContaining({ field: 'ephemeris' }));
+    });
+  });
+
+  describe('when a plan made on a file is used again', () => {
+    it('should export OEM from plan files with the same file again, and refuse without it or with another file', async () => {
+      const planPath = join(dir, 'plan.json');
+      const problemPath = join(dir, 'problem.json');
+      writeFileSync(planPath, JSON.stringify(withFile));
+      writeFileSync(problemPath, JSON.stringify({ ...demo, dispersion: { samples: 0, seed: 1 } }));
+      const sha = withFile.ephemerisSources?.find((s) => s.body === 'mars');
+      const base = { kind: 'oem' as const, planPath, problemPath, stepS: 86400 };
+      const { text } = await exportPlanFilesAsCcsds({ ...base, ephemerisPaths: [fullPath] });
+      expect(text).toContain(`ephemeris mars: OEM mars-offset.oem sha256 ${sha?.source === 'oem' ? sha.sha256 : '?'}`);
+      await expect(exportPlanFilesAsCcsds(base)).rejects.toThrow(/needs the same files .*veer export --ephemeris FILE/);
+      // The same Mars moved 1 m more: another SHA-256, refused naming the body and both files.
+      const other = writeOem('mars-other.oem', marsOemText('MARS', t0 - 4 * DAY_S, t0 + 66 * DAY_S, [601, -450, 250]));
+      await expect(exportPlanFilesAsCcsds({ ...base, ephemerisPaths: [other] }))
+        .rejects.toThrow(/not the ones the plan was made on: mars: the plan used mars-offset\.oem \(sha256 [0-9a-f]{12}…\), here mars-other\.oem/);
+    });
+
+    it('should refuse Monte Carlo samples without the plan\'s file, and a problem naming a service set without files', async () => {
+      await expect(runDispersionSamples(problem, withFile, { seed: 1, firstIndex: 0, count: 1 }))
+        .rejects.toThrow(expect.objectContaining({ field: 'ephemeris' }));
+      const named = parseProblem({ ...demo, dispersion: { samples: 0, seed: 1 }, forceModel: { ...(demo.forceModel as object), ephemerisSet: 'mission-a' } });
+      await expect(planManeuvers(named, { monteCarlo: 'skip' })).rejects.toThrow(expect.objectContaining({ field: 'forceModel.ephemerisSet' }));
     });
   });
 

@@ -2,6 +2,7 @@
  * Plan review: what the planner proposes and how far to trust it — burns, targets requested vs achieved,
  * the B-plane and trajectory plots, dispersion, the independent cross-check — and the decision panel.
  */
+import { ephemerisSourceLines } from '../../../contract/ephemeris-sets.ts';
 import { api } from '../api-client.ts';
 import type { ScreenFactory } from '../app-context.ts';
 import { h, replaceChildren, scrollingTable } from '../dom.ts';
@@ -62,6 +63,14 @@ function finiteBurnRow(label: string, f: PlannedFiniteBurn): HTMLTableRowElement
 }
 
 /** The leap-second table the plan's UTC epochs use (older plans do not record it). */
+/** Which source served each body (file, SHA-256 and span, or the built-in series); plans made before sources
+ * were recorded used the built-in series throughout. */
+function ephemerisList(plan: ManeuverPlan): HTMLElement | string {
+  const lines = ephemerisSourceLines(plan.ephemerisSources ?? []);
+  if (lines.length === 0) return `built-in series throughout (${plan.forceModel.ephemeris})`;
+  return h('ul', { class: 'plain small' }, lines.map((l) => h('li', { class: 'mono' }, l.replace(/^ephemeris /, ''))));
+}
+
 function leapSecondsText(plan: ManeuverPlan): string {
   const l = plan.leapSeconds;
   if (!l) return 'built-in table (not recorded in this plan)';
@@ -155,6 +164,7 @@ export const planReviewScreen: ScreenFactory = (ctx) => {
               h('dt', {}, 'Initial state'), h('dd', {}, epochText(plan.createdFrom.initialEpoch)),
               h('dt', {}, 'Leap seconds'), h('dd', {}, leapSecondsText(plan)),
               h('dt', {}, 'Force model'), h('dd', {}, plan.forceModel.summary),
+              h('dt', {}, 'Ephemeris'), h('dd', { 'data-testid': 'ephemeris-sources' }, ephemerisList(plan)),
               h('dt', {}, 'Software'), h('dd', {}, plan.softwareVersion),
               h('dt', {}, 'Problem hash'), h('dd', { class: 'mono small' }, plan.problemHash.slice(0, 16), '…')),
             h('p', {}, h('a', { href: `#/plans/${encodeURIComponent(planId)}/history` }, 'History and export of this plan'))),

@@ -8,6 +8,15 @@ import { h, replaceChildren } from '../dom.ts';
 import { hasRole } from '../session.ts';
 import { problemPathOf, validateProblem } from '../validation.ts';
 import { createProblemForm } from './problem-form.ts';
+import type { EphemerisSetListing } from '../../../contract/ephemeris-sets.ts';
+
+/** The problem with the chosen set as forceModel.ephemerisSet (unchanged when none is chosen). */
+function withEphemerisSet(problem: unknown, set: string): unknown {
+  if (set === '' || typeof problem !== 'object' || problem === null) return problem;
+  const p = problem as { forceModel?: unknown };
+  const forceModel = typeof p.forceModel === 'object' && p.forceModel !== null ? p.forceModel : {};
+  return { ...p, forceModel: { ...forceModel, ephemerisSet: set } };
+}
 
 export const submitScreen: ScreenFactory = (ctx) => {
   const session = ctx.session!;
@@ -28,6 +37,18 @@ export const submitScreen: ScreenFactory = (ctx) => {
   const reason = h('textarea', { id: 'reason', rows: 2, 'aria-describedby': 'reason-help reason-error', required: true });
   const reasonError = h('p', { id: 'reason-error', class: 'field-error', 'aria-live': 'polite' });
   const priority = h('select', { id: 'priority' }, h('option', { value: 'routine' }, 'routine'), h('option', { value: 'urgent' }, 'urgent'));
+  // The service's named ephemeris sets (GET /v1/ephemerides); the built-in series unless one is chosen.
+  const ephemeris = h('select', { id: 'ephemeris-set', 'aria-describedby': 'ephemeris-set-help' },
+    h('option', { value: '' }, 'built-in series (or the set the problem names)'));
+  const ephemerisHelp = h('p', { id: 'ephemeris-set-help', class: 'help' }, 'Loading the service\'s ephemeris sets…');
+  void api<{ sets: EphemerisSetListing[] }>(session, 'GET', '/v1/ephemerides').then(({ sets }) => {
+    for (const s of sets) {
+      const bodies = s.files.flatMap((f) => f.bodies.map((b) => `${b.body} ${b.startUtc.slice(0, 10)} to ${b.endUtc.slice(0, 10)}`));
+      ephemeris.append(h('option', { value: s.name }, `${s.name}: ${bodies.join(', ')}`));
+    }
+    ephemerisHelp.textContent = sets.length === 0 ? 'This service has no ephemeris sets: plans use the built-in series.'
+      : 'A set\'s OEM files serve the bodies they tabulate; the built-in series the rest. The plan records each file\'s SHA-256.';
+  }, (error: unknown) => { ephemerisHelp.textContent = `Could not list the ephemeris sets: ${(error as Error).message}`; });
   const summary = h('div', { class: 'summary', tabindex: '-1', 'aria-live': 'assertive' });
   const submit = h('button', { type: 'submit', class: 'primary' }, 'Check and submit');
 
@@ -111,13 +132,15 @@ export const submitScreen: ScreenFactory = (ctx) => {
     h('div', { class: 'row' },
       h('div', { class: 'field wide' }, h('label', { for: 'reason' }, 'Reason for this job'), reason,
         h('p', { id: 'reason-help', class: 'help' }, 'Kept with the plan for the reviewers, e.g. "retarget after the latest orbit determination".'), reasonError),
-      h('div', { class: 'field' }, h('label', { for: 'priority' }, 'Priority'), priority)),
+      h('div', { class: 'field' }, h('label', { for: 'priority' }, 'Priority'), priority),
+      h('div', { class: 'field' }, h('label', { for: 'ephemeris-set' }, 'Ephemeris'), ephemeris, ephemerisHelp)),
     h('div', { class: 'actions' }, submit));
 
   el.addEventListener('submit', (event) => {
     event.preventDefault();
-    const problem = modeFile.checked ? parseText() : form.collect();
-    if (problem === undefined) return;
+    const written = modeFile.checked ? parseText() : form.collect();
+    if (written === undefined) return;
+    const problem = withEphemerisSet(written, ephemeris.value);
     const checked = validateProblem(problem);
     const issues = [...checked.issues];
     if (reason.value.trim().length < 3) issues.push({ path: 'reason', message: 'say in a few words why this retargeting is needed (at least 3 characters)' });
