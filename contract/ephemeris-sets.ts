@@ -7,10 +7,7 @@
 import { z } from 'zod';
 import type { PlanEphemerisSource } from './plan-types.ts';
 
-/** A set's name: its sub-folder's name, 1–64 of letters, digits, `.`, `_`, `-` (not starting with `.`). */
-export const ephemerisSetNameSchema = z.string().regex(/^[A-Za-z0-9_-][A-Za-z0-9._-]{0,63}$/, {
-  error: 'must be 1–64 of letters, digits, . _ - (not starting with .)',
-});
+export { ephemerisSetNameSchema } from './ephemeris-set-name.ts';
 
 /** One body a set's file tabulates, over its span (TDB and UTC, ISO text with the scale). */
 export const ephemerisSetBodySchema = z.object({

@@ -8,7 +8,7 @@
  * No transforms here, so the schema converts to JSON Schema as-is.
  */
 import { z } from 'zod';
-import { ephemerisSetNameSchema } from './ephemeris-sets.ts';
+import { ephemerisSetNameSchema } from './ephemeris-set-name.ts';
 import { BODY_NAMES, INERTIAL_FRAMES } from './bodies.ts';
 import { freeTextSchema } from './free-text.ts';
 import { PROBLEM_BOUNDS as BOUNDS, RELATIVE_TOLERANCE_RANGE } from './problem-bounds.ts';
