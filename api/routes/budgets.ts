@@ -6,13 +6,12 @@
 import type { Request, Response } from 'express';
 import { z } from 'zod';
 import { budgetJobRequestSchema, findBudgetIssue, type BudgetJobRequest } from '../../queue/index.ts';
-import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
-import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
+import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
-import { cancelBodySchema, jobParamsSchema, submitResponseSchema } from '../../contract/http-schemas.ts';
+import { cancelBodySchema, jobParamsSchema } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
-import { cancelQueuedJob } from './jobs.ts';
+import { cancelQueuedJob, SUBMIT_RESPONSES, submitQueuedJob } from './jobs.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;
 
@@ -24,30 +23,17 @@ export function budgetRoutes(routes: ApiRoutes, deps: AppDeps): void {
       + 'enqueues it and answers 202 with the job id. The non-linear samples fan out over the workers. The result is a '
       + 'study: never a plan, never approvable. Idempotency keys work as for retargeting jobs.',
     body: budgetJobRequestSchema,
-    responses: {
-      202: { description: 'Budget job created', schema: submitResponseSchema },
-      200: { description: 'Same idempotency key and request: the existing job', schema: submitResponseSchema },
-      409: { description: 'Idempotency key already used for a different request' },
-    },
+    responses: SUBMIT_RESPONSES,
   }, async (req: Request, res: Response) => {
     const request = validOf<unknown, unknown, BudgetJobRequest>(res).body;
     const set = request.request.problem.forceModel.ephemerisSet;
     const issue = findBudgetIssue(request.request, deps.queue.leapSeconds) ?? (set === undefined ? null : {
       field: 'problem.forceModel.ephemerisSet', message: `a Δv budget is studied on the built-in series only; remove the ephemeris set '${set}'`,
     });
-    if (issue) {
-      deps.metrics.submissions.inc({ kind: 'delta-v-budget', outcome: 'invalid' });
-      throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.request.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
-    }
-    const outcome = await deps.queue.submitBudget(request, identityOf(req).name);
-    deps.metrics.submissions.inc({ kind: 'delta-v-budget', outcome: outcome.outcome });
-    if (outcome.outcome === 'queue-full' || outcome.outcome === 'submitter-full') { sendAdmissionRefusal(res, outcome); return; }
-    if (outcome.outcome === 'conflict') {
-      sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
-      return;
-    }
-    const body = { jobId: outcome.jobId, outcome: outcome.outcome, statusUrl: `/v1/budgets/${outcome.jobId}`, eventsUrl: `/v1/budgets/${outcome.jobId}/events` };
-    res.status(outcome.outcome === 'created' ? 202 : 200).location(body.statusUrl).json(body);
+    await submitQueuedJob(deps, req, res, {
+      kind: 'delta-v-budget', issue, issueRoot: 'body.request', urlRoot: '/v1/budgets',
+      submit: (submittedBy) => deps.queue.submitBudget(request, submittedBy),
+    });
   });
 
   routes.add({

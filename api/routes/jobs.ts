@@ -4,7 +4,9 @@
  */
 import type { Request, Response } from 'express';
 import { z } from 'zod';
-import { EPHEMERIS_SET_FIELD, ephemerisSetFiles, findProblemIssue, recordRemovedJob, type JobRequest, type ProblemIssue } from '../../queue/index.ts';
+import {
+  EPHEMERIS_SET_FIELD, ephemerisSetFiles, findProblemIssue, recordRemovedJob, type JobRequest, type ProblemIssue, type SubmitOutcome,
+} from '../../queue/index.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
@@ -51,33 +53,14 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
       + 'With an idempotency key (body `idempotencyKey` or header `Idempotency-Key`): the same key and the same request '
       + 'answer 200 with the existing job; the same key with a different request answers 409. Keys are per submitter.',
     body: jobRequestSchema,
-    responses: {
-      202: { description: 'Job created', schema: submitResponseSchema },
-      200: { description: 'Same idempotency key and request: the existing job', schema: submitResponseSchema },
-      409: { description: 'Idempotency key already used for a different request' },
-    },
+    responses: SUBMIT_RESPONSES,
   }, async (req: Request, res: Response) => {
     const request = withHeaderKey(validOf<unknown, unknown, JobRequest>(res).body, req.get('idempotency-key'));
-    const issue = findProblemIssue(request.problem, deps.queue.leapSeconds) ?? ephemerisSetIssue(deps, request.problem.forceModel.ephemerisSet);
-    if (issue) {
-      deps.metrics.submissions.inc({ kind: 'retarget', outcome: 'invalid' });
-      throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `body.problem.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
-    }
-    const identity = identityOf(req);
-    const outcome = await deps.queue.submit(request, identity.name);
-    deps.metrics.submissions.inc({ kind: 'retarget', outcome: outcome.outcome });
-    if (outcome.outcome === 'queue-full' || outcome.outcome === 'submitter-full') { sendAdmissionRefusal(res, outcome); return; }
-    if (outcome.outcome === 'conflict') {
-      sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
-      return;
-    }
-    // No archive write here: better-sqlite3 writes are synchronous and would stall every request; the worker
-    // records the submission when it starts the job (idempotent by job id), the cancel route when it never runs.
-    const body = {
-      jobId: outcome.jobId, outcome: outcome.outcome,
-      statusUrl: `/v1/jobs/${outcome.jobId}`, eventsUrl: `/v1/jobs/${outcome.jobId}/events`,
-    };
-    res.status(outcome.outcome === 'created' ? 202 : 200).location(body.statusUrl).json(body);
+    await submitQueuedJob(deps, req, res, {
+      kind: 'retarget', issueRoot: 'body.problem', urlRoot: '/v1/jobs',
+      issue: findProblemIssue(request.problem, deps.queue.leapSeconds) ?? ephemerisSetIssue(deps, request.problem.forceModel.ephemerisSet),
+      submit: (submittedBy) => deps.queue.submit(request, submittedBy),
+    });
   });
 
   routes.add({
@@ -115,6 +98,42 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
       409: { description: 'The job already finished' },
     },
   }, async (req, res) => cancelQueuedJob(deps, req, res, (jobId) => deps.queue.status(jobId)));
+}
+
+/** The answers of a submit route (either job kind). */
+export const SUBMIT_RESPONSES = {
+  202: { description: 'Job created', schema: submitResponseSchema },
+  200: { description: 'Same idempotency key and request: the existing job', schema: submitResponseSchema },
+  409: { description: 'Idempotency key already used for a different request' },
+};
+
+/**
+ * The submit door shared by retargeting and budget jobs, after the body schema: a relation-check `issue`
+ * answers 400 naming the field under `issueRoot`; else the job is enqueued (`submit`): 202 created or 200 the
+ * existing job (same idempotency key and request) with its status and event URLs under `urlRoot`, 409 for a
+ * key reused for other work, 429/503 when admission refuses. No archive write here: better-sqlite3 writes are
+ * synchronous and would stall every request; the worker records the submission when it starts the job
+ * (idempotent by job id), the cancel route when it never runs.
+ */
+export async function submitQueuedJob(deps: AppDeps, req: Request, res: Response, spec: {
+  kind: 'retarget' | 'delta-v-budget'; issue: ProblemIssue | null; issueRoot: string; urlRoot: string;
+  submit: (submittedBy: string) => Promise<SubmitOutcome>;
+}): Promise<void> {
+  const { issue, kind } = spec;
+  if (issue) {
+    deps.metrics.submissions.inc({ kind, outcome: 'invalid' });
+    throw new HttpError(400, 'INVALID_PROBLEM', issue.message, [{ path: `${spec.issueRoot}.${issue.field}`.replace(/\.\[/g, '['), message: issue.message }]);
+  }
+  const outcome = await spec.submit(identityOf(req).name);
+  deps.metrics.submissions.inc({ kind, outcome: outcome.outcome });
+  if (outcome.outcome === 'queue-full' || outcome.outcome === 'submitter-full') { sendAdmissionRefusal(res, outcome); return; }
+  if (outcome.outcome === 'conflict') {
+    sendError(res, 409, 'IDEMPOTENCY_CONFLICT', `idempotency key already used for a different request (job ${outcome.jobId})`);
+    return;
+  }
+  const statusUrl = `${spec.urlRoot}/${outcome.jobId}`;
+  const body = { jobId: outcome.jobId, outcome: outcome.outcome, statusUrl, eventsUrl: `${statusUrl}/events` };
+  res.status(outcome.outcome === 'created' ? 202 : 200).location(statusUrl).json(body);
 }
 
 /**

@@ -12,6 +12,7 @@
  */
 import { conditionNumber, norm2, pseudoSolve, svd } from '../../propagator/index.ts';
 import type { Matrix } from '../../propagator/index.ts';
+import type { IterationRecord } from '../../contract/plan-types.ts';
 
 /** What one evaluation at the controls x gives. `residuals` are unscaled (achieved − requested). */
 export type CorrectorEvaluation =
@@ -43,16 +44,9 @@ export interface CorrectorSpec {
   onIteration?: (record: CorrectorIteration) => void;
 }
 
-export interface CorrectorIteration {
-  iteration: number;
-  controls: number[];
-  scaledResiduals: number[];
-  maxScaledResidual: number;
-  conditionNumber: number | null;
-  stepNorm: number;
-  jacobianSource: 'analytic' | 'finite-difference' | 'none';
-  note?: string;
-}
+/** One iteration as the corrector records it: the plan's IterationRecord (contract/plan-types.ts), with the
+ * Jacobian's source named from the corrector's side ('analytic': the caller's; the plan calls it 'stm'). */
+export type CorrectorIteration = Omit<IterationRecord, 'jacobianSource'> & { jacobianSource: 'analytic' | 'finite-difference' | 'none' };
 
 export type CorrectorOutcome = 'converged' | 'iteration-limit' | 'diverged' | 'singular' | 'evaluation-failed'
   | 'least-squares-stationary';
