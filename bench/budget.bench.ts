@@ -3,9 +3,10 @@
  * third correction burn added (TCM-3 five days before the flyby). Writes bench/results/budget.md.
  *
  * 1. Linear path: 10,000 samples of the three-burn sequence in this process (one core), CPU time.
- * 2. Non-linear path: samples/s in one process and in two processes (one per core), and the cost of one
- *    non-linear sample as a multiple of one plan's correction stage (first corrector step to the solution
- *    evaluated with its STM, from planManeuvers' progress) — the peer, measured in the same run.
+ * 2. Non-linear path: samples/s in one process and in two processes (one per core), alternated in rounds (the
+ *    same samples, order swapped every round), and the cost of one non-linear sample as a multiple of one plan's
+ *    correction stage (first corrector step to the solution evaluated with its STM, from planManeuvers'
+ *    progress) — the peer, measured in each round.
  * `tsx bench/budget.bench.ts --nonlinear <first> <count>` is the child-process mode of the two-process run.
  */
 import { spawn } from 'node:child_process';
@@ -13,7 +14,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { assembleBudget, parseBudgetRequest, planManeuvers, prepareBudget, runBudgetSamples } from '../planner/index.ts';
 import type { BudgetSample, CheckedBudgetRequest } from '../planner/index.ts';
-import { cpuMs, machineLine } from './bench-stats.ts';
+import { cpuMs, formatSpread, machineLine, ratios, spreadOf } from './bench-stats.ts';
 
 const here = fileURLToPath(import.meta.url);
 const demo = JSON.parse(readFileSync(new URL('../examples/flyby-budget-demo.json', import.meta.url), 'utf8')) as {
@@ -49,27 +50,27 @@ function runChild(first: number, count: number): Promise<{ samples: BudgetSample
   });
 }
 
-const median = (xs: number[]): number => xs.slice().sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const lines: string[] = [];
 const log = (line = ''): void => { lines.push(line); console.log(line); };
 
-/** Correction stage of one plan of the same problem (median of 5), ms wall. */
+/** Correction stage of one plan of the same problem, ms wall (first corrector step to the solution with its STM). */
 async function correctionStageMs(): Promise<number> {
-  const runs: number[] = [];
-  for (let i = 0; i < 5; i++) {
-    let tCorrect = 0;
-    let tCross = 0;
-    await planManeuvers(request.problem, {
-      monteCarlo: 'skip',
-      onProgress: (p) => {
-        if (p.stage === 'correcting' && tCorrect === 0) tCorrect = performance.now();
-        if (p.stage === 'cross-checking' && tCross === 0) tCross = performance.now();
-      },
-    });
-    runs.push(tCross - tCorrect);
-  }
-  return median(runs);
+  let tCorrect = 0;
+  let tCross = 0;
+  await planManeuvers(request.problem, {
+    monteCarlo: 'skip',
+    onProgress: (p) => {
+      if (p.stage === 'correcting' && tCorrect === 0) tCorrect = performance.now();
+      if (p.stage === 'cross-checking' && tCross === 0) tCross = performance.now();
+    },
+  });
+  return tCross - tCorrect;
 }
+
+/** Rounds of the non-linear comparison; each runs the peer (one plan's correction stage, here), the one-process
+ * run and the two-process run of the same samples, the last two in swapped order every round. */
+const ROUNDS = 3;
+const NONLINEAR_N = 60;
 
 log('# bench:budget results');
 log();
@@ -82,18 +83,35 @@ const linear = await runBudgetSamples(request, nominal, { path: 'linear', firstI
 const linearCpuMs = cpuMs() - c0;
 const linearSummary = assembleBudget(request, plan, nominal, linear, []).linear!;
 
-const correctionMs = await correctionStageMs();
-const n1 = 40;
-const t1 = performance.now();
-await runBudgetSamples(request, nominal, { path: 'nonlinear', firstIndex: 0, count: n1 });
-const oneMs = performance.now() - t1;
-const n2 = 80;
-const t2 = performance.now();
-const [a, b] = await Promise.all([runChild(0, n2 / 2), runChild(n2 / 2, n2 / 2)]);
-const wall2 = performance.now() - t2;
-const nonlinear = [...a.samples, ...b.samples];
+await correctionStageMs(); // warm-up: the first plan in a process pays for compiling the planner's hot paths
+const correction: number[] = [];
+const oneRates: number[] = [];
+const twoRates: number[] = [];
+const twoWalls: number[] = [];
+const sampleOverCorrection: number[] = [];
+let nonlinear: BudgetSample[] = [];
+let sameSamples = true;
+for (let r = 0; r < ROUNDS; r++) {
+  const peerMs = await correctionStageMs();
+  correction.push(peerMs);
+  const one = async (): Promise<BudgetSample[]> => {
+    const x = await runChild(0, NONLINEAR_N);
+    oneRates.push(NONLINEAR_N / (x.ms / 1000));
+    sampleOverCorrection.push(x.ms / NONLINEAR_N / peerMs);
+    return x.samples;
+  };
+  const two = async (): Promise<BudgetSample[]> => {
+    const t = performance.now();
+    const [a, b] = await Promise.all([runChild(0, NONLINEAR_N / 2), runChild(NONLINEAR_N / 2, NONLINEAR_N / 2)]);
+    twoWalls.push(performance.now() - t);
+    twoRates.push(NONLINEAR_N / (Math.max(a.ms, b.ms) / 1000));
+    return [...a.samples, ...b.samples];
+  };
+  const [first, second] = r % 2 === 0 ? [await one(), await two()] : [await two(), await one()];
+  sameSamples &&= JSON.stringify(first) === JSON.stringify(second);
+  nonlinear = first;
+}
 const both = assembleBudget(request, plan, nominal, linear, nonlinear);
-const perSampleMs = oneMs / n1;
 
 log('## Three-burn sequence (TCM-1, TCM-2, TCM-3; demo flyby, 62-day span)');
 log();
@@ -102,12 +120,13 @@ log('|---|---|');
 log(`| nominal plan | ${plan.status}, cross-check ${plan.crossCheck.passed ? 'passed' : 'FAILED'}; ${plan.burns.map((x) => `${x.label} ${x.magnitudeMS.toFixed(3)} m/s`).join(', ')} |`);
 log(`| linear path: ${LINEAR_N} samples, CPU time (one core) | ${(linearCpuMs / 1000).toFixed(3)} s |`);
 log(`| linear path: samples/s, one core | ${(LINEAR_N / (linearCpuMs / 1000)).toFixed(0)} |`);
-log(`| non-linear path: samples/s, one process (${n1} samples) | ${(n1 / (oneMs / 1000)).toFixed(2)} |`);
-log(`| non-linear path: samples/s, two processes (${n2} samples, sampling time) | ${(n2 / (Math.max(a.ms, b.ms) / 1000)).toFixed(2)} |`);
-log(`| two processes / one process | ${((n2 / Math.max(a.ms, b.ms)) / (n1 / oneMs)).toFixed(2)}× |`);
-log(`| wall time of the two-process run incl. start-up and nominal planning | ${(wall2 / 1000).toFixed(1)} s |`);
-log(`| one plan's correction stage (median of 5; peer) | ${correctionMs.toFixed(0)} ms |`);
-log(`| one non-linear sample (3 re-plans + propagation) / one correction stage | ${(perSampleMs / correctionMs).toFixed(2)}× |`);
+log(`| non-linear path: samples/s, one process (${NONLINEAR_N} samples; median (min–max) of ${ROUNDS} rounds) | ${formatSpread(spreadOf(oneRates), 2)} |`);
+log(`| non-linear path: samples/s, two processes (the same ${NONLINEAR_N} samples split, sampling time) | ${formatSpread(spreadOf(twoRates), 2)} |`);
+log(`| two processes / one process, round by round | ${formatSpread(spreadOf(ratios(twoRates, oneRates)), 2)}× |`);
+log(`| wall time of the two-process run incl. start-up and nominal planning, s | ${formatSpread(spreadOf(twoWalls.map((w) => w / 1000)))} |`);
+log(`| same samples from one and from two processes | ${sameSamples ? 'yes' : 'NO'} |`);
+log(`| one plan's correction stage (peer, wall ms, one per round after a warm-up plan) | ${formatSpread(spreadOf(correction), 0)} |`);
+log(`| one non-linear sample (3 re-plans + propagation) / one correction stage, round by round | ${formatSpread(spreadOf(sampleOverCorrection), 2)}× |`);
 log();
 log(`Linear path, ${LINEAR_N} samples, seed ${request.seed}:`);
 log();
