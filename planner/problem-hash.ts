@@ -4,10 +4,15 @@
  */
 import { createHash } from 'node:crypto';
 import { canonicalJson } from '../contract/canonical-json.ts';
-import { leapSecondsIdentity } from './leap-seconds.ts';
 import type { PlanEphemerisSource, PlanLeapSeconds } from '../contract/plan-types.ts';
 import { ephemerisIdentity } from './ephemeris-files.ts';
 import type { PlanningProblem } from '../contract/problem-schema.ts';
+
+/** The part of a plan's leap-second record the problem hash covers: which data (source, file SHA-256,
+ * expiry), not where the file lay on one machine. */
+function leapSecondsIdentity(record: Pick<PlanLeapSeconds, 'source' | 'sha256' | 'expiresUtc'>): Record<string, unknown> {
+  return { source: record.source, sha256: record.sha256, expiresUtc: record.expiresUtc };
+}
 
 /**
  * SHA-256 (hex, 64 characters) of the canonical JSON of a validated problem together with the identity of

@@ -124,6 +124,7 @@ export class ChebyshevPositionsPlan implements BodyPositionsPlan {
     this.gridSegment = new Int32Array(grids.length);
   }
 
+  // Kept whole (~90 lines): the per-evaluation hot path of every force model; one pass, no calls or allocation.
   positionsInto(epochTdbS: number, out: Float64Array, offset = 0): void {
     if (!(epochTdbS >= this.startTdbS && epochTdbS <= this.endTdbS)) assertInSpan(this.name, this.span, epochTdbS);
     const n = this.n;

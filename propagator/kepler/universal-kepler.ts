@@ -61,6 +61,7 @@ function timeEquation(chi: number, alpha: number, r0: number, sigma0: number) {
  * @param muKm3S2 gravitational parameter GM of the attracting body, km^3/s^2, > 0
  * @throws InvalidInputError for non-finite input, μ ≤ 0, r0 = 0
  */
+// Kept whole (~90 lines): the per-step kernel of Encke's reference orbit; guess, bracket and Newton share scalars.
 export function keplerSolve(r0Km: ArrayLike<number>, v0KmS: ArrayLike<number>, dtS: number,
   muKm3S2: number): KeplerSolution {
   checkVec('r0Km', r0Km);

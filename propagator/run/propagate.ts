@@ -155,7 +155,6 @@ export function* propagationSteps(
   if (needsSegmentedRun(request)) return yield* segmentedSteps(request, options, propagationSteps);
   const { checked, dynamics } = prepare(request, arc);
   const { startTdbS: start, endTdbS: end, direction, burns } = checked;
-  const central = dynamics.forces.centralBody;
   const stepper = new Dop853Stepper(dynamics.rhs, start, dynamics.initialY, direction, {
     relativeTolerance: checked.relativeTolerance,
     absoluteTolerance: checked.absoluteTolerance,
@@ -212,20 +211,52 @@ export function* propagationSteps(
       }
       yield span === 0 ? 1 : Math.min(1, Math.abs(stepper.t - start) / span);
     }
-    while (burnsApplied < burns.length && burns[burnsApplied].epochTdbS === target) {
-      const y = Float64Array.from(stepper.y);
-      if (segments !== null) {
-        dynamics.settleStm?.(target, y);
-        segments.closeAtBurn(y, direction);
-        resetStm(y);
-      }
-      const dv = burns[burnsApplied].deltaVKmS;
-      dynamics.applyImpulse(target, y, [direction * dv[0], direction * dv[1], direction * dv[2]]);
-      stepper.reset(y);
-      burnsApplied += 1;
-    }
+    burnsApplied = applyBurnsAt(target, burns, burnsApplied, stepper, dynamics, segments, direction);
   }
 
+  return finishRun({ stepper, dynamics, stop, sampler, segments, burns, burnsApplied, outcome, message, events, warnings });
+}
+
+/** Applies the impulsive burns due at `target` (TDB s) in order from index `applied`; with the STM, closes the
+ * segment at each burn first. Returns the count of burns applied so far. */
+function applyBurnsAt(target: number, burns: CheckedRequest['burns'], applied: number, stepper: Dop853Stepper,
+  dynamics: PropagationDynamics, segments: StmSegments | null, direction: 1 | -1): number {
+  let burnsApplied = applied;
+  while (burnsApplied < burns.length && burns[burnsApplied].epochTdbS === target) {
+    const y = Float64Array.from(stepper.y);
+    if (segments !== null) {
+      dynamics.settleStm?.(target, y);
+      segments.closeAtBurn(y, direction);
+      resetStm(y);
+    }
+    const dv = burns[burnsApplied].deltaVKmS;
+    dynamics.applyImpulse(target, y, [direction * dv[0], direction * dv[1], direction * dv[2]]);
+    stepper.reset(y);
+    burnsApplied += 1;
+  }
+  return burnsApplied;
+}
+
+/** Where the step loop left off: what finishRun needs to build the result. */
+interface RunEnd {
+  stepper: Dop853Stepper;
+  dynamics: PropagationDynamics;
+  stop: WatchStop | null;
+  sampler: OutputSampler | null;
+  segments: StmSegments | null;
+  burns: CheckedRequest['burns'];
+  burnsApplied: number;
+  outcome: PropagationOutcome;
+  message: string | undefined;
+  events: EventRecord[];
+  warnings: string[];
+}
+
+/** The result of a finished step loop: final state (J2000 equatorial about the central body), samples,
+ * counts and, with the STM, Φ and the burn sensitivities in the request's order. */
+function finishRun(end: RunEnd): PropagationResult {
+  const { stepper, dynamics, stop, sampler, segments, burns, burnsApplied, outcome, message, events, warnings } = end;
+  const central = dynamics.forces.centralBody;
   // The final integration vector: where a watcher stopped the run inside a step, or the stepper's.
   let finalEpoch = stepper.t;
   let yFinal = Float64Array.from(stepper.y);
