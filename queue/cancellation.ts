@@ -13,7 +13,11 @@ export interface CancelRecord {
   /** The cancelled job's request hash, so a resubmission with its idempotency key can tell a repeat from other work. */
   requestHash?: string;
   /** Set when the job was removed before it ever ran (it then has no BullMQ state). */
-  removedWhileWaiting?: { submittedBy: string; submittedAt: string; reason: string; priority: string; spacecraftName: string };
+  removedWhileWaiting?: {
+    submittedBy: string; submittedAt: string; reason: string; priority: string; spacecraftName: string;
+    /** Which kind of job it was (absent in records written before budgets: a retarget job). */
+    kind?: 'retarget' | 'delta-v-budget';
+  };
 }
 
 export function cancelKey(prefix: string, jobId: string): string {
@@ -34,4 +38,3 @@ export async function readCancel(redis: Redis, prefix: string, jobId: string): P
   const raw = await redis.get(cancelKey(prefix, jobId));
   return raw ? (JSON.parse(raw) as CancelRecord) : null;
 }
-

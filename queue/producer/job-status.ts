@@ -46,11 +46,11 @@ export function describeBudgetJob(job: Job<RetargetJobData, RetargetJobResult>, 
   return { ...status, kind: 'delta-v-budget', result };
 }
 
-/** The status of a retarget job removed by a cancel before any worker ran it (only its cancel record is
- * left); undefined when the record says no such thing. */
-export function cancelledBeforeRunStatus(jobId: string, cancel: CancelRecord | null): JobStatus | undefined {
-  if (!cancel?.removedWhileWaiting) return undefined;
-  const w = cancel.removedWhileWaiting;
+/** The status of a job of `kind` removed by a cancel before any worker ran it (only its cancel record is
+ * left); undefined when the record says no such thing or names the other kind. */
+export function cancelledBeforeRunStatus(jobId: string, cancel: CancelRecord | null, kind: 'retarget' | 'delta-v-budget'): JobStatus | undefined {
+  const w = cancel?.removedWhileWaiting;
+  if (!cancel || !w || (w.kind ?? 'retarget') !== kind) return undefined;
   return {
     id: jobId, kind: 'retarget', state: 'cancelled', priority: w.priority === 'urgent' ? 'urgent' : 'routine', submittedBy: w.submittedBy,
     submittedAt: w.submittedAt, reason: w.reason, spacecraftName: w.spacecraftName, attemptsMade: 0, progress: null,

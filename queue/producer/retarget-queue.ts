@@ -194,7 +194,10 @@ export class RetargetQueue {
     this.assertConnected();
     if (!isIssuedJobId(jobId)) return undefined;
     const { job, state } = await this.snapshot(jobId);
-    if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
+    if (!job || job.name !== BUDGET_JOB_NAMES.budget) {
+      const removed = cancelledBeforeRunStatus(jobId, await readCancel(this.redis, this.prefix, jobId), 'delta-v-budget');
+      return removed ? { ...removed, kind: 'delta-v-budget', result: null } : undefined;
+    }
     const status = describeBudgetJob(job, state, await readCancel(this.redis, this.prefix, jobId));
     const data = job.data as unknown as BudgetJobData;
     if (state === 'waiting-children') status.progress = await fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples', 'nonlinear') ?? status.progress;
@@ -214,9 +217,7 @@ export class RetargetQueue {
     if (!isIssuedJobId(jobId)) return undefined;
     const { job, state } = await this.snapshot(jobId);
     const cancel = await readCancel(this.redis, this.prefix, jobId);
-    if (!job || job.name !== JOB_NAMES.retarget) {
-      return cancelledBeforeRunStatus(jobId, cancel);
-    }
+    if (!job || job.name !== JOB_NAMES.retarget) return cancelledBeforeRunStatus(jobId, cancel, 'retarget');
     const status = describeJob(job, state, cancel);
     if (state === 'waiting-children') status.progress = await fanOutProgress(job) ?? status.progress;
     return status;
@@ -262,6 +263,7 @@ export class RetargetQueue {
       record.removedWhileWaiting = {
         submittedBy: job.data.submittedBy, submittedAt: job.data.submittedAt, reason: job.data.reason,
         priority: job.data.priority, spacecraftName: job.data.problem.spacecraft.name,
+        kind: job.name === BUDGET_JOB_NAMES.budget ? 'delta-v-budget' : 'retarget',
       };
       await requestCancel(this.redis, this.prefix, jobId, record, this.retentionS);
       try {

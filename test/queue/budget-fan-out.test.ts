@@ -13,6 +13,7 @@ import { keysOf } from './fixtures.ts';
 
 let svc: TestService;
 const processedBy = new Map<string, string>();
+const workers: { worker: { pause(): Promise<void>; resume(): void } }[] = [];
 const demo = JSON.parse(readFileSync(new URL('../../examples/flyby-budget-demo.json', import.meta.url), 'utf8')) as Record<string, unknown>;
 const body = (request: Record<string, unknown>) => ({ request, reason: 'service test: Δv budget of the remaining correction burns' });
 const BUDGET_STAGES = ['nominal', 'linear', 'nonlinear', 'summary', 'done'];
@@ -20,6 +21,7 @@ const BUDGET_STAGES = ['nominal', 'linear', 'nonlinear', 'summary', 'done'];
 async function addWorkers(n: number): Promise<void> {
   for (let i = 0; i < n; i++) {
     const w = await svc.startWorkerInProcess({ concurrency: 1, batchSize: 2 });
+    workers.push(w);
     w.worker.on('completed', (job) => processedBy.set(String(job.id), w.name));
   }
 }
@@ -101,6 +103,24 @@ describe('Δv budget jobs', () => {
       expect(res.status).toBe(400);
       expect(JSON.stringify(res.body)).toContain('request.knowledge');
     });
+  });
+
+  describe('when a budget job is cancelled before any worker took it', () => {
+    it('should read as a cancelled budget job, not as a retargeting job', async () => {
+      await Promise.all(workers.map((w) => w.worker.pause()));
+      try {
+        const res = await svc.request('POST', '/v1/budgets', { token: svc.tokens.submitter, body: body({ ...demo, linearSamples: 10, nonlinearSamples: 6 }) });
+        const jobId = res.body.jobId as string;
+        const cancel = await svc.request('POST', `/v1/budgets/${jobId}/cancel`, { token: svc.tokens.submitter, body: { reason: 'test' } });
+        expect(cancel.status).toBe(200);
+        const status = await svc.request('GET', `/v1/budgets/${jobId}`, { token: svc.tokens.auditor });
+        expect(status.status).toBe(200);
+        expect(status.body).toMatchObject({ id: jobId, kind: 'delta-v-budget', state: 'cancelled', result: null });
+        expect((await svc.request('GET', `/v1/jobs/${jobId}`, { token: svc.tokens.auditor })).status).toBe(404);
+      } finally {
+        for (const w of workers) w.worker.resume();
+      }
+    }, 120_000);
   });
 
   describe('when the job is cancelled while its sample batches run', () => {
