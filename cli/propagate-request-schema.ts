@@ -175,7 +175,7 @@ function checkFileFiniteBurns(request: PropagationRequest, index: FileIndex): vo
     checkFiniteBurns(request);
   } catch (error) {
     if (!(error instanceof InvalidInputError)) throw error;
-    const message = error.message.slice(error.field.length + 2)
+    const message = error.detail
       .replace(/finiteBurns\[(\d+)\]/g, (_m, k: string) => `burns[${index.finite[Number(k)]}]`)
       .replace(/finite burn (\d+)/g, (_m, k: string) => `finite burn burns[${index.finite[Number(k)]}]`);
     throw new InvalidInputError(fileField(error.field, index), message);

@@ -13,6 +13,7 @@ import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import { CancelledError, InvalidInputError, OutOfSpanError } from '../../propagator/index.ts';
 import type { CcsdsExportOptions } from './export-plan.ts';
+import { FailureError, type FailureData } from '../../contract/errors.ts';
 
 /** What crosses into the thread: plain data only (no signal, callback or ephemeris object). */
 export interface ExportThreadInput {
@@ -31,7 +32,7 @@ export interface ExportCacheCounters { blocksFitted: number; blocksReused: numbe
 /** The one message a thread sends back per export. */
 export type ExportThreadOutput =
   | { ok: true; text: string; cache: ExportCacheCounters }
-  | { ok: false; error: { name: string; message: string; field?: string; code?: string } };
+  | { ok: false; error: FailureData };
 
 /** An export's text with what it cost the thread's cache: blocks fitted and reused by this export, and
  * whether the thread had run an export before. */
@@ -62,15 +63,13 @@ interface ExportThread { worker: Worker; exports: number; cache: ExportCacheCoun
 // entry registers tsx in the fresh thread first.
 const ENTRY = new URL(import.meta.url.endsWith('.js') ? './export-thread.js' : './export-thread-entry.mjs', import.meta.url);
 
-/** Rebuilds the error kinds the callers tell apart (by class and `name`); others keep name and message. */
-function revive(e: Extract<ExportThreadOutput, { ok: false }>['error']): Error {
-  const strip = (field: string): string => e.message.startsWith(`${field}: `) ? e.message.slice(field.length + 2) : e.message;
-  if (e.name === 'InvalidInputError' && e.field !== undefined) return new InvalidInputError(e.field, strip(e.field), e.code);
-  if (e.name === 'OutOfSpanError' && e.field !== undefined) return new OutOfSpanError(e.field, strip(e.field));
+/** Rebuilds the error kinds the callers tell apart by class (the failure came as data); others keep their
+ * name, code and field (FailureError). */
+function revive(e: FailureData): Error {
+  if (e.name === 'InvalidInputError' && e.field !== undefined) return new InvalidInputError(e.field, e.message, e.code);
+  if (e.name === 'OutOfSpanError' && e.field !== undefined) return new OutOfSpanError(e.field, e.message);
   if (e.name === 'CancelledError') return new CancelledError(e.message);
-  const error = new Error(e.message);
-  error.name = e.name;
-  return error;
+  return new FailureError(e);
 }
 
 export class CcsdsExportThreads {

@@ -8,6 +8,7 @@ import { parentPort } from 'node:worker_threads';
 import { EphemerisCache, leapSecondTableOfPlan } from '../../propagator/index.ts';
 import { loadEphemerisFiles } from '../messages/oem-ephemeris-files.ts';
 import { exportPlanAsCcsds } from './export-plan.ts';
+import { failureOf } from '../../contract/errors.ts';
 import type { ExportThreadInput, ExportThreadOutput } from './export-off-thread.ts';
 
 const port = parentPort;
@@ -26,16 +27,6 @@ port.on('message', ({ problem, plan, options, ephemerisFiles }: ExportThreadInpu
         const { blocksFitted, blocksReused } = ephemerisCache.stats();
         send({ ok: true, text, cache: { blocksFitted, blocksReused } });
       },
-      (error: unknown) => {
-        const e = (error instanceof Error ? error : new Error(String(error))) as Error & { field?: unknown; code?: unknown };
-        send({
-          ok: false,
-          error: {
-            name: e.name, message: e.message,
-            ...(typeof e.field === 'string' ? { field: e.field } : {}),
-            ...(typeof e.code === 'string' ? { code: e.code } : {}),
-          },
-        });
-      },
+      (error: unknown) => send({ ok: false, error: failureOf(error) }),
     );
 });

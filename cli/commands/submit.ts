@@ -4,6 +4,7 @@
  */
 import { parseArgs } from 'node:util';
 import { parseProblem } from '../../planner/index.ts';
+import { failureOf } from '../../contract/errors.ts';
 import { loadCliLeapSeconds } from '../leap-seconds-option.ts';
 import type { CliCommand } from '../command.ts';
 import { JOB_EXIT, JOB_EXIT_USAGE } from './job-outcome.ts';
@@ -39,10 +40,9 @@ async function readCheckedProblem(path: string): Promise<unknown> {
   try {
     parseProblem(json, leapSeconds);
   } catch (error) {
-    const err = error as Error & { field?: string };
-    if (err.name !== 'InvalidInputError' && err.name !== 'OutOfSpanError') throw error;
-    const detail = err.field && err.message.startsWith(`${err.field}: `) ? err.message.slice(err.field.length + 2) : err.message;
-    throw new UsageError(`problem.${err.field ?? '(problem)'}`, `${detail} — in '${path}'; nothing was sent`);
+    const failure = failureOf(error);
+    if (failure.name !== 'InvalidInputError' && failure.name !== 'OutOfSpanError') throw error;
+    throw new UsageError(`problem.${failure.field ?? '(problem)'}`, `${failure.message} — in '${path}'; nothing was sent`);
   }
   return json;
 }
