@@ -22,7 +22,7 @@ import { loadApiConfig, startApiServer } from '../../api/index.ts';
 import { loadEphemerisFiles } from '../../ccsds/index.ts';
 import { parseProblem, planManeuvers } from '../../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS, parseEpoch } from '../../propagator/index.ts';
-import { loadEphemerisSets } from '../../queue/index.ts';
+import { loadEphemerisSets, logEphemerisSetsAtStart } from '../../queue/index.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
 import { reachableProblem, submission } from '../queue/fixtures.ts';
 import { marsOemText } from '../reference/mars-oem.ts';
@@ -163,11 +163,23 @@ describe('start-up with a corrupt set', () => {
     const config = loadApiConfig({ REDIS_URL: svc.redis.url, PORT: '0', HOST: '127.0.0.1', DATA_DIR: root, EPHEMERIS_DIR: dir });
     // Refused before anything is opened (Redis, archive, tokens): nothing to close.
     await expect(startApiServer(config, pino({ level: 'silent' }))).rejects.toThrow(expected);
-  });
+    // A worker process (queue/worker-main.ts) with the same folder exits 2 with the same words.
+    await expect(svc.startWorkerProcess({ EPHEMERIS_DIR: dir })).rejects.toThrow(/worker process exited \(2\)[\s\S]*EPHEMERIS_DIR: set 'broken': REF_FRAME: line 9: /);
+  }, 120_000);
 
-  it('should refuse a file that is not OEM by its name, and log the sets it found', async () => {
+  it('should refuse a file that is not OEM by its name', async () => {
     const dir = join(root, 'stray');
     writeSet(dir, 'one', 'notes.md', 'not an ephemeris');
     await expect(loadEphemerisSets(dir, BUILTIN_LEAP_SECONDS)).rejects.toThrow(/set 'one' holds notes\.md, which is not a CCSDS OEM file/);
+  });
+
+  it('should log the sets it found with their files, SHA-256 and bodies', async () => {
+    const lines: { msg: string; ephemerisSets: { name: string; files: { file: string; sha256: string; bodies: string[] }[] }[] }[] = [];
+    const logger = pino({ level: 'info' }, { write: (line: string) => { lines.push(JSON.parse(line)); } });
+    logEphemerisSetsAtStart(await loadEphemerisSets(setsDir, BUILTIN_LEAP_SECONDS), logger);
+    logEphemerisSetsAtStart(await loadEphemerisSets(undefined, BUILTIN_LEAP_SECONDS), logger);
+    expect(lines[0].msg).toBe('ephemeris sets: mission-a (mars); too-short (mars)');
+    expect(lines[0].ephemerisSets[0].files[0]).toMatchObject({ file: 'mars.oem', bodies: ['mars'] });
+    expect(lines[1].msg).toBe('ephemeris sets: none (built-in series only)');
   });
 });
