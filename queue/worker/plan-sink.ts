@@ -8,6 +8,7 @@
  */
 import type { BudgetResult, ManeuverPlan } from '../../planner/index.ts';
 import type { FailureData } from '../../contract/errors.ts';
+import type { PlanArchive } from '../../contract/archive-types.ts';
 import type { RetargetJobData } from '../../contract/job-types.ts';
 import type { BudgetJobData } from '../../contract/budget-job-types.ts';
 
@@ -62,15 +63,8 @@ export class JobResultSink implements PlanSink {
   async close(): Promise<void> {}
 }
 
-/** The part of archive/'s PlanArchive the sink uses (every method idempotent by job id). */
-export interface ArchiveAppends {
-  recordJobSubmitted(input: { jobId: string; actor: string; problem: unknown; problemHash?: string; reason?: string }): Promise<unknown>;
-  recordPlanProposed(input: { jobId: string; actor: string; submittedBy: string; plan: ManeuverPlan }): Promise<{ planId: string; created: boolean }>;
-  recordJobFailed(input: { jobId: string; actor: string; errorName: string; message: string }): Promise<unknown>;
-  recordStudy(input: { jobId: string; actor: string; submittedBy: string; study: BudgetResult }): Promise<{ created: boolean }>;
-  recordJobCancelled(input: { jobId: string; actor: string; reason?: string }): Promise<unknown>;
-  close(): Promise<void>;
-}
+/** The part of the archive (contract PlanArchive) the sink uses; every method idempotent by job id. */
+export type ArchiveAppends = Pick<PlanArchive, 'recordJobSubmitted' | 'recordPlanProposed' | 'recordJobFailed' | 'recordStudy' | 'recordJobCancelled' | 'close'>;
 
 /** Appends to the plan archive; exactly-once per job comes from the archive's idempotent appends. */
 export class ArchivePlanSink implements PlanSink {
