@@ -89,7 +89,8 @@ export function planningContext(problem: CheckedProblem, cache?: EphemerisCache,
   const builtin = createBuiltinEphemeris();
   const problemSpan = { startTdbS: Math.min(epochs.initialTdbS, epochs.endTdbS), endTdbS: Math.max(epochs.initialTdbS, epochs.endTdbS) };
   // Files replace the bodies they tabulate (span checked against the problem's); the margin stays inside them.
-  const { source, sources } = ephemerisWithFiles(files, problemSpan, bodies);
+  // Errors name the problem's set when it chose one (the service), else the files given (the CLI).
+  const { source, sources } = ephemerisWithFiles(files, problemSpan, bodies, fm.ephemerisSet === undefined ? 'ephemeris' : 'forceModel.ephemerisSet');
   const start = Math.max(source.span.startTdbS, BUILTIN_EPHEMERIS_SPAN.startTdbS, problemSpan.startTdbS - MARGIN_S);
   const end = Math.min(source.span.endTdbS, BUILTIN_EPHEMERIS_SPAN.endTdbS, problemSpan.endTdbS + MARGIN_S);
   const ephemeris = bodies.length === 1 && bodies[0] === 'sun'

@@ -147,7 +147,7 @@ describe('a problem choosing a set', () => {
       expect(res.status).toBe(202);
       const end = await waitForJob(svc, res.body.jobId, (s) => s.state === 'completed' || s.state === 'failed', 120_000);
       expect(end.state).toBe('failed');
-      expect(end.error).toMatchObject({ name: 'OutOfSpanError', field: 'ephemeris' });
+      expect(end.error).toMatchObject({ name: 'OutOfSpanError', field: 'forceModel.ephemerisSet' });
       expect(end.error.message).toMatch(/mars-short\.oem: mars is tabulated from 2031-02-26T00:00:00\.000 TDB to 2031-03-01T00:00:00\.000 TDB, which does not cover 2031-03-01T00:00:00\.000 TDB to 2031-03-01T02:00:00\.000 TDB/);
     }, 150_000);
   });
