@@ -12,13 +12,12 @@
 import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import {
-  type BodyName, CancelledError, changeCentre, congruence, createBuiltinEphemeris, type Ephemeris, type EphemerisCache, type EphemerisFileTable,
+  type BodyName, CancelledError, changeCentre, congruence, covarianceBetweenFrames, createBuiltinEphemeris, type Ephemeris, type EphemerisCache, type EphemerisFileTable,
   ephemerisWithFiles,
   type ForceModelSpec, InvalidInputError,
   type LeapSecondTable, leapSecondTableOfPlan, parseEpoch, propagateAsync, rowsOf6, type StateVector, stateToFrame,
 } from '../../propagator/index.ts';
 import { ephemerisSourceMismatch } from '../../contract/ephemeris-sets.ts';
-import { rotateInertialCovariance } from '../messages/initial-state.ts';
 import { CENTRE_NAME_OF_BODY, type MessageFrame, WRITTEN_FRAME_NAME } from '../messages/frames.ts';
 import type { InterpolationMethod, Oem, OemCovariance, OemSegment, OemState } from '../messages/odm-types.ts';
 import { assertExportable, type PlanExportOptions, planEpochComment, planHeader } from './plan-opm.ts';
@@ -142,7 +141,7 @@ export async function planToOem(problem: PlanningProblem, plan: ManeuverPlan, op
   assertExportable(plan);
   const run = exportRun(problem, plan, options);
   const s = problem.initialState;
-  let covariance = s.covarianceKmKmS && rotateInertialCovariance(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL');
+  let covariance = s.covarianceKmKmS && covarianceBetweenFrames(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL');
   let state: StateVector = {
     epochTdbS: run.startTdbS, centre: s.centre, frame: s.frame, positionKm: [...s.positionKm], velocityKmS: [...s.velocityKmS],
   };

@@ -8,10 +8,9 @@ import type { ManeuverPlan } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { PlannedFiniteBurn } from '../../contract/index.ts';
 import {
-  InvalidInputError, leapSecondTableOfPlan, parseEpoch, stateToFrame, type TimeScale, tnwFromVnb, utcTextOrNull,
+  covarianceBetweenFrames, InvalidInputError, leapSecondTableOfPlan, parseEpoch, stateToFrame, type TimeScale, tnwFromVnb, utcTextOrNull,
 } from '../../propagator/index.ts';
 import { CENTRE_NAME_OF_BODY, WRITTEN_FRAME_NAME } from '../messages/frames.ts';
-import { rotateInertialCovariance } from '../messages/initial-state.ts';
 import type { OdmHeader, Opm, OpmManeuver } from '../messages/odm-types.ts';
 import { formatCcsdsEpoch } from '../syntax/values.ts';
 import { ephemerisSourceLines } from '../../contract/ephemeris-sets.ts';
@@ -166,7 +165,7 @@ export function planToOpm(problem: PlanningProblem, plan: ManeuverPlan, options:
     userDefined: [],
   };
   if (s.covarianceKmKmS) {
-    opm.covariance = { comments: ['Initial-state covariance'], matrix: rotateInertialCovariance(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL') };
+    opm.covariance = { comments: ['Initial-state covariance'], matrix: covarianceBetweenFrames(s.covarianceKmKmS, s.frame, 'J2000_EQUATORIAL') };
   }
   if (s.frame !== 'J2000_EQUATORIAL') {
     opm.state.comments.push(`Rotated from the problem's ${s.frame} axes to EME2000 (the standard has no ecliptic frame)`);

@@ -4,7 +4,7 @@
  */
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import {
-  type InertialFrame, congruence, frameRotation, localFrameMatrix, stateRotation6, transpose,
+  congruence, covarianceBetweenFrames, localFrameMatrix, stateRotation6, transpose,
 } from '../../propagator/index.ts';
 import { frameMeaningFromName } from './frames.ts';
 import type { Opm } from './odm-types.ts';
@@ -35,14 +35,9 @@ export function covarianceInStateFrame(opm: Opm): number[][] | undefined {
     const local = localFrameMatrix(meaning.ccsdsName === 'TNW' ? 'TNW' : 'RTN', positionKm, velocityKmS);
     return congruence(transpose(stateRotation6(local)), c.matrix);
   }
-  return rotateInertialCovariance(c.matrix, meaning.frame, opm.metadata.frame);
+  return covarianceBetweenFrames(c.matrix, meaning.frame, opm.metadata.frame);
 }
 
-/** Rotates a 6×6 covariance between the J2000 equatorial and ecliptic axes. */
-export function rotateInertialCovariance(matrix: number[][], from: InertialFrame, to: InertialFrame): number[][] {
-  if (from === to) return matrix.map((row) => [...row]);
-  return congruence(stateRotation6(frameRotation(from, to)), matrix);
-}
 
 /**
  * Reads OPM text (KVN or XML) and maps it onto the planner's initial state. Throws CcsdsFormatError

@@ -13,9 +13,8 @@ import { exhaustVelocityKmS } from '../maneuver-math.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
 import type { BudgetDraw } from './budget-draws.ts';
 import type { BudgetNominal, BudgetSample, SampleBurn } from '../../contract/budget-types.ts';
-import type { Vec3 } from '../../propagator/index.ts';
+import { multiplyVector, type Vec3 } from '../../propagator/index.ts';
 
-const matVec = (a: number[][], x: readonly number[]): number[] => a.map((row) => row.reduce((acc, v, j) => acc + v * x[j], 0));
 
 /** Closest-approach altitude (km) and impact from a B-plane point on the nominal hyperbola. */
 export function approachFromBPlane(nominal: BudgetNominal, bDotTKm: number, bDotRKm: number): { altitudeKm: number | null; impact: boolean } {
@@ -31,18 +30,18 @@ export function approachFromBPlane(nominal: BudgetNominal, bDotTKm: number, bDot
 export function linearBudgetSample(request: BudgetRequest, nominal: BudgetNominal, draw: BudgetDraw): BudgetSample {
   const errors = request.problem.executionErrors ?? null;
   const exhaust = exhaustVelocityKmS(request.problem.spacecraft.engine.ispS);
-  let dx = draw.initialOffset ? matVec(nominal.transitionToFirst, draw.initialOffset) : [0, 0, 0, 0, 0, 0];
+  let dx = draw.initialOffset ? multiplyVector(nominal.transitionToFirst, draw.initialOffset) : [0, 0, 0, 0, 0, 0];
   let mass = request.problem.spacecraft.massKg;
   const burns: SampleBurn[] = nominal.burns.map((b, k) => {
     const estimate = dx.map((v, i) => v + draw.knowledgeOffsets[k][i]);
-    const correction = matVec(b.gain, estimate);
+    const correction = multiplyVector(b.gain, estimate);
     const nom = b.deltaVInertialKmS;
     const commanded: Vec3 = [nom[0] - correction[0], nom[1] - correction[1], nom[2] - correction[2]];
     const executed = errors ? executedDeltaV(commanded, errors, draw.executionNormals[k]) : commanded;
     for (let i = 0; i < 3; i++) dx[3 + i] += executed[i] - nom[i];
     const propellantKg = -mass * Math.expm1(-Math.hypot(...executed) / exhaust);
     mass -= propellantKg;
-    if (b.transitionToNext) dx = matVec(b.transitionToNext, dx);
+    if (b.transitionToNext) dx = multiplyVector(b.transitionToNext, dx);
     return { commandedKmS: commanded, magnitudeMS: Math.hypot(...commanded) * 1000, propellantKg };
   });
   const delivered = nominal.nominalValues.map((v, i) => v + nominal.deliveryJacobian[i].reduce((acc, g, j) => acc + g * dx[j], 0));

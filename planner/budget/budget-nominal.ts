@@ -12,9 +12,8 @@
  */
 import { InvalidInputError } from '../../propagator/index.ts';
 import type { StateVector, Vec3 } from '../../propagator/index.ts';
-import { identity, pseudoSolve, rowsOf6, svd } from '../../propagator/index.ts';
+import { covarianceBetweenFrames, identity, pseudoSolve, rowsOf6, svd } from '../../propagator/index.ts';
 import type { ManeuverPlan } from '../../contract/plan-types.ts';
-import { covarianceToEquatorial } from '../plan/planning-context.ts';
 import type { PlanningContext } from '../plan/planning-context.ts';
 import { approachImpactRadiusKm, vInfinityKmS } from '../plan/linear-dispersion.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
@@ -111,6 +110,6 @@ export async function budgetNominal(request: BudgetRequest, ctx: PlanningContext
       vInfinityKmS: approach ? vInfinityKmS(approach.stateRelBody, gmOf(idx.body)) : null,
     } : null,
     initialCovariance: ctx.initialCovariance,
-    knowledgeCovariances: request.knowledge.map((k) => covarianceToEquatorial(k.covarianceKmKmS, ctx.problem.initialState.frame)),
+    knowledgeCovariances: request.knowledge.map((k) => covarianceBetweenFrames(k.covarianceKmKmS, ctx.problem.initialState.frame, 'J2000_EQUATORIAL')),
   };
 }

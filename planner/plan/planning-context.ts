@@ -6,7 +6,7 @@
  * relative to the central body.
  */
 import {
-  BUILTIN_EPHEMERIS_SPAN, changeCentre, InvalidInputError, congruence, createBuiltinEphemeris, EphemerisCache, frameRotation, stateRotation6, stateToFrame,
+  BUILTIN_EPHEMERIS_SPAN, changeCentre, InvalidInputError, covarianceBetweenFrames, createBuiltinEphemeris, EphemerisCache, stateToFrame,
 } from '../../propagator/index.ts';
 import type { BodyName, Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
 import type { PlanEphemerisSource } from '../../contract/plan-types.ts';
@@ -41,18 +41,9 @@ export interface PlanningContext {
 
 const MARGIN_S = 2 * 86400;
 
-/**
- * A 6x6 [r, v] covariance (km², km²/s, km²/s²) given in the axes of an inertial `frame`, rotated to J2000
- * equatorial: R·C·Rᵀ with R = diag(Q, Q).
- */
-export function covarianceToEquatorial(c: readonly (readonly number[])[], frame: StateVector['frame']): number[][] {
-  if (frame === 'J2000_EQUATORIAL') return c.map((row) => row.slice());
-  return congruence(stateRotation6(frameRotation(frame, 'J2000_EQUATORIAL')), c);
-}
-
 function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | null {
   const c = problem.initialState.covarianceKmKmS;
-  return c ? covarianceToEquatorial(c, problem.initialState.frame) : null;
+  return c ? covarianceBetweenFrames(c, problem.initialState.frame, 'J2000_EQUATORIAL') : null;
 }
 
 /** Builds the context of a checked problem from the epochs and leap-second table its checks recorded (no

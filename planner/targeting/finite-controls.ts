@@ -6,7 +6,7 @@
  * (e1, e2 ⟂ u0: a chart with no singularity near the seed, unlike azimuth/elevation at a pole), the
  * duration (s) and, when the burn has an epoch window, the ignition shift (s) from the seed's ignition.
  */
-import type { Vec3 } from '../../propagator/index.ts';
+import { cross3 as cross, type Vec3 } from '../../propagator/index.ts';
 import type { ControlDescriptor, FiniteControlKind } from '../../contract/plan-types.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { ProblemEpochs } from '../problem-checks.ts';
@@ -17,7 +17,6 @@ const unit = (v: readonly number[]): Vec3 => {
   const n = Math.hypot(v[0], v[1], v[2]);
   return [v[0] / n, v[1] / n, v[2] / n];
 };
-const cross = (a: readonly number[], b: readonly number[]): Vec3 => [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
 
 /** Two unit vectors completing `u` (unit) to a right-handed triad. */
 export function acrossOf(u: Vec3): [Vec3, Vec3] {

@@ -6,6 +6,8 @@ import type { Ephemeris } from '../ephemeris/ephemeris.ts';
 import type { BodyName, InertialFrame, StateVector, Vec3 } from '../types.ts';
 import { INERTIAL_FRAMES } from '../types.ts';
 import { transpose3, type Matrix3 } from '../math/matrix3.ts';
+import { congruence } from '../math/matrix.ts';
+import { stateRotation6 } from './local-frames.ts';
 import { ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000, eclipticFromEquatorialJ2000, equatorialFromEclipticJ2000 } from './ecliptic.ts';
 
 function checkFrame(frame: InertialFrame, field: string): void {
@@ -21,6 +23,13 @@ export function frameRotation(from: InertialFrame, to: InertialFrame): Matrix3 {
   if (from === to) return [1, 0, 0, 0, 1, 0, 0, 0, 1];
   const r = [...ROTATION_EQUATORIAL_TO_ECLIPTIC_J2000] as Matrix3;
   return to === 'J2000_ECLIPTIC' ? r : transpose3(r);
+}
+
+/** A 6×6 [r, v] covariance (km², km²/s, km²/s²) given in the axes of inertial frame `from`, in the axes of
+ * `to`: R·C·Rᵀ with R = diag(Q, Q) (a fresh copy when the frames are the same). */
+export function covarianceBetweenFrames(c: readonly (readonly number[])[], from: InertialFrame, to: InertialFrame): number[][] {
+  if (from === to) return c.map((row) => [...row]);
+  return congruence(stateRotation6(frameRotation(from, to)), c);
 }
 
 /** Rotates a vector's components from frame `from` to frame `to` (both J2000 inertial; no translation). */
