@@ -7,7 +7,7 @@
  * draws exactly the execution and initial-state errors of the plan-level Monte Carlo for the same seed.
  * Both budget paths use the same draws for the same i (paired comparison).
  */
-import { choleskySemidefinite } from '../../propagator/index.ts';
+import { choleskySemidefinite, multiplyVector } from '../../propagator/index.ts';
 import { sampleRandom } from '../dispersion/random.ts';
 
 /** The draws of one sample; offsets J2000 equatorial [δr km, δv km/s]. */
@@ -25,7 +25,6 @@ export interface BudgetSampler {
   draw(seed: number, index: number): BudgetDraw;
 }
 
-const times = (l: number[][], z: number[]): number[] => l.map((row) => row.reduce((acc, v, j) => acc + v * z[j], 0));
 
 /**
  * A sampler for `burnCount` burns. Covariances 6x6, J2000 equatorial (km², km²/s, km²/s²), already checked.
@@ -43,8 +42,8 @@ export function createBudgetSampler(burnCount: number, initialCovariance: number
         const n2 = random.normal();
         return [n0, n1, n2];
       });
-      const initialOffset = initialFactor ? times(initialFactor, six()) : null;
-      const knowledgeOffsets = knowledgeFactors.map((l) => times(l, six()));
+      const initialOffset = initialFactor ? multiplyVector(initialFactor, six()) : null;
+      const knowledgeOffsets = knowledgeFactors.map((l) => multiplyVector(l, six()));
       return { index, executionNormals, initialOffset, knowledgeOffsets };
     },
   };

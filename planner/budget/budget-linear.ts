@@ -44,7 +44,8 @@ export function linearBudgetSample(request: BudgetRequest, nominal: BudgetNomina
     if (b.transitionToNext) dx = multiplyVector(b.transitionToNext, dx);
     return { commandedKmS: commanded, magnitudeMS: Math.hypot(...commanded) * 1000, propellantKg };
   });
-  const delivered = nominal.nominalValues.map((v, i) => v + nominal.deliveryJacobian[i].reduce((acc, g, j) => acc + g * dx[j], 0));
+  const moved = multiplyVector(nominal.deliveryJacobian, dx);
+  const delivered = nominal.nominalValues.map((v, i) => v + moved[i]);
   const bp = nominal.bPlane;
   const approach = bp ? approachFromBPlane(nominal, delivered[bp.bDotT], delivered[bp.bDotR]) : { altitudeKm: null, impact: false };
   return {

@@ -6,7 +6,7 @@
  */
 import { CancelledError, InvalidInputError, type Vec3 } from '../../propagator/index.ts';
 import { drawExecutedDeltaV, type GatesErrors } from './gates.ts';
-import { choleskySemidefinite, requireCovariance, type Matrix } from '../../propagator/index.ts';
+import { choleskySemidefinite, multiplyVector, requireCovariance, type Matrix } from '../../propagator/index.ts';
 import { sampleRandom } from './random.ts';
 
 /** What the sampler disperses. */
@@ -61,7 +61,7 @@ export function createDispersionSampler(model: DispersionModel): DispersionSampl
       if (factor !== null) {
         const z = Array.from({ length: 6 }, () => random.normal());
         const l = factor;
-        initialStateOffset = l.map((row) => row.reduce((acc, v, j) => acc + v * z[j], 0));
+        initialStateOffset = multiplyVector(l, z);
       }
       return { index, burnDeltaVKmS, initialStateOffset };
     },
