@@ -216,7 +216,7 @@ export type CheckedProblem = PlanningProblem & { readonly [CHECKED]: ProblemChec
  * returns it as a CheckedProblem; throws InvalidInputError naming the field. */
 export function checkParsedProblem(problem: PlanningProblem, leapSeconds: LeapSecondTable = BUILTIN_LEAP_SECONDS): CheckedProblem {
   const checks: ProblemChecks = { epochs: checkProblem(problem, leapSeconds), leapSeconds };
-  Object.defineProperty(problem, CHECKED, { value: checks, enumerable: false });
+  Object.defineProperty(problem, CHECKED, { value: checks, enumerable: false, configurable: true }); // a re-check replaces it
   return problem as CheckedProblem;
 }
 
