@@ -24,8 +24,16 @@ export interface NominalBurn {
   massBeforeKg: number;
   /** Linear gain: commanded Δv correction (inertial, km/s) = −gain · (estimated state deviation), 3x6. */
   gain: number[][];
-  /** State transition from just after this burn to just before the next (6x6); null for the last burn. */
+  /** State transition from just after this burn to just before the next (6x6); null for the last burn. A
+   * finite burn: from its ignition (preBurnState) through its arc to the next burn. */
   transitionToNext: number[][] | null;
+  /** A finite burn (model 'finite'): d(state just before the next burn)/d(equivalent Δv, J2000 equatorial),
+   * 6x3 (a change of Δv along the burn is a duration change, across it a pointing change); null for the last
+   * burn. Absent for impulsive burns, whose Δv adds to the velocity. */
+  deltaVToNext?: number[][] | null;
+  /** 'finite' when the nominal burn is a finite burn (epochTdbS is its ignition, Δv its equivalent Δv);
+   * @defaultValue 'impulsive' */
+  model?: 'impulsive' | 'finite';
 }
 
 /** The nominal sequence: the converged plan the budget is made around, and the linear model. */
@@ -36,8 +44,11 @@ export interface BudgetNominal {
   transitionToFirst: number[][];
   /** Every component (targets, then auxiliary) reached by the nominal sequence. */
   nominalValues: number[];
-  /** d(components)/d(state just after the last burn), components x 6. */
+  /** d(components)/d(state just after the last burn), components x 6; a finite last burn: d/d(state at its
+   * ignition), with its equivalent Δv held. */
   deliveryJacobian: number[][];
+  /** A finite last burn: d(components)/d(its equivalent Δv, J2000 equatorial), components x 3; else absent. */
+  deliveryBurnJacobian?: number[][] | null;
   /** Component names and units, in `nominalValues` order; the first `targetCount` are targets. */
   components: { name: string; unit: string }[];
   targetCount: number;

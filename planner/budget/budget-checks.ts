@@ -1,7 +1,7 @@
 /**
  * parseBudgetRequest: the budget request's zod shape, then the problem's own checks, then what relates
- * the budget's fields to the problem (impulsive burns only, one knowledge covariance per burn, each a
- * covariance). Every failure is an InvalidInputError naming the dotted path of the first bad field.
+ * the budget's fields to the problem (one knowledge covariance per burn, each a covariance).
+ * Every failure is an InvalidInputError naming the dotted path of the first bad field.
  */
 import { BUILTIN_LEAP_SECONDS, InvalidInputError, type LeapSecondTable } from '../../propagator/index.ts';
 import { budgetRequestSchema } from '../../contract/budget-schema.ts';
@@ -28,12 +28,6 @@ export function parseBudgetRequest(input: unknown, leapSeconds: LeapSecondTable 
     throw error;
   }
   const request: CheckedBudgetRequest = { ...parsed.data, problem };
-  // The samples re-plan and execute every burn as an impulse: a finite burn would be silently flown as one.
-  const finite = request.problem.burns.findIndex((b) => b.model === 'finite');
-  if (finite >= 0) {
-    throw new InvalidInputError(`problem.burns[${finite}].model`, 'the Δv budget does not model finite burns yet (each sample re-plans and executes '
-      + 'every burn as an impulse); give the correction burns as impulsive (model "impulsive" or no model) for a budget');
-  }
   const burns = request.problem.burns.length;
   if (request.knowledge.length !== burns) {
     throw new InvalidInputError('knowledge', `needs one entry per burn: ${burns} burns, ${request.knowledge.length} entries`);

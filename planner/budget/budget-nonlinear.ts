@@ -2,10 +2,13 @@
  * The non-linear path of the Δv budget: one sample with real propagation and a real corrector run per
  * burn. The true state starts at nominal + drawn offset; at each burn the navigation estimate (true + drawn
  * knowledge error) is re-planned: burn k's free components are solved by the differential corrector so
- * that, with the later burns at their nominal inertial Δv, every component returns to the nominal
+ * that, with the later burns as planned (impulses at their nominal inertial Δv, finite burns as flown), every component returns to the nominal
  * sequence's values within replanToleranceFraction × its tolerance. The commanded burn (local axes taken at
  * the estimate) is executed with the drawn Gates errors on the true state, which propagates on.
- * A re-plan that does not converge stops the sample (counted, never hidden). States J2000 equatorial,
+ * A finite burn is re-planned on its own finite controls (budget-replan-finite.ts) and flown from the true
+ * state at its ignition with the drawn Gates errors on its equivalent Δv, mapped to duration and pointing
+ * as the plan's Monte Carlo does (finiteSettingFor); the sample goes on from its cut-off with the mass
+ * left. A re-plan that does not converge stops the sample (counted, never hidden). States J2000 equatorial,
  * integration centre; km, s, km/s, kg; TDB s from J2000.
  */
 import type { StateVector, Vec3 } from '../../propagator/index.ts';
@@ -19,7 +22,10 @@ import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import { propagateSegment } from '../targeting/propagate-segment.ts';
 import { radiusOf } from '../targeting/target-components.ts';
 import type { BudgetDraw } from './budget-draws.ts';
-import { contextFrom } from './budget-nominal.ts';
+import { contextFrom, nominalSettings } from './budget-nominal.ts';
+import { replanFiniteBurn } from './budget-replan-finite.ts';
+import { finiteSettingFor } from '../plan/finite-stage.ts';
+import { finiteSpec } from '../targeting/finite-arc.ts';
 import type { BudgetNominal, BudgetSample, NominalBurn, SampleBurn } from '../../contract/budget-types.ts';
 import { axesToInertial, localAxes } from '../../propagator/index.ts';
 
@@ -37,7 +43,7 @@ async function replanBurn(request: BudgetRequest, ctx: PlanningContext, nominal:
   const layoutIdx = ctx.layout.descriptors.flatMap((d, j) => (d.burnIndex === k && d.kind !== 'epoch' ? [j] : []));
   const controlMap = freeIdx.map((j) => ({ burnIndex: 0, kind: (['dv0', 'dv1', 'dv2'] as const)[j] }));
   const evalCtx = contextFrom(ctx, estimate, massKg, controlMap);
-  const later: BurnSetting[] = nominal.burns.slice(k + 1).map((b) => ({ epochTdbS: b.epochTdbS, frame: 'inertial', deltaVLocalKmS: b.deltaVInertialKmS }));
+  const later: BurnSetting[] = nominalSettings(nominal.plan, ctx.problem.spacecraft.engine.ispS).slice(k + 1);
   const settingsFor = (x: readonly number[]): BurnSetting[] => {
     const local = [...burn.deltaVLocalKmS] as Vec3;
     freeIdx.forEach((j, c) => { local[j] = x[c]; });
@@ -85,6 +91,20 @@ export async function nonlinearBudgetSample(request: BudgetRequest, ctx: Plannin
       state = seg.final;
     }
     const estimate = offsetState(state, draw.knowledgeOffsets[k]);
+    if (b.model === 'finite') {
+      const plan = await replanFiniteBurn(request, ctx, nominal, k, estimate, mass, signal);
+      if ('failed' in plan) return stopped(plan.failed, false, k);
+      const executed = errors ? executedDeltaV(plan.commanded, errors, draw.executionNormals[k]) : plan.commanded;
+      const spec = finiteSpec(finiteSettingFor(plan.flight, executed, ctx.problem.spacecraft.engine.ispS));
+      const arc = await propagateSegment(ctx.problem, ctx.ephemeris, state, mass, spec.startTdbS + spec.durationS, { ...opts, finiteBurns: [spec] });
+      if (arc.outcome !== 'finished') return stopped(`${b.label} ended '${arc.outcome}'`, arc.outcome === 'impact');
+      burns.push({ commandedKmS: plan.commanded, magnitudeMS: Math.hypot(...plan.commanded) * 1000, propellantKg: mass - (arc.finalMassKg as number) });
+      state = arc.final;
+      mass = arc.finalMassKg as number;
+      const next = nominal.burns[k + 1];
+      if (next && next.epochTdbS < state.epochTdbS) return stopped(`${b.label} ends after ${next.label} starts`, false);
+      continue;
+    }
     const plan = await replanBurn(request, ctx, nominal, k, estimate, mass, signal);
     if ('failed' in plan) return stopped(plan.failed, false, k);
     const executed = errors ? executedDeltaV(plan.commanded, errors, draw.executionNormals[k]) : plan.commanded;

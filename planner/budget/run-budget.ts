@@ -98,7 +98,8 @@ function budgetCaveats(request: BudgetRequest, plan: ManeuverPlan, parts: { line
 /** Step 3: the result from the samples of each path (either may be empty); see the file comment. */
 export function assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nominal: BudgetNominal | null,
   linearSamples: readonly BudgetSample[], nonlinearSamples: readonly BudgetSample[]): BudgetResult {
-  const notes: string[] = ['Burn epochs are the nominal plan\'s; each re-plan solves the burn\'s free Δv components only (later burns held at their nominal inertial Δv).',
+  const notes: string[] = ['Burn epochs are the nominal plan\'s; each re-plan solves the burn\'s free Δv components only (later burns held as planned: impulses at their nominal inertial Δv, finite burns at their planned pointing and duration).',
+    'A finite burn is re-planned on its pointing and duration (ignition as planned) and counted by its equivalent Δv (rocket-equation Δv along its direction at ignition); its execution errors act on that Δv as duration and pointing errors.',
     `Re-plans return every target component to the nominal sequence's value within ${request.replanToleranceFraction} × its tolerance.`,
     'Δv counts the commanded magnitude; propellant uses the executed Δv with the mass carried through each sample (rocket equation, g0 = 9.80665 m/s²).'];
   const linear = nominal && linearSamples.length > 0 ? summariseBudgetSamples(request, nominal, 'linear', linearSamples) : null;

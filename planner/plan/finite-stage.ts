@@ -107,15 +107,26 @@ export function attachFiniteDetails(problem: PlanningProblem, rows: PlannedBurn[
   });
 }
 
+/** What flying a planned finite burn again needs (the plan's finite block, or the budget's re-plan). */
+export type FiniteFlight = Pick<NonNullable<PlannedBurn['finite']>, 'startTdbS' | 'thrustN' | 'massFlowKgS' | 'massBeforeKg' | 'axes' | 'axesAtStart'>;
+
 /**
  * A planned burn flown with an execution error (Monte Carlo): impulsive burns take the dispersed Δv
- * (J2000 equatorial) as is; a finite burn turns it into a duration by the rocket equation from its planned
- * mass before, D = m0·(1 − exp(−|Δv|/v_e))/ṁ (a magnitude error is a thrust-time error), and a direction
- * in its axes at ignition (a pointing error) — the same mapping the linear dispersion uses to first order.
+ * (J2000 equatorial) as is; a finite burn goes through {@link finiteSettingFor}.
  */
 export function dispersedSetting(row: PlannedBurn, appliedDeltaVKmS: Vec3, ispS: number): BurnSetting {
   const f = row.finite;
   if (row.model !== 'finite' || f === undefined) return { epochTdbS: row.epoch.tdbS, frame: 'inertial', deltaVLocalKmS: appliedDeltaVKmS };
+  return finiteSettingFor(f, appliedDeltaVKmS, ispS);
+}
+
+/**
+ * A finite burn that delivers the equivalent Δv `appliedDeltaVKmS` (J2000 equatorial, km/s): a duration by
+ * the rocket equation from the mass before, D = m0·(1 − exp(−|Δv|/v_e))/ṁ (a magnitude error is a
+ * thrust-time error), and a direction in the burn's axes at ignition `axesAtStart` (a pointing error) — the
+ * same mapping the linear dispersion uses to first order. Ignition at `startTdbS` (TDB s), ispS in s.
+ */
+export function finiteSettingFor(f: FiniteFlight, appliedDeltaVKmS: Vec3, ispS: number): BurnSetting {
   const mag = Math.hypot(...appliedDeltaVKmS);
   const durationS = (f.massBeforeKg * -Math.expm1(-mag / exhaustVelocityKmS(ispS))) / f.massFlowKgS;
   const local = f.axesAtStart.map((a) => (a[0] * appliedDeltaVKmS[0] + a[1] * appliedDeltaVKmS[1] + a[2] * appliedDeltaVKmS[2]) / mag) as Vec3;

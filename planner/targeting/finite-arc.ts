@@ -43,8 +43,9 @@ function phiTimesPlusOuter(phi: readonly number[], a: M, psi: readonly number[],
   }));
 }
 
-/** The equivalent-Δv sensitivity of the file comment, 6 x 3, and d(mass)/d(Δv), 3. */
-function equivalentDeltaV(res: PropagationResult, rec: FiniteBurnRecord, spec: FiniteBurnSpec, axes: Rotation3): { b: M; mass: number[] } {
+/** The equivalent-Δv sensitivity of the file comment, 6 x 3 (state at the end of `res` per inertial km/s),
+ * and d(mass)/d(Δv), 3 (kg per km/s); `res` flew the one burn `spec` with the STM. */
+export function equivalentDeltaV(res: PropagationResult, rec: FiniteBurnRecord, spec: FiniteBurnSpec, axes: Rotation3): { b: M; mass: number[] } {
   const sens = res.finiteBurnSensitivities![0];
   const u = rec.directionAtStartInertial;
   const dv = rec.idealDeltaVKmS;

@@ -4,7 +4,7 @@
  * States J2000 equatorial relative to the integration centre; km, s, km/s; TDB s from J2000.
  */
 import { CancelledError, propagateAsync } from '../../propagator/index.ts';
-import type { Ephemeris, ForceModelSpec, PropagationMethod, PropagationResult, StateVector } from '../../propagator/index.ts';
+import type { Ephemeris, FiniteBurnSpec, ForceModelSpec, PropagationMethod, PropagationResult, StateVector } from '../../propagator/index.ts';
 import type { PlanningProblem } from '../../contract/problem-schema.ts';
 
 /** Force model of the problem; SRP uses `massKg` (kg, the mass at that point of the trajectory). */
@@ -24,11 +24,15 @@ export interface SegmentOptions {
   relativeTolerance: number;
   withStm: boolean;
   signal?: AbortSignal;
+  /** Finite burns flown inside the segment (the Δv budget flies one from its ignition); their records and,
+   * with the STM, their parameter sensitivities carried to `endTdbS` come back in the result.
+   * @defaultValue none */
+  finiteBurns?: FiniteBurnSpec[];
 }
 
 /**
- * Propagates `state` (J2000 equatorial, integration centre) to `endTdbS` (TDB s) with no burns and no
- * events; the result's outcome says whether it finished (an impact ends it early).
+ * Propagates `state` (J2000 equatorial, integration centre) to `endTdbS` (TDB s) with no events and no
+ * burns but `opts.finiteBurns` (mass `massKg` at the start); the result's outcome says whether it finished (an impact ends it early).
  * @throws CancelledError when `signal` fires.
  */
 export async function propagateSegment(problem: PlanningProblem, ephemeris: Ephemeris, state: StateVector, massKg: number,
@@ -38,6 +42,7 @@ export async function propagateSegment(problem: PlanningProblem, ephemeris: Ephe
     initial: state, endEpochTdbS: endTdbS, forces: forcesFor(problem, massKg), ephemeris,
     method: opts.method, relativeTolerance: opts.relativeTolerance, withStm: opts.withStm, events: [],
     switching: problem.forceModel.switching ? { enabled: true } : undefined,
+    ...(opts.finiteBurns?.length ? { finiteBurns: opts.finiteBurns, initialMassKg: massKg } : {}),
   }, { signal: opts.signal });
   if (result.outcome === 'cancelled') throw new CancelledError();
   return result;

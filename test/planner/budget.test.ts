@@ -40,10 +40,13 @@ describe('budget request', () => {
       expect(fieldOf({ ...r, seed: -1 })).toBe('seed');
       expect(fieldOf({ ...r, problem: { ...r.problem, burns: [r.problem.burns[1], r.problem.burns[0]] } })).toBe('problem.burns[1].epoch');
       expect(fieldOf({ ...r, linearSamples: 0, nonlinearSamples: 0 })).toBe('linearSamples');
-      // Finite burns are refused, never flown as impulses without a word.
+      // A finite burn is accepted and kept finite (budget-finite.test.ts runs finite budgets); a bad engine
+      // for it is still named.
       const finite = structuredClone(r);
       (finite.problem.burns[1] as { model?: string }).model = 'finite';
-      expect(fieldOf(finite)).toBe('problem.burns[1].model');
+      expect(parseBudgetRequest(finite).problem.burns[1].model).toBe('finite');
+      finite.problem.spacecraft.engine.thrustN = -1;
+      expect(fieldOf(finite)).toBe('problem.spacecraft.engine.thrustN');
     });
   });
 });
