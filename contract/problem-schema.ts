@@ -202,7 +202,7 @@ const limitsSchema = z.object({
   impulsiveDurationFraction: z.number().positive().max(1).default(0.01),
   /** The cross-check passes when every target differs between methods by at most this fraction of its
    * tolerance. */
-  crossCheckToleranceFraction: z.number().positive().max(10).default(0.5),
+  crossCheckToleranceFraction: z.number().positive().max(10).default(0.01),
   /** Jacobian condition numbers above this raise the ill-conditioning caveat. */
   conditionNumberLimit: inRange(BOUNDS.conditionNumberLimit).default(1e8),
 }).strict();
@@ -222,7 +222,7 @@ export const problemSchema = z.object({
   corrector: correctorSchema.default({ maxIterations: 15, maxStepKmS: 0.05, maxEpochStepS: 3600 }),
   limits: limitsSchema.default({
     safeAltitudeKm: 300, impactProbabilityLimit: 1e-4, impulsiveDurationFraction: 0.01,
-    crossCheckToleranceFraction: 0.5, conditionNumberLimit: 1e8,
+    crossCheckToleranceFraction: 0.01, conditionNumberLimit: 1e8,
   }),
 }).strict();
 

@@ -142,7 +142,7 @@ export function buildFlybyDemo(eph: Ephemeris = createBuiltinEphemeris()): { pro
     ],
     executionErrors: { fixedMagnitudeMS: 0.01, proportionalMagnitudeFraction: 0.01, fixedPointingMS: 0.01, proportionalPointingDeg: 0.6 },
     dispersion: { samples: 200, seed: 20310 },
-    limits: { safeAltitudeKm: 300, impactProbabilityLimit: 1e-4, impulsiveDurationFraction: 0.01, crossCheckToleranceFraction: 0.5, conditionNumberLimit: 1e8 },
+    limits: { safeAltitudeKm: 300, impactProbabilityLimit: 1e-4, impulsiveDurationFraction: 0.01, crossCheckToleranceFraction: 0.01, conditionNumberLimit: 1e8 },
   };
   const notes = {
     launch: formatEpoch(transfer.launchTdbS, 'TDB', 0), closestApproach: epoch(tca),
