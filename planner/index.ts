@@ -14,6 +14,7 @@ export { CAVEAT_CODES, REVIEW_TEXT, caveat, reviewCaveat, orderCaveats } from '.
 export type { CaveatCode } from './caveats.ts';
 export type * from '../contract/plan-types.ts';
 export { planManeuvers } from './plan/plan-maneuvers.ts';
+export { ephemerisNeeds } from './plan/planning-context.ts';
 export type { PlanOptions } from './plan/plan-maneuvers.ts';
 export { runDispersionSamples, summariseDispersion, attachMonteCarlo } from './plan/monte-carlo.ts';
 export type { SampleRunOptions } from './plan/monte-carlo.ts';

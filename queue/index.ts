@@ -24,7 +24,7 @@ export { findBudgetIssue, findProblemIssue, type ProblemIssue } from './producer
 export { loadServiceLeapSeconds, leapSecondsExpired, leapSecondsExpiryMs, logLeapSecondsAtStart } from './worker/leap-seconds-file.ts';
 export { ConfigError, parseEnv, envInt, redisUrlSchema, postgresUrlSchema, logLevelSchema } from '../contract/env-config.ts';
 export {
-  EPHEMERIS_SET_FIELD, ephemerisSetFiles, loadEphemerisSets, logEphemerisSetsAtStart, type EphemerisSet, type EphemerisSetFileRef,
+  EPHEMERIS_SET_FIELD, checkEphemerisSetCovers, ephemerisSetFiles, loadEphemerisSets, logEphemerisSetsAtStart, type EphemerisSet, type EphemerisSetFileRef,
   type EphemerisSets,
 } from './config/ephemeris-sets.ts';
 export { loadWorkerConfig, workerEnvSchema, type WorkerConfig } from './config/worker-config.ts';

@@ -5,8 +5,9 @@
 import type { Request, Response } from 'express';
 import { z } from 'zod';
 import {
-  EPHEMERIS_SET_FIELD, ephemerisSetFiles, findProblemIssue, recordRemovedJob, type JobRequest, type ProblemIssue, type SubmitOutcome,
+  checkEphemerisSetCovers, findProblemIssue, recordRemovedJob, type JobRequest, type ProblemIssue, type SubmitOutcome,
 } from '../../queue/index.ts';
+import { InvalidInputError, OutOfSpanError } from '../../contract/errors.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { HttpError, sendAdmissionRefusal, sendError } from '../errors.ts';
@@ -35,13 +36,15 @@ function withHeaderKey(body: JobRequest, headerKey: string | undefined): JobRequ
   return request;
 }
 
-/** The issue of a problem naming an ephemeris set this service does not have, or null. */
-export function ephemerisSetIssue(deps: AppDeps, name: string | undefined): ProblemIssue | null {
+/** The issue of a problem (already checked) naming an ephemeris set this service does not have, or one whose
+ * files do not cover the span of a body the plan takes from them; or null. */
+export function ephemerisSetIssue(deps: AppDeps, problem: JobRequest['problem']): ProblemIssue | null {
   try {
-    ephemerisSetFiles(deps.ephemerisSets, name);
+    checkEphemerisSetCovers(deps.ephemerisSets, problem, deps.queue.leapSeconds);
     return null;
   } catch (error) {
-    return { field: EPHEMERIS_SET_FIELD, message: (error as Error).message.replace(`${EPHEMERIS_SET_FIELD}: `, '') };
+    if (!(error instanceof InvalidInputError || error instanceof OutOfSpanError)) throw error;
+    return { field: error.field, message: error.detail };
   }
 }
 
@@ -58,7 +61,7 @@ export function jobRoutes(routes: ApiRoutes, deps: AppDeps): void {
     const request = withHeaderKey(validOf<unknown, unknown, JobRequest>(res).body, req.get('idempotency-key'));
     await submitQueuedJob(deps, req, res, {
       kind: 'retarget', issueRoot: 'body.problem', urlRoot: '/v1/jobs',
-      issue: findProblemIssue(request.problem, deps.queue.leapSeconds) ?? ephemerisSetIssue(deps, request.problem.forceModel.ephemerisSet),
+      issue: findProblemIssue(request.problem, deps.queue.leapSeconds) ?? ephemerisSetIssue(deps, request.problem),
       submit: (submittedBy) => deps.queue.submit(request, submittedBy),
     });
   });

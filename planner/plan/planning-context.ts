@@ -8,7 +8,7 @@
 import {
   BUILTIN_EPHEMERIS_SPAN, changeCentre, InvalidInputError, covarianceBetweenFrames, createBuiltinEphemeris, EphemerisCache, stateToFrame,
 } from '../../propagator/index.ts';
-import type { BodyName, Ephemeris, LeapSecondTable, StateVector, Vec3 } from '../../propagator/index.ts';
+import type { BodyName, Ephemeris, LeapSecondTable, StateVector, TdbSpan, Vec3 } from '../../propagator/index.ts';
 import type { PlanEphemerisSource } from '../../contract/plan-types.ts';
 import { ephemerisWithFiles, type EphemerisFileTable } from '../ephemeris-files.ts';
 import { checksOf, type CheckedProblem, type ProblemEpochs } from '../problem-checks.ts';
@@ -46,6 +46,17 @@ function rotateCovarianceToEquatorial(problem: PlanningProblem): number[][] | nu
   return c ? covarianceBetweenFrames(c, problem.initialState.frame, 'J2000_EQUATORIAL') : null;
 }
 
+/** The bodies a plan of `problem` takes from the ephemeris (central, perturbing, initial centre, target
+ * bodies, the Sun) and the span it needs them over (TDB s from J2000: first to last epoch); what a file must
+ * cover. The service checks an ephemeris set against it at submission, the planner again when it runs. */
+export function ephemerisNeeds(problem: PlanningProblem, epochs: ProblemEpochs,
+  components: readonly TargetComponent[] = targetComponents(problem, epochs)): { bodies: BodyName[]; span: TdbSpan } {
+  const fm = problem.forceModel;
+  const bodies = [...new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies, problem.initialState.centre,
+    ...components.flatMap((c) => (c.body ? [c.body] : [])), 'sun'])];
+  return { bodies, span: { startTdbS: Math.min(epochs.initialTdbS, epochs.endTdbS), endTdbS: Math.max(epochs.initialTdbS, epochs.endTdbS) } };
+}
+
 /** Builds the context of a checked problem from the epochs and leap-second table its checks recorded (no
  * check runs again); `cache`: the process's shared ephemeris cache (a fresh one when absent). */
 export function planningContext(problem: CheckedProblem, cache?: EphemerisCache,
@@ -70,18 +81,16 @@ export function planningContext(problem: CheckedProblem, cache?: EphemerisCache,
   }
   const layout = controlLayout(problem, epochs);
   const fm = problem.forceModel;
-  const bodies = [...new Set<BodyName>([fm.centralBody, ...fm.perturbingBodies, problem.initialState.centre,
-    ...components.flatMap((c) => (c.body ? [c.body] : [])), 'sun'])];
+  const { bodies, span: problemSpan } = ephemerisNeeds(problem, epochs, components);
   if (fm.ephemerisSet !== undefined && files.length === 0) {
     // Planning on the built-in series instead would silently change the problem's physics.
     throw new InvalidInputError('forceModel.ephemerisSet', `'${fm.ephemerisSet}' names an ephemeris set of the service, and no `
       + 'ephemeris files were given here: submit the problem to the service, or give the set\'s files (veer plan --ephemeris FILE)');
   }
   const builtin = createBuiltinEphemeris();
-  const problemSpan = { startTdbS: Math.min(epochs.initialTdbS, epochs.endTdbS), endTdbS: Math.max(epochs.initialTdbS, epochs.endTdbS) };
   // Files replace the bodies they tabulate (span checked against the problem's); the margin stays inside them.
   // Errors name the problem's set when it chose one (the service), else the files given (the CLI).
-  const { source, sources } = ephemerisWithFiles(files, problemSpan, bodies, fm.ephemerisSet === undefined ? 'ephemeris' : 'forceModel.ephemerisSet');
+  const { source, sources } = ephemerisWithFiles(files, problemSpan, bodies, fm.ephemerisSet === undefined ? 'ephemeris' : 'forceModel.ephemerisSet', leapSeconds);
   const start = Math.max(source.span.startTdbS, BUILTIN_EPHEMERIS_SPAN.startTdbS, problemSpan.startTdbS - MARGIN_S);
   const end = Math.min(source.span.endTdbS, BUILTIN_EPHEMERIS_SPAN.endTdbS, problemSpan.endTdbS + MARGIN_S);
   const ephemeris = bodies.length === 1 && bodies[0] === 'sun'

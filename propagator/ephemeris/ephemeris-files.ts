@@ -9,6 +9,7 @@ import { formatEpoch } from '../time/epoch-text.ts';
 import { InvalidInputError, OutOfSpanError } from '../../contract/errors.ts';
 import type { BodyName } from '../../contract/bodies.ts';
 import type { PlanEphemerisSource } from '../../contract/plan-types.ts';
+import type { LeapSecondTable } from '../time/leap-second-table.ts';
 import { createBuiltinEphemeris } from './astronomy-engine-ephemeris.ts';
 import type { Ephemeris, TdbSpan } from './ephemeris.ts';
 import { layerEphemerides } from './layered-ephemeris.ts';
@@ -25,22 +26,37 @@ export interface EphemerisFileTable {
 
 const tdbText = (tdbS: number): string => formatEpoch(tdbS, 'TDB', 3);
 
-/** The uncovered parts of `needed` outside `have`, as text (TDB). */
-function uncovered(have: TdbSpan, needed: TdbSpan): string {
-  const parts: string[] = [];
-  if (needed.startTdbS < have.startTdbS) parts.push(`${tdbText(needed.startTdbS)} to ${tdbText(Math.min(have.startTdbS, needed.endTdbS))}`);
-  if (needed.endTdbS > have.endTdbS) parts.push(`${tdbText(Math.max(have.endTdbS, needed.startTdbS))} to ${tdbText(needed.endTdbS)}`);
-  return parts.join(' and ');
+/** The uncovered parts of `needed` outside `have`, as text (TDB, then UTC through `leapSeconds`). */
+function uncovered(have: TdbSpan, needed: TdbSpan, leapSeconds?: LeapSecondTable): string {
+  const utc = (tdbS: number): string => formatEpoch(tdbS, 'UTC', 3, leapSeconds);
+  const parts: TdbSpan[] = [];
+  if (needed.startTdbS < have.startTdbS) parts.push({ startTdbS: needed.startTdbS, endTdbS: Math.min(have.startTdbS, needed.endTdbS) });
+  if (needed.endTdbS > have.endTdbS) parts.push({ startTdbS: Math.max(have.endTdbS, needed.startTdbS), endTdbS: needed.endTdbS });
+  return parts.map((p) => `${tdbText(p.startTdbS)} to ${tdbText(p.endTdbS)} (${utc(p.startTdbS)} to ${utc(p.endTdbS)})`).join(' and ');
+}
+
+/**
+ * Refuses a file's tabulated span `have` of `body` unless it covers `needed` (TDB s from J2000: the problem's
+ * first to last epoch): OutOfSpanError (field `field`) naming the file, the body and the uncovered epochs in
+ * TDB and UTC (through `leapSeconds`, built-in when absent). The one coverage check of the planner, the CLI
+ * and the service's submission check.
+ */
+export function refuseUncoveredSpan(file: string, body: BodyName, have: TdbSpan, needed: TdbSpan, field: string,
+  leapSeconds?: LeapSecondTable): void {
+  if (have.startTdbS <= needed.startTdbS && have.endTdbS >= needed.endTdbS) return;
+  throw new OutOfSpanError(field, `${file}: ${body} is tabulated from ${tdbText(have.startTdbS)} to `
+    + `${tdbText(have.endTdbS)}, which does not cover ${uncovered(have, needed, leapSeconds)} (the problem runs from `
+    + `${tdbText(needed.startTdbS)} to ${tdbText(needed.endTdbS)}); files are never extrapolated`);
 }
 
 /**
  * The ephemeris of a plan over `span` (TDB s from J2000: the problem's first to last epoch) for `bodies`:
  * each file's bodies from the file, the rest from the built-in series. Throws OutOfSpanError (field
  * `field`) when a file does not cover the span of a body the plan uses, InvalidInputError when two files
- * tabulate the same body.
+ * tabulate the same body. UTC in messages through `leapSeconds` (built-in when absent).
  */
 export function ephemerisWithFiles(files: readonly EphemerisFileTable[], span: TdbSpan, bodies: readonly BodyName[],
-  field = 'ephemeris'): { source: Ephemeris; sources: PlanEphemerisSource[] } {
+  field = 'ephemeris', leapSeconds?: LeapSecondTable): { source: Ephemeris; sources: PlanEphemerisSource[] } {
   const builtin = createBuiltinEphemeris();
   const byBody = new Map<BodyName, EphemerisFileTable>();
   for (const f of files) {
@@ -59,11 +75,7 @@ export function ephemerisWithFiles(files: readonly EphemerisFileTable[], span: T
       continue;
     }
     const have = f.table.span;
-    if (have.startTdbS > span.startTdbS || have.endTdbS < span.endTdbS) {
-      throw new OutOfSpanError(field, `${f.file}: ${body} is tabulated from ${tdbText(have.startTdbS)} to `
-        + `${tdbText(have.endTdbS)}, which does not cover ${uncovered(have, span)} (the problem runs from `
-        + `${tdbText(span.startTdbS)} to ${tdbText(span.endTdbS)}); files are never extrapolated`);
-    }
+    refuseUncoveredSpan(f.file, body, have, span, field, leapSeconds);
     source = layerEphemerides(f.table, source);
     sources.push({ body, source: 'oem', file: f.file, sha256: f.sha256, startTdb: tdbText(have.startTdbS), endTdb: tdbText(have.endTdbS) });
   }

@@ -12,4 +12,4 @@ export { layerEphemerides } from './layered-ephemeris.ts';
 export { assertInSpan, assertBody, assertValidSpan } from './ephemeris-checks.ts';
 export { EphemerisCache, EPHEMERIS_CACHE_DEFAULTS } from './ephemeris-cache.ts';
 export type { EphemerisCacheOptions, EphemerisCacheStats } from './ephemeris-cache.ts';
-export { ephemerisWithFiles, type EphemerisFileTable } from './ephemeris-files.ts';
+export { ephemerisWithFiles, refuseUncoveredSpan, type EphemerisFileTable } from './ephemeris-files.ts';

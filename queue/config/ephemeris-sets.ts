@@ -11,7 +11,10 @@ import type { Logger } from 'pino';
 import { loadEphemerisFiles } from '../../ccsds/index.ts';
 import { ConfigError } from '../../contract/env-config.ts';
 import { ephemerisSetNameSchema, type EphemerisSetListing } from '../../contract/ephemeris-sets.ts';
-import { InvalidInputError, formatEpoch, type LeapSecondTable } from '../../propagator/index.ts';
+import { checkProblem, ephemerisNeeds, type PlanningProblem } from '../../planner/index.ts';
+import {
+  InvalidInputError, formatEpoch, refuseUncoveredSpan, type BodyName, type LeapSecondTable, type TdbSpan,
+} from '../../propagator/index.ts';
 
 /** File names read as OEM in a set's folder; anything else there is refused (no silent skipping). */
 const OEM_FILE = /\.(oem|xml|txt|kvn)$/i;
@@ -19,8 +22,11 @@ const OEM_FILE = /\.(oem|xml|txt|kvn)$/i;
 /** A file of a set as the workers need it: where it is and the SHA-256 it had at start-up. */
 export interface EphemerisSetFileRef { path: string; sha256: string }
 
-/** A loaded set: its public listing and its files' paths, in listing order. */
-export interface EphemerisSet { listing: EphemerisSetListing; files: EphemerisSetFileRef[] }
+/** One body a set's file tabulates, over which span (TDB s from J2000): what submissions are checked against. */
+export interface EphemerisSetSpan { file: string; body: BodyName; span: TdbSpan }
+
+/** A loaded set: its public listing, its files' paths (listing order) and each tabulated body's span. */
+export interface EphemerisSet { listing: EphemerisSetListing; files: EphemerisSetFileRef[]; spans: EphemerisSetSpan[] }
 
 /** The sets by name (empty when EPHEMERIS_DIR is unset). */
 export type EphemerisSets = ReadonlyMap<string, EphemerisSet>;
@@ -44,7 +50,7 @@ async function loadSet(name: string, dir: string, leapSeconds: LeapSecondTable):
     throw new ConfigError([`EPHEMERIS_DIR: set '${name}' holds ${refused.join(', ')}, which is not a CCSDS OEM file (.oem, .xml, .txt, .kvn)`]);
   }
   if (files.length === 0) throw new ConfigError([`EPHEMERIS_DIR: set '${name}' (${dir}) holds no OEM file`]);
-  const set: EphemerisSet = { listing: { name, files: [] }, files: [] };
+  const set: EphemerisSet = { listing: { name, files: [] }, files: [], spans: [] };
   for (const f of files) {
     const path = join(dir, f.name);
     let tables;
@@ -57,6 +63,7 @@ async function loadSet(name: string, dir: string, leapSeconds: LeapSecondTable):
     }
     const sha256 = tables[0]?.sha256 ?? '';
     set.files.push({ path, sha256 });
+    set.spans.push(...tables.map(({ table }) => ({ file: f.name, body: table.target, span: table.span })));
     set.listing.files.push({
       file: f.name, sha256,
       bodies: tables.map(({ table }) => ({
@@ -102,4 +109,19 @@ export function ephemerisSetFiles(sets: EphemerisSets, name: string | undefined)
       + `${[...sets.keys()].join(', ') || 'none; EPHEMERIS_DIR is unset'}); GET /v1/ephemerides lists them`);
   }
   return set.files;
+}
+
+/** Refuses, at submission, a problem whose named set does not cover the span of a body its plan takes from the
+ * set: the planner's own coverage check (OutOfSpanError under forceModel.ephemerisSet naming the file, body and
+ * uncovered epochs in TDB and UTC), run on the spans read at start-up, so the job is refused before it is queued.
+ * An unknown name throws as {@link ephemerisSetFiles}; no set, or a problem failing its own checks: nothing. */
+export function checkEphemerisSetCovers(sets: EphemerisSets, problem: PlanningProblem, leapSeconds: LeapSecondTable): void {
+  const name = problem.forceModel.ephemerisSet;
+  ephemerisSetFiles(sets, name);
+  const set = name === undefined ? undefined : sets.get(name);
+  if (set === undefined) return;
+  const { bodies, span } = ephemerisNeeds(problem, checkProblem(problem, leapSeconds));
+  for (const s of set.spans) {
+    if (bodies.includes(s.body)) refuseUncoveredSpan(s.file, s.body, s.span, span, EPHEMERIS_SET_FIELD, leapSeconds);
+  }
 }

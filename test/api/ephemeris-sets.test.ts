@@ -3,8 +3,8 @@
  * problem (forceModel.ephemerisSet), planned on by the worker end to end (API → Redis → worker → archive) with the
  * files' provenance in the plan and its history, sampled by fanned-out Monte Carlo child jobs on the same files,
  * exported as OEM on them; refused: an unknown set name (400 naming the field), a corrupt file (start-up stops,
- * naming file, line and keyword), a span that does not cover the problem (naming file, body, epochs), a file
- * changed after start-up (export refused).
+ * naming file, line and keyword), a span that does not cover the problem (400 at submission naming file, body,
+ * epochs; the planner refuses it too), a file changed after start-up (export refused).
  *
  * The set's file is a CCSDS OEM (CCSDS 502.0-B-3, KVN layout from the standard's annex examples, from memory)
  * tabulating Mars relative to the Sun from astronomy-engine (npm 2.1.19) moved by a known offset
@@ -142,14 +142,33 @@ describe('a problem choosing a set', () => {
   });
 
   describe('when the set\'s file does not cover the problem\'s span', () => {
-    it('should fail the job naming the file, the body and the uncovered epochs (never extrapolated)', async () => {
+    // Mars tabulated to 2031-03-01T00:00 TDB; the problem runs to 02:00 TDB. UTC = TDB − 69.184 s (37 s TAI − UTC
+    // of the built-in table + 32.184 s TT − TAI; TDB − TT < 2 ms): common practice.
+    const uncovered = 'mars-short\\.oem: mars is tabulated from 2031-02-26T00:00:00\\.000 TDB to 2031-03-01T00:00:00\\.000 TDB, '
+      + 'which does not cover 2031-03-01T00:00:00\\.000 TDB to 2031-03-01T02:00:00\\.000 TDB '
+      + '\\(2031-02-28T23:58:50\\.8\\d\\d UTC to 2031-03-01T01:58:50\\.8\\d\\d UTC\\).*never extrapolated';
+
+    it('should answer 400 at submission naming the field, the file, the body and the uncovered epochs in TDB and UTC', async () => {
       const res = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(problemOn('too-short', 0)) });
+      expect(res.status).toBe(400);
+      expect(res.body.error.issues).toEqual([{ path: 'body.problem.forceModel.ephemerisSet', message: expect.stringMatching(new RegExp(uncovered)) }]);
+    });
+
+    it('should accept the same set when the body it tabulates is not one the plan uses', async () => {
+      const problem = problemOn('too-short', 0);
+      problem.forceModel.perturbingBodies = [];
+      const res = await svc.request('POST', '/v1/jobs', { token: svc.tokens.submitter, body: submission(problem) });
       expect(res.status).toBe(202);
       const end = await waitForJob(svc, res.body.jobId, (s) => s.state === 'completed' || s.state === 'failed', 120_000);
-      expect(end.state).toBe('failed');
-      expect(end.error).toMatchObject({ name: 'OutOfSpanError', field: 'forceModel.ephemerisSet' });
-      expect(end.error.message).toMatch(/mars-short\.oem: mars is tabulated from 2031-02-26T00:00:00\.000 TDB to 2031-03-01T00:00:00\.000 TDB, which does not cover 2031-03-01T00:00:00\.000 TDB to 2031-03-01T02:00:00\.000 TDB/);
+      expect(end.error).toBeNull();
+      expect(end.state).toBe('completed');
     }, 150_000);
+
+    it('should still be refused by the planner itself (the worker\'s second line), with the same words', async () => {
+      const files = await loadEphemerisFiles([join(setsDir, 'too-short', 'mars-short.oem')]);
+      await expect(planManeuvers(parseProblem(problemOn('too-short', 0)), { monteCarlo: 'skip', ephemerisFiles: files }))
+        .rejects.toMatchObject({ name: 'OutOfSpanError', field: 'forceModel.ephemerisSet', message: expect.stringMatching(new RegExp(uncovered)) });
+    });
   });
 });
 
