@@ -18,5 +18,6 @@ export * from './errors.ts';
 export * from './budget-schema.ts';
 export type * from './budget-types.ts';
 export { canonicalJson } from './canonical-json.ts';
+export * from './event-stream.ts';
 export * from './budget-job-types.ts';
 export * from './ephemeris-sets.ts';

@@ -3,6 +3,7 @@
  * with the outcome and the plan id on stdout. The exit code says what happened (JOB_EXIT).
  */
 import { parseArgs } from 'node:util';
+import { readEventStream } from '../../contract/event-stream.ts';
 import { printableJson } from '../../contract/free-text.ts';
 import type { CliCommand } from '../command.ts';
 import {
@@ -28,26 +29,8 @@ interface SseEvent { event: string; data: unknown }
 async function* readEvents(remote: Remote, path: string): AsyncGenerator<SseEvent> {
   const res = await sendToApi(remote, path, { headers: { accept: 'text/event-stream' } });
   if (!res.ok || !res.body) throw new ApiCallError(res.status, parseAnswer(await res.text()) as ApiCallError['body']);
-  const decoder = new TextDecoder();
-  let buffer = '';
-  for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) {
-    buffer += decoder.decode(chunk, { stream: true }).replace(/\r\n?/g, '\n');
-    let cut: number;
-    while ((cut = buffer.indexOf('\n\n')) >= 0) {
-      const block = buffer.slice(0, cut);
-      buffer = buffer.slice(cut + 2);
-      let event = 'message';
-      const data: string[] = [];
-      for (const line of block.split('\n')) {
-        if (line.startsWith(':')) continue; // comment (heartbeat)
-        const colon = line.indexOf(':');
-        const field = colon < 0 ? line : line.slice(0, colon);
-        const value = colon < 0 ? '' : line.slice(colon + 1).replace(/^ /, '');
-        if (field === 'event') event = value;
-        else if (field === 'data') data.push(value);
-      }
-      if (data.length > 0) yield { event, data: printableJson(JSON.parse(data.join('\n')) as unknown) };
-    }
+  for await (const block of readEventStream(res.body)) {
+    if (block.data !== null) yield { event: block.event, data: printableJson(JSON.parse(block.data) as unknown) };
   }
 }
 
