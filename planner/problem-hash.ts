@@ -14,6 +14,13 @@ function leapSecondsIdentity(record: Pick<PlanLeapSeconds, 'source' | 'sha256' |
   return { source: record.source, sha256: record.sha256, expiresUtc: record.expiresUtc };
 }
 
+/** SHA-256 (lower-case hex) of the UTF-8 bytes of `value`'s canonical JSON (contract/canonical-json.ts): the
+ * planner's one content hash. The archive keeps its own (archive/chain.ts), since neither room may import the
+ * other and the contract room has no synchronous digest (no Node API there). */
+export function canonicalSha256(value: unknown): string {
+  return createHash('sha256').update(canonicalJson(value), 'utf8').digest('hex');
+}
+
 /**
  * SHA-256 (hex, 64 characters) of the canonical JSON of a validated problem together with the identity of
  * the leap-second table its UTC epochs are read with (source, file SHA-256, expiry — not the path): the
@@ -27,12 +34,12 @@ export function problemHash(problem: PlanningProblem, leapSeconds: Pick<PlanLeap
   const files = ephemerisIdentity(ephemeris);
   const hashed = files === null ? { leapSeconds: leapSecondsIdentity(leapSeconds), problem }
     : { ephemerisFiles: files, leapSeconds: leapSecondsIdentity(leapSeconds), problem };
-  return createHash('sha256').update(canonicalJson(hashed), 'utf8').digest('hex');
+  return canonicalSha256(hashed);
 }
 
 /** Stable key naming the spacecraft and its target set (not the burns or the state): a newer plan with the
  * same key supersedes an older proposed one. */
 export function targetSetKey(problem: PlanningProblem): string {
-  const digest = createHash('sha256').update(canonicalJson(problem.targets), 'utf8').digest('hex').slice(0, 16);
+  const digest = canonicalSha256(problem.targets).slice(0, 16);
   return `${problem.spacecraft.name}/${digest}`;
 }

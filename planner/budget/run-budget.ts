@@ -14,10 +14,8 @@ import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-typ
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
 import { planningContext } from '../plan/planning-context.ts';
 import { SOFTWARE_VERSION } from '../../contract/software-version.ts';
-import { canonicalJson } from '../../contract/canonical-json.ts';
-import { problemHash } from '../problem-hash.ts';
+import { canonicalSha256, problemHash } from '../problem-hash.ts';
 import type { BudgetRequest } from '../../contract/budget-schema.ts';
-import { createHash } from 'node:crypto';
 import { compareBudgetPaths } from './budget-agreement.ts';
 import type { CheckedBudgetRequest } from './budget-checks.ts';
 import { createBudgetSampler } from './budget-draws.ts';
@@ -123,7 +121,7 @@ export function assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nomin
 
 /** SHA-256 (hex) of the canonical JSON of a validated budget request. */
 export function budgetRequestHash(request: BudgetRequest): string {
-  return createHash('sha256').update(canonicalJson(request), 'utf8').digest('hex');
+  return canonicalSha256(request);
 }
 
 /** The whole budget in this process, for a request parseBudgetRequest checked; see the file comment. */
