@@ -190,6 +190,8 @@ export interface BudgetResult {
   softwareVersion: string;
   spacecraftName: string;
   title: string | null;
+  /** Which source served each body of the nominal plan and its re-plans (the plan's record; absent in older studies). */
+  ephemerisSources?: ManeuverPlan['ephemerisSources'];
   nominal: { status: ManeuverPlan['status']; crossCheckPassed: boolean; burns: { label: string; epochTdbS: number; epochTdb: string; /** UTC through the nominal plan's leap-second table (null before 1972; absent in older studies). */ epochUtc?: string | null; magnitudeMS: number }[]; totalDeltaVMS: number };
   linear: BudgetSummary | null;
   nonlinear: BudgetSummary | null;

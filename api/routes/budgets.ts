@@ -5,13 +5,13 @@
  */
 import type { Request, Response } from 'express';
 import { z } from 'zod';
-import { budgetJobRequestSchema, findBudgetIssue, type BudgetJobRequest } from '../../queue/index.ts';
+import { budgetJobRequestSchema, findBudgetIssue, type BudgetJobRequest, type ProblemIssue } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { cancelBodySchema, jobParamsSchema } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
-import { cancelQueuedJob, SUBMIT_RESPONSES, submitQueuedJob } from './jobs.ts';
+import { cancelQueuedJob, ephemerisSetIssue, SUBMIT_RESPONSES, submitQueuedJob } from './jobs.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;
 
@@ -26,10 +26,11 @@ export function budgetRoutes(routes: ApiRoutes, deps: AppDeps): void {
     responses: SUBMIT_RESPONSES,
   }, async (req: Request, res: Response) => {
     const request = validOf<unknown, unknown, BudgetJobRequest>(res).body;
-    const set = request.request.problem.forceModel.ephemerisSet;
-    const issue = findBudgetIssue(request.request, deps.queue.leapSeconds) ?? (set === undefined ? null : {
-      field: 'problem.forceModel.ephemerisSet', message: `a Δv budget is studied on the built-in series only; remove the ephemeris set '${set}'`,
-    });
+    const setIssue = (): ProblemIssue | null => {
+      const found = ephemerisSetIssue(deps, request.request.problem);
+      return found && { ...found, field: `problem.${found.field}` };
+    };
+    const issue = findBudgetIssue(request.request, deps.queue.leapSeconds) ?? setIssue();
     await submitQueuedJob(deps, req, res, {
       kind: 'delta-v-budget', issue, issueRoot: 'body.request', urlRoot: '/v1/budgets',
       submit: (submittedBy) => deps.queue.submitBudget(request, submittedBy),

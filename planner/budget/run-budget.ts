@@ -8,7 +8,7 @@
  * 3. assembleBudget: statistics of both paths, their per-burn agreement, caveats.
  * runBudget does all three in this process. A budget is a study: never a plan to approve.
  */
-import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, planLeapSeconds } from '../../propagator/index.ts';
+import { BUILTIN_LEAP_SECONDS, CancelledError, InvalidInputError, planLeapSeconds, type EphemerisFileTable } from '../../propagator/index.ts';
 import { caveat, orderCaveats, reviewCaveat } from '../caveats.ts';
 import type { Caveat, ManeuverPlan, PlanProgress } from '../../contract/plan-types.ts';
 import { planManeuvers } from '../plan/plan-maneuvers.ts';
@@ -28,6 +28,8 @@ import type { BudgetNominal, BudgetPath, BudgetProgress, BudgetResult, BudgetSam
 export interface BudgetRunOptions {
   onProgress?: (p: BudgetProgress) => void;
   signal?: AbortSignal;
+  /** OEM tables replacing the built-in series for the bodies they tabulate (a problem's ephemeris set, as for a plan). */
+  ephemerisFiles?: readonly EphemerisFileTable[];
 }
 
 export interface BudgetSampleOptions {
@@ -37,6 +39,8 @@ export interface BudgetSampleOptions {
   signal?: AbortSignal;
   /** Called after each sample with the number done in this range. */
   onSample?: (done: number) => void;
+  /** The nominal plan's ephemeris files (see BudgetRunOptions); the re-plans fly on them too. */
+  ephemerisFiles?: readonly EphemerisFileTable[];
 }
 
 const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(resolve));
@@ -45,11 +49,11 @@ const yieldToLoop = (): Promise<void> => new Promise((resolve) => setImmediate(r
  * the table the request's problem was checked with (parseBudgetRequest). */
 export async function prepareBudget(request: CheckedBudgetRequest, options: BudgetRunOptions = {}): Promise<{ plan: ManeuverPlan; nominal: BudgetNominal | null }> {
   const plan = await planManeuvers(request.problem, {
-    monteCarlo: 'skip', signal: options.signal,
+    monteCarlo: 'skip', signal: options.signal, ephemerisFiles: options.ephemerisFiles,
     onProgress: (p: PlanProgress) => options.onProgress?.({ stage: 'nominal', fraction: 0.1 * p.fraction, message: `nominal plan: ${p.message}` }),
   });
   if (plan.status !== 'converged') return { plan, nominal: null };
-  return { plan, nominal: await budgetNominal(request, planningContext(request.problem), plan, options.signal) };
+  return { plan, nominal: await budgetNominal(request, planningContext(request.problem, undefined, options.ephemerisFiles), plan, options.signal) };
 }
 
 /** Step 2: samples of one path; see the file comment. Checks `signal` before each sample. */
@@ -58,7 +62,7 @@ export async function runBudgetSamples(request: CheckedBudgetRequest, nominal: B
   if (!Number.isInteger(firstIndex) || firstIndex < 0) throw new InvalidInputError('firstIndex', `must be an integer >= 0, got ${firstIndex}`);
   if (!Number.isInteger(count) || count < 0) throw new InvalidInputError('count', `must be an integer >= 0, got ${count}`);
   const sampler = createBudgetSampler(nominal.burns.length, nominal.initialCovariance, nominal.knowledgeCovariances);
-  const ctx = options.path === 'nonlinear' ? planningContext(request.problem) : null;
+  const ctx = options.path === 'nonlinear' ? planningContext(request.problem, undefined, options.ephemerisFiles) : null;
   const out: BudgetSample[] = [];
   for (let k = 0; k < count; k++) {
     if (signal?.aborted) throw new CancelledError(`budget cancelled after ${k} of ${count} ${options.path} samples`);
@@ -106,13 +110,14 @@ export function assembleBudget(request: BudgetRequest, plan: ManeuverPlan, nomin
   if (!nominal) notes.push(`no budget: the nominal plan did not converge (${plan.convergence.message})`);
   if (!agreement) notes.push('no linear/non-linear comparison: only one path ran');
   return {
-    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem, plan.leapSeconds ?? planLeapSeconds(BUILTIN_LEAP_SECONDS)), requestHash: budgetRequestHash(request),
+    budgetFormatVersion: 1, kind: 'delta-v-budget', problemHash: problemHash(request.problem, plan.leapSeconds ?? planLeapSeconds(BUILTIN_LEAP_SECONDS), plan.ephemerisSources), requestHash: budgetRequestHash(request),
     softwareVersion: SOFTWARE_VERSION, spacecraftName: request.problem.spacecraft.name, title: request.problem.title ?? null,
     nominal: {
       status: plan.status, crossCheckPassed: plan.crossCheck.passed,
       burns: plan.burns.map((b) => ({ label: b.label, epochTdbS: b.epoch.tdbS, epochTdb: b.epoch.tdb, epochUtc: b.epoch.utc, magnitudeMS: b.magnitudeMS })),
       totalDeltaVMS: plan.totalDeltaVMS,
     },
+    ...(plan.ephemerisSources ? { ephemerisSources: plan.ephemerisSources } : {}),
     linear, nonlinear, agreement,
     caveats: budgetCaveats(request, plan, { linear, nonlinear, agreement }),
     notes,
@@ -133,11 +138,11 @@ export async function runBudget(request: CheckedBudgetRequest, options: BudgetRu
   const nl = request.linearSamples;
   const nn = request.nonlinearSamples;
   const linear = await runBudgetSamples(request, nominal, {
-    path: 'linear', firstIndex: 0, count: nl, signal: options.signal,
+    path: 'linear', firstIndex: 0, count: nl, signal: options.signal, ephemerisFiles: options.ephemerisFiles,
     onSample: (done) => { if (done % 1000 === 0 || done === nl) progress({ stage: 'linear', fraction: 0.1 + 0.1 * (done / nl), message: `linear sample ${done}/${nl}`, samplesDone: done, samplesTotal: nl }); },
   });
   const nonlinear = await runBudgetSamples(request, nominal, {
-    path: 'nonlinear', firstIndex: 0, count: nn, signal: options.signal,
+    path: 'nonlinear', firstIndex: 0, count: nn, signal: options.signal, ephemerisFiles: options.ephemerisFiles,
     onSample: (done) => progress({ stage: 'nonlinear', fraction: 0.2 + 0.79 * (done / nn), message: `non-linear sample ${done}/${nn}`, samplesDone: done, samplesTotal: nn }),
   });
   progress({ stage: 'summary', fraction: 0.99, message: 'statistics' });

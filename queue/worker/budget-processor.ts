@@ -14,6 +14,13 @@ import {
 import {
   addChildBatches, collectChildSamples, releaseChildBatches, runChildBatch, runParentJob, sampleBatches, type ProcessorDeps,
 } from './job-run.ts';
+import { ephemerisSetFiles, type EphemerisSetFileRef } from '../config/ephemeris-sets.ts';
+
+/** The files of the ephemeris set the request's problem names (none for the built-in series): an unknown set
+ * is an InvalidInputError, final for the job (the API refuses it before it is queued). */
+function setFiles(deps: ProcessorDeps, request: BudgetJobData['budget']): EphemerisSetFileRef[] {
+  return ephemerisSetFiles(deps.ephemerisSets, request.problem.forceModel.ephemerisSet);
+}
 
 async function finishStudy(deps: ProcessorDeps, job: Job<BudgetJobData>, result: BudgetResult): Promise<BudgetJobResult> {
   const stored = await deps.sink.storeStudy({ jobId: String(job.id), actor: deps.actor, submittedBy: job.data.submittedBy, study: result });
@@ -33,7 +40,7 @@ export async function processBudget(deps: ProcessorDeps, job: Job<BudgetJobData>
     if (job.data.step === 'prepare') {
       await deps.sink.recordSubmitted(run.jobId, job.data);
       const leapSeconds = job.data.leapSeconds ?? deps.leapSeconds;
-      const prepared = await deps.pool.run({ kind: 'budget-prepare', request, leapSeconds }, { signal: run.signal, onProgress: run.report });
+      const prepared = await deps.pool.run({ kind: 'budget-prepare', request, leapSeconds, ephemerisFiles: setFiles(deps, request) }, { signal: run.signal, onProgress: run.report });
       if (!prepared.nominal || total === 0) {
         const result = await deps.pool.run({ kind: 'budget-assemble', request, plan: prepared.plan, nominal: prepared.nominal, nonlinear: [] }, { signal: run.signal });
         return finishStudy(deps, job, result);
@@ -64,6 +71,7 @@ export async function processBudget(deps: ProcessorDeps, job: Job<BudgetJobData>
 export async function processBudgetBatch(deps: ProcessorDeps, job: Job<BudgetBatchData>, bullSignal?: AbortSignal): Promise<BudgetBatchResult> {
   const samples = await runChildBatch(deps, job, bullSignal, (signal) => deps.pool.run({
     kind: 'budget-samples', request: job.data.budget, nominal: job.data.nominal, firstIndex: job.data.firstIndex, count: job.data.count,
+    ephemerisFiles: setFiles(deps, job.data.budget),
   }, { signal }));
   return { firstIndex: job.data.firstIndex, samples };
 }

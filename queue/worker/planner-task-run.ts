@@ -55,12 +55,19 @@ export async function runPlannerTask(task: PlannerTask, signal: AbortSignal, onP
     case 'combine':
       // Combining reads the samples and the problem's dispersion seed only: nothing to check or plan.
       return attachMonteCarlo(task.plan, summariseDispersion(task.problem, task.plan, task.samples));
-    case 'budget-prepare':
-      return prepareBudget(parseBudgetRequest(task.request, leapSecondTableOfPlan(task.leapSeconds)), { signal, onProgress });
-    case 'budget-samples':
-      return runBudgetSamples(parseBudgetRequest(task.request, leapSecondTableOfPlan(task.nominal.plan.leapSeconds)), task.nominal, {
-        path: 'nonlinear', firstIndex: task.firstIndex, count: task.count, signal,
+    case 'budget-prepare': {
+      const leapSeconds = leapSecondTableOfPlan(task.leapSeconds);
+      return prepareBudget(parseBudgetRequest(task.request, leapSeconds), {
+        signal, onProgress, ephemerisFiles: await setTables(task.ephemerisFiles ?? [], leapSeconds),
       });
+    }
+    case 'budget-samples': {
+      // Re-plans fly the nominal plan's problem with its leap-second table, on the set's files as checked.
+      const leapSeconds = leapSecondTableOfPlan(task.nominal.plan.leapSeconds);
+      return runBudgetSamples(parseBudgetRequest(task.request, leapSeconds), task.nominal, {
+        path: 'nonlinear', firstIndex: task.firstIndex, count: task.count, signal, ephemerisFiles: await setTables(task.ephemerisFiles ?? [], leapSeconds),
+      });
+    }
     case 'budget-assemble': {
       const request = parseBudgetRequest(task.request, leapSecondTableOfPlan(task.plan.leapSeconds));
       const linear = task.nominal && request.linearSamples > 0

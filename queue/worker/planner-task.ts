@@ -13,8 +13,8 @@ export type PlannerTask =
   | { kind: 'plan'; problem: PlanningProblem; monteCarlo: 'in-process' | 'skip'; leapSeconds: PlanLeapSeconds; ephemerisFiles?: EphemerisSetFileRef[] }
   | { kind: 'samples'; problem: PlanningProblem; plan: ManeuverPlan; seed: number; firstIndex: number; count: number; ephemerisFiles?: EphemerisSetFileRef[] }
   | { kind: 'combine'; problem: PlanningProblem; plan: ManeuverPlan; samples: DispersionSample[] }
-  | { kind: 'budget-prepare'; request: BudgetRequest; leapSeconds: PlanLeapSeconds }
-  | { kind: 'budget-samples'; request: BudgetRequest; nominal: BudgetNominal; firstIndex: number; count: number }
+  | { kind: 'budget-prepare'; request: BudgetRequest; leapSeconds: PlanLeapSeconds; ephemerisFiles?: EphemerisSetFileRef[] }
+  | { kind: 'budget-samples'; request: BudgetRequest; nominal: BudgetNominal; firstIndex: number; count: number; ephemerisFiles?: EphemerisSetFileRef[] }
   /** Runs the linear path (fast) and assembles the result with the fanned-out non-linear samples. */
   | { kind: 'budget-assemble'; request: BudgetRequest; plan: ManeuverPlan; nominal: BudgetNominal | null; nonlinear: BudgetSample[] };
 

@@ -4,7 +4,8 @@
  * files' provenance in the plan and its history, sampled by fanned-out Monte Carlo child jobs on the same files,
  * exported as OEM on them; refused: an unknown set name (400 naming the field), a corrupt file (start-up stops,
  * naming file, line and keyword), a span that does not cover the problem (400 at submission naming file, body,
- * epochs; the planner refuses it too), a file changed after start-up (export refused).
+ * epochs; the planner refuses it too), a file changed after start-up (export refused). A Δv budget job on a set
+ * is studied on its files (nominal and fanned-out re-plans) with the sources in the study, and refused as above.
  *
  * The set's file is a CCSDS OEM (CCSDS 502.0-B-3, KVN layout from the standard's annex examples, from memory)
  * tabulating Mars relative to the Sun from astronomy-engine (npm 2.1.19) moved by a known offset
@@ -20,7 +21,7 @@ import { pino } from 'pino';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadApiConfig, startApiServer } from '../../api/index.ts';
 import { loadEphemerisFiles } from '../../ccsds/index.ts';
-import { parseProblem, planManeuvers } from '../../planner/index.ts';
+import { parseBudgetRequest, parseProblem, planManeuvers, runBudget } from '../../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS, parseEpoch } from '../../propagator/index.ts';
 import { loadEphemerisSets, logEphemerisSetsAtStart } from '../../queue/index.ts';
 import { startService, waitForJob, type TestService } from '../harness/service.ts';
@@ -123,10 +124,15 @@ describe('a problem choosing a set', () => {
       const oem = await svc.request('GET', `/v1/plans/${planId}/ccsds/oem?stepS=600`, { token: svc.tokens.reviewer });
       expect(oem.status).toBe(200);
       expect(oem.text).toContain(`ephemeris mars: OEM mars.oem sha256 ${marsSha256}`);
-      writeFileSync(marsPath, readFileSync(marsPath, 'utf8').replace('ORIGINATOR = VEER-TEST', 'ORIGINATOR = VEER-TEST2'));
-      const changed = await svc.request('GET', `/v1/plans/${planId}/ccsds/oem?stepS=600`, { token: svc.tokens.reviewer });
-      expect(changed.status).toBe(400);
-      expect(changed.body.error.message).toMatch(/mars\.oem changed since it was checked \(SHA-256 was [0-9a-f]{12}…, is now [0-9a-f]{12}…\)/);
+      const original = readFileSync(marsPath, 'utf8');
+      writeFileSync(marsPath, original.replace('ORIGINATOR = VEER-TEST', 'ORIGINATOR = VEER-TEST2'));
+      try {
+        const changed = await svc.request('GET', `/v1/plans/${planId}/ccsds/oem?stepS=600`, { token: svc.tokens.reviewer });
+        expect(changed.status).toBe(400);
+        expect(changed.body.error.message).toMatch(/mars\.oem changed since it was checked \(SHA-256 was [0-9a-f]{12}…, is now [0-9a-f]{12}…\)/);
+      } finally {
+        writeFileSync(marsPath, original); // the budget tests below plan on the file as checked at start-up
+      }
     }, 120_000);
   });
 
@@ -169,6 +175,43 @@ describe('a problem choosing a set', () => {
       await expect(planManeuvers(parseProblem(problemOn('too-short', 0)), { monteCarlo: 'skip', ephemerisFiles: files }))
         .rejects.toMatchObject({ name: 'OutOfSpanError', field: 'forceModel.ephemerisSet', message: expect.stringMatching(new RegExp(uncovered)) });
     });
+  });
+});
+
+describe('a Δv budget whose problem chooses a set', () => {
+  const diag = (p: number, v: number) => [0, 1, 2, 3, 4, 5].map((i) => [0, 1, 2, 3, 4, 5].map((k) => (i === k ? (i < 3 ? p : v) : 0)));
+  /** One knowledge covariance for the one burn (1 km, 1 mm/s, 1σ): invented. */
+  const budgetOn = (set: string) => ({
+    problem: problemOn(set, 0), knowledge: [{ covarianceKmKmS: diag(1, 1e-12) }], linearSamples: 200, nonlinearSamples: 4, seed: 11,
+  });
+  const body = (request: Record<string, unknown>) => ({ request, reason: 'service test: Δv budget on the mission\'s ephemeris set' });
+
+  it('should be studied by the workers on the set\'s files, recording them as Mars\'s source in the study', async () => {
+    const request = budgetOn('mission-a');
+    const res = await svc.request('POST', '/v1/budgets', { token: svc.tokens.submitter, body: body(request) });
+    expect(res.status).toBe(202);
+    const end = await waitForJob(svc, res.body.jobId, (s) => s.state === 'completed' || s.state === 'failed', 180_000, '/v1/budgets');
+    expect(end.error).toBeNull();
+    expect(end.state).toBe('completed');
+    const study = (await svc.request('GET', `/v1/budgets/${res.body.jobId}/study`, { token: svc.tokens.reviewer })).body.study;
+    expect(study.nonlinear.samples).toBe(4);
+    expect(study.ephemerisSources.find((x: { body: string }) => x.body === 'mars')).toMatchObject({ source: 'oem', file: 'mars.oem', sha256: marsSha256 });
+    // The same request studied in this process on the same file: the same study (sample i depends on (seed, i) only).
+    const files = await loadEphemerisFiles([marsPath]);
+    expect(files[0].sha256).toBe(marsSha256);
+    const local = await runBudget(parseBudgetRequest(request), { ephemerisFiles: files });
+    expect(study).toEqual(JSON.parse(JSON.stringify(local)));
+    // On the built-in series the nominal plan's problem hashes differently: the file's identity is in the hash.
+    const builtin = await planManeuvers(parseProblem(problemOn(undefined, 0)), { monteCarlo: 'skip' });
+    expect(local.problemHash).not.toBe(builtin.problemHash);
+  }, 240_000);
+
+  it('should answer 400 at submission naming the field under body.request when the set does not cover the problem', async () => {
+    const res = await svc.request('POST', '/v1/budgets', { token: svc.tokens.submitter, body: body(budgetOn('too-short')) });
+    expect(res.status).toBe(400);
+    expect(res.body.error.issues).toEqual([{
+      path: 'body.request.problem.forceModel.ephemerisSet', message: expect.stringMatching(/mars-short\.oem: mars is tabulated from .* UTC\)/),
+    }]);
   });
 });
 
