@@ -1,4 +1,4 @@
-/** `veer budget <request.json> [--json] [--out FILE] [--leap-seconds FILE]`: the statistical Δv budget of a correction sequence, in-process. */
+/** `veer budget <request.json> [--json] [--out FILE] [--leap-seconds FILE] [--ephemeris FILE.oem ...]`: the statistical Δv budget of a correction sequence, in-process. */
 import { writeFile } from 'node:fs/promises';
 import { InvalidInputError } from '../../propagator/index.ts';
 import { parseBudgetRequest, runBudget } from '../../planner/index.ts';
@@ -10,8 +10,10 @@ import { checkOutputPath } from './plan.ts';
 import { readJsonFile } from './read-json-file.ts';
 import { parseFileCommandArgs } from './file-command-args.ts';
 import { LEAP_SECONDS_USAGE, loadCliLeapSeconds } from '../leap-seconds-option.ts';
+import { EPHEMERIS_USAGE, loadEphemerisFiles } from '../ephemeris-option.ts';
 
 const USAGE = `usage: veer budget <request.json> [--json] [--out FILE] [--leap-seconds FILE]
+                   [--ephemeris FILE.oem ...]
 
 The statistical Δv budget of a sequence of correction burns, in this process: plans the nominal sequence,
 then simulates it many times — true initial state drawn from the initial covariance, each burn re-planned
@@ -24,6 +26,7 @@ Progress goes to stderr (Ctrl-C stops it); the readable report to stdout.
   --json       print the result as JSON on stdout instead of the report
   --out FILE   also write the result as JSON to FILE (checked for writability first)
 ${LEAP_SECONDS_USAGE}
+${EPHEMERIS_USAGE}
 
 Exit codes: 0 budget done and the two paths agree (or only one ran); 3 no budget (nominal plan not
 converged) or the paths disagree or re-plans did not converge; 2 bad usage or invalid request (the field
@@ -43,12 +46,14 @@ export const budgetCommand: CliCommand = {
   name: 'budget',
   usage: USAGE,
   async run(args: string[]): Promise<number> {
-    const parsed = parseFileCommandArgs(args, 'budget', USAGE, { '--out': 'a file name', '--leap-seconds': 'a file name' });
+    const parsed = parseFileCommandArgs(args, 'budget', USAGE, { '--out': 'a file name', '--leap-seconds': 'a file name',
+      '--ephemeris': 'an OEM file name' });
     if (!parsed) return 2;
     const { json, file } = parsed;
     const out = parsed.values['--out'];
     const leapSeconds = await loadCliLeapSeconds(parsed.values['--leap-seconds']);
     const request = parseBudgetRequest(await readJsonFile(file, 'request', (field, message) => new InvalidInputError(field, message)), leapSeconds);
+    const ephemerisFiles = await loadEphemerisFiles(parsed.all['--ephemeris'] ?? [], leapSeconds);
     if (out) await checkOutputPath(out);
     const bar = progressBar('veer budget');
     const controller = new AbortController();
@@ -56,7 +61,7 @@ export const budgetCommand: CliCommand = {
     process.once('SIGINT', onSigint);
     let result: BudgetResult;
     try {
-      result = await runBudget(request, { onProgress: bar.update, signal: controller.signal });
+      result = await runBudget(request, { onProgress: bar.update, signal: controller.signal, ephemerisFiles });
     } finally {
       bar.end();
       process.removeListener('SIGINT', onSigint);

@@ -3,6 +3,7 @@
 import type { BudgetResult, BudgetSummary, Distribution, LimitCrossing } from '../../planner/index.ts';
 import { caveatBlock, num } from './plan-report.ts';
 import { table } from './text-table.ts';
+import { ephemerisSourceLines } from '../../contract/ephemeris-sets.ts';
 
 const HEAD = 'Δv BUDGET STUDY — not a plan and never to be approved or commanded; its numbers inform plans that require review and approval by qualified flight-dynamics staff and independent verification. Caveats:';
 const TAIL = 'REMINDER — a budget STUDY. Any burn it informs is a proposal for review, approval and independent verification under the mission\'s own procedures. Caveats:';
@@ -34,6 +35,7 @@ export function formatBudgetReport(r: BudgetResult): string {
     ...caveatBlock(r, HEAD),
     `Spacecraft: ${r.spacecraftName}${r.title ? ` — ${r.title}` : ''}`,
     `Problem hash (SHA-256): ${r.problemHash}   request hash: ${r.requestHash}   software: ${r.softwareVersion}`,
+    ...(r.ephemerisSources ? ['Ephemeris sources:', ...ephemerisSourceLines(r.ephemerisSources).map((line) => `  ${line}`)] : []),
     `Nominal plan: ${r.nominal.status}, cross-check ${r.nominal.crossCheckPassed ? 'passed' : 'FAILED'}; ${r.nominal.burns.map((b) => `${b.label} ${b.epochUtc ? `${b.epochUtc} = ` : ''}${b.epochTdb} ${num(b.magnitudeMS)} m/s`).join('; ')}`,
     '',
   ];

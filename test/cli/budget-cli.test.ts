@@ -1,11 +1,14 @@
-/** `veer budget`: the report (caveats first and last, both paths, agreement), --json/--out, bad input naming
- * the field, Ctrl-C stopping the run. */
+/** `veer budget`: the report (caveats first and last, both paths, agreement), --json/--out, --ephemeris (an
+ * OEM, CCSDS 502.0-B-3, tabulating Mars: test/reference/mars-oem.ts), bad input naming the field, Ctrl-C
+ * stopping the run. */
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runVeer } from '../harness/run-cli.ts';
 import type { BudgetResult } from '../../planner/index.ts';
+import { parseEpoch } from '../../propagator/index.ts';
+import { marsOemText } from '../reference/mars-oem.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'veer-budget-cli-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -34,6 +37,27 @@ describe('veer budget', () => {
       const saved = JSON.parse(readFileSync(out, 'utf8')) as BudgetResult;
       expect(saved.kind).toBe('delta-v-budget');
       expect(saved.linear?.burns.map((b) => b.label)).toEqual(['TCM-1', 'TCM-2']);
+    });
+  });
+
+  describe('when Mars comes from an OEM file', () => {
+    it('should run the budget on the file, record its SHA-256 in the study and the report, and refuse a short file', async () => {
+      const t0 = parseEpoch('2031-08-12T12:00:00 TDB'); // the budget demo's initial epoch
+      const oem = join(dir, 'mars.oem');
+      writeFileSync(oem, marsOemText('MARS', t0 - 4 * 86400, t0 + 66 * 86400, [0, 0, 0]));
+      const request = file('eph.json', { ...demo, linearSamples: 200, nonlinearSamples: 0 });
+      const r = await runVeer(['budget', request, '--json', '--ephemeris', oem]);
+      expect(r.code).toBe(0);
+      const study = JSON.parse(r.out) as BudgetResult;
+      const mars = study.ephemerisSources?.find((s) => s.body === 'mars');
+      expect(mars).toMatchObject({ source: 'oem', file: 'mars.oem' });
+      const report = await runVeer(['budget', request, '--ephemeris', oem]);
+      expect(report.out).toContain(`ephemeris mars: OEM mars.oem sha256 ${mars?.source === 'oem' ? mars.sha256 : '?'}`);
+      const short = join(dir, 'mars-short.oem');
+      writeFileSync(short, marsOemText('MARS', t0 - 4 * 86400, t0 + 30 * 86400, [0, 0, 0]));
+      const refused = await runVeer(['budget', request, '--ephemeris', short]);
+      expect(refused.code).toBe(2);
+      expect(refused.err).toContain('mars-short.oem');
     });
   });
 
