@@ -5,6 +5,7 @@
 import type { PlanArchive, PlanFilter, PlanRecord } from '../archive/index.ts';
 import type { RetargetQueue } from '../queue/index.ts';
 import type { PlanSummary } from '../contract/http-schemas.ts';
+import { JOB_NAMES } from '../contract/job-types.ts';
 import type { ManeuverPlan } from '../contract/plan-types.ts';
 
 export type { PlanSummary };
@@ -40,7 +41,7 @@ export class JobResultPlanReader implements PlanReader {
   constructor(private readonly queue: RetargetQueue) {}
   async get(planId: string) {
     const job = await this.queue.findJob(planId);
-    const plan = job?.returnvalue?.plan;
+    const plan = job?.name === JOB_NAMES.retarget ? job.returnvalue?.plan : undefined;
     if (!job || !plan || !job.finishedOn) return undefined;
     return { summary: this.summary(job.id ?? planId, job.data.submittedBy, job.finishedOn, plan), plan };
   }
@@ -48,8 +49,9 @@ export class JobResultPlanReader implements PlanReader {
     const jobs = await this.queue.queue.getJobs(['completed'], 0, 999, false);
     const out: PlanSummary[] = [];
     for (const job of jobs) {
-      const plan = job?.returnvalue?.plan;
-      if (!job || !plan || !job.finishedOn) continue;
+      if (job?.name !== JOB_NAMES.retarget) continue; // only retarget jobs carry plans
+      const plan = job.returnvalue?.plan;
+      if (!plan || !job.finishedOn) continue;
       const s = this.summary(String(job.id), job.data.submittedBy, job.finishedOn, plan);
       if (filter.state && filter.state !== s.state) continue;
       if (filter.spacecraftName && filter.spacecraftName !== s.spacecraftName) continue;

@@ -3,11 +3,11 @@
  * study, failure as data) and the progress of a fanned-out sample run, read from the BullMQ job and its
  * cancel record. Pure reads; RetargetQueue fetches the job and calls these.
  */
-import type { Job } from 'bullmq';
 import type { FailureData } from '../../contract/errors.ts';
 import type { BudgetJobResult, BudgetJobStatus } from '../../contract/budget-job-types.ts';
-import type { JobProgress, JobState, JobStatus, RetargetJobData, RetargetJobResult } from '../../contract/job-types.ts';
+import { JOB_NAMES, type JobProgress, type JobState, type JobStatus } from '../../contract/job-types.ts';
 import type { CancelRecord } from '../cancellation.ts';
+import type { BudgetJob, TopLevelJob } from './queued-job.ts';
 
 const CLIENT_STATE: Record<string, JobState> = {
   waiting: 'waiting', prioritized: 'waiting', 'waiting-children': 'waiting-children', delayed: 'delayed',
@@ -15,16 +15,17 @@ const CLIENT_STATE: Record<string, JobState> = {
 };
 
 /** The state the API shows: BullMQ's, with 'prioritized' as waiting and a cancelled failure as cancelled. */
-export function clientState(state: string, job: Job<RetargetJobData>, cancel: CancelRecord | null): JobState {
+export function clientState(state: string, job: TopLevelJob, cancel: CancelRecord | null): JobState {
   if (state === 'failed' && (cancel || job.data.failure?.name === 'CancelledError')) return 'cancelled';
   return CLIENT_STATE[state] ?? 'unknown';
 }
 
 /** A retarget job's status as the API shows it (result without the plan). */
-export function describeJob(job: Job<RetargetJobData, RetargetJobResult>, state: string, cancel: CancelRecord | null): JobStatus {
+export function describeJob(job: TopLevelJob, state: string, cancel: CancelRecord | null): JobStatus {
   const shown = clientState(state, job, cancel);
-  const progress = typeof job.progress === 'object' && job.progress !== null ? job.progress as unknown as JobProgress : null;
-  const result = job.returnvalue ? { ...job.returnvalue } : null;
+  const progress = typeof job.progress === 'object' && job.progress !== null ? job.progress : null;
+  // A budget job's result is shown by describeBudgetJob, which replaces this one.
+  const result = job.name === JOB_NAMES.retarget && job.returnvalue ? { ...job.returnvalue } : null;
   if (result) delete result.plan;
   return {
     id: String(job.id), kind: 'retarget', state: shown, priority: job.data.priority, submittedBy: job.data.submittedBy,
@@ -39,9 +40,9 @@ export function describeJob(job: Job<RetargetJobData, RetargetJobResult>, state:
 }
 
 /** A budget job's status as the API shows it (result without the study). */
-export function describeBudgetJob(job: Job<RetargetJobData, RetargetJobResult>, state: string, cancel: CancelRecord | null): BudgetJobStatus {
+export function describeBudgetJob(job: BudgetJob, state: string, cancel: CancelRecord | null): BudgetJobStatus {
   const status = describeJob(job, state, cancel);
-  const result = status.state === 'completed' && job.returnvalue ? { ...(job.returnvalue as unknown as BudgetJobResult) } : null;
+  const result = status.state === 'completed' && job.returnvalue ? { ...job.returnvalue } : null;
   if (result) delete result.result;
   return { ...status, kind: 'delta-v-budget', result };
 }
@@ -63,7 +64,7 @@ export function cancelledBeforeRunStatus(jobId: string, cancel: CancelRecord | n
  * Progress of a fanned-out Monte Carlo run, from its child jobs (ids end in `-mc-<firstIndex>`): samples in
  * finished batches over all samples. Exact, since batch sizes follow from the first indices.
  */
-export async function fanOutProgress(job: Job<RetargetJobData>, total = job.data.problem.dispersion.samples, label = 'Monte Carlo',
+export async function fanOutProgress(job: TopLevelJob, total = job.data.problem.dispersion.samples, label = 'Monte Carlo',
   stage: JobProgress['stage'] = 'dispersion'): Promise<JobProgress | null> {
   const deps = await job.getDependencies({ processed: { count: 10_000 }, unprocessed: { count: 10_000 } });
   const firstIndex = (key: string): number => Number(/-mc-(\d+)$/.exec(key)?.[1] ?? NaN);
@@ -87,7 +88,7 @@ export async function fanOutProgress(job: Job<RetargetJobData>, total = job.data
  * while its run was ending reads as cancelled; one the queue library failed on its own (a stalled job over
  * its limit) has only the library's text, given as the message.
  */
-function failureOfJob(job: Job<RetargetJobData>, cancel: CancelRecord | null): FailureData {
+function failureOfJob(job: TopLevelJob, cancel: CancelRecord | null): FailureData {
   const recorded = job.data.failure;
   if (cancel && recorded?.name !== 'CancelledError') {
     return { name: 'CancelledError', code: 'CANCELLED', message: `cancelled by ${cancel.by}: ${cancel.reason}` };

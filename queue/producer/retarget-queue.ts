@@ -3,7 +3,7 @@
  * Knows nothing of HTTP; returns outcomes the API maps to status codes.
  */
 import { randomUUID } from 'node:crypto';
-import { Queue, type Job, type JobState as BullState } from 'bullmq';
+import { Queue, type JobState as BullState } from 'bullmq';
 import type { Redis } from 'ioredis';
 import { canonicalHash, sha256Hex } from '../../archive/index.ts';
 import { budgetRequestHash, planLeapSeconds, problemHash, type PlanningProblem } from '../../planner/index.ts';
@@ -16,6 +16,7 @@ import type { FailureData } from '../../contract/errors.ts';
 import { createRedis } from '../config/connection.ts';
 import type { Priority } from '../../contract/index.ts';
 import { DEFAULT_ADMISSION, submitterJobsKey, unfinishedJobsOf, type AdmissionLimits, type AdmissionRefusal } from './admission.ts';
+import { isTopLevelJob, type QueuedJob, type TopLevelJob } from './queued-job.ts';
 import { QueueUnavailableError } from './queue-unavailable.ts';
 import { cancelledBeforeRunStatus, clientState, describeBudgetJob, describeJob, fanOutProgress } from './job-status.ts';
 import {
@@ -67,7 +68,7 @@ export function isIssuedJobId(jobId: string): boolean {
 }
 
 export class RetargetQueue {
-  readonly queue: Queue<RetargetJobData, RetargetJobResult>;
+  readonly queue: Queue<QueuedJob>;
   readonly redis: Redis;
   private readonly attempts: number;
   private readonly retentionS: number;
@@ -88,11 +89,13 @@ export class RetargetQueue {
   /** The leap-second table problems are validated with and that each job carries to the worker. */
   get leapSeconds(): LeapSecondTable { return this.opts.leapSeconds ?? BUILTIN_LEAP_SECONDS; }
 
-  /** The job with this id, or undefined when there is none or the id is not one this queue issues. */
-  async findJob(jobId: string): Promise<Job<RetargetJobData, RetargetJobResult> | undefined> {
+  /** The submitted job (retarget or budget) with this id, or undefined when there is none, the id is not one
+   * this queue issues, or it names a sample batch. */
+  async findJob(jobId: string): Promise<TopLevelJob | undefined> {
     this.assertConnected();
     if (!isIssuedJobId(jobId)) return undefined;
-    return (await this.queue.getJob(jobId)) ?? undefined;
+    const job = await this.queue.getJob(jobId);
+    return job && isTopLevelJob(job) ? job : undefined;
   }
 
   /**
@@ -130,7 +133,7 @@ export class RetargetQueue {
   }
 
   /** Adds a job of kind `name` with the idempotency handling shared by both kinds. */
-  private async enqueue(name: string, idempotencyKey: string | undefined, submittedBy: string, requestHash: string,
+  private async enqueue(name: TopLevelJob['name'], idempotencyKey: string | undefined, submittedBy: string, requestHash: string,
     priority: Priority, dataOf: (submissionId: string) => RetargetJobData | BudgetJobData): Promise<SubmitOutcome> {
     const jobId = idempotencyKey
       ? `k-${sha256Hex(`${submittedBy}\n${idempotencyKey}`).slice(0, 40)}`
@@ -152,7 +155,7 @@ export class RetargetQueue {
     // The job and its id in the submitter's set go in one wait: an id whose job is not there yet only counts
     // as finished to a concurrent count at the limit (the overshoot admission.ts allows for).
     await Promise.all([
-      this.queue.add(name, dataOf(submissionId) as RetargetJobData, {
+      this.queue.add(name, dataOf(submissionId), {
         jobId,
         priority: priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
         attempts: this.attempts,
@@ -199,8 +202,7 @@ export class RetargetQueue {
       return removed ? { ...removed, kind: 'delta-v-budget', result: null } : undefined;
     }
     const status = describeBudgetJob(job, state, await readCancel(this.redis, this.prefix, jobId));
-    const data = job.data as unknown as BudgetJobData;
-    if (state === 'waiting-children') status.progress = await fanOutProgress(job, data.budget.nonlinearSamples, 'non-linear budget samples', 'nonlinear') ?? status.progress;
+    if (state === 'waiting-children') status.progress = await fanOutProgress(job, job.data.budget.nonlinearSamples, 'non-linear budget samples', 'nonlinear') ?? status.progress;
     return status;
   }
 
@@ -208,7 +210,7 @@ export class RetargetQueue {
   async budgetResult(jobId: string): Promise<BudgetJobResult | undefined> {
     const job = await this.findJob(jobId);
     if (!job || job.name !== BUDGET_JOB_NAMES.budget) return undefined;
-    return (job.returnvalue as unknown as BudgetJobResult | null) ?? undefined;
+    return job.returnvalue ?? undefined;
   }
 
   /** A retarget job's status, or undefined when unknown (never submitted, or expired). */
@@ -227,7 +229,7 @@ export class RetargetQueue {
    * The job and its state, consistent: reading the job and then its state can see a job that finished in
    * between (state completed, no result yet), so a finished state is followed by a fresh read of the job.
    */
-  private async snapshot(jobId: string): Promise<{ job: Job<RetargetJobData, RetargetJobResult> | undefined; state: string }> {
+  private async snapshot(jobId: string): Promise<{ job: TopLevelJob | undefined; state: string }> {
     let job = await this.findJob(jobId);
     if (!job) return { job, state: 'unknown' };
     const state = await job.getState();
@@ -238,7 +240,7 @@ export class RetargetQueue {
   /** The finished job's result (with the plan when no archive holds it). */
   async result(jobId: string): Promise<RetargetJobResult | undefined> {
     const job = await this.findJob(jobId);
-    return job?.returnvalue ?? undefined;
+    return job?.name === JOB_NAMES.retarget ? job.returnvalue ?? undefined : undefined;
   }
 
   /**
