@@ -6,5 +6,5 @@ export { PostgresTokenStore } from './postgres-token-store.ts';
 export { openTokenStore, SQLITE_TOKENS_FILE, type OpenTokenStoreOptions } from './open-token-store.ts';
 export { authenticate, identityOf, requireRoles, type RoleGuard } from './middleware.ts';
 export { generateTokenSecret, hashTokenSecret, TOKEN_PREFIX } from './token-secret.ts';
-export { newTokenSchema, parseNewToken, TokenInputError } from './token-input.ts';
+export { newTokenSchema, parseNewToken } from './token-input.ts';
 export { refusedTokenLimit, type RefusedTokenLimitOptions } from './refused-token-limit.ts';
