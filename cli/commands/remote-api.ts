@@ -3,6 +3,7 @@
  * VEER_URL/VEER_TOKEN) and a small JSON-over-HTTP call that turns API errors into readable messages.
  */
 import type { ParseArgsConfig } from 'node:util';
+import { InvalidInputError } from '../../contract/errors.ts';
 import { printableJson, printableText } from '../../contract/free-text.ts';
 
 /** Options every remote command accepts (for util.parseArgs). */
@@ -19,15 +20,8 @@ export const REMOTE_USAGE = `  --url URL      API address (default: $VEER_URL, e
 export const PROPOSAL_NOTICE = 'PROPOSAL ONLY: plans require review and approval by qualified flight-dynamics staff and independent '
   + 'verification, and are handled under the mission\'s own procedures before anything is commanded.';
 
-/** A bad command line (exit code 2). */
-export class UsageError extends Error {
-  override readonly name = 'InvalidInputError';
-  readonly field: string;
-  constructor(field: string, message: string) {
-    super(`${field}: ${message}`);
-    this.field = field;
-  }
-}
+/** A bad command line (exit code 2): the contract's field error, under a name saying where it came from. */
+export class UsageError extends InvalidInputError {}
 
 /** An error answer from the API, with its status and JSON error body. */
 export class ApiCallError extends Error {
