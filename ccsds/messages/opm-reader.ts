@@ -105,7 +105,7 @@ function readKeplerian(cursor: TokenCursor, comments: string[]): OpmKeplerianEle
 
 function readSpacecraft(cursor: TokenCursor, comments: string[]): OpmSpacecraftParameters {
   const out: OpmSpacecraftParameters = { comments };
-  const fields: [string, keyof OpmSpacecraftParameters, string | undefined][] = [
+  const fields: [string, Exclude<keyof OpmSpacecraftParameters, 'comments'>, string | undefined][] = [
     ['MASS', 'massKg', 'kg'], ['SOLAR_RAD_AREA', 'solarRadAreaM2', 'm**2'], ['SOLAR_RAD_COEFF', 'solarRadCoeff', undefined],
     ['DRAG_AREA', 'dragAreaM2', 'm**2'], ['DRAG_COEFF', 'dragCoeff', undefined],
   ];
@@ -116,7 +116,7 @@ function readSpacecraft(cursor: TokenCursor, comments: string[]): OpmSpacecraftP
     if (value < 0 || (keyword === 'MASS' && value === 0)) {
       throw new CcsdsFormatError(keyword, line, `${keyword} = ${value} must be ${keyword === 'MASS' ? '> 0' : '>= 0'}`);
     }
-    (out as unknown as Record<string, number>)[key] = value;
+    out[key] = value;
   }
   return out;
 }
