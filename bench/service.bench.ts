@@ -213,8 +213,8 @@ async function main(): Promise<void> {
     await stopWorkers(ws);
   }
   say('');
-  say(`Each run began with 4 warm-up jobs per worker (not timed). With ${os.cpus().length} cores shared with other work, `
-    + 'more worker processes than free cores cannot speed this up; the row shows what the queue costs when they compete.');
+  say(`Each run began with 4 warm-up jobs per worker (not timed). On ${os.cpus().length} cores, shared with the API, Redis and `
+    + 'this bench, more worker processes than free cores cannot speed this up; the row shows what the queue costs when they compete.');
 
   const cpu = os.cpus()[0]?.model ?? 'unknown CPU';
   const header = [
@@ -224,8 +224,9 @@ async function main(): Promise<void> {
       + `Node ${process.version}, Redis ${process.env.REDIS_URL ? 'from REDIS_URL' : 'private redis-server (append-only file on)'}, `
       + 'archive SQLite in a temp folder. Run at ' + new Date().toISOString() + '.',
     '',
-    `Load average (1 min) at start ${loadAtStart[0]!.toFixed(1)}, at end ${os.loadavg()[0]!.toFixed(1)} on ${os.cpus().length} cores: `
-      + 'the machine was shared with other work, so absolute times are inflated; compare the ratios to the peers measured in the same run.',
+    `Load average (1 min) at start ${loadAtStart[0]!.toFixed(1)}, at end ${os.loadavg()[0]!.toFixed(1)} on ${os.cpus().length} cores `
+      + '(the load at start is other work on the machine; during the run the API, Redis, workers and load generator share the cores): '
+      + 'absolute times grow with load; compare the ratios to the peers measured in the same run.',
     '',
   ];
   mkdirSync(join(ROOT, 'bench/results'), { recursive: true });
