@@ -11,7 +11,7 @@ import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';
 import { cancelBodySchema, jobParamsSchema } from '../../contract/http-schemas.ts';
 import { validOf } from '../validate.ts';
-import { cancelQueuedJob, ephemerisSetIssue, SUBMIT_RESPONSES, submitQueuedJob } from './jobs.ts';
+import { cancelQueuedJob, ephemerisSetIssue, SUBMIT_RESPONSES, submitQueuedJob, withHeaderKey } from './jobs.ts';
 
 const READERS = ['submitter', 'reviewer', 'auditor'] as const;
 
@@ -21,11 +21,11 @@ export function budgetRoutes(routes: ApiRoutes, deps: AppDeps): void {
     summary: 'Submit a Δv budget study',
     description: 'Validates the budget request (schema, the problem\'s semantic checks, one knowledge covariance per burn), '
       + 'enqueues it and answers 202 with the job id. The non-linear samples fan out over the workers. The result is a '
-      + 'study: never a plan, never approvable. Idempotency keys work as for retargeting jobs.',
+      + 'study: never a plan, never approvable. Idempotency keys (body field or Idempotency-Key header) work as for retargeting jobs.',
     body: budgetJobRequestSchema,
     responses: SUBMIT_RESPONSES,
   }, async (req: Request, res: Response) => {
-    const request = validOf<unknown, unknown, BudgetJobRequest>(res).body;
+    const request = withHeaderKey(validOf<unknown, unknown, BudgetJobRequest>(res).body, req.get('idempotency-key'));
     const setIssue = (): ProblemIssue | null => {
       const found = ephemerisSetIssue(deps, request.request.problem);
       return found && { ...found, field: `problem.${found.field}` };

@@ -22,7 +22,7 @@ const READERS = ['submitter', 'reviewer', 'auditor'] as const;
 
 /** The submission with the `Idempotency-Key` header (when sent) as its key: checked with the body field's
  * schema, and refused when the body names a different key. */
-function withHeaderKey(body: JobRequest, headerKey: string | undefined): JobRequest {
+export function withHeaderKey<T extends { idempotencyKey?: string }>(body: T, headerKey: string | undefined): T {
   const request = { ...body };
   if (headerKey === undefined) return request;
   const parsed = idempotencyKeySchema.safeParse(headerKey);

@@ -4,6 +4,7 @@
  * "The Idempotency-Key HTTP Header Field" (same key + same request → the first result; same key + other
  * request → 409 Conflict is common practice there).
  */
+import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startService, type TestService } from '../harness/service.ts';
 import { schemaValidProblem, submission } from '../queue/fixtures.ts';
@@ -53,6 +54,18 @@ describe('idempotent resubmission', () => {
       const first = await post(body, svc.tokens.submitter, { 'Idempotency-Key': 'hdr-key-000001' });
       const again = await post(body, svc.tokens.submitter, { 'Idempotency-Key': 'hdr-key-000001' });
       expect([first.status, again.status]).toEqual([202, 200]);
+      expect(again.body.jobId).toBe(first.body.jobId);
+    });
+  });
+
+  describe('when a Δv budget comes with the Idempotency-Key header', () => {
+    it('should behave like the body field there too (same key and request → the first job; other request → 409)', async () => {
+      const budget = JSON.parse(readFileSync('examples/flyby-budget-demo.json', 'utf8')) as Record<string, unknown>;
+      const postBudget = (request: unknown) => svc.request('POST', '/v1/budgets', { token: svc.tokens.submitter, body: { request, reason: 'service test: budget resubmitted with a header key' }, headers: { 'Idempotency-Key': 'budget-hdr-0001' } });
+      const first = await postBudget(budget);
+      const again = await postBudget(budget);
+      const other = await postBudget({ ...budget, seed: 12345 });
+      expect([first.status, again.status, other.status]).toEqual([202, 200, 409]);
       expect(again.body.jobId).toBe(first.body.jobId);
     });
   });
