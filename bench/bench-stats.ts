@@ -1,5 +1,5 @@
 /**
- * Timing helpers shared by bench/propagator.bench.ts and bench/ephemeris.bench.ts, so both measure the
+ * Timing helpers shared by the benches, so all measure the
  * same way: CPU time of this process (process.cpuUsage, user + system — a shared, loaded machine
  * disturbs it less than wall time), peers timed in alternation within each round (both see the same
  * load), and the median with the spread over rounds reported, never the best run alone.
@@ -99,4 +99,50 @@ export function codeVersion(): string {
   } catch {
     return 'unknown';
   }
+}
+
+/** Samples of `count` from index `first`, computed in a child process, with its sampling time (ms). */
+export type SampleChild<T> = (first: number, count: number) => Promise<{ samples: T[]; ms: number }>;
+
+/** One child process against two splitting the same samples, alternated (order swapped every round). */
+export interface OneVersusTwo<T> {
+  /** Samples/s of sampling time, one process, per round. */
+  oneRates: number[];
+  /** Sampling time of the one-process run, ms, per round. */
+  oneMs: number[];
+  /** Samples/s of the slower of the two processes' sampling time, per round. */
+  twoRates: number[];
+  /** Wall time of the two-process run incl. start-up, ms, per round. */
+  twoWalls: number[];
+  /** Whether both contenders produced the same samples in every round. */
+  sameSamples: boolean;
+  /** The samples (one process's, last round). */
+  samples: T[];
+}
+
+/** Runs `rounds` of one process vs two processes over `n` samples; `beforeRound` runs first in each round
+ * (a peer measured under the same load). */
+export async function oneVersusTwoProcesses<T>(runChild: SampleChild<T>, n: number, rounds: number,
+  beforeRound: (round: number) => Promise<void> = async () => {}): Promise<OneVersusTwo<T>> {
+  const out: OneVersusTwo<T> = { oneRates: [], oneMs: [], twoRates: [], twoWalls: [], sameSamples: true, samples: [] };
+  const one = async (): Promise<T[]> => {
+    const x = await runChild(0, n);
+    out.oneRates.push(n / (x.ms / 1000));
+    out.oneMs.push(x.ms);
+    return x.samples;
+  };
+  const two = async (): Promise<T[]> => {
+    const t = performance.now();
+    const [a, b] = await Promise.all([runChild(0, n / 2), runChild(n / 2, n / 2)]);
+    out.twoWalls.push(performance.now() - t);
+    out.twoRates.push(n / (Math.max(a.ms, b.ms) / 1000));
+    return [...a.samples, ...b.samples];
+  };
+  for (let r = 0; r < rounds; r++) {
+    await beforeRound(r);
+    const [first, second] = r % 2 === 0 ? [await one(), await two()] : [await two(), await one()];
+    out.sameSamples &&= JSON.stringify(first) === JSON.stringify(second);
+    out.samples = r % 2 === 0 ? first : second;
+  }
+  return out;
 }

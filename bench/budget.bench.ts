@@ -14,7 +14,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { assembleBudget, parseBudgetRequest, planManeuvers, prepareBudget, runBudgetSamples } from '../planner/index.ts';
 import type { BudgetSample, CheckedBudgetRequest } from '../planner/index.ts';
-import { cpuMs, formatSpread, machineLine, ratios, spreadOf } from './bench-stats.ts';
+import { cpuMs, formatSpread, machineLine, oneVersusTwoProcesses, ratios, spreadOf } from './bench-stats.ts';
 
 const here = fileURLToPath(import.meta.url);
 const demo = JSON.parse(readFileSync(new URL('../examples/flyby-budget-demo.json', import.meta.url), 'utf8')) as {
@@ -85,32 +85,9 @@ const linearSummary = assembleBudget(request, plan, nominal, linear, []).linear!
 
 await correctionStageMs(); // warm-up: the first plan in a process pays for compiling the planner's hot paths
 const correction: number[] = [];
-const oneRates: number[] = [];
-const twoRates: number[] = [];
-const twoWalls: number[] = [];
-const sampleOverCorrection: number[] = [];
-let nonlinear: BudgetSample[] = [];
-let sameSamples = true;
-for (let r = 0; r < ROUNDS; r++) {
-  const peerMs = await correctionStageMs();
-  correction.push(peerMs);
-  const one = async (): Promise<BudgetSample[]> => {
-    const x = await runChild(0, NONLINEAR_N);
-    oneRates.push(NONLINEAR_N / (x.ms / 1000));
-    sampleOverCorrection.push(x.ms / NONLINEAR_N / peerMs);
-    return x.samples;
-  };
-  const two = async (): Promise<BudgetSample[]> => {
-    const t = performance.now();
-    const [a, b] = await Promise.all([runChild(0, NONLINEAR_N / 2), runChild(NONLINEAR_N / 2, NONLINEAR_N / 2)]);
-    twoWalls.push(performance.now() - t);
-    twoRates.push(NONLINEAR_N / (Math.max(a.ms, b.ms) / 1000));
-    return [...a.samples, ...b.samples];
-  };
-  const [first, second] = r % 2 === 0 ? [await one(), await two()] : [await two(), await one()];
-  sameSamples &&= JSON.stringify(first) === JSON.stringify(second);
-  nonlinear = first;
-}
+const { oneRates, oneMs, twoRates, twoWalls, sameSamples, samples: nonlinear } = await oneVersusTwoProcesses(runChild, NONLINEAR_N, ROUNDS,
+  async () => { correction.push(await correctionStageMs()); });
+const sampleOverCorrection = oneMs.map((ms, r) => ms / NONLINEAR_N / correction[r]!);
 const both = assembleBudget(request, plan, nominal, linear, nonlinear);
 
 log('## Three-burn sequence (TCM-1, TCM-2, TCM-3; demo flyby, 62-day span)');

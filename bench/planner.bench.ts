@@ -21,7 +21,7 @@ import {
   createBuiltinEphemeris, EphemerisCache, parseEpoch, propagateAsync,
 } from '../propagator/index.ts';
 import type { BodyName } from '../propagator/index.ts';
-import { cpuMs, formatSpread, machineLine, ratios, spreadOf } from './bench-stats.ts';
+import { cpuMs, formatSpread, machineLine, oneVersusTwoProcesses, ratios, spreadOf } from './bench-stats.ts';
 import { finiteRetargeting } from './finite-retargeting.ts';
 
 const here = fileURLToPath(import.meta.url);
@@ -149,29 +149,8 @@ const MC_SAMPLES = 200;
 async function monteCarlo(): Promise<void> {
   const plan = await basePlan();
   const n = MC_SAMPLES;
-  const oneRates: number[] = [];
-  const twoRates: number[] = [];
-  const twoWalls: number[] = [];
-  let samples: DispersionSample[] = [];
-  let sameSamples = true;
   // Sampling rate inside the children (excludes their start-up and the plan each one recomputes).
-  const one = async (): Promise<DispersionSample[]> => {
-    const r = await runChild(0, n);
-    oneRates.push(n / (r.ms / 1000));
-    return r.samples;
-  };
-  const two = async (): Promise<DispersionSample[]> => {
-    const t = performance.now();
-    const [a, b] = await Promise.all([runChild(0, n / 2), runChild(n / 2, n / 2)]);
-    twoWalls.push(performance.now() - t);
-    twoRates.push(n / (Math.max(a.ms, b.ms) / 1000));
-    return [...a.samples, ...b.samples];
-  };
-  for (let r = 0; r < MC_ROUNDS; r++) {
-    const [first, second] = r % 2 === 0 ? [await one(), await two()] : [await two(), await one()];
-    sameSamples &&= JSON.stringify(first) === JSON.stringify(second);
-    samples = r % 2 === 0 ? second : first;
-  }
+  const { oneRates, twoRates, twoWalls, sameSamples, samples } = await oneVersusTwoProcesses(runChild, n, MC_ROUNDS);
   const summary = summariseDispersion(problem, plan, samples);
   const withMc = attachMonteCarlo(plan, summary);
   const lin = plan.dispersion.linear?.total;
