@@ -1,7 +1,7 @@
 /**
  * The API server's configuration, from environment variables (validated at start-up; see README "Service").
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { envInt, parseEnv, sharedServiceEnvShape } from '../contract/env-config.ts';
 import { DEFAULT_ADMISSION } from '../queue/index.ts';
 

@@ -3,7 +3,7 @@
  * uses) comes from zod 4's `z.toJSONSchema`; request bodies and parameters use the input side (defaults
  * optional), responses the output side.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import type { RouteSpec } from './route-table.ts';
 
 type JsonObject = Record<string, unknown>;

@@ -3,7 +3,7 @@
  * handler (guards + validation) and feeds the OpenAPI document, so the two cannot drift apart.
  */
 import { Router, type RequestHandler } from 'express';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { requireRoles, type Role } from './auth/index.ts';
 import { validate } from './validate.ts';
 

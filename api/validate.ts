@@ -3,7 +3,7 @@
  * (`body.problem.burns[0].epoch`). Parsed values are put on `res.locals.valid`.
  */
 import type { RequestHandler, Response } from 'express';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { issuePath } from '../contract/errors.ts';
 import { sendError, type FieldIssue } from './errors.ts';
 

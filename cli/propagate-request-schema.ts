@@ -4,7 +4,7 @@
  * of TDB seconds from J2000. Units are in the field names. Parsing turns zod issues and bad epochs into
  * InvalidInputError naming the field path (e.g. `burns[1].epoch`).
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { RELATIVE_TOLERANCE_RANGE } from '../contract/problem-bounds.ts';
 import {
   BODY_NAMES, BUILTIN_LEAP_SECONDS, formatEpoch, INERTIAL_FRAMES, InvalidInputError, OutOfSpanError, parseEpoch,

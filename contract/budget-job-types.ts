@@ -4,7 +4,7 @@
  * and status. A budget job runs in the retarget queue beside retargeting jobs (same workers, priorities,
  * cancellation); it yields a study, never a plan.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { budgetRequestSchema } from './budget-schema.ts';
 import type { BudgetRequest } from './budget-schema.ts';
 import type { BudgetNominal, BudgetResult, BudgetSample } from './budget-types.ts';

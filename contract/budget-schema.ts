@@ -5,7 +5,7 @@
  * the problem's `initialState.covarianceKmKmS`; the execution errors are its Gates `executionErrors`.
  * Shape checks only; parseBudgetRequest (planner/budget/budget-checks.ts) relates fields to each other.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { problemSchema } from './problem-schema.ts';
 
 const covariance6Schema = z.array(z.array(z.number()).length(6)).length(6);

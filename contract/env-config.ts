@@ -2,7 +2,7 @@
  * Reading configuration from environment variables with a zod schema: every bad value is reported on its
  * own line, naming the variable, what it must be, and what was given.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** Start-up configuration that cannot be used; `problems` has one line per bad variable. */
 export class ConfigError extends Error {

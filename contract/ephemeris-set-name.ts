@@ -1,5 +1,5 @@
 /** The name of a service ephemeris set (its own file so the problem schema needs nothing else of the sets). */
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** A set's name: its sub-folder's name, 1–64 of letters, digits, `.`, `_`, `-` (not starting with `.`). */
 export const ephemerisSetNameSchema = z.string().regex(/^[A-Za-z0-9_-][A-Za-z0-9._-]{0,63}$/, {

@@ -4,7 +4,7 @@
  * plan's recorded ephemeris sources with those rebuilt from files (used wherever a plan made on files is
  * used again: OEM export, Monte Carlo samples, `veer export`).
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import type { PlanEphemerisSource } from './plan-types.ts';
 
 export { ephemerisSetNameSchema } from './ephemeris-set-name.ts';

@@ -5,7 +5,7 @@
  * refused at the door; text that must be given needs at least one visible character (a lone zero-width
  * space is not a comment). Character classes are Unicode general categories (Unicode Standard §4.5).
  */
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** Cc (C0, DEL, C1) except tab and line feed, line/paragraph separators, and the bidirectional controls
  * (embeddings, overrides, isolates, marks: Unicode Standard Annex #9). */

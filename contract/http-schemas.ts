@@ -2,7 +2,7 @@
  * zod schemas of what the routes take and return (request schemas validate; response schemas document the
  * OpenAPI side). The problem itself is the planner's one schema, reached through queue/'s jobRequestSchema.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { freeTextSchema } from './free-text.ts';
 import { JOB_STATES, PRIORITIES, idempotencyKeySchema, jobRequestSchema, type JobStatus } from './job-types.ts';
 import type { BudgetJobStatus } from './budget-job-types.ts';

@@ -2,7 +2,7 @@
  * What a retargeting job carries: the planner's problem (the one zod schema) plus who submitted it, why,
  * how urgent it is, and an optional idempotency key. Also the shapes of progress, results and status.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import type { FailureData } from './errors.ts';
 import { freeTextSchema } from './free-text.ts';
 import { problemSchema } from './problem-schema.ts';

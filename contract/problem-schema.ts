@@ -7,7 +7,7 @@
  * named: `2030-05-01T00:00:00Z` (UTC) or `2030-05-01T00:00:00 TDB` (also TAI, TT).
  * No transforms here, so the schema converts to JSON Schema as-is.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { ephemerisSetNameSchema } from './ephemeris-set-name.ts';
 import { BODY_NAMES, INERTIAL_FRAMES } from './bodies.ts';
 import { freeTextSchema } from './free-text.ts';

@@ -1,5 +1,5 @@
 /** zod schemas of the review, history, export, verify and token routes (requests validate; responses document). */
-import { z } from 'zod';
+import * as z from 'zod';
 import { ENTRY_KINDS, PLAN_STATES } from './archive-types.ts';
 import { freeTextSchema } from './free-text.ts';
 import { ROLES } from './roles.ts';

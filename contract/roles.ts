@@ -1,5 +1,5 @@
 /** Roles and the identity a bearer token stands for. */
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * - submitter: submits retargeting jobs, reads their status and plans;

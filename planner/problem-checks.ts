@@ -4,7 +4,7 @@
  * is a CheckedProblem, the only form the planner takes: each door parses once and nothing downstream re-checks.
  * (The schema lives in contract/; the checks live here because reading epochs needs the propagator's time scales.)
  */
-import type { z } from 'zod';
+import type * as z from 'zod';
 import {
   BUILTIN_EPHEMERIS_SPAN, BUILTIN_LEAP_SECONDS, InvalidInputError, OutOfSpanError, formatEpoch, parseEpoch, RADIUS_KM, J2_EARTH,
 } from '../propagator/index.ts';

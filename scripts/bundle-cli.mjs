@@ -9,6 +9,9 @@
 //     (new URL('./verify-thread.js', import.meta.url)), so every output lands flat in one folder, named as in dist/.
 //   - bundled: the project's code, zod and astronomy-engine (pure ESM, no files read at run time); every other
 //     dependency stays in node_modules (native addons, libraries that load files or threads by path).
+//   - zod is imported as a namespace (`import * as z from 'zod'`): its `{ z }` export is a namespace object the
+//     bundler must keep whole, with every message locale (~370 kB that `veer plan` compiled at each start). The
+//     build refuses a bundle that carries a locale other than English, naming the importer to fix.
 // Plain JavaScript like setup.mjs; esbuild is a dev dependency (the same binary tsx and vite use).
 import { build } from 'esbuild';
 import { readFileSync, rmSync } from 'node:fs';
@@ -41,7 +44,18 @@ export async function bundleCli() {
     metafile: true,
     logLevel: 'warning',
   });
+  refuseZodLocales(result.metafile);
   return Object.keys(result.metafile.outputs).filter((f) => f.endsWith('.js'));
+}
+
+/** Throws when a zod locale other than the default (en) is in the bundle: some file imports zod's `{ z }` export. */
+function refuseZodLocales(metafile) {
+  const bundled = new Set(Object.values(metafile.outputs).flatMap((o) => Object.entries(o.inputs).filter(([, i]) => i.bytesInOutput > 0).map(([f]) => f)));
+  const locales = [...bundled].filter((f) => /zod\/v4\/locales\/(?!en\.js$)[^/]+\.js$/.test(f));
+  if (locales.length === 0) return;
+  const importers = [...bundled].filter((f) => !f.includes('node_modules') && /^import \{ z \} from 'zod'/m.test(readFileSync(join(ROOT, f), 'utf8')));
+  throw new Error(`bundle-cli: ${locales.length} zod locales were bundled (${locales[0]} ...): import zod as \`import * as z from 'zod'\`, `
+    + `not \`import { z } from 'zod'\` (${importers.join(', ') || 'no importer found'})`);
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {

@@ -1,5 +1,5 @@
 /** Validation of token requests (name, roles), shared by the CLI, the API route and the stores. */
-import { z } from 'zod';
+import * as z from 'zod';
 import { InvalidInputError } from '../../contract/errors.ts';
 import { roleSchema, tokenNameSchema, type Role } from '../../contract/roles.ts';
 

@@ -4,7 +4,7 @@
  * workers (its non-linear samples fanned out as child jobs); its result is a study, never a plan to approve.
  */
 import type { Request, Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { budgetJobRequestSchema, findBudgetIssue, type BudgetJobRequest, type ProblemIssue } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';

@@ -4,7 +4,7 @@
  * work is in ccsds/; here only lookup, validation and the HTTP shape.
  */
 import type { Request, Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import {
   assertExportable, CcsdsExportThreads, CcsdsFormatError, exportPlanAsCcsds, ExportTimeLimitError, readOpmAsInitialState,
   SUPPORTED_TIME_SYSTEMS, type ThreadExportOptions,

@@ -1,6 +1,6 @@
 /** Export of a plan bundle: the plan, its entries and the chain headers needed to check them offline. */
 import type { Request, Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { buildPlanBundle } from '../../archive/index.ts';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';

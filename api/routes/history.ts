@@ -1,6 +1,6 @@
 /** A plan's full history (its entries and its job's, each with its hash re-checked), and raw chain pages for auditors. */
 import type { Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { entryHash, type ArchiveEntry } from '../../archive/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { archiveOf } from '../review/archive-http.ts';

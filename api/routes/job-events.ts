@@ -5,7 +5,7 @@
  * state is read again, so the stream ends even when the final event was missed (Redis reconnect).
  */
 import type { Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import type { AnyJobStatus, JobEvent } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';

@@ -3,7 +3,7 @@
  * list, status, cancel.
  */
 import type { Request, Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import {
   checkEphemerisSetCovers, findProblemIssue, recordRemovedJob, type JobRequest, type ProblemIssue, type SubmitOutcome,
 } from '../../queue/index.ts';

@@ -1,5 +1,5 @@
 /** Plans: fetch one (with the review notice), list with filters. */
-import { z } from 'zod';
+import * as z from 'zod';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';
 import type { ApiRoutes } from '../route-table.ts';

@@ -1,6 +1,6 @@
 /** Reviews: approve or reject a proposed plan (reviewer role), under the review rules of api/review. */
 import type { Request, Response } from 'express';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { archiveOf, sendArchiveError } from '../review/archive-http.ts';

@@ -1,5 +1,5 @@
 /** Liveness, readiness (Redis answers, a worker is connected), Prometheus metrics, the OpenAPI document. */
-import { z } from 'zod';
+import * as z from 'zod';
 import { leapSecondsExpired, QUEUE_RETRY_AFTER_S } from '../../queue/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { buildOpenApi } from '../openapi.ts';

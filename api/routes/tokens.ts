@@ -1,6 +1,6 @@
 /** Token management over HTTP (admin role). The secret is returned once, on creation. */
 import type { Response } from 'express';
-import { z } from 'zod';
+import * as z from 'zod';
 import { identityOf, newTokenSchema } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { sendError } from '../errors.ts';

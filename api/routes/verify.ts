@@ -1,6 +1,6 @@
 /** Verification of the whole archive chain (auditor role). */
 import type { Request, Response } from 'express';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { identityOf } from '../auth/index.ts';
 import type { AppDeps } from '../deps.ts';
 import { archiveOf } from '../review/archive-http.ts';

@@ -2,7 +2,7 @@
  * The worker's configuration, from environment variables (validated at start-up; see README "Service").
  * Durations carry their unit in the name.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { envInt, parseEnv, sharedServiceEnvShape } from '../../contract/env-config.ts';
 
 export const workerEnvSchema = z.object({

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { canonicalJson, parseProblem, planLeapSeconds, problemHash, problemSchema } from '../../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS } from '../../propagator/index.ts';
-import { z } from 'zod';
+import * as z from 'zod';
 import { twoBodyProblem } from './two-body-fixture.ts';
 
 function fieldOf(input: unknown): string {
