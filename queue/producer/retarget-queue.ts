@@ -15,9 +15,11 @@ import { cancelKey, readCancel, requestCancel, type CancelRecord } from '../canc
 import type { FailureData } from '../../contract/errors.ts';
 import { createRedis } from '../config/connection.ts';
 import type { Priority } from '../../contract/index.ts';
+import type { PlanLeapSeconds } from '../../contract/plan-types.ts';
 import { DEFAULT_ADMISSION, submitterJobsKey, unfinishedJobsOf, type AdmissionLimits, type AdmissionRefusal } from './admission.ts';
 import { isTopLevelJob, type QueuedJob, type TopLevelJob } from './queued-job.ts';
 import { QueueUnavailableError } from './queue-unavailable.ts';
+import { sendInOneWrite } from './one-write.ts';
 import { cancelledBeforeRunStatus, clientState, describeBudgetJob, describeJob, fanOutProgress } from './job-status.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
@@ -73,6 +75,8 @@ export class RetargetQueue {
   private readonly attempts: number;
   private readonly retentionS: number;
   private readonly admission: AdmissionLimits;
+  /** The leap-second table's record every job carries: the table is fixed for this queue, so built once. */
+  private readonly leapSecondsRecord: PlanLeapSeconds;
 
   constructor(private readonly opts: RetargetQueueOptions) {
     this.redis = createRedis(opts.redisUrl, { failFast: true, name: 'veer-producer' });
@@ -82,6 +86,7 @@ export class RetargetQueue {
     this.attempts = opts.attempts ?? 3;
     this.retentionS = opts.retentionS ?? 7 * 86_400;
     this.admission = opts.admission ?? DEFAULT_ADMISSION;
+    this.leapSecondsRecord = planLeapSeconds(this.leapSeconds);
   }
 
   get prefix(): string { return this.opts.prefix; }
@@ -104,7 +109,7 @@ export class RetargetQueue {
    */
   async submit(request: JobRequest, submittedBy: string): Promise<SubmitOutcome> {
     this.assertConnected();
-    const leapSeconds = planLeapSeconds(this.leapSeconds);
+    const leapSeconds = this.leapSecondsRecord;
     const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
     const requestHash = canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
     return this.enqueue(JOB_NAMES.retarget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
@@ -122,7 +127,7 @@ export class RetargetQueue {
   async submitBudget(request: BudgetJobRequest, submittedBy: string): Promise<SubmitOutcome> {
     this.assertConnected();
     const problem = request.request.problem as PlanningProblem;
-    const leapSeconds = planLeapSeconds(this.leapSeconds);
+    const leapSeconds = this.leapSecondsRecord;
     const hashOfProblem = problemHash(problem, leapSeconds);
     const requestHash = canonicalHash({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority });
     return this.enqueue(BUDGET_JOB_NAMES.budget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
@@ -153,7 +158,9 @@ export class RetargetQueue {
     const submissionId = randomUUID();
     const submitterKey = submitterJobsKey(this.prefix, submittedBy);
     // The job and its id in the submitter's set go in one wait: an id whose job is not there yet only counts
-    // as finished to a concurrent count at the limit (the overshoot admission.ts allows for).
+    // as finished to a concurrent count at the limit (the overshoot admission.ts allows for). The three
+    // commands leave in one socket write.
+    sendInOneWrite(this.redis);
     await Promise.all([
       this.queue.add(name, dataOf(submissionId), {
         jobId,
@@ -178,7 +185,8 @@ export class RetargetQueue {
   private async admit(priority: Priority, submittedBy: string): Promise<AdmissionRefusal | null> {
     const limits = this.admission;
     const bullPriority = priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine;
-    // Both counts in one wait (two round trips in flight at once).
+    // Both counts in one wait (two round trips in flight at once), sent in one socket write.
+    sendInOneWrite(this.redis);
     const [counts, unfinished] = await Promise.all([
       this.queue.getCountsPerPriority([bullPriority]),
       unfinishedJobsOf(this.redis, this.prefix, this.queue.qualifiedName, submittedBy, limits.unfinishedPerSubmitter),
