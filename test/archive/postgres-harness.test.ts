@@ -4,14 +4,17 @@
  * system user (created when missing) and it must work from a folder that user cannot enter. Real processes and
  * real OS users. Every case runs under any user: run as root, the ordinary-user case runs as `nobody`; run as an
  * ordinary user, the root-only steps are checked to refuse with a clear error. DATABASE_URL is removed from the
- * harness's environment here (it would take the server it names instead).
+ * harness's environment here (it would take the server it names instead). The child run as another user gets the
+ * harness and pg bundled (esbuild) into its own world-readable folder: the checkout may sit where that user cannot
+ * read (a clone under /root, mode 0700, is the common case on a fresh machine run as root).
  */
 import { execFile } from 'node:child_process';
-import { chmodSync, mkdtempSync, rmSync } from 'node:fs';
+import { chmodSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
+import { build } from 'esbuild';
 import { describe, expect, it } from 'vitest';
 import { ensureSystemUser } from '../harness/postgres.ts';
 
@@ -19,17 +22,39 @@ const run = promisify(execFile);
 const asRoot = process.getuid?.() === 0;
 const HARNESS = fileURLToPath(new URL('../harness/postgres.ts', import.meta.url));
 
-/** Starts the harness in a fresh node process in `cwd` (optionally as another user through runuser), asks the
- * server one query, stops it; resolves to what the harness reported. */
-async function harnessInChild(cwd: string, user?: string): Promise<{ kind: string; two: number; uid: number }> {
-  const script = `const m = await import(${JSON.stringify(HARNESS)}); const s = await m.startPostgres();
-    const pg = (await import(${JSON.stringify(import.meta.resolve('pg'))})).default;
+/** The child's script: start the harness, ask the server one query, stop it, print what the harness reported. */
+function childScript(harness: string, pgModule: string): string {
+  return `const m = await import(${JSON.stringify(harness)}); const s = await m.startPostgres();
+    const pg = (await import(${JSON.stringify(pgModule)})).default;
     const c = new pg.Client({ connectionString: await s.freshDatabase() });
     await c.connect(); const r = await c.query('SELECT 1 + 1 AS two'); await c.end(); await s.stop();
     console.log(JSON.stringify({ kind: s.kind, two: r.rows[0].two, uid: process.getuid() }));`;
+}
+
+/** The child's script with the harness and pg inlined, written to `dir` as one ES module: runs with plain node from
+ * anywhere, so another user needs to read only `dir`. */
+async function bundledChild(dir: string): Promise<string> {
+  const entry = join(dir, 'child-entry.mjs');
+  writeFileSync(entry, childScript(HARNESS, 'pg'));
+  const out = join(dir, 'child.mjs');
+  await build({
+    entryPoints: [entry], outfile: out, bundle: true, platform: 'node', format: 'esm', target: 'node20', logLevel: 'silent',
+    nodePaths: [fileURLToPath(new URL('../../node_modules', import.meta.url))],
+    external: ['pg-native', 'testcontainers'], // optional in pg; testcontainers only when a Docker engine answers
+    banner: { js: "import { createRequire as veerCreateRequire } from 'node:module'; const require = veerCreateRequire(import.meta.url);" },
+  });
+  chmodSync(out, 0o644);
+  return out;
+}
+
+/** Starts the harness in a fresh node process in `cwd` (as another user through runuser, from a bundle in `cwd`),
+ * asks the server one query, stops it; resolves to what the harness reported. */
+async function harnessInChild(cwd: string, user?: string): Promise<{ kind: string; two: number; uid: number }> {
   const env: NodeJS.ProcessEnv = { ...process.env, TMPDIR: tmpdir() };
   delete env.DATABASE_URL;
-  const node = [process.execPath, '--import', import.meta.resolve('tsx'), '--input-type=module', '-e', script];
+  const node = user
+    ? [process.execPath, await bundledChild(cwd)]
+    : [process.execPath, '--import', import.meta.resolve('tsx'), '--input-type=module', '-e', childScript(HARNESS, import.meta.resolve('pg'))];
   const [cmd, ...args] = user ? ['runuser', '-u', user, '--', ...node] : node;
   const { stdout } = await run(cmd, args, { cwd, env, timeout: 90_000 });
   return JSON.parse(stdout.trim().split('\n').at(-1)!);
