@@ -17,9 +17,7 @@ import { InvalidInputError } from './errors.ts';
 /** Serialises `value` canonically (see the module comment); throws InvalidInputError (code NOT_JSON) naming
  * the bad path (`$.a.b[1]`). */
 export function canonicalJson(value: unknown): string {
-  const out: string[] = [];
-  write(value, [], out);
-  return out.join('');
+  return write(value, []);
 }
 
 /** Field path of the value at `parts` below `$`, built only for an error message (hashing sits on the
@@ -29,45 +27,47 @@ function refuse(parts: readonly (string | number)[], message: string): never {
   throw new InvalidInputError(path, message, 'NOT_JSON');
 }
 
-/** Appends the canonical JSON of `value` to `out`; `parts` is the path from the root (pushed and popped). */
-function write(value: unknown, parts: (string | number)[], out: string[]): void {
-  if (value === null) { out.push('null'); return; }
+/** The canonical JSON of `value`; `parts` is the path from the root (pushed and popped). Built by string
+ * concatenation (no array of pieces to join) and without intermediate key lists: this runs on every
+ * submission's problem hash. */
+function write(value: unknown, parts: (string | number)[]): string {
   switch (typeof value) {
     case 'string':
-    case 'boolean':
-      out.push(JSON.stringify(value));
-      return;
+      return JSON.stringify(value);
     case 'number':
       if (!Number.isFinite(value)) refuse(parts, `non-finite number ${value} has no JSON form`);
-      out.push(JSON.stringify(value));
-      return;
+      return JSON.stringify(value);
+    case 'boolean':
+      return value ? 'true' : 'false';
     case 'object':
+      if (value === null) return 'null';
       break;
     default:
       refuse(parts, `a ${typeof value} has no JSON form`);
   }
   if (Array.isArray(value)) {
-    out.push('[');
+    let text = '[';
     for (let i = 0; i < value.length; i++) {
-      if (i > 0) out.push(',');
       parts.push(i);
       if (value[i] === undefined) refuse(parts, 'undefined inside an array has no JSON form');
-      write(value[i], parts, out);
+      text += (i > 0 ? ',' : '') + write(value[i], parts);
       parts.pop();
     }
-    out.push(']');
-    return;
+    return `${text}]`;
   }
   const withJson = value as { toJSON?: () => unknown };
-  if (typeof withJson.toJSON === 'function') { write(withJson.toJSON(), parts, out); return; }
+  if (typeof withJson.toJSON === 'function') return write(withJson.toJSON(), parts);
   const record = value as Record<string, unknown>;
-  const keys = Object.keys(record).filter((k) => record[k] !== undefined).sort();
-  out.push('{');
-  keys.forEach((k, i) => {
-    out.push(i > 0 ? ',' : '', JSON.stringify(k), ':');
+  const keys = Object.keys(record).sort();
+  let text = '{';
+  let first = true;
+  for (const k of keys) {
+    const field = record[k];
+    if (field === undefined) continue;
     parts.push(k);
-    write(record[k], parts, out);
+    text += `${first ? '' : ','}${JSON.stringify(k)}:${write(field, parts)}`;
     parts.pop();
-  });
-  out.push('}');
+    first = false;
+  }
+  return `${text}}`;
 }
