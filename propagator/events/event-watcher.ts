@@ -124,10 +124,8 @@ export class EventWatcher {
     for (;;) {
       const epoch = g.originTdbS + dir * this.nextSample * g.stepS;
       if ((epoch - limit) * dir > 0 || (g.endTdbS - epoch) * dir <= 1e-6) return;
-      if ((epoch - t0) * dir > 0) {
-        const x = Array.from(this.stateAt(stepper, epoch));
-        this.samples.push(this.vector(epoch, this.dynamics.forces.centralBody, x));
-      }
+      // The state vector copies the buffer's numbers (Array.from on a typed array costs ~1 µs a sample).
+      if ((epoch - t0) * dir > 0) this.samples.push(this.vector(epoch, this.dynamics.forces.centralBody, this.stateAt(stepper, epoch)));
       this.nextSample += 1;
     }
   }
@@ -147,7 +145,7 @@ export class EventWatcher {
       distanceKm: Math.hypot(x[0], x[1], x[2]) };
   }
 
-  private vector(epoch: number, centre: BodyName, x: number[]) {
+  private vector(epoch: number, centre: BodyName, x: ArrayLike<number>) {
     return { epochTdbS: epoch, centre, frame: 'J2000_EQUATORIAL' as const,
       positionKm: [x[0], x[1], x[2]] as [number, number, number], velocityKmS: [x[3], x[4], x[5]] as [number, number, number] };
   }
