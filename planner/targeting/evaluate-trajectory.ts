@@ -107,6 +107,9 @@ interface Walk extends ChainState {
   readonly ctx: EvaluationContext;
   readonly opts: EvaluationOptions;
   readonly stm: boolean;
+  /** Whether the next leg carries the STM: false past the last station, where no partial is read (the
+   * state-only leg takes the same steps to the same states: step control sees the state alone). */
+  carryStm: boolean;
   /** Exhaust velocity of the engine, km/s. */
   readonly exhaust: number;
   mass: number;
@@ -129,7 +132,7 @@ function startWalk(ctx: EvaluationContext, opts: EvaluationOptions): Walk {
   const n = ctx.controlMap.length;
   const stm = opts.withStm;
   return {
-    ctx, opts, stm, exhaust: exhaustVelocityKmS(ctx.problem.spacecraft.engine.ispS), mass: ctx.problem.spacecraft.massKg,
+    ctx, opts, stm, carryStm: stm, exhaust: exhaustVelocityKmS(ctx.problem.spacecraft.engine.ispS), mass: ctx.problem.spacecraft.massKg,
     state: ctx.initial, G: stm ? zeros(6, n) : [], P: stm ? identity(6) : [], B: [],
     // d(mass)/d(controls) and d(mass)/d(Δv) of each burn: a finite burn's acceleration depends on the mass.
     massRow: new Array<number>(n).fill(0), massB: [],
@@ -159,7 +162,7 @@ async function propagateLeg(walk: Walk, endTdbS: number, events: EventSpec[],
   const result = await propagateAsync({
     ...extra,
     initial: walk.state, endEpochTdbS: endTdbS, forces: forcesFor(problem, walk.mass), ephemeris: ctx.ephemeris,
-    method: opts.method, arcMethod: opts.arcMethod, relativeTolerance: opts.relativeTolerance, withStm: walk.stm, events,
+    method: opts.method, arcMethod: opts.arcMethod, relativeTolerance: opts.relativeTolerance, withStm: walk.carryStm, events,
     switching: (opts.switching ?? problem.forceModel.switching) ? { enabled: true } : undefined,
     outputStepS: opts.outputStepS,
   }, { signal: opts.signal });
@@ -173,7 +176,7 @@ async function propagateLeg(walk: Walk, endTdbS: number, events: EventSpec[],
 
 /** Moves the walk to the end of a coast, carrying the partials through its Φ. */
 function advance(walk: Walk, result: PropagationResult): void {
-  if (walk.stm) {
+  if (walk.carryStm) {
     const phi = rowsOf6(result.stm as number[]);
     walk.G = multiply(phi, walk.G);
     walk.P = multiply(phi, walk.P);
@@ -266,6 +269,7 @@ async function reachStations(walk: Walk): Promise<StationsReached | EvaluationFa
   };
   for (const stopAt of [...fixed, ctx.endTdbS]) {
     while (walk.state.epochTdbS < stopAt) {
+      walk.carryStm = walk.stm && (pending.size > 0 || stopAt !== ctx.endTdbS || fixed.includes(stopAt));
       const events: EventSpec[] = [...pending].map((body) => ({ kind: 'closest-approach', body, stop: true }));
       const res = await propagateLeg(walk, stopAt, events);
       if (res.outcome === 'stopped-by-event') {
