@@ -74,6 +74,25 @@ interface Correction {
   ctx: PlanningContext;
   seeds: (FiniteSeed | undefined)[];
   lambertSeeds: LambertSeed[];
+  /** The corrector's last evaluation with the STM and plot samples (null when it formed none). */
+  lastWithStm: EvaluatedControls | null;
+}
+
+/** One evaluation and the controls it was made at. */
+interface EvaluatedControls {
+  controls: number[];
+  evaluation: TrajectoryEvaluation;
+}
+
+/** The evaluation kept at exactly `controls`, else null. */
+function evaluatedAt(kept: EvaluatedControls | null, controls: readonly number[]): TrajectoryEvaluation | null {
+  if (kept === null || kept.controls.length !== controls.length) return null;
+  return kept.controls.every((v, i) => v === controls[i]) ? kept.evaluation : null;
+}
+
+/** Output step of the plot samples: 400 intervals over the span, s. */
+function sampleStepS(ctx: PlanningContext): number {
+  return (ctx.epochs.endTdbS - ctx.epochs.initialTdbS) / 400;
 }
 
 /** The solution stage's part: the solution (or last iterate) evaluated with the STM and plot samples. */
@@ -93,7 +112,7 @@ export async function planManeuvers(problem: CheckedProblem, options: PlanOption
   const correction = await correctStage(run);
   run.checkAbort();
   run.ctx = correction.ctx;
-  const solution = await solutionStage(run, correction.result);
+  const solution = await solutionStage(run, correction);
   const plan = assemblePlan(run, correction, solution);
   if (plan.status === 'converged' && solution.ok) await checkAndDisperseStage(run, plan, solution.settings, solution.ok);
   else plan.dispersion.notes.push('not computed: the plan did not converge');
@@ -119,18 +138,24 @@ function startRun(problem: CheckedProblem, options: PlanOptions): PlanRun {
   };
 }
 
-/** One differential correction from `initial` over the run's current control layout. */
-function correct(run: PlanRun, ctx: PlanningContext, initial: number[], stage: string): Promise<CorrectorResult> {
+/** One differential correction from `initial` over the run's current control layout. Its evaluations
+ * with the STM also collect the plot samples (dense output: the steps and the states are those of an
+ * evaluation without them), so the last one can stand for the solution's evaluation; it is returned. */
+async function correct(run: PlanRun, ctx: PlanningContext, initial: number[], stage: string):
+  Promise<{ result: CorrectorResult; lastWithStm: EvaluatedControls | null }> {
   const { problem, m, progress } = run;
   const maxIter = problem.corrector.maxIterations;
-  return runCorrector({
+  let lastWithStm: EvaluatedControls | null = null;
+  const result = await runCorrector({
     initial, tolerances: ctx.components.slice(0, m).map((c) => c.tolerance),
     controlScales: ctx.layout.scales, maxStep: ctx.layout.maxStep, finiteDifferenceStep: ctx.layout.finiteDifferenceStep,
     lower: ctx.layout.lower, upper: ctx.layout.upper, maxIterations: maxIter,
     evaluate: async (x, withJacobian) => {
-      const ev = await evaluateTrajectory(ctx.evaluation, controlSettings(problem, ctx.epochs, ctx.layout, x), { ...run.primary, withStm: withJacobian });
+      const ev = await evaluateTrajectory(ctx.evaluation, controlSettings(problem, ctx.epochs, ctx.layout, x),
+        { ...run.primary, withStm: withJacobian, outputStepS: withJacobian ? sampleStepS(ctx) : undefined });
       if (!ev.ok) return { ok: false, reason: ev.reason };
       run.count(ev);
+      if (withJacobian) lastWithStm = { controls: x.slice(), evaluation: ev };
       return { ok: true, residuals: ev.values.slice(0, m).map((v, i) => v - ctx.components[i].requested), jacobian: ev.jacobian ? ev.jacobian.slice(0, m) : undefined };
     },
     onIteration: (rec) => progress({
@@ -138,6 +163,7 @@ function correct(run: PlanRun, ctx: PlanningContext, initial: number[], stage: s
       message: `${stage}iteration ${rec.iteration}: largest |residual|/tolerance ${rec.maxScaledResidual.toPrecision(3)}`, iteration: rec.iteration,
     }),
   });
+  return { result, lastWithStm };
 }
 
 /** Stage 1: differential correction from the Lambert seeds where asked, then the finite-burn stage. */
@@ -146,11 +172,12 @@ async function correctStage(run: PlanRun): Promise<Correction> {
   let ctx = run.ctx;
   const seeded = await lambertSeeds(problem, ctx.epochs, ctx.layout, ctx.evaluation, run.primary.signal);
   run.progress({ stage: 'correcting', fraction: 0.02, message: 'differential correction', iteration: 0 });
-  let result = await correct(run, ctx, seeded.initial, '');
+  let { result, lastWithStm } = await correct(run, ctx, seeded.initial, '');
   let seeds: (FiniteSeed | undefined)[] = problem.burns.map(() => undefined);
   // Finite burns: from the converged impulsive solution, solve for pointing, duration (and ignition).
   if (hasFiniteBurns(problem) && result.outcome === 'converged') {
-    const impulsive = await evaluateTrajectory(ctx.evaluation, controlSettings(problem, ctx.epochs, ctx.layout, result.controls), { ...run.primary, withStm: false });
+    const impulsive = evaluatedAt(lastWithStm, result.controls) ?? await evaluateTrajectory(ctx.evaluation,
+      controlSettings(problem, ctx.epochs, ctx.layout, result.controls), { ...run.primary, withStm: false });
     const finiteSeeded = impulsive.ok ? finiteSeeds(problem, impulsive.burns) : { seeds, error: impulsive.ok ? null : impulsive.reason };
     if (finiteSeeded.error !== null) {
       result = { ...result, outcome: 'evaluation-failed', message: `finite-burn stage not started: ${finiteSeeded.error}` };
@@ -160,21 +187,24 @@ async function correctStage(run: PlanRun): Promise<Correction> {
       ctx = { ...ctx, layout, evaluation: { ...ctx.evaluation, controlMap: layout.descriptors.map((d) => ({ burnIndex: d.burnIndex, kind: d.kind })) } };
       const earlierIterations = result.iterations.map((it) => ({ ...it, note: `impulsive stage${it.note ? `: ${it.note}` : ''}` }));
       const finite = await correct(run, ctx, layout.initial, 'finite burns: ');
-      result = { ...finite, iterations: [...earlierIterations, ...finite.iterations], message: `finite burns: ${finite.message}` };
+      lastWithStm = finite.lastWithStm;
+      result = { ...finite.result, iterations: [...earlierIterations, ...finite.result.iterations], message: `finite burns: ${finite.result.message}` };
     }
   }
-  return { result, ctx, seeds, lambertSeeds: seeded.seeds };
+  return { result, ctx, seeds, lambertSeeds: seeded.seeds, lastWithStm };
 }
 
-/** Stage 2: the solution (or last iterate) evaluated with sensitivities and samples for the plot; with
+/** Stage 2: the solution (or last iterate) evaluated with sensitivities and samples for the plot — the
+ * corrector's own evaluation there when it made one with the STM, which is the same propagation; with
  * verifyJacobian, the central finite-difference Jacobian beside the STM one. */
-async function solutionStage(run: PlanRun, result: CorrectorResult): Promise<Solution> {
+async function solutionStage(run: PlanRun, correction: Correction): Promise<Solution> {
   const { problem, ctx, m } = run;
+  const { result } = correction;
   const settings = controlSettings(problem, ctx.epochs, ctx.layout, result.controls);
-  const spanS = ctx.epochs.endTdbS - ctx.epochs.initialTdbS;
-  const final = await evaluateTrajectory(ctx.evaluation, settings, { ...run.primary, withStm: true, outputStepS: spanS / 400 });
+  const kept = evaluatedAt(correction.lastWithStm, result.controls);
+  const final = kept ?? await evaluateTrajectory(ctx.evaluation, settings, { ...run.primary, withStm: true, outputStepS: sampleStepS(ctx) });
   const ok: TrajectoryEvaluation | null = final.ok ? final : null;
-  if (ok) run.count(ok);
+  if (ok && !kept) run.count(ok);
   const sensitivities: Sensitivities | null = ok?.jacobian ? {
     controls: ctx.layout.descriptors, components: ctx.components.slice(0, m).map((c) => c.component),
     jacobian: ok.jacobian.slice(0, m), source: 'stm', stmVersusFiniteDifference: null,
