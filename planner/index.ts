@@ -16,8 +16,10 @@ export type * from '../contract/plan-types.ts';
 export { planManeuvers } from './plan/plan-maneuvers.ts';
 export { ephemerisNeeds } from './plan/planning-context.ts';
 export type { PlanOptions } from './plan/plan-maneuvers.ts';
-export { runDispersionSamples, summariseDispersion, attachMonteCarlo } from './plan/monte-carlo.ts';
+export { runDispersionSamples, prepareDispersionSamples, summariseDispersion, attachMonteCarlo } from './plan/monte-carlo.ts';
 export type { SampleRunOptions } from './plan/monte-carlo.ts';
+export type { SampleRangeRunner } from './plan/shared-samples.ts';
+export { sampleBatches } from './dispersion/sample-statistics.ts';
 export { SOFTWARE_VERSION } from '../contract/software-version.ts';
 /** The process-wide ephemeris cache the owner of a planning process passes in PlanOptions.ephemerisCache. */
 export { EphemerisCache } from '../propagator/index.ts';

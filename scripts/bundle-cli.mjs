@@ -4,7 +4,7 @@
 // costs more than the whole `veer --help`; one bundle per command (esbuild, code splitting, so `veer --help`
 // still loads no numerics) starts `veer plan` in a fraction of that time.
 //   - entry points: cli/run.ts (the process) and the worker-thread modules the CLI's code may start (archive
-//     verification, CCSDS export; test/tooling/compiled-build checks none is missing); a thread module is found
+//     verification, CCSDS export, `veer plan`'s Monte Carlo samples; test/tooling/compiled-build checks none is missing); a thread module is found
 //     beside the module that starts it
 //     (new URL('./verify-thread.js', import.meta.url)), so every output lands flat in one folder, named as in dist/.
 //   - bundled: the project's code, zod and astronomy-engine (pure ESM, no files read at run time); every other
@@ -21,7 +21,7 @@ import { fileURLToPath, pathToFileURL } from 'node:url';
 export const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 export const OUT_DIR = join(ROOT, 'dist', 'cli-bundle');
 const BUNDLED_DEPENDENCIES = ['zod', 'astronomy-engine'];
-const ENTRY_POINTS = ['cli/run.ts', 'archive/verify-thread.ts', 'ccsds/export/export-thread.ts'];
+const ENTRY_POINTS = ['cli/run.ts', 'archive/verify-thread.ts', 'ccsds/export/export-thread.ts', 'cli/sample-thread.ts'];
 
 /** Writes dist/cli-bundle/ afresh; resolves to the output files' names (relative to ROOT). */
 export async function bundleCli() {

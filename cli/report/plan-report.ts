@@ -3,7 +3,7 @@
  * closest approaches, dispersion, iterations. A plan that did not converge shows NO burn table — only
  * the last iterate, marked as diagnostics.
  */
-import { ephemerisComments } from '../../ccsds/index.ts';
+import { ephemerisSourceLines } from '../../contract/ephemeris-sets.ts';
 import type { BPlaneEllipse, ManeuverPlan, PlanEpoch } from '../../planner/index.ts';
 import { table } from './text-table.ts';
 
@@ -204,7 +204,7 @@ export function formatPlanReport(plan: ManeuverPlan): string {
     `Initial state: ${epochText(plan.createdFrom.initialEpoch)}, centre ${plan.createdFrom.centre}, ${plan.createdFrom.frame}; span to ${epochText(plan.createdFrom.endEpoch)}`,
     leapSecondsLine(plan),
     `Force model: ${plan.forceModel.summary}; ephemeris ${plan.forceModel.ephemeris}`,
-    ...ephemerisComments(plan).map((line) => `  ${line}`),
+    ...ephemerisSourceLines(plan.ephemerisSources ?? []).map((line) => `  ${line}`),
     '',
     ...statusLines(plan),
     '',

@@ -10,7 +10,7 @@ export { sampleRandom, splitMix64 } from './random.ts';
 export type { SampleRandom } from './random.ts';
 export { createDispersionSampler, runSampleRange } from './monte-carlo.ts';
 export type { DispersionModel, DispersionSampler, DrawnSample, SampleRangeOptions } from './monte-carlo.ts';
-export { mergeSampleBatches, sampleMean, sampleCovariance } from './sample-statistics.ts';
+export { mergeSampleBatches, sampleBatches, sampleMean, sampleCovariance } from './sample-statistics.ts';
 export { checkLinearity, LINEARITY_CHECK_DEFAULTS } from './linearity-check.ts';
 export type { LinearityCheck } from './linearity-check.ts';
 export { erfc, normalUpperTail, normalInterval, lnGamma, gammaQ, chiSquareSurvival } from './special-functions.ts';

@@ -5,6 +5,14 @@
 import { InvalidInputError } from '../../propagator/index.ts';
 import { zeros, type Matrix } from '../../propagator/index.ts';
 
+/** Batches [firstIndex, firstIndex + count) of at most `batchSize` samples covering [0, total), in order
+ * (the queue's child jobs, the CLI's threads). */
+export function sampleBatches(total: number, batchSize: number): { firstIndex: number; count: number }[] {
+  const out: { firstIndex: number; count: number }[] = [];
+  for (let first = 0; first < total; first += batchSize) out.push({ firstIndex: first, count: Math.min(batchSize, total - first) });
+  return out;
+}
+
 /**
  * Merges batches of samples (each carrying its `index`) into one list sorted by index.
  * @param expectedCount when given, the merged indices must be exactly [firstIndex, firstIndex + count).

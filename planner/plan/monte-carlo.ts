@@ -17,6 +17,7 @@ import type { PlanningProblem } from '../../contract/problem-schema.ts';
 import type { CheckedProblem } from '../problem-checks.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
+import { controlSettings } from '../targeting/finite-controls.ts';
 import { evaluateComponent } from '../targeting/target-geometry.ts';
 import { dispersedSetting } from './finite-stage.ts';
 import { planCaveats } from './plan-caveats.ts';
@@ -101,6 +102,21 @@ export async function runDispersionSamples(problem: CheckedProblem, plan: Maneuv
     throw new InvalidInputError('ephemeris', `the Monte Carlo samples must fly on the plan's own ephemeris, and the files here differ: ${mismatch}`);
   }
   return runDispersionSamplesWithContext(ctx, plan, options);
+}
+
+/**
+ * Readies a process (a helper thread started before the plan exists) for runDispersionSamples of `problem`:
+ * builds its planning context on `ephemerisCache`, so the blocks of the problem's span get fitted, and flies
+ * the trajectory of the burns' first guesses once, so the propagator's code is compiled when the samples
+ * come. Its result is discarded; nothing a later run computes depends on it (a block's fit depends only on
+ * its key and index).
+ */
+export async function prepareDispersionSamples(problem: CheckedProblem, options: Pick<SampleRunOptions, 'ephemerisCache' | 'ephemerisFiles' | 'signal'>): Promise<void> {
+  const ctx = planningContext(problem, options.ephemerisCache, options.ephemerisFiles);
+  const fm = problem.forceModel;
+  await evaluateTrajectory(ctx.evaluation, controlSettings(problem, ctx.epochs, ctx.layout, ctx.layout.initial), {
+    withStm: false, method: fm.method, relativeTolerance: fm.relativeTolerance, signal: options.signal,
+  });
 }
 
 function std(values: number[]): number | null {

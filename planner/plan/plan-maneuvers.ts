@@ -25,7 +25,8 @@ import type { BurnSetting } from '../targeting/controls.ts';
 import type { LambertSeed } from '../targeting/lambert-seed.ts';
 import { runCrossCheck } from './cross-check.ts';
 import { approachImpactRadiusKm, linearDispersion } from './linear-dispersion.ts';
-import { attachMonteCarlo, runDispersionSamplesWithContext, summariseDispersion } from './monte-carlo.ts';
+import { attachMonteCarlo, summariseDispersion } from './monte-carlo.ts';
+import { runSamplesShared, type SampleRangeRunner } from './shared-samples.ts';
 import { planCaveats } from './plan-caveats.ts';
 import { bodyPositions, forceModelSummary, planEpoch, plannedBurns, targetResults, trajectoryPoints } from './plan-parts.ts';
 import { planningContext, type PlanningContext } from './planning-context.ts';
@@ -38,6 +39,9 @@ export interface PlanOptions {
   /** 'in-process' (default) runs the Monte Carlo samples here; 'skip' leaves them to the caller (queue
    * fan-out through runDispersionSamples / summariseDispersion / attachMonteCarlo). */
   monteCarlo?: 'in-process' | 'skip';
+  /** Helpers that take batches of the in-process Monte Carlo samples beside this thread (the CLI's threads);
+   * the plan is the same with or without them (shared-samples.ts). @defaultValue [] */
+  sampleRunners?: readonly SampleRangeRunner[];
   /** Also form the central finite-difference Jacobian at the solution and record its largest relative
    * difference from the STM one in sensitivities.stmVersusFiniteDifference (2n extra propagations).
    * @defaultValue false */
@@ -351,8 +355,8 @@ async function checkAndDisperseStage(run: PlanRun, plan: ManeuverPlan, settings:
     plan.dispersion.notes.push(`Monte Carlo not run here (${!hasErrors ? 'nothing to disperse' : n === 0 ? 'dispersion.samples is 0' : 'left to the caller'})`);
     return;
   }
-  const samples = await runDispersionSamplesWithContext(ctx, plan, {
-    seed: problem.dispersion.seed, firstIndex: 0, count: n, signal: run.primary.signal,
+  const samples = await runSamplesShared(ctx, plan, options.sampleRunners ?? [], {
+    seed: problem.dispersion.seed, count: n, signal: run.primary.signal,
     onSample: (done) => {
       if (done % 5 === 0 || done === n) {
         progress({ stage: 'dispersion', fraction: 0.7 + 0.29 * (done / n), message: `Monte Carlo sample ${done}/${n}`, samplesDone: done, samplesTotal: n });

@@ -11,13 +11,15 @@
 import { UnrecoverableError, WaitingChildrenError, type Job, type Queue } from 'bullmq';
 import type { Redis } from 'ioredis';
 import type { Logger } from 'pino';
-import type { PlanLeapSeconds } from '../../planner/index.ts';
+import { sampleBatches, type PlanLeapSeconds } from '../../planner/index.ts';
 import type { TaskProgress } from './planner-task.ts';
 import { failureOf, failureText, isFinalError, type FailureData } from '../../contract/errors.ts';
 import { BULL_PRIORITY, type JobProgress, type Priority } from '../../contract/job-types.ts';
 import { readCancel } from '../cancellation.ts';
 import type { PlanSink } from './plan-sink.ts';
 import type { PlannerPool } from './planner-pool.ts';
+
+export { sampleBatches };
 import type { EphemerisSets } from '../config/ephemeris-sets.ts';
 
 export interface ProcessorDeps {
@@ -167,13 +169,6 @@ export async function runParentJob<D extends FailableJobData & { firstStartedAt?
   } finally {
     control.dispose();
   }
-}
-
-/** Sample batches [firstIndex, firstIndex + count) covering [0, total). */
-export function sampleBatches(total: number, batchSize: number): { firstIndex: number; count: number }[] {
-  const out: { firstIndex: number; count: number }[] = [];
-  for (let first = 0; first < total; first += batchSize) out.push({ firstIndex: first, count: Math.min(batchSize, total - first) });
-  return out;
 }
 
 /**

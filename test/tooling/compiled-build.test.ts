@@ -71,7 +71,7 @@ describe('the compiled build', () => {
       const dir = join(ROOT, 'dist/cli-bundle');
       const started = readdirSync(dir).filter((f) => f.endsWith('.js'))
         .flatMap((f) => [...readFileSync(join(dir, f), 'utf8').matchAll(/"\.\/([\w-]+-thread\.js)"/g)].map((m) => m[1]));
-      expect(started).toEqual(expect.arrayContaining(['verify-thread.js', 'export-thread.js']));
+      expect(started).toEqual(expect.arrayContaining(['verify-thread.js', 'export-thread.js', 'sample-thread.js']));
       for (const file of new Set(started)) expect(existsSync(join(dir, file)), file).toBe(true);
     });
   });
