@@ -21,6 +21,7 @@ import { attachFiniteDetails, finiteSeeds, hasFiniteBurns } from './finite-stage
 import { lambertSeeds } from '../targeting/lambert-seed.ts';
 import { evaluateTrajectory } from '../targeting/evaluate-trajectory.ts';
 import type { TrajectoryEvaluation } from '../targeting/evaluate-trajectory.ts';
+import { StartLegMemo } from '../targeting/start-leg-memo.ts';
 import type { BurnSetting } from '../targeting/controls.ts';
 import type { LambertSeed } from '../targeting/lambert-seed.ts';
 import { runCrossCheck } from './cross-check.ts';
@@ -64,7 +65,8 @@ interface PlanRun {
   options: PlanOptions;
   /** Number of target components the corrector drives (the first ones in ctx.components). */
   m: number;
-  primary: { method: CheckedProblem['forceModel']['method']; relativeTolerance: number; signal?: AbortSignal };
+  /** Settings of the run's own evaluations; the start-leg memo serves every one of them. */
+  primary: { method: CheckedProblem['forceModel']['method']; relativeTolerance: number; signal?: AbortSignal; startLegMemo: StartLegMemo };
   progress: (p: PlanProgress) => void;
   checkAbort: () => void;
   effort: { propagations: number; evaluations: number };
@@ -136,7 +138,7 @@ function startRun(problem: CheckedProblem, options: PlanOptions): PlanRun {
   const fm = problem.forceModel;
   return {
     problem, ctx, options, m: ctx.targetCount, progress, effort,
-    primary: { method: fm.method, relativeTolerance: fm.relativeTolerance, signal },
+    primary: { method: fm.method, relativeTolerance: fm.relativeTolerance, signal, startLegMemo: new StartLegMemo() },
     checkAbort: () => { if (signal?.aborted) throw new CancelledError(); },
     count: (ev) => { effort.propagations += ev.propagations; effort.evaluations += ev.evaluations; },
   };

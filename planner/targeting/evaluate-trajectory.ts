@@ -19,6 +19,7 @@ import type { BurnSetting } from './controls.ts';
 import { chainFiniteArc, equivalentDeltaVKmS, finiteSpec, type ChainState } from './finite-arc.ts';
 import type { TargetComponent } from './target-components.ts';
 import { forcesFor } from './propagate-segment.ts';
+import type { StartLeg, StartLegMemo } from './start-leg-memo.ts';
 import { evaluateComponent } from './target-geometry.ts';
 import { type Rotation3, axesToInertial, localAxes } from '../../propagator/index.ts';
 import { identity, multiply, rowsOf6, zeros } from '../../propagator/index.ts';
@@ -48,6 +49,9 @@ export interface EvaluationOptions {
   /** Collect states every this many seconds for the plot. */
   outputStepS?: number;
   signal?: AbortSignal;
+  /** Where the coast from the start to the first burn is kept and found again (start-leg-memo.ts); a kept
+   * coast is not counted as a propagation. @defaultValue none */
+  startLegMemo?: StartLegMemo;
 }
 
 export interface BurnRecord {
@@ -154,20 +158,36 @@ function impactOf(walk: Walk, res: PropagationResult): EvaluationFailure['impact
   return { body, epochTdbS: res.final.epochTdbS, stateRelBody: rel };
 }
 
+/** The coast to `endTdbS` when the walk has not moved yet and the options carry a memo, else null. */
+function startLegOf(walk: Walk, endTdbS: number, events: EventSpec[], extra: Partial<PropagationRequest>): StartLeg | null {
+  const { ctx, opts } = walk;
+  if (!opts.startLegMemo || walk.state !== ctx.initial || events.length > 0 || Object.keys(extra).length > 0) return null;
+  return {
+    initial: walk.state, problem: ctx.problem, ephemeris: ctx.ephemeris, endTdbS, massKg: walk.mass, method: opts.method,
+    arcMethod: opts.arcMethod, relativeTolerance: opts.relativeTolerance, withStm: walk.carryStm,
+    switching: opts.switching ?? ctx.problem.forceModel.switching, outputStepS: opts.outputStepS,
+  };
+}
+
 /** Propagates from the walk's state to `endTdbS` (TDB s) with the current mass; counts and collects. */
 async function propagateLeg(walk: Walk, endTdbS: number, events: EventSpec[],
   extra: Partial<PropagationRequest> = {}): Promise<PropagationResult> {
   const { ctx, opts, ctx: { problem } } = walk;
   if (opts.signal?.aborted) throw new CancelledError();
-  const result = await propagateAsync({
+  const startLeg = startLegOf(walk, endTdbS, events, extra);
+  const kept = startLeg ? opts.startLegMemo?.find(startLeg) : undefined;
+  const result = kept ?? await propagateAsync({
     ...extra,
     initial: walk.state, endEpochTdbS: endTdbS, forces: forcesFor(problem, walk.mass), ephemeris: ctx.ephemeris,
     method: opts.method, arcMethod: opts.arcMethod, relativeTolerance: opts.relativeTolerance, withStm: walk.carryStm, events,
     switching: (opts.switching ?? problem.forceModel.switching) ? { enabled: true } : undefined,
     outputStepS: opts.outputStepS,
   }, { signal: opts.signal });
-  walk.propagations += 1;
-  walk.evaluations += result.stats.evaluations;
+  if (!kept) {
+    walk.propagations += 1;
+    walk.evaluations += result.stats.evaluations;
+    if (startLeg) opts.startLegMemo?.keep(startLeg, result);
+  }
   result.warnings.forEach((w) => walk.warnings.add(w));
   if (result.outcome === 'cancelled') throw new CancelledError();
   if (opts.outputStepS) walk.samples.push(...result.samples);
