@@ -56,6 +56,8 @@ export class ChebyshevEphemeris implements Ephemeris {
    * body i from positionBase[i], [segment][j][x, y, z]. */
   private readonly positionCoefs: Float64Array;
   private readonly positionBase = new Int32Array(BODY_NAMES.length);
+  /** Batch plans made so far, by centre and targets (planPositions). */
+  private readonly plans = new Map<string, BodyPositionsPlan>();
   private readonly startTdbS: number;
   private readonly endTdbS: number;
   // Last evaluation per body (state relative to its parent) and the epoch and components it holds.
@@ -87,14 +89,23 @@ export class ChebyshevEphemeris implements Ephemeris {
     this.positionCoefs = flatPositions(series, n, this.positionBase);
   }
 
-  /** Batch look-up of `targets` relative to `centre` (see ChebyshevPositionsPlan); bodies checked now. */
+  /** Batch look-up of `targets` relative to `centre` (see ChebyshevPositionsPlan); bodies checked now. One plan
+   * per centre and target list, shared by every caller: a plan keeps nothing between look-ups (its buffers are
+   * rewritten at each epoch before they are read), and a propagation asks for its plans anew — a Monte Carlo
+   * run thousands of times over the same few blocks. */
   planPositions(targets: readonly BodyName[], centre: BodyName): BodyPositionsPlan {
-    const tables: ChebyshevTables = {
-      name: this.name, span: this.span, bodies: this.bodies, n: this.n, parentIndex: this.parentIndex,
-      segmentS: this.segmentS, segmentCount: this.segmentCount, positionTerms: this.positionTerms,
-      positionCoefs: this.positionCoefs, positionBase: this.positionBase,
-    };
-    return new ChebyshevPositionsPlan(tables, targets, centre);
+    const key = `${centre}>${targets.join(',')}`;
+    let plan = this.plans.get(key);
+    if (plan === undefined) {
+      const tables: ChebyshevTables = {
+        name: this.name, span: this.span, bodies: this.bodies, n: this.n, parentIndex: this.parentIndex,
+        segmentS: this.segmentS, segmentCount: this.segmentCount, positionTerms: this.positionTerms,
+        positionCoefs: this.positionCoefs, positionBase: this.positionBase,
+      };
+      plan = new ChebyshevPositionsPlan(tables, targets, centre);
+      this.plans.set(key, plan);
+    }
+    return plan;
   }
 
   fitReport(): ChebyshevFitReport[] {

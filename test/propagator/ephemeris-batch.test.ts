@@ -60,6 +60,25 @@ describe('batch ephemeris look-up', () => {
     });
   });
 
+  describe('when several propagations ask the same cache for the same bodies', () => {
+    it('should share one plan, whose interleaved look-ups equal those of a plan alone', () => {
+      const first = planBodyPositions(cache, FROM_EARTH, 'earth');
+      const second = planBodyPositions(cache, [...FROM_EARTH], 'earth');
+      expect(second).toBe(first);
+      expect(planBodyPositions(cache, FROM_EARTH.slice(1), 'earth')).not.toBe(first);
+      // Reference: each epoch looked up on its own, before any interleaving (the plan keeps no state between calls).
+      const alone = epochs.slice(0, 20).map((t) => { const o = new Float64Array(12); first.positionsInto(t, o); return Array.from(o); });
+      const a = new Float64Array(12);
+      const b = new Float64Array(12);
+      epochs.slice(0, 20).forEach((t, i) => {
+        first.positionsInto(t, a);
+        second.positionsInto(epochs[19 - i], b);
+        expect(Array.from(a)).toEqual(alone[i]);
+        expect(Array.from(b)).toEqual(alone[19 - i]);
+      });
+    });
+  });
+
   describe('when the source has no batch call of its own', () => {
     it('should fall back to one positionInto per body and give exactly those values', () => {
       const plan = planBodyPositions(source, FROM_EARTH, 'earth');
