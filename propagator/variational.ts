@@ -61,7 +61,10 @@ export class StmSegments {
       later = Float64Array.from(scratch);
     }
     for (let k = 0; k < burnsNotReached; k++) sensitivities.push(new Array<number>(18).fill(0));
-    return { stm: Array.from(later), burnSensitivities: sensitivities };
+    // Array.from on a typed array goes through its iterator (~2 µs for 36 numbers).
+    const stm = new Array<number>(36);
+    for (let k = 0; k < 36; k++) stm[k] = later[k];
+    return { stm, burnSensitivities: sensitivities };
   }
 }
 

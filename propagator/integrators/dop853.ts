@@ -60,8 +60,16 @@ export class Dop853Stepper {
     this.errorComponents = Math.min(n, options.errorComponents ?? n);
     this.tNow = t0;
     this.tPrev = t0;
-    const buf = (): Float64Array => new Float64Array(n);
-    this.yNow = Float64Array.from(y0);
+    // All working vectors are views of one allocation: a run starts many steppers (one per leg and segment),
+    // and each typed array of more than a few numbers is a separate backing store to allocate and collect.
+    const block = new Float64Array(32 * n);
+    let used = 0;
+    const buf = (): Float64Array => {
+      used += n;
+      return block.subarray(used - n, used);
+    };
+    this.yNow = buf();
+    for (let i = 0; i < n; i++) this.yNow[i] = y0[i];
     this.yPrev = buf();
     this.yNew = buf();
     this.fNow = buf();
@@ -70,7 +78,7 @@ export class Dop853Stepper {
     this.yTmp = buf();
     // k[i] holds stage i (2..12 of the step, 14..16 of the dense output); k[0], k[1], k[13] unused.
     this.k = Array.from({ length: 17 }, buf);
-    this.cont = new Float64Array(8 * n);
+    this.cont = block.subarray(used, used + 8 * n);
     this.rhs(t0, this.yNow, this.fNow);
     this.counts.evaluations += 1;
     this.hNext = options.initialStepS !== undefined
