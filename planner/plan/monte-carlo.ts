@@ -77,8 +77,8 @@ export async function runDispersionSamplesWithContext(ctx: PlanningContext, plan
     const rel = ev.impact?.stateRelBody;
     if (idx && ev.impact?.body === idx.body && rel) {
       try {
-        bDotTKm = evaluateComponent(ctx.components[idx.bDotT], rel, ev.impact.epochTdbS).value;
-        bDotRKm = evaluateComponent(ctx.components[idx.bDotR], rel, ev.impact.epochTdbS).value;
+        bDotTKm = evaluateComponent(ctx.components[idx.bDotT], rel, ev.impact.epochTdbS, { partial: false }).value;
+        bDotRKm = evaluateComponent(ctx.components[idx.bDotR], rel, ev.impact.epochTdbS, { partial: false }).value;
       } catch {
         // not hyperbolic about the body: no B-plane point
       }

@@ -341,7 +341,7 @@ function readTargets(walk: Walk, stations: Map<string, Station>, settings: BurnS
     }
     let ev;
     try {
-      ev = evaluateComponent(c, rel, st.epochTdbS);
+      ev = evaluateComponent(c, rel, st.epochTdbS, { partial: stm });
     } catch (error) {
       return failure(walk, `target ${c.targetIndex} (${c.component}): ${(error as Error).message}`);
     }

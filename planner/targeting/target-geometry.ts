@@ -8,9 +8,9 @@
  * to first order. The closest-approach epoch itself uses the implicit-function rule on g = r·v = 0:
  * dt = −(∂g/∂state · δstate)/ġ, ġ = v·v + r·a, with a the body's point-mass pull (dominant near approach).
  */
-import { bPlanePartials, referencePole } from '../../propagator/index.ts';
+import { bPlanePartials, computeBPlane, referencePole } from '../../propagator/index.ts';
 import type { Vec3 } from '../../propagator/index.ts';
-import type { TargetComponent } from './target-components.ts';
+import type { ComponentQuantity, TargetComponent } from './target-components.ts';
 import { gmOf, radiusOf } from './target-components.ts';
 
 export interface ComponentEvaluation {
@@ -49,44 +49,68 @@ export function conicPeriapsisRadiusKm(s: readonly number[], mu: number): number
 
 /**
  * Evaluates a component from the state relative to its body or centre (J2000 equatorial) at `epochTdbS`.
+ * With `options.partial` false (no STM to chain it with: a Monte Carlo sample) the partial is left out and
+ * null; the value is the same number either way.
  * Throws InvalidInputError (from the B-plane geometry) when the approach is not hyperbolic.
  */
-export function evaluateComponent(c: TargetComponent, state: readonly number[], epochTdbS: number): ComponentEvaluation {
+export function evaluateComponent(c: TargetComponent, state: readonly number[], epochTdbS: number,
+  options: { partial?: boolean } = {}): ComponentEvaluation {
   const q = c.quantity;
-  switch (q.q) {
-    case 'bdott':
-    case 'bdotr': {
-      const bp = bPlanePartials(state, gmOf(q.body), q.plane, q.body);
-      return q.q === 'bdott'
-        ? { value: bp.value.bDotTKm, partial: [...bp.rows.bDotTKm] }
-        : { value: bp.value.bDotRKm, partial: [...bp.rows.bDotRKm] };
+  const withPartial = options.partial !== false;
+  if (!isOther(q)) {
+    // One pass on jets gives value and partial; without the partial the same operations run derivative-free.
+    if (!withPartial) {
+      const b = computeBPlane(state, gmOf(q.body), q.plane, q.body);
+      return { value: q.q === 'bdott' ? b.bDotTKm : b.bDotRKm, partial: null };
     }
+    const bp = bPlanePartials(state, gmOf(q.body), q.plane, q.body);
+    return q.q === 'bdott'
+      ? { value: bp.value.bDotTKm, partial: [...bp.rows.bDotTKm] }
+      : { value: bp.value.bDotRKm, partial: [...bp.rows.bDotRKm] };
+  }
+  return { value: componentValue(q, state, epochTdbS), partial: withPartial ? componentPartial(q, state) : null };
+}
+
+/** A component other than B·T, B·R. */
+type OtherQuantity = Exclude<ComponentQuantity, { q: 'bdott' | 'bdotr' }>;
+const isOther = (q: ComponentQuantity): q is OtherQuantity => q.q !== 'bdott' && q.q !== 'bdotr';
+
+/** The value of a component other than B·T, B·R. */
+function componentValue(q: OtherQuantity, state: readonly number[], epochTdbS: number): number {
+  switch (q.q) {
+    case 'ca-epoch': return epochTdbS;
+    // At closest approach the distance is the osculating periapsis radius; the conic form (its partial
+    // below) is the same number there and stays stationary when the approach epoch shifts.
+    case 'periapsis-radius': return Math.hypot(state[0], state[1], state[2]);
+    case 'periapsis-altitude': return Math.hypot(state[0], state[1], state[2]) - radiusOf(q.body);
+    case 'inclination': return inclinationDeg(state, referencePole(q.plane, q.body));
+    case 'state': return state[q.axis];
+  }
+}
+
+/** ∂value/∂state (6) of a component other than B·T, B·R. */
+function componentPartial(q: OtherQuantity, state: readonly number[]): number[] {
+  switch (q.q) {
     case 'ca-epoch': {
       const mu = gmOf(q.body);
       const r = Math.hypot(state[0], state[1], state[2]);
       const v2 = state[3] ** 2 + state[4] ** 2 + state[5] ** 2;
       const gDot = v2 - mu / r; // v·v + r·a with a = −μ r / r³
-      return { value: epochTdbS, partial: [-state[3], -state[4], -state[5], -state[0], -state[1], -state[2]].map((v) => v / gDot) };
+      return [-state[3], -state[4], -state[5], -state[0], -state[1], -state[2]].map((v) => v / gDot);
     }
     case 'periapsis-radius':
     case 'periapsis-altitude': {
       const mu = gmOf(q.body);
-      const offset = q.q === 'periapsis-altitude' ? radiusOf(q.body) : 0;
-      // At closest approach the distance is the osculating periapsis radius; the conic form is the same
-      // number there and stays stationary when the approach epoch shifts.
-      return {
-        value: Math.hypot(state[0], state[1], state[2]) - offset,
-        partial: centralPartial((s) => conicPeriapsisRadiusKm(s, mu), state),
-      };
+      return centralPartial((s) => conicPeriapsisRadiusKm(s, mu), state);
     }
     case 'inclination': {
       const pole = referencePole(q.plane, q.body);
-      return { value: inclinationDeg(state, pole), partial: centralPartial((s) => inclinationDeg(s, pole), state) };
+      return centralPartial((s) => inclinationDeg(s, pole), state);
     }
     case 'state': {
       const partial = [0, 0, 0, 0, 0, 0];
       partial[q.axis] = 1;
-      return { value: state[q.axis], partial };
+      return partial;
     }
   }
 }

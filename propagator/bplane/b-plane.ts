@@ -55,8 +55,8 @@ export interface BPlanePartials {
   rows: Record<(typeof B_PLANE_PARTIAL_ROWS)[number], number[]>;
 }
 
-function jets(state: readonly number[], mu: number) {
-  const { r, v } = stateJets(state);
+function jets(state: readonly number[], mu: number, gradients: 'state' | 'none') {
+  const { r, v } = stateJets(state, gradients);
   const rm = dot3(r, r).sqrt();
   const v2 = dot3(v, v);
   const rv = dot3(r, v);
@@ -79,13 +79,26 @@ function jets(state: readonly number[], mu: number) {
  */
 export function bPlanePartials(stateRelToBody: readonly number[], muKm3S2: number,
   referencePlane: BPlaneReference = 'ecliptic', body?: BodyName): BPlanePartials {
+  const { value, scalars } = bPlaneJets(stateRelToBody, muKm3S2, referencePlane, body, 'state');
+  const row = (j: Jet) => Array.from(j.d);
+  return { value, rows: {
+    bDotTKm: row(scalars.bt), bDotRKm: row(scalars.br), bMagnitudeKm: row(scalars.bMag), thetaRad: row(scalars.theta),
+    timeToPeriapsisS: row(scalars.tp), linearizedTimeOfFlightS: row(scalars.ltof),
+  } };
+}
+
+/** The B-plane on jets (see bPlanePartials): with gradients 'none' the jets carry no derivatives, and every
+ * value comes from the same operations in the same order, so it is the same number to the last bit. */
+function bPlaneJets(stateRelToBody: readonly number[], muKm3S2: number, referencePlane: BPlaneReference,
+  body: BodyName | undefined, gradients: 'state' | 'none'): { value: BPlane; scalars: Record<'bt' | 'br' | 'bMag' | 'theta' | 'tp' | 'ltof', Jet> } {
   if (stateRelToBody.length !== 6 || !stateRelToBody.every(Number.isFinite)) {
     throw new InvalidInputError('stateRelToBody', 'must be six finite numbers (km, km/s)');
   }
   if (!(muKm3S2 > 0)) throw new InvalidInputError('muKm3S2', `must be > 0, got ${muKm3S2}`);
   const pole = referencePole(referencePlane, body);
   const mu = muKm3S2;
-  const { r, rm, rv, energyTerm, h, ev, e2 } = jets(stateRelToBody, mu);
+  const n = gradients === 'none' ? 0 : 6;
+  const { r, rm, rv, energyTerm, h, ev, e2 } = jets(stateRelToBody, mu, gradients);
   if (!(energyTerm.v > 0) || !(e2.v > 1)) {
     throw new InvalidInputError('stateRelToBody', `not on a hyperbola about ${body ?? 'the body'}: `
       + `e = ${Math.sqrt(e2.v).toPrecision(6)}, v∞² = ${energyTerm.v.toPrecision(6)} km^2/s^2 at r = ${rm.v.toPrecision(6)} km`);
@@ -96,13 +109,13 @@ export function bPlanePartials(stateRelToBody: readonly number[], muKm3S2: numbe
   const e2m1 = e2.sub(1);
   const bCoef = e2m1.mul(mu).div(energyTerm);
   const bVec: Jet3 = [0, 1, 2].map((i) => bCoef.mul(ev[i]).sub(hxe[i].div(vInf)).div(e2)) as Jet3;
-  const k: Jet3 = pole.map((c) => Jet.constant(c, 6)) as Jet3;
+  const k: Jet3 = pole.map((c) => Jet.constant(c, n)) as Jet3;
   const sxk = cross3(sHat, k);
   const sxkNorm = dot3(sxk, sxk).sqrt();
   if (!(sxkNorm.v > 1e-10)) {
     throw new InvalidInputError('referencePlane', 'incoming asymptote is parallel to the reference pole: T undefined');
   }
-  const tHat = scale3(sxk, Jet.constant(1, 6).div(sxkNorm));
+  const tHat = scale3(sxk, Jet.constant(1, n).div(sxkNorm));
   const rHat = cross3(sHat, tHat);
   const bt = dot3(bVec, tHat);
   const br = dot3(bVec, rHat);
@@ -124,11 +137,7 @@ export function bPlanePartials(stateRelToBody: readonly number[], muKm3S2: numbe
     bMagnitudeKm: bMag.v, thetaRad: theta.v, vInfinityKmS: vInf.v, eccentricity: e.v, periapsisRadiusKm: rp.v,
     timeToPeriapsisS: tp.v, linearizedTimeOfFlightS: ltof.v, referencePlane,
   };
-  const row = (j: Jet) => Array.from(j.d);
-  return { value, rows: {
-    bDotTKm: row(bt), bDotRKm: row(br), bMagnitudeKm: row(bMag), thetaRad: row(theta),
-    timeToPeriapsisS: row(tp), linearizedTimeOfFlightS: row(ltof),
-  } };
+  return { value, scalars: { bt, br, bMag, theta, tp, ltof } };
 }
 
 /**
@@ -137,5 +146,5 @@ export function bPlanePartials(stateRelToBody: readonly number[], muKm3S2: numbe
  */
 export function computeBPlane(stateRelToBody: readonly number[], muKm3S2: number,
   referencePlane: BPlaneReference = 'ecliptic', body?: BodyName): BPlane {
-  return bPlanePartials(stateRelToBody, muKm3S2, referencePlane, body).value;
+  return bPlaneJets(stateRelToBody, muKm3S2, referencePlane, body, 'none').value;
 }

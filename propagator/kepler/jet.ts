@@ -93,8 +93,9 @@ export function unit3(a: Jet3): Jet3 {
   return [a[0].div(n), a[1].div(n), a[2].div(n)];
 }
 /** Lifts a Cartesian 6-state [x, y, z (km), vx, vy, vz (km/s)], any inertial axes, into jets: components
- * 0..5 are the independent variables, so later gradients are ∂/∂(r, v) of that state. */
-export function stateJets(state: readonly number[]): { r: Jet3; v: Jet3 } {
-  const j = (i: number) => Jet.variable(state[i], i, 6);
+ * 0..5 are the independent variables, so later gradients are ∂/∂(r, v) of that state. With `gradients`
+ * 'none' the jets carry no gradient: the same operations give the same values, without the derivative work. */
+export function stateJets(state: readonly number[], gradients: 'state' | 'none' = 'state'): { r: Jet3; v: Jet3 } {
+  const j = (i: number) => (gradients === 'none' ? Jet.constant(state[i], 0) : Jet.variable(state[i], i, 6));
   return { r: [j(0), j(1), j(2)], v: [j(3), j(4), j(5)] };
 }

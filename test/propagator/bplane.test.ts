@@ -33,6 +33,21 @@ describe('B-plane partials', () => {
     }
   });
 
+  describe('when only the values are asked for (computeBPlane)', () => {
+    it('should give the values of bPlanePartials to the last bit, for many approaches and both planes', () => {
+      // Approaches spread around APPROACH by an irrational step (common practice); the reference is the
+      // partials' own value record, computed with derivatives.
+      for (let k = 0; k < 50; k++) {
+        const f = (k * 0.6180339887498949) % 1;
+        const state = APPROACH.map((x, j) => x * (1 + 0.3 * Math.sin(7 * f + j)));
+        for (const plane of ['ecliptic', 'equator'] as const) {
+          expect(computeBPlane(state, MU, plane, 'earth')).toStrictEqual(bPlanePartials(state, MU, plane, 'earth').value);
+        }
+      }
+      expect(() => computeBPlane([7000, 0, 0, 0, 7.5, 0], MU)).toThrow(InvalidInputError);
+    });
+  });
+
   describe('when the reference plane is an equator', () => {
     it('should put T in that equator (T·pole = 0) and keep S, T, R orthonormal', () => {
       for (const body of ['earth', 'mars', 'jupiter'] as const) {
