@@ -144,10 +144,11 @@ export class RetargetQueue {
       ? `k-${sha256Hex(`${submittedBy}\n${idempotencyKey}`).slice(0, 40)}`
       : `j-${randomUUID()}`;
     if (idempotencyKey) {
-      const existing = await this.findJob(jobId);
+      // The job and a cancel record are read in one wait (one write): the record matters only when no job is left.
+      sendInOneWrite(this.redis);
+      const [existing, cancelled] = await Promise.all([this.findJob(jobId), readCancel(this.redis, this.prefix, jobId)]);
       if (existing) return { outcome: existing.data.requestHash === requestHash ? 'existing' : 'conflict', jobId };
       // Cancelled before it ran (no job left): the record keeps the request hash to answer the same way.
-      const cancelled = await readCancel(this.redis, this.prefix, jobId);
       if (cancelled) {
         const same = cancelled.requestHash === undefined || cancelled.requestHash === requestHash;
         return { outcome: same ? 'existing' : 'conflict', jobId };

@@ -1,9 +1,9 @@
 /**
  * Socket writes per submission: the producer's commands of one wait (the two admission counts; the job, its id
  * in the submitter's set and that set's expiry) leave in one write to Redis, so a submission without an
- * idempotency key costs two writes instead of five, and nothing of it is lost. Writes are counted where a
- * Writable hands its data to the socket (`_write` for one chunk, `_writev` for several: Node.js stream API,
- * "API for stream implementers"). Real Redis (test/harness/redis.ts).
+ * idempotency key costs two writes instead of five (one with a new key four instead of six), and nothing of it
+ * is lost. Writes are counted where a Writable hands its data to the socket (`_write` for one chunk, `_writev`
+ * for several: Node.js stream API, "API for stream implementers"). Real Redis (test/harness/redis.ts).
  */
 import type { Socket } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -55,6 +55,19 @@ describe('submission writes to Redis', () => {
       const key = submitterJobsKey(prefix, 'writer');
       expect(await queue.redis.sismember(key, jobId)).toBe(1);
       expect(await queue.redis.ttl(key)).toBeGreaterThan(0);
+    });
+  });
+
+  describe('when a job with a new idempotency key is submitted', () => {
+    it('should read the key\'s job and cancel record in one write: four writes in all', async () => {
+      const request = jobRequestSchema.parse(submission(reachableProblem({ name: 'KEYSAT' }), { idempotencyKey: 'writes-key-1' }));
+      await queue.submit(jobRequestSchema.parse(submission(reachableProblem({ name: 'KEYSAT' }), { idempotencyKey: 'writes-warm-up' })), 'keyed');
+      const { writes, result } = await socketWrites(queue.redis.stream, () => queue.submit(request, 'keyed'));
+      expect(result.outcome).toBe('created');
+      // The two reads; the two admission counts; the job with its set entry and expiry; the re-read of the job.
+      expect(writes).toBe(4);
+      const again = await queue.submit(request, 'keyed');
+      expect(again).toEqual({ outcome: 'existing', jobId: (result as { jobId: string }).jobId });
     });
   });
 
