@@ -4,6 +4,9 @@
  * partials built from closed-form expressions are analytic (no finite differences, no truncation error).
  */
 
+/** The gradient of a jet without derivatives (dimension 0): one shared empty array, nothing to allocate. */
+const NO_GRADIENT = new Float64Array(0);
+
 /** A value `v` (in whatever unit the expression has) with its gradient `d` with respect to the inputs
  * (∂v/∂input_i, in the unit of v per unit of input i; for states km and km/s). */
 export class Jet {
@@ -15,7 +18,10 @@ export class Jet {
   }
   /** A constant (zero gradient) of dimension n. */
   static constant(v: number, n: number): Jet {
-    return new Jet(v, new Float64Array(n));
+    return new Jet(v, n === 0 ? NO_GRADIENT : new Float64Array(n));
+  }
+  private gradientCopy(): Float64Array {
+    return this.d.length === 0 ? NO_GRADIENT : this.d.slice();
   }
   /** The i-th independent variable of dimension n. */
   static variable(v: number, i: number, n: number): Jet {
@@ -25,15 +31,16 @@ export class Jet {
   }
   private map(v: number, a: number, other?: Jet, b = 0): Jet {
     const n = this.d.length;
+    if (n === 0) return new Jet(v, NO_GRADIENT);
     const d = new Float64Array(n);
     for (let i = 0; i < n; i++) d[i] = a * this.d[i] + (other ? b * other.d[i] : 0);
     return new Jet(v, d);
   }
   add(o: Jet | number): Jet {
-    return typeof o === 'number' ? new Jet(this.v + o, this.d.slice()) : this.map(this.v + o.v, 1, o, 1);
+    return typeof o === 'number' ? new Jet(this.v + o, this.gradientCopy()) : this.map(this.v + o.v, 1, o, 1);
   }
   sub(o: Jet | number): Jet {
-    return typeof o === 'number' ? new Jet(this.v - o, this.d.slice()) : this.map(this.v - o.v, 1, o, -1);
+    return typeof o === 'number' ? new Jet(this.v - o, this.gradientCopy()) : this.map(this.v - o.v, 1, o, -1);
   }
   mul(o: Jet | number): Jet {
     return typeof o === 'number' ? this.map(this.v * o, o) : this.map(this.v * o.v, o.v, o, this.v);
