@@ -3,9 +3,9 @@
  * equatorial) integrated directly under the full force model, optionally with the 6x6 STM.
  */
 import { ForceModel } from './forces/index.ts';
-import type { RhsFunction } from './integrators/index.ts';
+import type { LinearTail, RhsFunction } from './integrators/index.ts';
 import type { PropagationDynamics } from './run/propagation-dynamics.ts';
-import { resetStm, STATE_WITH_STM_LENGTH, variationalRatesInto } from './variational.ts';
+import { resetStm, STATE_WITH_STM_LENGTH, STM_OFFSET, variationalRatesInto } from './variational.ts';
 
 /**
  * Right-hand side of Cowell's equations for `model`: y = [r (km), v (km/s)] or, with the STM,
@@ -26,6 +26,33 @@ export function createCowellRhs(model: ForceModel, withStm: boolean): RhsFunctio
   };
 }
 
+/**
+ * The same right-hand side split for the stepper (LinearTail): the state's derivative with the gradient
+ * G = ∂a/∂r kept per stage, and Φ' = A Φ from the kept G — the arithmetic of createCowellRhs, in two calls.
+ */
+export function createCowellStmTail(model: ForceModel): LinearTail {
+  const acc = new Float64Array(3);
+  const gradient = new Float64Array(9);
+  // G of stages 0..16 (the stepper uses 2..12), 9 numbers each.
+  const kept = new Float64Array(9 * 17);
+  return {
+    offset: STM_OFFSET,
+    head(t, y, dydt, stage) {
+      model.accelerationInto(t, y, acc, gradient);
+      dydt[0] = y[3];
+      dydt[1] = y[4];
+      dydt[2] = y[5];
+      dydt[3] = acc[0];
+      dydt[4] = acc[1];
+      dydt[5] = acc[2];
+      kept.set(gradient, 9 * stage);
+    },
+    tail(y, dydt, stage) {
+      variationalRatesInto(y, kept, dydt, 9 * stage);
+    },
+  };
+}
+
 /** Cowell dynamics from a Cartesian state (km, km/s, J2000 equatorial, relative to the model's
  * central body) at the start epoch. */
 export function createCowellDynamics(model: ForceModel, state: ArrayLike<number>, withStm: boolean): PropagationDynamics {
@@ -35,6 +62,7 @@ export function createCowellDynamics(model: ForceModel, state: ArrayLike<number>
   return {
     initialY,
     rhs: createCowellRhs(model, withStm),
+    linearTail: withStm ? createCowellStmTail(model) : undefined,
     errorComponents: 6,
     withStm,
     forces: model,

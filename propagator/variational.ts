@@ -12,16 +12,17 @@ export const STM_OFFSET = 6;
 /** Length of the integration vector with the STM. */
 export const STATE_WITH_STM_LENGTH = 42;
 
-/** Writes Φ' = A Φ into dydt[6..41] from Φ in y[6..41] and the 3x3 row-major gradient G (1/s^2). */
-export function variationalRatesInto(y: Float64Array, gradient: Float64Array, dydt: Float64Array): void {
+/** Writes Φ' = A Φ into dydt[6..41] from Φ in y[6..41] and the 3x3 row-major gradient G (1/s^2) held in
+ * gradient[at..at+8]. */
+export function variationalRatesInto(y: Float64Array, gradient: Float64Array, dydt: Float64Array, at = 0): void {
   const o = STM_OFFSET;
   // Rows 0..2 of Φ' are rows 3..5 of Φ.
   for (let j = 0; j < 18; j++) dydt[o + j] = y[o + 18 + j];
   // Rows 3..5 of Φ' are G times rows 0..2 of Φ.
   for (let i = 0; i < 3; i++) {
-    const g0 = gradient[3 * i];
-    const g1 = gradient[3 * i + 1];
-    const g2 = gradient[3 * i + 2];
+    const g0 = gradient[at + 3 * i];
+    const g1 = gradient[at + 3 * i + 1];
+    const g2 = gradient[at + 3 * i + 2];
     for (let j = 0; j < 6; j++) {
       dydt[o + 18 + 6 * i + j] = g0 * y[o + j] + g1 * y[o + 6 + j] + g2 * y[o + 12 + j];
     }

@@ -5,8 +5,12 @@
  * rejection). All buffers are allocated once; `step()` and `denseOutput()` do not allocate.
  */
 import { InvalidInputError } from '../../contract/errors.ts';
+import { validateOptions } from './dop853-checks.ts';
 import * as K from './dop853-coefficients.ts';
-import type { Dop853Options, IntegratorCounts, RhsFunction, StepStatus } from './integrator-types.ts';
+import type { Dop853Options, IntegratorCounts, LinearTail, RhsFunction, StepStatus } from './integrator-types.ts';
+
+/** Finishes stage `stage` of a trial step: its derivative at (t, y) into dydt. */
+type StageCall = (stage: number, t: number, y: Float64Array, dydt: Float64Array) => void;
 
 const SAFETY = 0.9;
 const MIN_FACTOR = 0.333;
@@ -47,6 +51,10 @@ export class Dop853Stepper {
   private readonly yTmp: Float64Array;
   private readonly k: Float64Array[];
   private readonly cont: Float64Array;
+  private readonly tail: LinearTail | null;
+  private readonly fullStage: StageCall;
+  private readonly headStage: StageCall;
+  private readonly tailStage: StageCall;
 
   constructor(rhs: RhsFunction, t0: number, y0: ArrayLike<number>, direction: 1 | -1, options: Dop853Options) {
     validateOptions(t0, y0, options);
@@ -58,6 +66,11 @@ export class Dop853Stepper {
     this.atol = options.absoluteTolerance;
     this.maxStep = options.maxStepS ?? Infinity;
     this.errorComponents = Math.min(n, options.errorComponents ?? n);
+    const tail = options.linearTail ?? null;
+    this.tail = tail;
+    this.fullStage = (_stage, t, y, dydt) => rhs(t, y, dydt);
+    this.headStage = tail === null ? this.fullStage : (stage, t, y, dydt) => tail.head(t, y, dydt, stage);
+    this.tailStage = tail === null ? this.fullStage : (stage, _t, y, dydt) => tail.tail(y, dydt, stage);
     this.tNow = t0;
     this.tPrev = t0;
     // All working vectors are views of one allocation: a run starts many steppers (one per leg and segment),
@@ -189,57 +202,78 @@ export class Dop853Stepper {
     this.denseReady = false;
   }
 
-  /** One trial step of size h from (tNow, yNow): fills yNew and returns the scaled error norm. */
+  /** One trial step of size h from (tNow, yNow): fills yNew and returns the scaled error norm. With a
+   * linear tail the head goes first and the tail only when the step is accepted: the same arithmetic per
+   * component, so the same numbers, without the tail's work in rejected attempts. */
   private attempt(h: number): number {
     const n = this.dimension;
+    const tail = this.tail;
+    const split = tail === null ? n : tail.offset;
+    this.stages(h, 0, split, tail === null ? this.fullStage : this.headStage);
+    this.counts.evaluations += 11;
+    const err = this.combine(h, 0, split);
+    if (tail !== null && err <= 1) {
+      this.stages(h, split, n, this.tailStage);
+      this.combine(h, split, n);
+    }
+    return err;
+  }
+
+  /** Stages 2..12 of a step of size h for components [lo, hi), each finished by `call(stage, t, y, k)`. */
+  private stages(h: number, lo: number, hi: number, call: StageCall): void {
     const t = this.tNow;
     const y = this.yNow;
     const k1 = this.fNow;
     const [, , k2, k3, k4, k5, k6, k7, k8, k9, k10, k11, k12] = this.k;
     const yt = this.yTmp;
-    const rhs = this.rhs;
-    for (let i = 0; i < n; i++) yt[i] = y[i] + h * K.a21 * k1[i];
-    rhs(t + K.c2 * h, yt, k2);
-    for (let i = 0; i < n; i++) yt[i] = y[i] + h * (K.a31 * k1[i] + K.a32 * k2[i]);
-    rhs(t + K.c3 * h, yt, k3);
-    for (let i = 0; i < n; i++) yt[i] = y[i] + h * (K.a41 * k1[i] + K.a43 * k3[i]);
-    rhs(t + K.c4 * h, yt, k4);
-    for (let i = 0; i < n; i++) yt[i] = y[i] + h * (K.a51 * k1[i] + K.a53 * k3[i] + K.a54 * k4[i]);
-    rhs(t + K.c5 * h, yt, k5);
-    for (let i = 0; i < n; i++) yt[i] = y[i] + h * (K.a61 * k1[i] + K.a64 * k4[i] + K.a65 * k5[i]);
-    rhs(t + K.c6 * h, yt, k6);
-    for (let i = 0; i < n; i++) yt[i] = y[i] + h * (K.a71 * k1[i] + K.a74 * k4[i] + K.a75 * k5[i] + K.a76 * k6[i]);
-    rhs(t + K.c7 * h, yt, k7);
-    for (let i = 0; i < n; i++) {
+    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * K.a21 * k1[i];
+    call(2, t + K.c2 * h, yt, k2);
+    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a31 * k1[i] + K.a32 * k2[i]);
+    call(3, t + K.c3 * h, yt, k3);
+    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a41 * k1[i] + K.a43 * k3[i]);
+    call(4, t + K.c4 * h, yt, k4);
+    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a51 * k1[i] + K.a53 * k3[i] + K.a54 * k4[i]);
+    call(5, t + K.c5 * h, yt, k5);
+    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a61 * k1[i] + K.a64 * k4[i] + K.a65 * k5[i]);
+    call(6, t + K.c6 * h, yt, k6);
+    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a71 * k1[i] + K.a74 * k4[i] + K.a75 * k5[i] + K.a76 * k6[i]);
+    call(7, t + K.c7 * h, yt, k7);
+    for (let i = lo; i < hi; i++) {
       yt[i] = y[i] + h * (K.a81 * k1[i] + K.a84 * k4[i] + K.a85 * k5[i] + K.a86 * k6[i] + K.a87 * k7[i]);
     }
-    rhs(t + K.c8 * h, yt, k8);
-    for (let i = 0; i < n; i++) {
+    call(8, t + K.c8 * h, yt, k8);
+    for (let i = lo; i < hi; i++) {
       yt[i] = y[i] + h * (K.a91 * k1[i] + K.a94 * k4[i] + K.a95 * k5[i] + K.a96 * k6[i] + K.a97 * k7[i]
         + K.a98 * k8[i]);
     }
-    rhs(t + K.c9 * h, yt, k9);
-    for (let i = 0; i < n; i++) {
+    call(9, t + K.c9 * h, yt, k9);
+    for (let i = lo; i < hi; i++) {
       yt[i] = y[i] + h * (K.a101 * k1[i] + K.a104 * k4[i] + K.a105 * k5[i] + K.a106 * k6[i] + K.a107 * k7[i]
         + K.a108 * k8[i] + K.a109 * k9[i]);
     }
-    rhs(t + K.c10 * h, yt, k10);
-    for (let i = 0; i < n; i++) {
+    call(10, t + K.c10 * h, yt, k10);
+    for (let i = lo; i < hi; i++) {
       yt[i] = y[i] + h * (K.a111 * k1[i] + K.a114 * k4[i] + K.a115 * k5[i] + K.a116 * k6[i] + K.a117 * k7[i]
         + K.a118 * k8[i] + K.a119 * k9[i] + K.a1110 * k10[i]);
     }
-    rhs(t + K.c11 * h, yt, k11);
-    for (let i = 0; i < n; i++) {
+    call(11, t + K.c11 * h, yt, k11);
+    for (let i = lo; i < hi; i++) {
       yt[i] = y[i] + h * (K.a121 * k1[i] + K.a124 * k4[i] + K.a125 * k5[i] + K.a126 * k6[i] + K.a127 * k7[i]
         + K.a128 * k8[i] + K.a129 * k9[i] + K.a1210 * k10[i] + K.a1211 * k11[i]);
     }
-    rhs(t + h, yt, k12);
-    this.counts.evaluations += 11;
+    call(12, t + h, yt, k12);
+  }
+
+  /** yNew over [lo, hi) from the stages, and the scaled error norm over the error components among them. */
+  private combine(h: number, lo: number, hi: number): number {
+    const y = this.yNow;
+    const k1 = this.fNow;
+    const [, , , , , , k6, k7, k8, k9, k10, k11, k12] = this.k;
     const yNew = this.yNew;
     let err5 = 0;
     let err3 = 0;
     const m = this.errorComponents;
-    for (let i = 0; i < n; i++) {
+    for (let i = lo; i < hi; i++) {
       const slope = K.b1 * k1[i] + K.b6 * k6[i] + K.b7 * k7[i] + K.b8 * k8[i] + K.b9 * k9[i] + K.b10 * k10[i]
         + K.b11 * k11[i] + K.b12 * k12[i];
       yNew[i] = y[i] + h * slope;
@@ -357,25 +391,5 @@ export class Dop853Stepper {
     const der12 = Math.max(Math.abs(der2), Math.sqrt(dnf));
     const h1 = der12 <= 1e-15 ? Math.max(smallest, h * 1e-3) : (0.01 / der12) ** (1 / 8);
     return this.direction * Math.min(100 * h, h1, limit);
-  }
-}
-
-function validateOptions(t0: number, y0: ArrayLike<number>, options: Dop853Options): void {
-  if (!Number.isFinite(t0)) throw new InvalidInputError('t0', `must be finite, got ${t0}`);
-  for (let i = 0; i < y0.length; i++) {
-    if (!Number.isFinite(y0[i])) throw new InvalidInputError(`y0[${i}]`, `must be finite, got ${y0[i]}`);
-  }
-  const { relativeTolerance: rtol, absoluteTolerance: atol } = options;
-  if (!(rtol >= 1e-16 && rtol < 1)) {
-    throw new InvalidInputError('relativeTolerance', `must lie in [1e-16, 1), got ${rtol}`);
-  }
-  if (!(atol > 0 && Number.isFinite(atol))) {
-    throw new InvalidInputError('absoluteTolerance', `must be a finite number > 0, got ${atol}`);
-  }
-  if (options.maxStepS !== undefined && !(options.maxStepS > 0)) {
-    throw new InvalidInputError('maxStepS', `must be > 0, got ${options.maxStepS}`);
-  }
-  if (options.initialStepS !== undefined && !(Math.abs(options.initialStepS) > 0 && Number.isFinite(options.initialStepS))) {
-    throw new InvalidInputError('initialStepS', `must be finite and non-zero, got ${options.initialStepS}`);
   }
 }

@@ -39,4 +39,22 @@ export interface Dop853Options {
   /** Only the first `errorComponents` entries of the state enter the error norm (e.g. 6 when the STM
    * rides along). @defaultValue the whole state */
   errorComponents?: number;
+  /** The state's trailing components obey linear equations driven by the leading ones (the STM's
+   * variational equations): a trial step computes the tail only once it is accepted. @defaultValue none */
+  linearTail?: LinearTail;
+}
+
+/**
+ * y = [head, tail] with head' = f(t, head) and tail' = A(t, head) · tail. The stepper integrates a trial
+ * step's head first — the error norm sees the head alone (offset ≥ errorComponents) — and the tail only
+ * when the step is accepted, from the A kept at each stage; head and tail together must equal the
+ * right-hand side component by component, so the numbers are those of the full right-hand side.
+ */
+export interface LinearTail {
+  /** Index of the tail's first component. */
+  readonly offset: number;
+  /** Head derivative at (t, y) into dydt[0..offset); keeps A(t, y) for stage `stage` (2..12). */
+  head(t: number, y: Float64Array, dydt: Float64Array, stage: number): void;
+  /** Tail derivative A(stage) · y[offset..] into dydt[offset..]. */
+  tail(y: Float64Array, dydt: Float64Array, stage: number): void;
 }

@@ -159,6 +159,7 @@ export function* propagationSteps(
     relativeTolerance: checked.relativeTolerance,
     absoluteTolerance: checked.absoluteTolerance,
     errorComponents: dynamics.errorComponents,
+    linearTail: dynamics.linearTail,
     initialStepS: dynamics.initialStepS,
     maxStepS: dynamics.maxStepS,
     endTime: end,

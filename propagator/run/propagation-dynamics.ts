@@ -4,7 +4,7 @@
  * the Cartesian state out of it and how to apply an impulsive Δv.
  */
 import type { ForceModel } from '../forces/index.ts';
-import type { RhsFunction } from '../integrators/index.ts';
+import type { LinearTail, RhsFunction } from '../integrators/index.ts';
 import type { PropagationMethod } from './propagation-types.ts';
 
 /** Equations of motion of one formulation over a force model (integration vector, RHS, read-out, Δv). */
@@ -12,6 +12,9 @@ export interface PropagationDynamics {
   /** Integration vector at the start epoch (the run's stepper copies it). */
   readonly initialY: Float64Array;
   readonly rhs: RhsFunction;
+  /** The right-hand side split into the state and the linear STM equations, when the formulation offers it
+   * (the stepper then skips the STM in rejected trial steps). */
+  readonly linearTail?: LinearTail;
   /** Leading components of the integration vector that enter the step-size error norm. */
   readonly errorComponents: number;
   /** True when y[6..41] carries the 6x6 STM of the Cartesian state (see variational.ts). */
