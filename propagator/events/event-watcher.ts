@@ -6,6 +6,7 @@
  */
 import type { Ephemeris } from '../ephemeris/ephemeris.ts';
 import type { EventRecord, PropagationOutcome } from '../run/propagation-types.ts';
+import { CARTESIAN_LENGTH } from '../run/propagation-dynamics.ts';
 import type { BodyName, StateVector } from '../types.ts';
 import { brentRoot } from './brent-root.ts';
 import { type ActiveEvent, crossed } from './event-functions.ts';
@@ -19,7 +20,8 @@ export interface DenseStepper {
   readonly t: number;
   readonly tPrevious: number;
   readonly y: Float64Array;
-  denseOutput(t: number, out: Float64Array): void;
+  /** The interpolant's leading `count` components at t into out. */
+  denseOutput(t: number, out: Float64Array, count?: number): void;
 }
 /** What it needs of the dynamics (structurally PropagationDynamics). */
 export interface CartesianSource {
@@ -65,7 +67,7 @@ export class EventWatcher {
 
   private stateAt(stepper: DenseStepper, t: number): Float64Array {
     if (t === stepper.t) this.buf.set(stepper.y);
-    else stepper.denseOutput(t, this.buf);
+    else stepper.denseOutput(t, this.buf, CARTESIAN_LENGTH);
     this.dynamics.cartesianInto(t, this.buf, this.cart);
     return this.cart;
   }

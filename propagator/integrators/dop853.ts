@@ -7,10 +7,8 @@
 import { InvalidInputError } from '../../contract/errors.ts';
 import { validateOptions } from './dop853-checks.ts';
 import * as K from './dop853-coefficients.ts';
+import { trialStages, type StageCall } from './dop853-stages.ts';
 import type { Dop853Options, IntegratorCounts, LinearTail, RhsFunction, StepStatus } from './integrator-types.ts';
-
-/** Finishes stage `stage` of a trial step: its derivative at (t, y) into dydt. */
-type StageCall = (stage: number, t: number, y: Float64Array, dydt: Float64Array) => void;
 
 const SAFETY = 0.9;
 const MIN_FACTOR = 0.333;
@@ -40,7 +38,8 @@ export class Dop853Stepper {
   private hLast = 0;
   private rejectedLast = false;
   private facOld = 1e-4;
-  private denseReady = false;
+  /** Components [0, denseReady) of the last step's interpolant are ready. */
+  private denseReady = 0;
   private denseValid = false;
   private yNow: Float64Array;
   private yPrev: Float64Array;
@@ -174,19 +173,20 @@ export class Dop853Stepper {
   }
 
   /**
-   * Writes the 7th-order dense-output interpolant at `t` (within the last accepted step) into `out`.
-   * Costs three extra evaluations the first time it is used within a step.
+   * Writes the 7th-order dense-output interpolant at `t` (within the last accepted step) into out[0..count)
+   * (the leading `count` components; all by default). Costs three extra evaluations the first time it is
+   * used within a step; with a linear tail, the tail's share only when a tail component is asked for.
    */
-  denseOutput(t: number, out: Float64Array): void {
+  denseOutput(t: number, out: Float64Array, count = this.dimension): void {
     if (!this.denseValid) {
       throw new InvalidInputError('t', 'no accepted step to interpolate in (dense output is reset by reset())');
     }
-    if (!this.denseReady) this.prepareDense();
+    if (this.denseReady < count) this.prepareDenseFor(count);
     const n = this.dimension;
     const c = this.cont;
     const s = (t - this.tPrev) / this.hLast;
     const s1 = 1 - s;
-    for (let i = 0; i < n; i++) {
+    for (let i = 0; i < count; i++) {
       out[i] = c[i] + s * (c[n + i] + s1 * (c[2 * n + i] + s * (c[3 * n + i] + s1 * (c[4 * n + i]
         + s * (c[5 * n + i] + s1 * (c[6 * n + i] + s * c[7 * n + i]))))));
     }
@@ -199,7 +199,7 @@ export class Dop853Stepper {
     this.rhs(this.tNow, this.yNow, this.fNow);
     this.counts.evaluations += 1;
     this.denseValid = false;
-    this.denseReady = false;
+    this.denseReady = 0;
   }
 
   /** One trial step of size h from (tNow, yNow): fills yNew and returns the scaled error norm. With a
@@ -209,59 +209,14 @@ export class Dop853Stepper {
     const n = this.dimension;
     const tail = this.tail;
     const split = tail === null ? n : tail.offset;
-    this.stages(h, 0, split, tail === null ? this.fullStage : this.headStage);
+    trialStages(h, 0, split, this.tNow, this.yNow, this.fNow, this.k, this.yTmp, tail === null ? this.fullStage : this.headStage);
     this.counts.evaluations += 11;
     const err = this.combine(h, 0, split);
     if (tail !== null && err <= 1) {
-      this.stages(h, split, n, this.tailStage);
+      trialStages(h, split, n, this.tNow, this.yNow, this.fNow, this.k, this.yTmp, this.tailStage);
       this.combine(h, split, n);
     }
     return err;
-  }
-
-  /** Stages 2..12 of a step of size h for components [lo, hi), each finished by `call(stage, t, y, k)`. */
-  private stages(h: number, lo: number, hi: number, call: StageCall): void {
-    const t = this.tNow;
-    const y = this.yNow;
-    const k1 = this.fNow;
-    const [, , k2, k3, k4, k5, k6, k7, k8, k9, k10, k11, k12] = this.k;
-    const yt = this.yTmp;
-    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * K.a21 * k1[i];
-    call(2, t + K.c2 * h, yt, k2);
-    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a31 * k1[i] + K.a32 * k2[i]);
-    call(3, t + K.c3 * h, yt, k3);
-    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a41 * k1[i] + K.a43 * k3[i]);
-    call(4, t + K.c4 * h, yt, k4);
-    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a51 * k1[i] + K.a53 * k3[i] + K.a54 * k4[i]);
-    call(5, t + K.c5 * h, yt, k5);
-    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a61 * k1[i] + K.a64 * k4[i] + K.a65 * k5[i]);
-    call(6, t + K.c6 * h, yt, k6);
-    for (let i = lo; i < hi; i++) yt[i] = y[i] + h * (K.a71 * k1[i] + K.a74 * k4[i] + K.a75 * k5[i] + K.a76 * k6[i]);
-    call(7, t + K.c7 * h, yt, k7);
-    for (let i = lo; i < hi; i++) {
-      yt[i] = y[i] + h * (K.a81 * k1[i] + K.a84 * k4[i] + K.a85 * k5[i] + K.a86 * k6[i] + K.a87 * k7[i]);
-    }
-    call(8, t + K.c8 * h, yt, k8);
-    for (let i = lo; i < hi; i++) {
-      yt[i] = y[i] + h * (K.a91 * k1[i] + K.a94 * k4[i] + K.a95 * k5[i] + K.a96 * k6[i] + K.a97 * k7[i]
-        + K.a98 * k8[i]);
-    }
-    call(9, t + K.c9 * h, yt, k9);
-    for (let i = lo; i < hi; i++) {
-      yt[i] = y[i] + h * (K.a101 * k1[i] + K.a104 * k4[i] + K.a105 * k5[i] + K.a106 * k6[i] + K.a107 * k7[i]
-        + K.a108 * k8[i] + K.a109 * k9[i]);
-    }
-    call(10, t + K.c10 * h, yt, k10);
-    for (let i = lo; i < hi; i++) {
-      yt[i] = y[i] + h * (K.a111 * k1[i] + K.a114 * k4[i] + K.a115 * k5[i] + K.a116 * k6[i] + K.a117 * k7[i]
-        + K.a118 * k8[i] + K.a119 * k9[i] + K.a1110 * k10[i]);
-    }
-    call(11, t + K.c11 * h, yt, k11);
-    for (let i = lo; i < hi; i++) {
-      yt[i] = y[i] + h * (K.a121 * k1[i] + K.a124 * k4[i] + K.a125 * k5[i] + K.a126 * k6[i] + K.a127 * k7[i]
-        + K.a128 * k8[i] + K.a129 * k9[i] + K.a1210 * k10[i] + K.a1211 * k11[i]);
-    }
-    call(12, t + h, yt, k12);
   }
 
   /** yNew over [lo, hi) from the stages, and the scaled error norm over the error components among them. */
@@ -303,12 +258,29 @@ export class Dop853Stepper {
     this.tPrev = this.tNow;
     this.tNow = tNew;
     this.hLast = h;
-    this.denseReady = false;
+    this.denseReady = 0;
     this.denseValid = true;
   }
 
-  /** The three extra stages and the interpolant coefficients of the last accepted step. */
-  private prepareDense(): void {
+  /** Readies the interpolant for components [0, count): the head alone when they lie within it. */
+  private prepareDenseFor(count: number): void {
+    const n = this.dimension;
+    const tail = this.tail;
+    if (tail === null) {
+      this.prepareDense(0, n, this.fullStage);
+      this.counts.evaluations += 3;
+      return;
+    }
+    if (this.denseReady === 0) {
+      this.prepareDense(0, tail.offset, this.headStage);
+      this.counts.evaluations += 3;
+    }
+    if (count > tail.offset) this.prepareDense(tail.offset, n, this.tailStage);
+  }
+
+  /** The three extra stages and the interpolant coefficients of the last accepted step for components
+   * [lo, hi), each stage finished by `call`. */
+  private prepareDense(lo: number, hi: number, call: StageCall): void {
     const n = this.dimension;
     const h = this.hLast;
     const t = this.tPrev;
@@ -318,24 +290,23 @@ export class Dop853Stepper {
     const f1 = this.fNow;
     const [, , , , , , k6, k7, k8, k9, k10, k11, k12, , k14, k15, k16] = this.k;
     const yt = this.yTmp;
-    for (let i = 0; i < n; i++) {
+    for (let i = lo; i < hi; i++) {
       yt[i] = y0[i] + h * (K.a141 * k1[i] + K.a147 * k7[i] + K.a148 * k8[i] + K.a149 * k9[i] + K.a1410 * k10[i]
         + K.a1411 * k11[i] + K.a1412 * k12[i] + K.a1413 * f1[i]);
     }
-    this.rhs(t + K.c14 * h, yt, k14);
-    for (let i = 0; i < n; i++) {
+    call(14, t + K.c14 * h, yt, k14);
+    for (let i = lo; i < hi; i++) {
       yt[i] = y0[i] + h * (K.a151 * k1[i] + K.a156 * k6[i] + K.a157 * k7[i] + K.a158 * k8[i] + K.a1511 * k11[i]
         + K.a1512 * k12[i] + K.a1513 * f1[i] + K.a1514 * k14[i]);
     }
-    this.rhs(t + K.c15 * h, yt, k15);
-    for (let i = 0; i < n; i++) {
+    call(15, t + K.c15 * h, yt, k15);
+    for (let i = lo; i < hi; i++) {
       yt[i] = y0[i] + h * (K.a161 * k1[i] + K.a166 * k6[i] + K.a167 * k7[i] + K.a168 * k8[i] + K.a169 * k9[i]
         + K.a1613 * f1[i] + K.a1614 * k14[i] + K.a1615 * k15[i]);
     }
-    this.rhs(t + K.c16 * h, yt, k16);
-    this.counts.evaluations += 3;
+    call(16, t + K.c16 * h, yt, k16);
     const c = this.cont;
-    for (let i = 0; i < n; i++) {
+    for (let i = lo; i < hi; i++) {
       const dy = y1[i] - y0[i];
       const bspl = h * k1[i] - dy;
       c[i] = y0[i];
@@ -355,7 +326,7 @@ export class Dop853Stepper {
         + K.d710 * k10[i] + K.d711 * k11[i] + K.d712 * k12[i] + K.d713 * f1[i] + K.d714 * k14[i]
         + K.d715 * k15[i] + K.d716 * k16[i]);
     }
-    this.denseReady = true;
+    this.denseReady = hi;
   }
 
   /** Hairer's starting-step estimate (HINIT in DOP853), order 8. */

@@ -1,6 +1,6 @@
 /** Output helpers of a propagation run: state vectors and samples at a fixed output step. */
 import type { Dop853Stepper } from '../integrators/index.ts';
-import type { PropagationDynamics } from './propagation-dynamics.ts';
+import { CARTESIAN_LENGTH, type PropagationDynamics } from './propagation-dynamics.ts';
 import type { BodyName, StateVector } from '../types.ts';
 
 /** A J2000 equatorial StateVector from a Cartesian 6-vector (km, km/s) relative to `centre`. */
@@ -58,7 +58,7 @@ export class OutputSampler {
       if (epoch === stepper.t || !stepper.hasDenseOutput) {
         this.push(epoch, stepper.y);
       } else {
-        stepper.denseOutput(epoch, this.dense);
+        stepper.denseOutput(epoch, this.dense, CARTESIAN_LENGTH);
         this.push(epoch, this.dense);
       }
       this.next += 1;

@@ -15,7 +15,7 @@ import { Dop853Stepper } from '../integrators/index.ts';
 import { checkEphemerisSpan, checkEvents, checkRequest, type CheckedRequest } from './propagate-checks.ts';
 import { ImpactWatch } from './propagate-impact.ts';
 import { OutputSampler, stateVector } from './propagate-output.ts';
-import type { PropagationDynamics } from './propagation-dynamics.ts';
+import { CARTESIAN_LENGTH, type PropagationDynamics } from './propagation-dynamics.ts';
 import type {
   EventRecord, PropagationOptions, PropagationOutcome, PropagationRequest, PropagationResult,
 } from './propagation-types.ts';
@@ -120,7 +120,7 @@ function impactWatcher(dynamics: PropagationDynamics): StepWatcher {
     afterStep(stepper, events) {
       const hit = watch.afterStep(stepper);
       if (hit === null) return null;
-      if (stepper.hasDenseOutput) stepper.denseOutput(hit.epochTdbS, dense);
+      if (stepper.hasDenseOutput) stepper.denseOutput(hit.epochTdbS, dense, CARTESIAN_LENGTH);
       else dense.set(stepper.y);
       dynamics.cartesianInto(hit.epochTdbS, dense, cart);
       // EventRecord states are relative to the event's body.

@@ -7,6 +7,10 @@ import type { ForceModel } from '../forces/index.ts';
 import type { LinearTail, RhsFunction } from '../integrators/index.ts';
 import type { PropagationMethod } from './propagation-types.ts';
 
+/** How many leading components of the integration vector cartesianInto reads (in every formulation): a
+ * read-out needs only that much of the dense output. */
+export const CARTESIAN_LENGTH = 6;
+
 /** Equations of motion of one formulation over a force model (integration vector, RHS, read-out, Δv). */
 export interface PropagationDynamics {
   /** Integration vector at the start epoch (the run's stepper copies it). */
@@ -22,7 +26,7 @@ export interface PropagationDynamics {
   readonly forces: ForceModel;
   /**
    * Writes the Cartesian state at `epochTdbS` (km, km/s, J2000 equatorial, from the central body) for
-   * integration vector `y` into out[0..5].
+   * integration vector `y` into out[0..5]; reads y[0..CARTESIAN_LENGTH) only.
    */
   cartesianInto(epochTdbS: number, y: Float64Array, out: Float64Array): void;
   /** Adds `dvKmS` (km/s, J2000 equatorial; already signed for the direction of time) to the velocity

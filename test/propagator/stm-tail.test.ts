@@ -2,7 +2,8 @@
  * The stepper's linear tail (integrator-types.ts LinearTail): with the STM split off, a trial step's STM is
  * integrated only once the step is accepted. The split must change nothing — same steps, same state, same Φ
  * to the last bit — which this checks against the full right-hand side on a Mars flyby, whose approach
- * rejects many trial steps (common practice: equivalence to the formulation it replaces).
+ * rejects many trial steps (common practice: equivalence to the formulation it replaces). Dense output
+ * likewise readies the STM's part only when a caller asks for more than the state.
  */
 import { describe, expect, it } from 'vitest';
 import { createCowellDynamics } from '../../propagator/cowell.ts';
@@ -43,6 +44,22 @@ describe('the STM as a linear tail of the integration', () => {
       split.denseOutput(mid, out);
       whole.denseOutput(mid, ref);
       expect(Array.from(out)).toEqual(Array.from(ref));
+    });
+
+    it('should interpolate the state alone first and the STM later, to the same numbers', () => {
+      const a = integrate(true);
+      const b = integrate(false);
+      const t = a.tPrevious + 0.3 * (a.t - a.tPrevious);
+      const head = new Float64Array(42).fill(Number.NaN);
+      a.denseOutput(t, head, 6);
+      const full = new Float64Array(42);
+      b.denseOutput(t, full);
+      expect(Array.from(head.subarray(0, 6))).toEqual(Array.from(full.subarray(0, 6)));
+      expect(head.subarray(6).every(Number.isNaN)).toBe(true);
+      const later = new Float64Array(42);
+      a.denseOutput(t, later);
+      expect(Array.from(later)).toEqual(Array.from(full));
+      expect(a.counts).toEqual(b.counts);
     });
   });
 
