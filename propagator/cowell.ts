@@ -16,12 +16,7 @@ export function createCowellRhs(model: ForceModel, withStm: boolean): RhsFunctio
   const gradient = new Float64Array(9);
   return (t, y, dydt) => {
     model.accelerationInto(t, y, acc, withStm ? gradient : null);
-    dydt[0] = y[3];
-    dydt[1] = y[4];
-    dydt[2] = y[5];
-    dydt[3] = acc[0];
-    dydt[4] = acc[1];
-    dydt[5] = acc[2];
+    stateRatesInto(y, acc, dydt);
     if (withStm) variationalRatesInto(y, gradient, dydt);
   };
 }
@@ -39,12 +34,7 @@ export function createCowellStmTail(model: ForceModel): LinearTail {
     offset: STM_OFFSET,
     head(t, y, dydt, stage) {
       model.accelerationInto(t, y, acc, gradient);
-      dydt[0] = y[3];
-      dydt[1] = y[4];
-      dydt[2] = y[5];
-      dydt[3] = acc[0];
-      dydt[4] = acc[1];
-      dydt[5] = acc[2];
+      stateRatesInto(y, acc, dydt);
       kept.set(gradient, 9 * stage);
     },
     tail(y, dydt, stage) {
@@ -78,4 +68,14 @@ export function createCowellDynamics(model: ForceModel, state: ArrayLike<number>
       y[5] += dv[2];
     },
   };
+}
+
+/** (ṙ, v̇) = (v, a): the first six rates of Cowell's state (km/s, km/s²) from y = (r, v) and the acceleration. */
+function stateRatesInto(y: Float64Array, acc: Float64Array, dydt: Float64Array): void {
+  dydt[0] = y[3];
+  dydt[1] = y[4];
+  dydt[2] = y[5];
+  dydt[3] = acc[0];
+  dydt[4] = acc[1];
+  dydt[5] = acc[2];
 }
