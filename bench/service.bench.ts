@@ -5,10 +5,12 @@
  *  2. queue overhead per job for a trivial problem: end-to-end time through API-less queue + worker + archive,
  *     minus the planner's own time for the same problem in-process, target < 20 ms;
  *  3. throughput (jobs/s) with 1, 2 and 4 worker processes draining the same batch of jobs.
- * Uses REDIS_URL when set, else a private redis-server in a temp folder.
+ * Uses REDIS_URL when set, else a private redis-server in a temp folder. The API and the workers run the compiled
+ * build (dist/, what `npm run api` and `npm run worker` start), so `npm run build` must have run (the bench refuses
+ * a missing dist/); the in-process planner peer runs in this process.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import os from 'node:os';
 import { join, resolve } from 'node:path';
@@ -31,6 +33,10 @@ type Cannon = (opts: Record<string, unknown>) => Promise<CannonResult>;
 const autocannon = createRequire(import.meta.url)('autocannon') as Cannon;
 
 const ROOT = resolve(import.meta.dirname, '..');
+/** The deployed entry points (package.json's `api` and `worker` scripts). */
+const API_MAIN = join(ROOT, 'dist/api/main.js');
+const WORKER_MAIN = join(ROOT, 'dist/queue/worker-main.js');
+if (!existsSync(API_MAIN) || !existsSync(WORKER_MAIN)) throw new Error('dist/ is missing: run `npm run build` first');
 
 /** CPU time a process has used so far (user + system, all its threads), ms, from /proc (Linux); NaN elsewhere.
  * Unlike latency it does not grow with the machine's load, so it tells the request path's own cost apart. */
@@ -222,7 +228,7 @@ async function main(): Promise<void> {
     '',
     `Machine: ${cpu}, ${os.cpus().length} logical cores, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB RAM, ${os.platform()} ${os.release()}, `
       + `Node ${process.version}, Redis ${process.env.REDIS_URL ? 'from REDIS_URL' : 'private redis-server (append-only file on)'}, `
-      + 'archive SQLite in a temp folder. Run at ' + new Date().toISOString() + '.',
+      + 'archive SQLite in a temp folder; API and workers from the compiled build (dist/). Run at ' + new Date().toISOString() + '.',
     '',
     `Load average (1 min) at start ${loadAtStart[0]!.toFixed(1)}, at end ${os.loadavg()[0]!.toFixed(1)} on ${os.cpus().length} cores `
       + '(the load at start is other work on the machine; during the run the API, Redis, workers and load generator share the cores): '
@@ -246,7 +252,7 @@ async function startApiProcess(env: Record<string, string>): Promise<{ url: stri
       srv.close(() => res(typeof a === 'object' && a ? a.port : 0));
     });
   });
-  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'api/main.ts')], {
+  const child = spawn(process.execPath, [API_MAIN], {
     cwd: ROOT, stdio: ['ignore', 'ignore', 'inherit'], env: { ...process.env, ...env, PORT: String(port) },
   });
   const url = `http://127.0.0.1:${port}`;
@@ -264,7 +270,7 @@ async function startApiProcess(env: Record<string, string>): Promise<{ url: stri
 async function startWorkers(n: number, redisUrl: string, prefix: string, dataDir: string, extraEnv: Record<string, string> = {}): Promise<ChildProcess[]> {
   const out: ChildProcess[] = [];
   await Promise.all(Array.from({ length: n }, () => new Promise<void>((res, rej) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'queue/worker-main.ts')], {
+    const child = spawn(process.execPath, [WORKER_MAIN], {
       cwd: ROOT, stdio: ['ignore', 'pipe', 'inherit'],
       env: { ...process.env, REDIS_URL: redisUrl, QUEUE_PREFIX: prefix, DATA_DIR: dataDir, WORKER_CONCURRENCY: '1', LOG_LEVEL: 'info', ...extraEnv },
     });
