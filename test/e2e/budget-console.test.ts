@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startService, type TestService } from '../harness/service.ts';
 import { launchChromium, type TestBrowser } from './browser.ts';
 import { buildConsole } from './build-console.ts';
+import { watchErrors } from './page-checks.ts';
 
 let svc: TestService;
 let browser: TestBrowser;
@@ -22,9 +23,7 @@ beforeAll(async () => {
   svc = await startService();
   await svc.startWorkerInProcess({ concurrency: 1, batchSize: 4 });
   browser = await launchChromium();
-  page = await browser.context.newPage();
-  page.on('pageerror', (e) => pageErrors.push(`pageerror: ${e.message}`));
-  page.on('console', (m) => { if (m.type() === 'error' && !/Failed to load resource/.test(m.text())) pageErrors.push(`console: ${m.text()}`); });
+  page = watchErrors(await browser.context.newPage(), pageErrors);
 });
 
 afterAll(async () => {

@@ -18,7 +18,7 @@ import { startService, waitForJob, type TestService } from '../harness/service.t
 import { reachableProblem, submission } from '../queue/fixtures.ts';
 import { launchChromium, type TestBrowser } from './browser.ts';
 import { buildConsole } from './build-console.ts';
-import { contrastRatio, contrastSamples, horizontalOverflow } from './page-checks.ts';
+import { contrastRatio, contrastSamples, horizontalOverflow, watchErrors } from './page-checks.ts';
 
 const ROOT = resolve(import.meta.dirname, '../..');
 const DEMO = resolve(ROOT, 'examples/flyby-demo.json');
@@ -32,12 +32,6 @@ let samToken: string;
 let planId = '';
 /** Script errors and console errors (CSP refusals included) from every page; failed-resource lines excluded. */
 const pageErrors: string[] = [];
-
-function watchErrors(page: Page): Page {
-  page.on('pageerror', (e) => pageErrors.push(`pageerror: ${e.message}`));
-  page.on('console', (m) => { if (m.type() === 'error' && !/Failed to load resource/.test(m.text())) pageErrors.push(`console: ${m.text()}`); });
-  return page;
-}
 
 /** Saves a screenshot, after checking the screen does not scroll sideways at this viewport. */
 async function shot(page: Page, name: string): Promise<void> {
@@ -60,8 +54,8 @@ beforeAll(async () => {
   // A person who both submits and reviews: the two-person rule, not a missing role, must block their approval.
   samToken = (await svc.tokenStore.add('sam', ['submitter', 'reviewer'])).token;
   browser = await launchChromium();
-  submitterPage = watchErrors(await browser.context.newPage());
-  reviewerPage = watchErrors(await browser.context.newPage());
+  submitterPage = watchErrors(await browser.context.newPage(), pageErrors);
+  reviewerPage = watchErrors(await browser.context.newPage(), pageErrors);
 });
 
 afterAll(async () => {
@@ -277,7 +271,7 @@ describe('ops console', () => {
     });
 
     it('should let an auditor verify the whole archive chain', async () => {
-      const page = watchErrors(await browser.context.newPage());
+      const page = watchErrors(await browser.context.newPage(), pageErrors);
       await signIn(page, svc.tokens.auditor);
       await page.goto(`${svc.url}/console/#/plans/${planId}/history`);
       await page.getByRole('button', { name: 'Verify the whole archive chain' }).click();

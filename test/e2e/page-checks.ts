@@ -39,3 +39,11 @@ export async function contrastSamples(page: Page, selectors: string[]): Promise<
 export async function horizontalOverflow(page: Page): Promise<number> {
   return page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 }
+
+/** Collects `page`'s script errors and console errors (CSP refusals included; failed-resource lines excluded) into
+ * `into`; returns the page. */
+export function watchErrors(page: Page, into: string[]): Page {
+  page.on('pageerror', (e) => into.push(`pageerror: ${e.message}`));
+  page.on('console', (m) => { if (m.type() === 'error' && !/Failed to load resource/.test(m.text())) into.push(`console: ${m.text()}`); });
+  return page;
+}
