@@ -57,13 +57,13 @@ const SUBMIT_ROUNDS = 3;
 
 let local: LocalRedis | null = null;
 
-async function main(): Promise<void> {
-  const loadAtStart = os.loadavg();
-  const dir = mkdtempSync(join(os.tmpdir(), 'veer-bench-'));
-  const redisUrl = process.env.REDIS_URL ?? (local = await startLocalRedis(join(dir, 'redis'))).url;
-  const prefix = `bench${Date.now().toString(36)}`;
-  const tokens = await openTokenStore({ dataDir: dir });
-  const { token } = await tokens.add('bench', ['submitter']);
+/** What every section shares: the temp folder, Redis, the queue prefix and the results lines. */
+interface BenchContext { dir: string; redisUrl: string; prefix: string; say(line: string): void }
+
+const trivial = reachableProblem({ samples: 0, name: 'BENCHSAT' });
+
+/** 1. Submission latency (no worker running: measures the door and the enqueue only). */
+async function submissionLatency({ dir, redisUrl, prefix, say }: BenchContext, token: string): Promise<void> {
   // The API runs in its own process (as deployed) so the load generator does not share its event loop.
   const api = await startApiProcess({
     REDIS_URL: redisUrl, QUEUE_PREFIX: prefix, HOST: '127.0.0.1', DATA_DIR: dir, PLAN_SINK: 'archive',
@@ -71,11 +71,6 @@ async function main(): Promise<void> {
     // The latency rounds submit thousands of jobs with no worker: admission limits are measured in service-overload.
     QUEUE_LIMIT_ROUTINE: '10000000', QUEUE_LIMIT_PER_SUBMITTER: '10000000',
   });
-  const lines: string[] = [];
-  const say = (s: string): void => { lines.push(s); process.stdout.write(`${s}\n`); };
-
-  // 1. Submission latency (no worker running: measures the door and the enqueue only).
-  const trivial = reachableProblem({ samples: 0, name: 'BENCHSAT' });
   const body = JSON.stringify({ problem: trivial, reason: 'benchmark submission' });
   const headers = { authorization: `Bearer ${token}`, 'content-type': 'application/json' };
   await autocannon({ url: `${api.url}/health`, connections: 10, duration: 1 });
@@ -114,17 +109,16 @@ async function main(): Promise<void> {
   const submitted = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
   await submitted.queue.obliterate({ force: true });
   await submitted.close();
+}
 
-  // 2. Queue overhead per trivial job: sequential jobs through queue + worker process (+ archive), interleaved
-  //    with in-process planner runs so that all three paths see the same machine load.
+/** 2. Queue overhead per trivial job: sequential jobs through queue + worker process (+ archive), interleaved
+ *  with in-process planner runs so that all three paths see the same machine load. */
+async function queueOverhead({ dir, redisUrl, prefix, say }: BenchContext, queue: RetargetQueue, events: JobEventHub): Promise<void> {
   const parsed = parseProblem(trivial);
   const request = jobRequestSchema.parse({ problem: trivial, reason: 'benchmark overhead' });
-  const queue = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
-  const events = new JobEventHub(redisUrl, prefix);
   const prefixNoArchive = `${prefix}n`;
   const queueNoArchive = new RetargetQueue({ redisUrl, prefix: prefixNoArchive, admission: NO_ADMISSION_LIMIT });
   const eventsNoArchive = new JobEventHub(redisUrl, prefixNoArchive);
-  await events.ready();
   await eventsNoArchive.ready();
   const runOne = async (q: RetargetQueue, ev: JobEventHub): Promise<number> => {
     const t0 = performance.now();
@@ -188,8 +182,10 @@ async function main(): Promise<void> {
   say(`| this process: submit and wait for the completed event | ${(submitterCpu / JOBS).toFixed(1)} |`);
   say('');
   say(`Overhead ${overhead.toFixed(1)} ms (target < 20 ms): ${overhead < 20 ? 'met' : 'NOT met'}.`);
+}
 
-  // 3. Throughput with 1, 2, 4 worker processes draining 40 jobs (200 Monte Carlo samples each).
+/** 3. Throughput with 1, 2, 4 worker processes draining 40 jobs (200 Monte Carlo samples each). */
+async function throughput({ dir, redisUrl, prefix, say }: BenchContext, queue: RetargetQueue, events: JobEventHub): Promise<void> {
   say('');
   say('## Throughput, 40 jobs of 200 Monte Carlo samples each');
   say('');
@@ -221,6 +217,23 @@ async function main(): Promise<void> {
   say('');
   say(`Each run began with 4 warm-up jobs per worker (not timed). On ${os.cpus().length} cores, shared with the API, Redis and `
     + 'this bench, more worker processes than free cores cannot speed this up; the row shows what the queue costs when they compete.');
+}
+
+async function main(): Promise<void> {
+  const loadAtStart = os.loadavg();
+  const dir = mkdtempSync(join(os.tmpdir(), 'veer-bench-'));
+  const redisUrl = process.env.REDIS_URL ?? (local = await startLocalRedis(join(dir, 'redis'))).url;
+  const prefix = `bench${Date.now().toString(36)}`;
+  const tokens = await openTokenStore({ dataDir: dir });
+  const { token } = await tokens.add('bench', ['submitter']);
+  const lines: string[] = [];
+  const ctx: BenchContext = { dir, redisUrl, prefix, say: (s) => { lines.push(s); process.stdout.write(`${s}\n`); } };
+  await submissionLatency(ctx, token);
+  const queue = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
+  const events = new JobEventHub(redisUrl, prefix);
+  await events.ready();
+  await queueOverhead(ctx, queue, events);
+  await throughput(ctx, queue, events);
 
   const cpu = os.cpus()[0]?.model ?? 'unknown CPU';
   const header = [
