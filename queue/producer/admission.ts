@@ -3,7 +3,10 @@
  * numbers and when to retry) instead of piling up in Redis. Two limits, both counted before a job is added:
  * - per priority: jobs of that priority waiting for a worker (503 QUEUE_FULL: the service is saturated);
  * - per submitter: that submitter's jobs not yet finished (429 SUBMITTER_QUEUE_FULL: slow down).
- * Checks and adds are not one atomic step, so concurrent submissions may overshoot a limit by their number.
+ * Checks and adds are not one atomic step, so concurrent submissions may overshoot a limit by their number;
+ * a submission that arrives while a count it needs is being read shares that read (shared-read.ts), which
+ * widens "concurrent" to the submissions of about two Redis round trips. One count read per batch instead of
+ * one per submission is what keeps the door cheap under a burst.
  *
  * Memory budget: a finished job keeps its data (problem, reason, who), progress and result in Redis for
  * JOB_RETENTION_S; Monte Carlo batches and their samples are removed once combined (worker/processor.ts).

@@ -20,6 +20,7 @@ import { DEFAULT_ADMISSION, submitterJobsKey, unfinishedJobsOf, type AdmissionLi
 import { isTopLevelJob, type QueuedJob, type TopLevelJob } from './queued-job.ts';
 import { QueueUnavailableError } from './queue-unavailable.ts';
 import { sendInOneWrite } from './one-write.ts';
+import { SharedReads } from './shared-read.ts';
 import { cancelledBeforeRunStatus, clientState, describeBudgetJob, describeJob, fanOutProgress } from './job-status.ts';
 import {
   BULL_PRIORITY, JOB_NAMES, RETARGET_QUEUE, type JobProgress, type JobRequest, type JobState, type JobStatus,
@@ -77,6 +78,9 @@ export class RetargetQueue {
   private readonly admission: AdmissionLimits;
   /** The leap-second table's record every job carries: the table is fixed for this queue, so built once. */
   private readonly leapSecondsRecord: PlanLeapSeconds;
+  /** Admission counts shared by the submissions that need them while a read is in flight (shared-read.ts). */
+  private readonly waitingReads = new SharedReads<number>();
+  private readonly unfinishedReads = new SharedReads<number>();
 
   constructor(private readonly opts: RetargetQueueOptions) {
     this.redis = createRedis(opts.redisUrl, { failFast: true, name: 'veer-producer' });
@@ -186,13 +190,13 @@ export class RetargetQueue {
   private async admit(priority: Priority, submittedBy: string): Promise<AdmissionRefusal | null> {
     const limits = this.admission;
     const bullPriority = priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine;
-    // Both counts in one wait (two round trips in flight at once), sent in one socket write.
+    // Both counts in one wait (two round trips in flight at once), sent in one socket write; a submission
+    // arriving while a count it needs is being read shares that read (admission.ts: the overshoot this allows).
     sendInOneWrite(this.redis);
-    const [counts, unfinished] = await Promise.all([
-      this.queue.getCountsPerPriority([bullPriority]),
-      unfinishedJobsOf(this.redis, this.prefix, this.queue.qualifiedName, submittedBy, limits.unfinishedPerSubmitter),
+    const [waiting, unfinished] = await Promise.all([
+      this.waitingReads.get(String(bullPriority), async () => (await this.queue.getCountsPerPriority([bullPriority]))[bullPriority] ?? 0),
+      this.unfinishedReads.get(submittedBy, () => unfinishedJobsOf(this.redis, this.prefix, this.queue.qualifiedName, submittedBy, limits.unfinishedPerSubmitter)),
     ]);
-    const waiting = counts[bullPriority] ?? 0;
     const limit = limits.waitingPerPriority[priority];
     if (waiting >= limit) return { outcome: 'queue-full', priority, waiting, limit, retryAfterS: limits.retryAfterS };
     if (unfinished >= limits.unfinishedPerSubmitter) {

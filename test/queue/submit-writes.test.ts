@@ -84,4 +84,26 @@ describe('submission writes to Redis', () => {
       expect(await queue.redis.scard(submitterJobsKey(prefix, 'burst'))).toBe(20);
     });
   });
+  describe('when twenty jobs of one submitter arrive together', () => {
+    it('should read each admission count once for all of them and still admit and store every job', async () => {
+      const request = jobRequestSchema.parse(submission(reachableProblem({ name: 'SHARESAT' })));
+      const reads = { waiting: 0, unfinished: 0 };
+      const counts = queue.queue.getCountsPerPriority.bind(queue.queue);
+      const scard = queue.redis.scard.bind(queue.redis);
+      queue.queue.getCountsPerPriority = (async (...args: Parameters<typeof counts>) => { reads.waiting++; return counts(...args); }) as typeof counts;
+      queue.redis.scard = ((...args: Parameters<typeof scard>) => { reads.unfinished++; return scard(...args); }) as typeof scard;
+      try {
+        const result = await Promise.all(Array.from({ length: 20 }, () => queue.submit(request, 'sharer')));
+        expect(result.every((r) => r.outcome === 'created')).toBe(true);
+        expect(reads).toEqual({ waiting: 1, unfinished: 1 });
+        expect(await scard(submitterJobsKey(prefix, 'sharer'))).toBe(20);
+        // Once answered, nothing is kept: the next submission reads afresh.
+        await queue.submit(request, 'sharer');
+        expect(reads).toEqual({ waiting: 2, unfinished: 2 });
+      } finally {
+        delete (queue.queue as unknown as Record<string, unknown>).getCountsPerPriority;
+        delete (queue.redis as unknown as Record<string, unknown>).scard;
+      }
+    });
+  });
 });
