@@ -2,7 +2,7 @@
  * The SHA-256 problem hash over the contract's canonical JSON (contract/canonical-json.ts). Hashing the
  * validated problem (defaults filled in) makes a problem written with and without its defaults hash alike.
  */
-import { createHash } from 'node:crypto';
+import { hash } from 'node:crypto';
 import { canonicalJson } from '../contract/canonical-json.ts';
 import type { PlanEphemerisSource, PlanLeapSeconds } from '../contract/plan-types.ts';
 import { ephemerisIdentity } from './ephemeris-files.ts';
@@ -18,7 +18,7 @@ function leapSecondsIdentity(record: Pick<PlanLeapSeconds, 'source' | 'sha256' |
  * planner's one content hash. The archive keeps its own (archive/chain.ts), since neither room may import the
  * other and the contract room has no synchronous digest (no Node API there). */
 export function canonicalSha256(value: unknown): string {
-  return createHash('sha256').update(canonicalJson(value), 'utf8').digest('hex');
+  return hash('sha256', canonicalJson(value), 'hex'); // one-shot: about half the CPU of createHash() per call
 }
 
 /**

@@ -5,7 +5,8 @@
  * every request without adding protection; and a deterministic hash lets the store look a token up by an
  * index. Lookup by hash also means the presented secret is never compared byte by byte.
  */
-import { createHash, randomBytes } from 'node:crypto';
+import { randomBytes } from 'node:crypto';
+import { sha256Hex } from '../../archive/index.ts';
 
 export const TOKEN_PREFIX = 'veer_';
 
@@ -16,7 +17,7 @@ export function generateTokenSecret(): string {
 
 /** SHA-256 hex of the token's UTF-8 bytes: the only form kept in the store. */
 export function hashTokenSecret(token: string): string {
-  return createHash('sha256').update(token, 'utf8').digest('hex');
+  return sha256Hex(token);
 }
 
 /** A short public id for listing and revoking (`tok_` + 12 hex digits). */
