@@ -55,8 +55,8 @@ function processCpuMs(pid: number | undefined): number {
 const CLOCK_TICKS_PER_S = 100;
 /** This process's CPU time, ms. */
 const ownCpuMs = (): number => { const u = process.cpuUsage(); return (u.user + u.system) / 1000; };
-const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 9);
-const SUBMIT_ROUNDS = 3;
+const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 10);
+const SUBMIT_ROUNDS = 5;
 /** Seconds each latency contender runs at full concurrency before the recorded rounds. */
 const WARM_UP_S = 2;
 
