@@ -56,7 +56,9 @@ describe('problem schema', () => {
     it('should name the end of a span that runs past the built-in ephemeris, never clip it', () => {
       // The built-in ephemeris stops at 2200-01-01 TDB (propagator/ephemeris): a later end is refused.
       const beyond = { ...p, endEpoch: '2250-01-01T00:00:00 TDB' };
-      expect(() => parseProblem(beyond)).toThrow(expect.objectContaining({ name: 'OutOfSpanError', field: 'endEpoch' }));
+      expect(() => parseProblem(beyond)).toThrow(expect.objectContaining({
+        name: 'OutOfSpanError', field: 'endEpoch', message: expect.stringContaining('[1800-01-01T00:00:00 TDB, 2200-01-01T00:00:00 TDB]'),
+      }));
       const early = { ...p, initialState: { ...p.initialState, epoch: '1700-01-01T00:00:00 TDB' } };
       expect(() => parseProblem(early)).toThrow(expect.objectContaining({ name: 'OutOfSpanError', field: 'initialState.epoch' }));
     });
