@@ -18,7 +18,7 @@ import { openTokenStore } from '../api/auth/index.ts';
 import { parseProblem, planManeuvers } from '../planner/index.ts';
 import { JobEventHub, RetargetQueue, jobRequestSchema, startLocalRedis, type LocalRedis, type SubmitOutcome } from '../queue/index.ts';
 import { reachableProblem } from '../test/queue/fixtures.ts';
-import { spreadOf } from './bench-stats.ts';
+import { codeVersion, historyRows, spreadOf } from './bench-stats.ts';
 
 /** Throughput runs measure the queue itself: admission limits out of the way. */
 const NO_ADMISSION_LIMIT = { waitingPerPriority: { urgent: 1e9, routine: 1e9 }, unfinishedPerSubmitter: 1e9, retryAfterS: 1 };
@@ -39,6 +39,8 @@ const API_MAIN = join(ROOT, 'dist/api/main.js');
 const WORKER_MAIN = join(ROOT, 'dist/queue/worker-main.js');
 /** The framework floor peer (run through tsx: its start-up is not measured). */
 const FLOOR_MAIN = join(ROOT, 'bench/express-floor-server.ts');
+const RESULTS_URL = new URL('./results/service.md', import.meta.url);
+const LATENCY_HISTORY = '## Submission latency, run by run';
 if (!existsSync(API_MAIN) || !existsSync(WORKER_MAIN)) throw new Error('dist/ is missing: run `npm run build` first');
 
 /** CPU time a process has used so far (user + system, all its threads), ms, from /proc (Linux); NaN elsewhere.
@@ -82,7 +84,7 @@ const median = (xs: readonly number[]): number => spreadOf(xs).median;
 
 /** 1. Submission latency (no worker running: measures the door and the enqueue only), with two peers in the
  *  same rounds: GET /health of the same API, and the framework's floor (express-floor-server.ts). */
-async function submissionLatency({ dir, redisUrl, prefix, say }: BenchContext, token: string): Promise<void> {
+async function submissionLatency({ dir, redisUrl, prefix, say }: BenchContext, token: string): Promise<string> {
   // The API runs in its own process (as deployed) so the load generator does not share its event loop.
   const api = await startServerProcess([API_MAIN], {
     REDIS_URL: redisUrl, QUEUE_PREFIX: prefix, HOST: '127.0.0.1', DATA_DIR: dir, PLAN_SINK: 'archive',
@@ -110,14 +112,16 @@ async function submissionLatency({ dir, redisUrl, prefix, say }: BenchContext, t
   }
   await api.stop();
   await floor.stop();
-  reportLatency(say, contenders, rounds, roundS);
+  const historyRow = reportLatency(say, contenders, rounds, roundS);
   const submitted = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
   await submitted.queue.obliterate({ force: true });
   await submitted.close();
+  return historyRow;
 }
 
-/** The latency table and what it says about the target, from this run's rounds alone. */
-function reportLatency(say: (line: string) => void, contenders: Contender[], rounds: RoundResult[][], roundS: number): void {
+/** The latency table and what it says about the target, from this run's rounds alone; returns this run's row of
+ * the history table (LATENCY_HISTORY). */
+function reportLatency(say: (line: string) => void, contenders: Contender[], rounds: RoundResult[][], roundS: number): string {
   say('## Submission latency, 50 concurrent clients');
   say('');
   say(`${WARM_UP_S} s warm-up per contender, then ${SUBMIT_ROUNDS} rounds of ${roundS} s each, the three contenders alternated; latencies as autocannon reports them.`);
@@ -143,6 +147,9 @@ function reportLatency(say: (line: string) => void, contenders: Contender[], rou
     + `Submission p99 / mean, median over rounds: ${tail.toFixed(2)}; at that ratio p99 < 50 ms needs a mean below ${(50 / tail).toFixed(1)} ms, `
     + `i.e. at least ${Math.round(tail * 1000)} submissions/s — at most ${(1 / tail).toFixed(3)} ms of API CPU per submission if the API had a core `
     + `to itself (it shares ${os.cpus().length} cores with Redis and the load generator).`);
+  const p99s = rounds.map((row) => row[SUBMIT]!.result.latency.p99);
+  return `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${os.loadavg()[0]!.toFixed(1)} | ${submitP99} (${Math.min(...p99s)}–${Math.max(...p99s)}) | `
+    + `${of(HEALTH, (x) => x.result.latency.p99)} | ${of(FLOOR, (x) => x.result.latency.p99)} | ${of(SUBMIT, (x) => x.cpuPerRequest).toFixed(3)} | ${submitP99 < 50 ? 'met' : 'NOT met'} |`;
 }
 
 /** 2. Queue overhead per trivial job: sequential jobs through queue + worker process (+ archive), interleaved
@@ -261,7 +268,7 @@ async function main(): Promise<void> {
   const { token } = await tokens.add('bench', ['submitter']);
   const lines: string[] = [];
   const ctx: BenchContext = { dir, redisUrl, prefix, say: (s) => { lines.push(s); process.stdout.write(`${s}\n`); } };
-  await submissionLatency(ctx, token);
+  const latencyRow = await submissionLatency(ctx, token);
   const queue = new RetargetQueue({ redisUrl, prefix, admission: NO_ADMISSION_LIMIT });
   const events = new JobEventHub(redisUrl, prefix);
   await events.ready();
@@ -282,7 +289,12 @@ async function main(): Promise<void> {
     '',
   ];
   mkdirSync(join(ROOT, 'bench/results'), { recursive: true });
-  writeFileSync(join(ROOT, 'bench/results/service.md'), `${[...header, ...lines].join('\n')}\n`);
+  const history = historyRows(RESULTS_URL, LATENCY_HISTORY, latencyRow);
+  const historyLines = ['', LATENCY_HISTORY, '',
+    'One row per run of this bench (the last 10; a row is written only by a run): the machine\'s speed varies from run to run, so one run\'s verdict near the target is read against the others.',
+    '', '| run | code | load at end of latency rounds | submit p99 ms, median (rounds min–max) | /health p99 ms | bare express p99 ms | API CPU ms per submission | target < 50 ms |',
+    '|---|---|---|---|---|---|---|---|', ...history];
+  writeFileSync(RESULTS_URL, `${[...header, ...lines, ...historyLines].join('\n')}\n`);
   await events.close();
   await queue.close();
   await tokens.close();
