@@ -52,8 +52,9 @@ export interface RetargetJobData {
   /** The leap-second table the API validated the problem with (absent in jobs queued before it was
    * recorded: the worker's own table is used then). */
   leapSeconds?: PlanLeapSeconds;
-  /** SHA-256 of the canonical request (problem, reason, priority): tells a true repeat from a key reuse. */
-  requestHash: string;
+  /** SHA-256 of the canonical request (problem, reason, priority): tells a true repeat from a key reuse. Only
+   * with an idempotency key: without one no later submission can name this job, so nothing would compare it. */
+  requestHash?: string;
   /** Random per submission: tells the submission that created the job from later repeats. */
   submissionId: string;
   /** Where a re-run resumes: `plan` (from scratch) or `await-samples` (nominal plan done, children added). */

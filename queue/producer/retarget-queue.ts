@@ -115,10 +115,11 @@ export class RetargetQueue {
     this.assertConnected();
     const leapSeconds = this.leapSecondsRecord;
     const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
-    const requestHash = canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
+    const requestHash = request.idempotencyKey === undefined ? undefined
+      : canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
     return this.enqueue(JOB_NAMES.retarget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
       problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
-      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'plan',
+      submittedAt: new Date().toISOString(), ...(requestHash ? { requestHash } : {}), submissionId, step: 'plan',
       problemHash: hashOfProblem, leapSeconds,
       ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
     } satisfies RetargetJobData));
@@ -133,16 +134,18 @@ export class RetargetQueue {
     const problem = request.request.problem as PlanningProblem;
     const leapSeconds = this.leapSecondsRecord;
     const hashOfProblem = problemHash(problem, leapSeconds);
-    const requestHash = canonicalHash({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority });
+    const requestHash = request.idempotencyKey === undefined ? undefined
+      : canonicalHash({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority });
     return this.enqueue(BUDGET_JOB_NAMES.budget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
       problem, budget: request.request, reason: request.reason, priority: request.priority, submittedBy,
-      submittedAt: new Date().toISOString(), requestHash, submissionId, step: 'prepare', problemHash: hashOfProblem, leapSeconds,
+      submittedAt: new Date().toISOString(), ...(requestHash ? { requestHash } : {}), submissionId, step: 'prepare', problemHash: hashOfProblem, leapSeconds,
       ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
     } satisfies BudgetJobData));
   }
 
   /** Adds a job of kind `name` with the idempotency handling shared by both kinds. */
-  private async enqueue(name: TopLevelJob['name'], idempotencyKey: string | undefined, submittedBy: string, requestHash: string,
+  /** `requestHash` is given exactly when `idempotencyKey` is (the only case that compares it). */
+  private async enqueue(name: TopLevelJob['name'], idempotencyKey: string | undefined, submittedBy: string, requestHash: string | undefined,
     priority: Priority, dataOf: (submissionId: string) => RetargetJobData | BudgetJobData): Promise<SubmitOutcome> {
     const jobId = idempotencyKey
       ? `k-${sha256Hex(`${submittedBy}\n${idempotencyKey}`).slice(0, 40)}`

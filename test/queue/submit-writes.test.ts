@@ -51,7 +51,10 @@ describe('submission writes to Redis', () => {
       expect(result.outcome).toBe('created');
       expect(writes).toBe(2);
       const jobId = (result as { jobId: string }).jobId;
-      expect((await queue.findJob(jobId))?.data.submittedBy).toBe('writer');
+      const stored = await queue.findJob(jobId);
+      expect(stored?.data.submittedBy).toBe('writer');
+      // No key, so no later submission can name this job: its request hash is neither computed nor stored.
+      expect(stored?.data.requestHash).toBeUndefined();
       const key = submitterJobsKey(prefix, 'writer');
       expect(await queue.redis.sismember(key, jobId)).toBe(1);
       expect(await queue.redis.ttl(key)).toBeGreaterThan(0);
@@ -68,6 +71,7 @@ describe('submission writes to Redis', () => {
       expect(writes).toBe(4);
       const again = await queue.submit(request, 'keyed');
       expect(again).toEqual({ outcome: 'existing', jobId: (result as { jobId: string }).jobId });
+      expect((await queue.findJob((result as { jobId: string }).jobId))?.data.requestHash).toMatch(/^[0-9a-f]{64}$/);
     });
   });
 
