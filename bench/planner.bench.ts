@@ -21,7 +21,7 @@ import {
   createBuiltinEphemeris, EphemerisCache, parseEpoch, propagateAsync,
 } from '../propagator/index.ts';
 import type { BodyName } from '../propagator/index.ts';
-import { cpuMs, formatSpread, machineLine, oneVersusTwoProcesses, ratios, spreadOf } from './bench-stats.ts';
+import { codeVersion, cpuMs, formatSpread, historyRows, machineLine, oneVersusTwoProcesses, ratios, spreadOf } from './bench-stats.ts';
 import { finiteRetargeting } from './finite-retargeting.ts';
 
 const here = fileURLToPath(import.meta.url);
@@ -44,6 +44,7 @@ if (process.argv[2] === '--samples') {
   process.exit(0);
 }
 
+const RESULTS = new URL('./results/planner.md', import.meta.url);
 const lines: string[] = [];
 const log = (line = ''): void => {
   lines.push(line);
@@ -79,7 +80,8 @@ async function stateOnlyPropagationMs(): Promise<number> {
 const RETARGET_WARMUP = 8;
 const RETARGET_ROUNDS = 9;
 
-async function retargeting(): Promise<void> {
+/** Returns this run's row of the run-by-run table (RUN_BY_RUN), or null when the demo did not plan. */
+async function retargeting(): Promise<string | null> {
   const walls: number[] = [];
   const correction: number[] = [];
   const props: number[] = [];
@@ -101,7 +103,7 @@ async function retargeting(): Promise<void> {
     walls.push(cpuMs() - t);
     correction.push(tCross - tCorrect);
   }
-  if (!plan) return;
+  if (!plan) return null;
   const iterations = plan.iterations.filter((it) => it.jacobianSource !== 'none').length;
   const ratio = spreadOf(ratios(correction, props));
   const wholeRatio = spreadOf(ratios(walls, props));
@@ -130,6 +132,18 @@ async function retargeting(): Promise<void> {
     + 'tolerance (the independent cross-check) and maps the linear dispersion. Peer and plans share one ephemeris cache '
     + '(fitted in the first warm-up round), so neither side pays for fitting in the timed rounds.');
   log();
+  return `| ${new Date().toISOString().slice(0, 16)}Z | ${codeVersion()} | ${os.loadavg()[0]!.toFixed(1)} | ${formatSpread(ratio)}× | `
+    + `${formatSpread(wholeRatio)}× | ${plan.effort.propagations} | ${ratio.median <= 10 ? 'met' : 'NOT met'} |`;
+}
+
+/** The run-by-run table of the correction cost (the last 10 runs; a row is written only by a run). */
+const RUN_BY_RUN = '## Correction cost, run by run';
+function runByRun(row: string | null): string[] {
+  if (row === null) return [];
+  return ['', RUN_BY_RUN, '',
+    'One row per run of this bench: its median moves with the machine\'s load from run to run, so one verdict is read against the others.',
+    '', '| run | code | load at end of retargeting rounds | correction / one propagation | whole plan / one propagation | propagations | ≤ 10× |',
+    '|---|---|---|---|---|---|---|', ...historyRows(RESULTS, RUN_BY_RUN, row)];
 }
 
 function runChild(first: number, count: number): Promise<{ samples: DispersionSample[]; ms: number }> {
@@ -200,7 +214,7 @@ log('# bench:planner results');
 log();
 log(machine);
 log();
-await retargeting();
+const retargetingRow = await retargeting();
 await finiteRetargeting(demo, log);
 await monteCarlo();
-writeFileSync(new URL('./results/planner.md', import.meta.url), `${lines.join('\n')}\n`);
+writeFileSync(RESULTS, `${[...lines, ...runByRun(retargetingRow)].join('\n')}\n`);
