@@ -1,7 +1,7 @@
 /**
  * Service benchmarks (npm run bench:service; writes bench/results/service.md):
- *  1. submission latency over HTTP at 50 concurrent clients (autocannon), target p99 < 50 ms; peer in the same
- *     run: GET /health at the same concurrency (ratios are what compare across machines);
+ *  1. submission latency over HTTP at 50 concurrent clients (autocannon, in its own process), target p99 < 50 ms;
+ *     peers in the same rounds: GET /health of the same API, and a bare express 5 route (the framework's floor);
  *  2. queue overhead per job for a trivial problem: end-to-end time through API-less queue + worker + archive,
  *     minus the planner's own time for the same problem in-process, target < 20 ms;
  *  3. throughput (jobs/s) with 1, 2 and 4 worker processes draining the same batch of jobs.
@@ -9,7 +9,8 @@
  * build (dist/, what `npm run api` and `npm run worker` start), so `npm run build` must have run (the bench refuses
  * a missing dist/); the in-process planner peer runs in this process.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { execFile, spawn, type ChildProcess } from 'node:child_process';
+import { promisify } from 'node:util';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import os from 'node:os';
@@ -30,8 +31,9 @@ function createdId(outcome: SubmitOutcome): string {
 }
 
 interface CannonResult { latency: { p50: number; p99: number; average: number; max: number }; requests: { average: number; total: number }; non2xx: number; errors: number; statusCodeStats?: Record<string, { count: number }> }
-type Cannon = (opts: Record<string, unknown>) => Promise<CannonResult>;
-const autocannon = createRequire(import.meta.url)('autocannon') as Cannon;
+const execFileAsync = promisify(execFile);
+/** autocannon's command line (its package's `bin`). */
+const AUTOCANNON_CLI = createRequire(import.meta.url).resolve('autocannon/autocannon.js');
 
 const ROOT = resolve(import.meta.dirname, '..');
 /** The deployed entry points (package.json's `api` and `worker` scripts). */
@@ -69,14 +71,27 @@ interface BenchContext { dir: string; redisUrl: string; prefix: string; say(line
 
 const trivial = reachableProblem({ samples: 0, name: 'BENCHSAT' });
 
+/** What autocannon fires: a URL and, for a submission, its method, headers and body. */
+interface Target { url: string; method?: 'POST'; headers?: Record<string, string>; body?: string }
 /** One contender of the latency rounds: what autocannon fires and which process answers it. */
-interface Contender { name: string; pid: number | undefined; cannon: Record<string, unknown> }
+interface Contender { name: string; pid: number | undefined; target: Target }
 interface RoundResult { result: CannonResult; cpuPerRequest: number }
 
-/** Fires `c` at 50 clients for `seconds`; the answering process's CPU time per request answered, from /proc. */
+/** autocannon at 50 clients for `seconds`, run as its command line in a process of its own (JSON result): the load
+ * generator's heap and collections stay apart from this bench's, which holds the planner and the queue. */
+async function cannon(t: Target, seconds: number): Promise<CannonResult> {
+  const args = [AUTOCANNON_CLI, '-j', '-c', '50', '-d', String(seconds)];
+  if (t.method) args.push('-m', t.method);
+  for (const [k, v] of Object.entries(t.headers ?? {})) args.push('-H', `${k}=${v}`);
+  if (t.body !== undefined) args.push('-b', t.body);
+  const { stdout } = await execFileAsync(process.execPath, [...args, t.url], { maxBuffer: 16 * 2 ** 20 });
+  return JSON.parse(stdout) as CannonResult;
+}
+
+/** Fires `c` for `seconds`; the answering process's CPU time per request answered, from /proc. */
 async function fire(c: Contender, seconds: number): Promise<RoundResult> {
   const c0 = processCpuMs(c.pid);
-  const result = await autocannon({ ...c.cannon, connections: 50, duration: seconds });
+  const result = await cannon(c.target, seconds);
   return { result, cpuPerRequest: (processCpuMs(c.pid) - c0) / result.requests.total };
 }
 
@@ -96,9 +111,9 @@ async function submissionLatency({ dir, redisUrl, prefix, say }: BenchContext, t
   const headers = { authorization: `Bearer ${token}`, 'content-type': 'application/json' };
   const body = JSON.stringify({ problem: trivial, reason: 'benchmark submission' });
   const contenders: Contender[] = [
-    { name: 'GET /health (peer)', pid: api.pid, cannon: { url: `${api.url}/health`, headers } },
-    { name: 'GET /floor: bare express 5 (peer)', pid: floor.pid, cannon: { url: `${floor.url}/floor` } },
-    { name: 'POST /v1/jobs', pid: api.pid, cannon: { url: `${api.url}/v1/jobs`, method: 'POST', headers, body } },
+    { name: 'GET /health (peer)', pid: api.pid, target: { url: `${api.url}/health`, headers } },
+    { name: 'GET /floor: bare express 5 (peer)', pid: floor.pid, target: { url: `${floor.url}/floor` } },
+    { name: 'POST /v1/jobs', pid: api.pid, target: { url: `${api.url}/v1/jobs`, method: 'POST', headers, body } },
   ];
   // Warm-up at full concurrency: JIT and heap sizes settle before anything is recorded.
   for (const c of contenders) await fire(c, WARM_UP_S);
@@ -124,7 +139,7 @@ async function submissionLatency({ dir, redisUrl, prefix, say }: BenchContext, t
 function reportLatency(say: (line: string) => void, contenders: Contender[], rounds: RoundResult[][], roundS: number): string {
   say('## Submission latency, 50 concurrent clients');
   say('');
-  say(`${WARM_UP_S} s warm-up per contender, then ${SUBMIT_ROUNDS} rounds of ${roundS} s each, the three contenders alternated; latencies as autocannon reports them.`);
+  say(`${WARM_UP_S} s warm-up per contender, then ${SUBMIT_ROUNDS} rounds of ${roundS} s each, the three contenders alternated; latencies as autocannon (in its own process) reports them.`);
   say('');
   say('| round | request | p50 ms | p99 ms | mean ms | req/s | non-2xx | answering process CPU ms per request |');
   say('|---|---|---|---|---|---|---|---|');
