@@ -70,6 +70,11 @@ export function isIssuedJobId(jobId: string): boolean {
   return ISSUED_JOB_ID.test(jobId);
 }
 
+/** Job data fields only a submission with an idempotency key carries (set by `enqueue`). */
+type KeyedFields = 'idempotencyKey' | 'requestHash';
+/** Job data of either kind without them (what the submit methods build). */
+type UnkeyedData = Omit<RetargetJobData, KeyedFields> | Omit<BudgetJobData, KeyedFields>;
+
 export class RetargetQueue {
   readonly queue: Queue<QueuedJob>;
   readonly redis: Redis;
@@ -115,14 +120,12 @@ export class RetargetQueue {
     this.assertConnected();
     const leapSeconds = this.leapSecondsRecord;
     const hashOfProblem = problemHash(request.problem as PlanningProblem, leapSeconds);
-    const requestHash = request.idempotencyKey === undefined ? undefined
-      : canonicalHash({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority });
-    return this.enqueue(JOB_NAMES.retarget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
-      problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
-      submittedAt: new Date().toISOString(), ...(requestHash ? { requestHash } : {}), submissionId, step: 'plan',
-      problemHash: hashOfProblem, leapSeconds,
-      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
-    } satisfies RetargetJobData));
+    return this.enqueue(JOB_NAMES.retarget, request.idempotencyKey, submittedBy, request.priority,
+      () => ({ problemHash: hashOfProblem, reason: request.reason, priority: request.priority }),
+      (submissionId) => ({
+        problem: request.problem, reason: request.reason, priority: request.priority, submittedBy,
+        submittedAt: new Date().toISOString(), submissionId, step: 'plan', problemHash: hashOfProblem, leapSeconds,
+      } satisfies Omit<RetargetJobData, KeyedFields>));
   }
 
   /**
@@ -134,19 +137,23 @@ export class RetargetQueue {
     const problem = request.request.problem as PlanningProblem;
     const leapSeconds = this.leapSecondsRecord;
     const hashOfProblem = problemHash(problem, leapSeconds);
-    const requestHash = request.idempotencyKey === undefined ? undefined
-      : canonicalHash({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority });
-    return this.enqueue(BUDGET_JOB_NAMES.budget, request.idempotencyKey, submittedBy, requestHash, request.priority, (submissionId) => ({
-      problem, budget: request.request, reason: request.reason, priority: request.priority, submittedBy,
-      submittedAt: new Date().toISOString(), ...(requestHash ? { requestHash } : {}), submissionId, step: 'prepare', problemHash: hashOfProblem, leapSeconds,
-      ...(request.idempotencyKey ? { idempotencyKey: request.idempotencyKey } : {}),
-    } satisfies BudgetJobData));
+    return this.enqueue(BUDGET_JOB_NAMES.budget, request.idempotencyKey, submittedBy, request.priority,
+      () => ({ kind: 'budget', budgetHash: budgetRequestHash(request.request), reason: request.reason, priority: request.priority }),
+      (submissionId) => ({
+        problem, budget: request.request, reason: request.reason, priority: request.priority, submittedBy,
+        submittedAt: new Date().toISOString(), submissionId, step: 'prepare', problemHash: hashOfProblem, leapSeconds,
+      } satisfies Omit<BudgetJobData, KeyedFields>));
   }
 
-  /** Adds a job of kind `name` with the idempotency handling shared by both kinds. */
-  /** `requestHash` is given exactly when `idempotencyKey` is (the only case that compares it). */
-  private async enqueue(name: TopLevelJob['name'], idempotencyKey: string | undefined, submittedBy: string, requestHash: string | undefined,
-    priority: Priority, dataOf: (submissionId: string) => RetargetJobData | BudgetJobData): Promise<SubmitOutcome> {
+  /**
+   * Adds a job of kind `name` with the idempotency handling shared by both kinds. With a key, the job also
+   * carries the key and the hash of `requestOf()` (what tells a true repeat from a key reused for other work);
+   * without one no later submission can name the job, so neither is computed nor stored.
+   */
+  private async enqueue(name: TopLevelJob['name'], idempotencyKey: string | undefined, submittedBy: string, priority: Priority,
+    requestOf: () => Record<string, unknown>, dataOf: (submissionId: string) => UnkeyedData,
+  ): Promise<SubmitOutcome> {
+    const requestHash = idempotencyKey === undefined ? undefined : canonicalHash(requestOf());
     const jobId = idempotencyKey
       ? `k-${sha256Hex(`${submittedBy}\n${idempotencyKey}`).slice(0, 40)}`
       : `j-${randomUUID()}`;
@@ -170,7 +177,7 @@ export class RetargetQueue {
     // commands leave in one socket write.
     sendInOneWrite(this.redis);
     await Promise.all([
-      this.queue.add(name, dataOf(submissionId), {
+      this.queue.add(name, { ...dataOf(submissionId), ...(idempotencyKey ? { idempotencyKey, requestHash } : {}) }, {
         jobId,
         priority: priority === 'urgent' ? BULL_PRIORITY.urgent : BULL_PRIORITY.routine,
         attempts: this.attempts,
