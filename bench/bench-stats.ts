@@ -7,11 +7,52 @@
 import { execSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import os from 'node:os';
+import { PerformanceObserver } from 'node:perf_hooks';
+import v8 from 'node:v8';
+import vm from 'node:vm';
 
 /** CPU time of this process (user + system), ms. */
 export function cpuMs(): number {
   const u = process.cpuUsage();
   return (u.user + u.system) / 1000;
+}
+
+/** A full collection on demand, without --expose-gc on the command line (the flag is set at run time). */
+function fullCollection(): () => void {
+  v8.setFlagsFromString('--expose-gc');
+  return vm.runInNewContext('gc') as () => void;
+}
+
+/**
+ * Bytes allocated per call of `fn`: heap growth over `calls` calls right after a full collection, divided by
+ * `calls`, one value per round. A round in which a collection ran (seen by a gc observer, whose entries arrive
+ * after the round) is measured again, up to 3 × `rounds` tries, so fewer values may come back; `calls` must be
+ * few enough for the young generation to hold their garbage.
+ */
+export async function heapBytesPerCall(fn: () => unknown, calls: number, rounds: number): Promise<number[]> {
+  const gc = fullCollection();
+  let collections = 0;
+  const observer = new PerformanceObserver((list) => { collections += list.getEntries().length; });
+  observer.observe({ entryTypes: ['gc'] });
+  const settle = async (): Promise<void> => {
+    for (let k = 0; k < 2; k++) await new Promise((resolve) => setTimeout(resolve, 0));
+  };
+  const out: number[] = [];
+  try {
+    for (let tries = 0; out.length < rounds && tries < rounds * 3; tries++) {
+      gc();
+      await settle();
+      const seen = collections;
+      const before = v8.getHeapStatistics().used_heap_size;
+      for (let k = 0; k < calls; k++) fn();
+      const grown = v8.getHeapStatistics().used_heap_size - before;
+      await settle();
+      if (collections === seen) out.push(grown / calls);
+    }
+  } finally {
+    observer.disconnect();
+  }
+  return out;
 }
 
 /** Median and spread of a sample. */

@@ -8,24 +8,19 @@
  */
 import { createHash } from 'node:crypto';
 import { writeFileSync } from 'node:fs';
-import { PerformanceObserver } from 'node:perf_hooks';
-import v8 from 'node:v8';
 import { canonicalJson } from '../contract/canonical-json.ts';
 import { jobRequestSchema } from '../contract/http-schemas.ts';
 import { planLeapSeconds, problemHash } from '../planner/index.ts';
 import { BUILTIN_LEAP_SECONDS } from '../propagator/index.ts';
 import { referenceCanonicalJson } from '../test/contract/canonical-json-reference.ts';
 import { reachableProblem, submission } from '../test/queue/fixtures.ts';
-import { alternate, codeVersion, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
+import { alternate, codeVersion, formatSpread, heapBytesPerCall, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
 
 const RESULTS = new URL('./results/canonical-json.md', import.meta.url);
 const ROUNDS = 9;
 const CALLS = 2000;
 /** Calls per allocation round: few enough that the young generation never fills (no collection inside). */
 const BYTE_CALLS = 500;
-
-const gc = (globalThis as { gc?: () => void }).gc;
-if (!gc) throw new Error('run with --expose-gc (npm run bench:canonical-json)');
 
 const problem = jobRequestSchema.parse(submission(reachableProblem({ samples: 0, name: 'BENCHSAT' }))).problem;
 const leap = planLeapSeconds(BUILTIN_LEAP_SECONDS);
@@ -40,29 +35,6 @@ const contenders = {
   'SHA-256 of the earlier writer\'s text (peer)': () => sha256(referenceCanonicalJson(hashed)),
 };
 
-let collections = 0;
-new PerformanceObserver((list) => { collections += list.getEntries().length; }).observe({ entryTypes: ['gc'] });
-const settle = async (): Promise<void> => {
-  for (let k = 0; k < 2; k++) await new Promise((resolve) => setTimeout(resolve, 0));
-};
-
-/** Bytes allocated per call of `fn`: heap growth over BYTE_CALLS calls right after a full collection, in a round
- * with no collection inside (gc entries are delivered after the round, hence the settle). */
-async function bytesPerCall(fn: () => unknown): Promise<number[]> {
-  const out: number[] = [];
-  for (let tries = 0; out.length < ROUNDS && tries < ROUNDS * 3; tries++) {
-    gc!();
-    await settle();
-    const seen = collections;
-    const before = v8.getHeapStatistics().used_heap_size;
-    for (let k = 0; k < BYTE_CALLS; k++) fn();
-    const grown = v8.getHeapStatistics().used_heap_size - before;
-    await settle();
-    if (collections === seen) out.push(grown / BYTE_CALLS);
-  }
-  return out;
-}
-
 async function main(): Promise<void> {
   const machine = machineLine();
   const text = canonicalJson(hashed);
@@ -70,7 +42,7 @@ async function main(): Promise<void> {
   const fns = Object.values(contenders);
   const cpu = alternate(fns.map((fn) => ({ fn, repeat: CALLS })), ROUNDS).map((ms) => ms.map((m) => m * 1000));
   const bytes: number[][] = [];
-  for (const fn of fns) bytes.push(await bytesPerCall(fn));
+  for (const fn of fns) bytes.push(await heapBytesPerCall(fn, BYTE_CALLS, ROUNDS));
   if (bytes.some((b) => b.length === 0)) throw new Error('every allocation round saw a collection: raise the semi-space');
   const names = Object.keys(contenders);
   const rows = names.map((name, i) =>

@@ -19,7 +19,7 @@ import { openTokenStore } from '../api/auth/index.ts';
 import { parseProblem, planManeuvers } from '../planner/index.ts';
 import { JobEventHub, RetargetQueue, jobRequestSchema, startLocalRedis, type LocalRedis, type SubmitOutcome } from '../queue/index.ts';
 import { reachableProblem } from '../test/queue/fixtures.ts';
-import { codeVersion, historyRows, spreadOf } from './bench-stats.ts';
+import { codeVersion, cpuMs, historyRows, spreadOf } from './bench-stats.ts';
 
 /** Throughput runs measure the queue itself: admission limits out of the way. */
 const NO_ADMISSION_LIMIT = { waitingPerPriority: { urgent: 1e9, routine: 1e9 }, unfinishedPerSubmitter: 1e9, retryAfterS: 1 };
@@ -57,8 +57,6 @@ function processCpuMs(pid: number | undefined): number {
 }
 /** USER_HZ of Linux's /proc times (100 on every common build). */
 const CLOCK_TICKS_PER_S = 100;
-/** This process's CPU time, ms. */
-const ownCpuMs = (): number => { const u = process.cpuUsage(); return (u.user + u.system) / 1000; };
 const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 10);
 const SUBMIT_ROUNDS = 5;
 /** Seconds each latency contender runs at full concurrency before the recorded rounds. */
@@ -202,13 +200,13 @@ async function queueOverhead({ dir, redisUrl, prefix, say }: BenchContext, queue
   let submitterCpu = 0;
   const JOBS = 30;
   for (let i = 0; i < JOBS; i++) {
-    const c0 = ownCpuMs();
+    const c0 = cpuMs();
     inProcess.push(await runLocal());
-    localCpu += ownCpuMs() - c0;
+    localCpu += cpuMs() - c0;
     const w0 = processCpuMs(workersA[0]?.pid);
-    const s0 = ownCpuMs();
+    const s0 = cpuMs();
     viaQueue.push(await runOne(queue, events));
-    submitterCpu += ownCpuMs() - s0;
+    submitterCpu += cpuMs() - s0;
     workerCpu += processCpuMs(workersA[0]?.pid) - w0;
     viaQueueNoArchive.push(await runOne(queueNoArchive, eventsNoArchive));
   }

@@ -11,12 +11,10 @@ import Database from 'better-sqlite3';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import vm from 'node:vm';
-import v8 from 'node:v8';
 import { generateTokenSecret, hashTokenSecret, SQLITE_TOKENS_FILE, SqliteTokenStore } from '../api/auth/index.ts';
 import { identityFromRow, type TokenRow } from '../api/auth/token-table.ts';
 import type { Identity } from '../contract/roles.ts';
-import { alternate, codeVersion, formatSpread, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
+import { alternate, codeVersion, formatSpread, heapBytesPerCall, historyRows, machineLine, ratios, spreadOf, type Spread } from './bench-stats.ts';
 
 const TOKENS = 50;
 const ROUNDS = 15;
@@ -59,21 +57,8 @@ const contenders: Array<{ label: string; fn: () => unknown }> = [
 const times = alternate(contenders.map((c) => ({ fn: c.fn, repeat: CALLS_PER_ROUND })), ROUNDS);
 const us = times.map((round) => round.map((ms) => ms * 1000));
 
-/** Heap growth per call: median over batches of the heap used after minus before; batches during which a
- * collection ran (growth < 0) are left out. */
-function heapBytesPerCall(fn: () => unknown): Spread {
-  v8.setFlagsFromString('--expose-gc');
-  (vm.runInNewContext('gc') as () => void)();
-  const perCall: number[] = [];
-  for (let b = 0; b < HEAP_BATCHES; b++) {
-    const before = process.memoryUsage().heapUsed;
-    for (let k = 0; k < HEAP_BATCH; k++) fn();
-    const grown = process.memoryUsage().heapUsed - before;
-    if (grown >= 0) perCall.push(grown / HEAP_BATCH);
-  }
-  return spreadOf(perCall);
-}
-const bytes = contenders.slice(0, 4).map((c) => heapBytesPerCall(c.fn));
+const bytes: Spread[] = [];
+for (const c of contenders.slice(0, 4)) bytes.push(spreadOf(await heapBytesPerCall(c.fn, HEAP_BATCH, HEAP_BATCHES)));
 if (sink === 42) console.log('');
 
 const sqliteVersion = peerDb.prepare('SELECT sqlite_version()').pluck().get() as string;
